@@ -1,0 +1,101 @@
+"""Small pure-Python numerical helpers (root finding, spacing).
+
+The browser core cannot use scipy, so the few numerical tools it needs live here; the
+tests compare them with scipy as an independent reference.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+
+
+def brent_root(
+    f: Callable[[float], float],
+    a: float,
+    b: float,
+    xtol: float = 1e-15,
+    rtol: float = 1e-12,
+    maxiter: int = 200,
+) -> float:
+    """Find a root of ``f`` bracketed by ``[a, b]`` with Brent's method.
+
+    Parameters
+    ----------
+    f : callable
+        Continuous function with ``f(a)`` and ``f(b)`` of opposite sign.
+    a, b : float
+        Bracket ends.
+    xtol, rtol : float
+        Absolute and relative tolerance on the root.
+    maxiter : int
+        Iteration limit.
+
+    Returns
+    -------
+    float
+        The root.
+
+    Notes
+    -----
+    Brent, R. P. (1973), Algorithms for Minimization without Derivatives, ch. 4: inverse
+    quadratic interpolation safeguarded by bisection. This follows the classic ``zeroin``
+    structure.
+
+    """
+    fa, fb = f(a), f(b)
+    if fa == 0.0:
+        return a
+    if fb == 0.0:
+        return b
+    if (fa > 0) == (fb > 0):
+        raise ValueError("root is not bracketed")
+    c, fc = a, fa
+    d = e = b - a
+    for _ in range(maxiter):
+        if (fb > 0) == (fc > 0):
+            c, fc = a, fa
+            d = e = b - a
+        if abs(fc) < abs(fb):
+            a, b, c = b, c, b
+            fa, fb, fc = fb, fc, fb
+        tol = 2.0 * rtol * abs(b) + 0.5 * xtol
+        m = 0.5 * (c - b)
+        if abs(m) <= tol or fb == 0.0:
+            return b
+        if abs(e) >= tol and abs(fa) > abs(fb):
+            s = fb / fa
+            if a == c:
+                p, q = 2.0 * m * s, 1.0 - s
+            else:
+                q, r = fa / fc, fb / fc
+                p = s * (2.0 * m * q * (q - r) - (b - a) * (r - 1.0))
+                q = (q - 1.0) * (r - 1.0) * (s - 1.0)
+            if p > 0:
+                q = -q
+            else:
+                p = -p
+            if 2.0 * p < min(3.0 * m * q - abs(tol * q), abs(e * q)):
+                e, d = d, p / q
+            else:
+                d = e = m
+        else:
+            d = e = m
+        a, fa = b, fb
+        b += d if abs(d) > tol else math.copysign(tol, m)
+        fb = f(b)
+    raise RuntimeError("brent_root did not converge")
+
+
+def logspace(start: float, stop: float, num: int) -> list[float]:
+    """Return ``num`` values spaced evenly on a log scale from ``start`` to ``stop``.
+
+    Both ends are included exactly (like ``numpy.geomspace``).
+    """
+    if num < 2:
+        return [start]
+    a, b = math.log(start), math.log(stop)
+    step = (b - a) / (num - 1)
+    values = [math.exp(a + i * step) for i in range(num)]
+    values[0], values[-1] = start, stop
+    return values
