@@ -1,0 +1,96 @@
+"""The JSON boundary shared by the browser worker and the command line.
+
+``handle(request) -> reply`` takes ``{"kind": ..., "inputs": {...}}`` and returns either
+``{"ok": True, "results": ..., "curves": ..., "warnings": [...], "sources": [...]}`` or
+``{"ok": False, "errors": [{"field": ..., "message": ...}]}``. No exception crosses it.
+``{"kind": "describe"}`` lists every calculation with its fields for building forms.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import traceback
+from typing import Any
+
+from .. import __version__
+from .fields import FieldError, parse_fields
+from .registry import CALCULATIONS
+
+__all__ = ["describe", "handle", "handle_json"]
+
+
+def describe() -> dict[str, Any]:
+    """Describe every calculation: name, title, and its fields (labels, units, defaults)."""
+    return {
+        "ok": True,
+        "version": __version__,
+        "calculations": {
+            name: {"title": calc.TITLE, "fields": [f.describe() for f in calc.FIELDS]}
+            for name, calc in CALCULATIONS.items()
+        },
+    }
+
+
+def handle(request: Any) -> dict[str, Any]:
+    """Answer one request; never raises."""
+    try:
+        return _handle(request)
+    except Exception as exc:  # the boundary: nothing escapes
+        detail = traceback.format_exception_only(type(exc), exc)[-1].strip()
+        return {
+            "ok": False,
+            "errors": [
+                {"field": "", "message": f"Internal error, please report it: {detail[:200]}"}
+            ],
+        }
+
+
+def _handle(request: Any) -> dict[str, Any]:
+    if not isinstance(request, dict):
+        return _error("", "Request must be an object with 'kind' and 'inputs'.")
+    kind = request.get("kind")
+    if kind == "describe":
+        return describe()
+    calc = CALCULATIONS.get(kind) if isinstance(kind, str) else None
+    if calc is None:
+        return _error(
+            "kind",
+            f"Unknown calculation {str(kind)[:40]!r}; valid: {', '.join(sorted(CALCULATIONS))}.",
+        )
+    values, errors = parse_fields(calc.FIELDS, request.get("inputs", {}))
+    if errors:
+        return {"ok": False, "errors": errors}
+    try:
+        out = calc.run(values)
+    except FieldError as exc:
+        return _error(exc.field, exc.message)
+    reply = {"ok": True, "results": {}, "curves": {}, "warnings": [], "sources": []}
+    reply.update(out)
+    _check_finite(reply)
+    return reply
+
+
+def _error(field: str, message: str) -> dict[str, Any]:
+    return {"ok": False, "errors": [{"field": field, "message": message}]}
+
+
+def _check_finite(obj: Any, path: str = "") -> None:
+    """Refuse to send NaN or infinity anywhere in a reply (None is allowed for gaps)."""
+    if isinstance(obj, float) and not math.isfinite(obj):
+        raise ValueError(f"non-finite number in reply at {path}")
+    if isinstance(obj, dict):
+        for k, v in obj.items():
+            _check_finite(v, f"{path}.{k}")
+    elif isinstance(obj, list):
+        for i, v in enumerate(obj):
+            _check_finite(v, f"{path}[{i}]")
+
+
+def handle_json(text: str) -> str:
+    """JSON string in, JSON string out: the form the browser worker uses."""
+    try:
+        request = json.loads(text)
+    except (ValueError, TypeError):
+        return json.dumps(_error("", "Request is not valid JSON."))
+    return json.dumps(handle(request), allow_nan=False, ensure_ascii=False)

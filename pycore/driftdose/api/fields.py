@@ -1,0 +1,201 @@
+"""Declarative input fields: labels, units, defaults and valid ranges, checked once here.
+
+A calculation declares its inputs as a tuple of :class:`Field`. The same declarations feed
+the page's forms (``describe``), the command line's flags and the validation of every
+request, so the three never disagree.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any
+
+from .units import SI_UNIT, UNITS, auto_unit, canonical_unit, from_si, to_si, unit_label
+
+__all__ = ["Field", "FieldError", "format_si", "parse_fields"]
+
+
+class FieldError(Exception):
+    """A problem with one input field; becomes ``{"field": ..., "message": ...}``."""
+
+    def __init__(self, field_name: str, message: str) -> None:
+        super().__init__(message)
+        self.field = field_name
+        self.message = message
+
+
+@dataclass(frozen=True)
+class Field:
+    """One input of a calculation.
+
+    ``kind`` is a unit kind of :data:`units.UNITS` for a quantity, ``choice`` for one of
+    ``choices``, ``integer`` for a whole number, ``text`` for free text (length-limited) and
+    ``data`` for structured JSON data checked by the calculation itself. Bounds
+    ``minimum``/``maximum`` are in SI; ``exclusive_min`` makes the lower bound strict.
+    ``default`` is ``(value, unit)`` for a quantity, else a plain value.
+    """
+
+    name: str
+    label: str
+    kind: str
+    default: Any
+    units: tuple[str, ...] = ()
+    minimum: float | None = None
+    maximum: float | None = None
+    exclusive_min: bool = False
+    choices: tuple[tuple[str, str], ...] = ()
+    help: str = ""
+    required: bool = True
+    extra: dict[str, Any] = field(default_factory=dict)
+
+    def describe(self) -> dict[str, Any]:
+        """JSON-ready description for the page and the command line."""
+        out: dict[str, Any] = {
+            "name": self.name,
+            "label": self.label,
+            "kind": self.kind,
+            "help": self.help,
+            "required": self.required,
+        }
+        if self.kind in UNITS:
+            value, unit = self.default
+            out["default"] = {"value": value, "unit": unit}
+            out["units"] = [{"unit": u, "label": unit_label(u)} for u in self.units]
+            out["range"] = self.range_text()
+        else:
+            out["default"] = self.default
+        if self.choices:
+            out["choices"] = [{"value": v, "label": lab} for v, lab in self.choices]
+        if self.kind == "integer":
+            out["range"] = self.range_text()
+        out.update(self.extra)
+        return out
+
+    def range_text(self) -> str:
+        """Human-readable valid range in the field's default unit."""
+        if self.kind == "integer":
+            return f"{self.minimum:.0f} to {self.maximum:.0f}"
+        unit = self.default[1]
+
+        def fmt(x: float) -> str:
+            return format_si(x, self.kind, auto_unit(self.kind, x, unit) if x else unit)
+
+        lo = "" if self.minimum is None else fmt(self.minimum)
+        hi = "" if self.maximum is None else fmt(self.maximum)
+        if lo and hi:
+            return f"{'above' if self.exclusive_min else 'from'} {lo} to {hi}"
+        if lo:
+            return f"{'above' if self.exclusive_min else 'at least'} {lo}"
+        return f"at most {hi}" if hi else ""
+
+    def parse(self, raw: Any) -> Any:
+        """Validate one raw input and return it in SI (or as the chosen value)."""
+        if raw is None or (isinstance(raw, str) and not raw.strip()):
+            if self.required:
+                raise FieldError(self.name, f"{self.label} is required.")
+            return None
+        if self.kind == "choice":
+            valid = [v for v, _ in self.choices]
+            if raw not in valid:
+                raise FieldError(self.name, f"{self.label}: choose one of {', '.join(valid)}.")
+            return raw
+        if self.kind == "text":
+            if not isinstance(raw, str) or len(raw) > self.extra.get("max_length", 200):
+                raise FieldError(
+                    self.name,
+                    f"{self.label}: text of at most "
+                    f"{self.extra.get('max_length', 200)} characters.",
+                )
+            return raw
+        if self.kind == "data":
+            return raw
+        if self.kind == "integer":
+            number = _number(self, raw)
+            if number != int(number):
+                raise FieldError(self.name, f"{self.label} must be a whole number.")
+            self._check_range(number, number)
+            return int(number)
+        # quantity
+        if isinstance(raw, dict):
+            value, unit = raw.get("value"), raw.get("unit", SI_UNIT[self.kind])
+        else:
+            value, unit = raw, SI_UNIT[self.kind]
+        if value is None or (isinstance(value, str) and not value.strip()):
+            if self.required:
+                raise FieldError(self.name, f"{self.label} is required.")
+            return None
+        number = _number(self, value)
+        if not isinstance(unit, str):
+            raise FieldError(self.name, f"{self.label}: unknown unit.")
+        try:
+            si = to_si(number, self.kind, unit)
+            unit = canonical_unit(self.kind, unit)
+        except KeyError:
+            offered = ", ".join(unit_label(u) for u in (self.units or UNITS[self.kind]))
+            raise FieldError(
+                self.name, f"{self.label}: unknown unit {unit!r}; use one of {offered}."
+            ) from None
+        self._check_range(si, number, unit)
+        return si
+
+    def _check_range(self, si: float, shown: float, unit: str | None = None) -> None:
+        lo, hi = self.minimum, self.maximum
+        bad = (
+            not math.isfinite(si)
+            or (lo is not None and (si <= lo if self.exclusive_min else si < lo))
+            or (hi is not None and si > hi)
+        )
+        if bad:
+            raise FieldError(self.name, f"{self.label} must be {self.range_text()}.")
+
+
+def _number(f: Field, value: Any) -> float:
+    if isinstance(value, bool):
+        raise FieldError(f.name, f"{f.label} must be a number.")
+    if isinstance(value, int | float):
+        number = float(value)
+    elif isinstance(value, str):
+        text = value.strip().replace("\u2212", "-").replace(" ", "")
+        if text.count(",") == 1 and "." not in text:
+            text = text.replace(",", ".")  # decimal comma
+        try:
+            number = float(text)
+        except ValueError:
+            raise FieldError(f.name, f"{f.label} must be a number, not {value[:20]!r}.") from None
+    else:
+        raise FieldError(f.name, f"{f.label} must be a number.")
+    if not math.isfinite(number):
+        raise FieldError(f.name, f"{f.label} must be a finite number ({f.range_text()}).")
+    return number
+
+
+def format_si(value: float, kind: str, unit: str, digits: int = 3) -> str:
+    """Format an SI value in ``unit`` with ``digits`` significant figures and the unit label."""
+    shown = from_si(value, kind, unit)
+    text = f"{shown:.{digits}g}"
+    if "e" in text:
+        mant, exp = text.split("e")
+        text = f"{mant}×10^{int(exp)}"
+    label = unit_label(unit)
+    return text if label == "–" else f"{text} {label}"
+
+
+def parse_fields(fields: tuple[Field, ...], inputs: Any) -> tuple[dict[str, Any], list[dict]]:
+    """Validate ``inputs`` against ``fields``; return (values in SI, errors).
+
+    Missing optional inputs take their defaults; unknown input names are ignored.
+    """
+    if not isinstance(inputs, dict):
+        return {}, [{"field": "", "message": "Inputs must be an object of named fields."}]
+    values: dict[str, Any] = {}
+    errors: list[dict] = []
+    for f in fields:
+        raw = inputs.get(f.name)
+        if raw is None:
+            raw = {"value": f.default[0], "unit": f.default[1]} if f.kind in UNITS else f.default
+        try:
+            values[f.name] = f.parse(raw)
+        except FieldError as exc:
+            errors.append({"field": exc.field, "message": exc.message})
+    return values, errors

@@ -1,0 +1,46 @@
+"""Helpers that shape results for the page: values in display units, with labels.
+
+Display units are chosen here, at the boundary; the core only ever sees SI.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from .units import SI_UNIT, auto_unit, from_si, unit_label
+
+__all__ = ["quantity", "text_result"]
+
+
+def quantity(
+    label: str,
+    si: float,
+    kind: str | None = None,
+    unit: str | None = None,
+    symbol: str = "",
+    note: str = "",
+) -> dict[str, Any]:
+    """One result row: ``value`` in the display ``unit`` plus the SI value.
+
+    With ``kind`` a unit kind of :mod:`units`, ``unit`` defaults to :func:`auto_unit`; with
+    ``kind`` None, ``unit`` is an SI unit label shown as is (e.g. ``m²/s``).
+    """
+    if kind is None:
+        shown, label_unit, si_unit = si, unit or "", unit or ""
+    else:
+        unit = unit or auto_unit(kind, si)
+        shown, label_unit, si_unit = from_si(si, kind, unit), unit_label(unit), SI_UNIT[kind]
+    return {
+        "label": label,
+        "symbol": symbol,
+        "value": shown,
+        "unit": label_unit,
+        "si": si,
+        "si_unit": unit_label(si_unit),
+        "note": note,
+    }
+
+
+def text_result(label: str, text: str, note: str = "") -> dict[str, Any]:
+    """Return a result row whose value is words, not a number."""
+    return {"label": label, "text": text, "note": note}
