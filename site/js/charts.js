@@ -1,0 +1,94 @@
+// Thin layer over Chart.js (vendored UMD build, global `Chart`): log-log line charts with hover
+// readouts, theme colours from CSS, and PNG export through Chart.js's own toBase64Image().
+import { formatNumber } from "./format.js";
+
+const SERIES_VARS = ["--series-1", "--series-2", "--series-3", "--series-4", "--series-5", "--series-6", "--series-7"];
+
+export function cssVar(name) {
+  return getComputedStyle(document.documentElement).getPropertyValue(name).trim();
+}
+
+export function seriesColour(index) {
+  return cssVar(SERIES_VARS[index % SERIES_VARS.length]) || "#444";
+}
+
+function isDecade(value) {
+  const exp = Math.log10(value);
+  return Math.abs(exp - Math.round(exp)) < 1e-9;
+}
+
+/** Tick label callback that keeps only powers of ten, labelled by `label(value)`. */
+export function decadeTicks(label) {
+  return (value) => (isDecade(value) ? label(value) : "");
+}
+
+/**
+ * Create a chart on `canvas`. `axes` = {x: {title, type, tick}, y: {...}}; datasets are given
+ * later through update(). Returns the Chart.js instance.
+ */
+export function createChart(canvas, axes, { legendLabel, readout } = {}) {
+  const Chart = window.Chart;
+  const text = cssVar("--ink");
+  const grid = cssVar("--grid");
+  Chart.defaults.font.family = cssVar("--font-body") || "system-ui, sans-serif";
+  const scale = (axis) => ({
+    type: axis.type || "logarithmic",
+    title: { display: true, text: axis.title, color: text },
+    min: axis.min, max: axis.max,
+    ticks: { color: text, autoSkip: false, maxRotation: 0, callback: axis.tick },
+    grid: { color: (ctx) => (ctx.tick && isDecade(ctx.tick.value) ? grid : "transparent") },
+  });
+  return new Chart(canvas, {
+    type: "line",
+    plugins: [backgroundPlugin],
+    data: { datasets: [] },
+    options: {
+      animation: false,
+      responsive: true,
+      maintainAspectRatio: false,
+      parsing: false,
+      normalized: true,
+      interaction: { mode: "nearest", axis: "x", intersect: false },
+      scales: { x: scale(axes.x), y: scale(axes.y) },
+      plugins: {
+        legend: { labels: { color: text, usePointStyle: true, filter: legendLabel } },
+        tooltip: {
+          callbacks: {
+            label: readout || ((ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 3)}`),
+            title: (items) => (items.length ? axes.x.readout(items[0].parsed.x) : ""),
+          },
+        },
+      },
+    },
+  });
+}
+
+/** Replace a chart's datasets and redraw without animation. */
+export function setDatasets(chart, datasets) {
+  chart.data.datasets = datasets;
+  chart.update("none");
+}
+
+/** Download the chart as a PNG image with a solid background. */
+export function exportChart(chart, filename) {
+  const url = chart.toBase64Image("image/png", 1);
+  const link = document.createElement("a");
+  link.href = url;
+  link.download = filename;
+  document.body.append(link);
+  link.click();
+  link.remove();
+}
+
+/** Chart.js plugin: paint the canvas background so exported images are not transparent. */
+export const backgroundPlugin = {
+  id: "driftdoseBackground",
+  beforeDraw(chart) {
+    const { ctx } = chart;
+    ctx.save();
+    ctx.globalCompositeOperation = "destination-over";
+    ctx.fillStyle = cssVar("--surface") || "#fff";
+    ctx.fillRect(0, 0, chart.width, chart.height);
+    ctx.restore();
+  },
+};

@@ -1,0 +1,40 @@
+// Number formatting for display: significant figures, powers of ten written with superscripts.
+
+const SUPERSCRIPT = { "-": "⁻", 0: "⁰", 1: "¹", 2: "²", 3: "³", 4: "⁴", 5: "⁵", 6: "⁶", 7: "⁷", 8: "⁸", 9: "⁹" };
+
+export const SIG_FIGS = 4;
+
+/** Format a finite number with `digits` significant figures ("2.735 × 10⁻¹¹", "0.1234"). */
+export function formatNumber(value, digits = SIG_FIGS) {
+  if (typeof value !== "number" || !Number.isFinite(value)) return "—";
+  if (value === 0) return "0";
+  const abs = Math.abs(value);
+  if (abs >= 1e-3 && abs < 1e6) {
+    return trimZeros(value.toPrecision(digits));
+  }
+  const [mantissa, exponent] = value.toExponential(digits - 1).split("e");
+  const exp = String(Number(exponent)).split("").map((c) => SUPERSCRIPT[c]).join("");
+  return `${trimZeros(mantissa)} × 10${exp}`;
+}
+
+function trimZeros(text) {
+  if (!text.includes(".") || text.includes("e")) return text;
+  return text.replace(/\.?0+$/, "");
+}
+
+/** Parse a string made by formatNumber back into a number (used by tests and exports). */
+export function parseFormatted(text) {
+  const map = Object.fromEntries(Object.entries(SUPERSCRIPT).map(([k, v]) => [v, k]));
+  const m = text.match(/^(-?[\d.]+)(?: × 10([⁻⁰¹²³⁴⁵⁶⁷⁸⁹]+))?$/);
+  if (!m) return NaN;
+  const exp = m[2] ? Number(m[2].split("").map((c) => map[c]).join("")) : 0;
+  return Number(m[1]) * 10 ** exp;
+}
+
+/** Short tick label for a power of ten of a length in metres ("1 nm", "10 µm", "1 m"). */
+export function lengthTick(metres) {
+  const units = [[1e-9, "nm"], [1e-6, "µm"], [1e-3, "mm"], [1, "m"], [1e3, "km"]];
+  let chosen = units[0];
+  for (const u of units) if (metres >= u[0] * 0.999) chosen = u;
+  return `${formatNumber(metres / chosen[0], 3)} ${chosen[1]}`;
+}

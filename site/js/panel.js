@@ -1,0 +1,154 @@
+// Shared machinery of a calculation panel: form from the field descriptions, coalesced
+// recalculation on input (only the newest reply is kept), per-field errors, stale marking of
+// the last good results, warnings and sources. A panel supplies only its own rendering.
+import { FieldSet, el } from "./forms.js";
+import { formatNumber } from "./format.js";
+
+export class CalcPanel {
+  /**
+   * @param {object} opts {id, kind, title, intro, engine, description, render(reply), onChange}
+   */
+  constructor(root, opts) {
+    this.opts = opts;
+    this.engine = opts.engine;
+    this.root = root;
+    this.busy = false;
+    this.queued = false;
+    this.lastGood = null;
+    this.listeners = new Set();
+
+    root.append(el("h2", { id: `${opts.id}-title` }, opts.title));
+    if (opts.intro) root.append(el("p", { class: "intro" }, opts.intro));
+    const grid = el("div", { class: "panel-grid" });
+    const form = el("form", { class: "inputs", "aria-labelledby": `${opts.id}-title`, novalidate: "" });
+    form.addEventListener("submit", (e) => e.preventDefault());
+    this.fieldsBox = el("fieldset");
+    this.fieldsBox.append(el("legend", {}, opts.legend || "Inputs"));
+    form.append(this.fieldsBox);
+    this.formMessage = el("p", { class: "form-message", role: "alert", hidden: "" });
+    form.append(this.formMessage);
+    grid.append(form);
+    this.output = el("div", { class: "outputs", "aria-live": "polite" });
+    this.staleNote = el("p", { class: "stale-note", hidden: "" },
+      "Out of date: the results below are from the last valid inputs. Correct the marked fields to update them.");
+    this.output.append(this.staleNote);
+    this.body = el("div", { class: "output-body" });
+    this.output.append(this.body);
+    this.warnings = el("ul", { class: "warnings", "aria-label": "Warnings" });
+    this.output.append(this.warnings);
+    this.sources = el("details", { class: "sources" });
+    this.output.append(this.sources);
+    grid.append(this.output);
+    root.append(grid);
+
+    this.fields = new FieldSet(this.fieldsBox, opts.description.fields, opts.id);
+    this.fields.onInput(() => this.schedule());
+  }
+
+  onChange(listener) {
+    this.listeners.add(listener);
+  }
+
+  getState() {
+    return this.fields.values();
+  }
+
+  setState(values) {
+    this.fields.setValues(values);
+    this.schedule();
+  }
+
+  /** Recalculate now, or right after the request in flight (coalescing bursts of input). */
+  schedule() {
+    for (const listener of this.listeners) listener(this);
+    if (this.busy) {
+      this.queued = true;
+      return;
+    }
+    this.recalc();
+  }
+
+  async recalc() {
+    this.busy = true;
+    this.queued = false;
+    this.root.setAttribute("aria-busy", "true");
+    const started = performance.now();
+    const reply = await this.engine.latestOn(this.opts.id, this.opts.kind, this.inputs());
+    this.busy = false;
+    if (this.queued) {
+      this.recalc();
+      return;
+    }
+    this.root.removeAttribute("aria-busy");
+    if (!reply) return;
+    this.apply(reply);
+    this.root.dataset.updatedMs = String(performance.now() - started);
+    this.root.dataset.updates = String(Number(this.root.dataset.updates || 0) + 1);
+  }
+
+  /** Inputs sent to the engine; panels with extra state override this. */
+  inputs() {
+    return this.fields.values();
+  }
+
+  apply(reply) {
+    const orphans = this.fields.showErrors(reply.ok ? [] : reply.errors);
+    if (!reply.ok) {
+      this.formMessage.textContent = orphans.join(" ");
+      this.formMessage.hidden = orphans.length === 0;
+      this.output.classList.toggle("stale", this.lastGood !== null);
+      this.staleNote.hidden = this.lastGood === null;
+      this.root.dataset.state = "invalid";
+      return;
+    }
+    this.formMessage.hidden = true;
+    this.lastGood = reply;
+    this.output.classList.remove("stale");
+    this.staleNote.hidden = true;
+    this.opts.render(reply, this);
+    this.renderWarnings(reply.warnings);
+    this.renderSources(reply.sources);
+    this.root.dataset.state = "ok";
+  }
+
+  renderWarnings(warnings) {
+    this.warnings.replaceChildren(...(warnings || []).map((w) => el("li", {}, w)));
+    this.warnings.hidden = !warnings || warnings.length === 0;
+  }
+
+  renderSources(sources) {
+    const list = el("ol");
+    for (const s of sources || []) list.append(el("li", {}, s.citation));
+    this.sources.replaceChildren(el("summary", {}, "Published methods used"), list);
+  }
+}
+
+/** Render `results` (from a reply) as a table of quantity, value and unit. */
+export function resultsTable(results, caption, keys) {
+  const table = el("table", { class: "results" });
+  table.append(el("caption", {}, caption));
+  const head = el("thead");
+  const hr = el("tr");
+  for (const h of ["Quantity", "Value", "Unit"]) hr.append(el("th", { scope: "col" }, h));
+  head.append(hr);
+  table.append(head);
+  const body = el("tbody");
+  for (const key of keys || Object.keys(results)) {
+    const r = results[key];
+    if (!r) continue;
+    const tr = el("tr", { "data-key": key });
+    const name = el("th", { scope: "row" }, r.label);
+    if (r.symbol) name.append(el("span", { class: "symbol" }, ` ${r.symbol}`));
+    if (r.note) name.append(el("span", { class: "note" }, ` (${r.note})`));
+    tr.append(name);
+    if (r.text !== undefined) {
+      tr.append(el("td", { class: "value", colspan: "2" }, r.text));
+    } else {
+      tr.append(el("td", { class: "value" }, formatNumber(r.value)));
+      tr.append(el("td", { class: "unit" }, r.unit === "–" ? "" : r.unit));
+    }
+    body.append(tr);
+  }
+  table.append(body);
+  return table;
+}
