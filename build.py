@@ -25,6 +25,7 @@ import sys
 import tempfile
 import threading
 from pathlib import Path
+from typing import ClassVar
 
 ROOT = Path(__file__).resolve().parent
 SITE = ROOT / "site"
@@ -32,13 +33,24 @@ MODULES = SITE / "node_modules"
 DIST = ROOT / "dist"
 SOURCE_DATE_EPOCH = "1767225600"  # 2026-01-01T00:00:00Z: fixed zip timestamps in the wheel
 
-PYODIDE_FILES = ("pyodide.mjs", "pyodide.asm.mjs", "pyodide.asm.wasm", "python_stdlib.zip",
-                 "pyodide-lock.json")
+PYODIDE_FILES = (
+    "pyodide.mjs",
+    "pyodide.asm.mjs",
+    "pyodide.asm.wasm",
+    "python_stdlib.zip",
+    "pyodide-lock.json",
+)
 VENDOR_FILES = {"chart.js/dist/chart.umd.min.js": "vendor/chart.umd.min.js"}
 SITE_SKIP = {"node_modules", "package.json", "package-lock.json"}
-MIME = {".mjs": "text/javascript", ".js": "text/javascript", ".wasm": "application/wasm",
-        ".whl": "application/zip", ".json": "application/json",
-        ".webmanifest": "application/manifest+json", ".svg": "image/svg+xml"}
+MIME = {
+    ".mjs": "text/javascript",
+    ".js": "text/javascript",
+    ".wasm": "application/wasm",
+    ".whl": "application/zip",
+    ".json": "application/json",
+    ".webmanifest": "application/manifest+json",
+    ".svg": "image/svg+xml",
+}
 
 
 class BuildError(RuntimeError):
@@ -55,12 +67,15 @@ def _check_node_modules() -> dict[str, str]:
         have = json.loads(pkg.read_text())["version"]
         want = lock["packages"][f"node_modules/{name}"]["version"]
         if have != want:
-            raise BuildError(f"{name} {have} installed but the lock file pins {want}: "
-                             "run `npm ci --prefix site`")
+            raise BuildError(
+                f"{name} {have} installed but the lock file pins {want}: run `npm ci --prefix site`"
+            )
         versions[name] = have
     if not versions["pyodide"].startswith("314."):
-        raise BuildError(f"Pyodide {versions['pyodide']} is not a 314.x release; the page and "
-                         "the single-file edition are tested with 314.x only")
+        raise BuildError(
+            f"Pyodide {versions['pyodide']} is not a 314.x release; the page and "
+            "the single-file edition are tested with 314.x only"
+        )
     return versions
 
 
@@ -69,9 +84,22 @@ def build_wheel(out: Path) -> Path:
     env = dict(os.environ, SOURCE_DATE_EPOCH=SOURCE_DATE_EPOCH, PYTHONHASHSEED="0")
     with tempfile.TemporaryDirectory() as tmp:
         # cwd=tmp: run from elsewhere so `-m build` cannot resolve to this very file
-        done = subprocess.run([sys.executable, "-m", "build", "--wheel", "--no-isolation",
-                               "--outdir", tmp, str(ROOT)], env=env, cwd=tmp,
-                              capture_output=True, text=True)
+        done = subprocess.run(
+            [
+                sys.executable,
+                "-m",
+                "build",
+                "--wheel",
+                "--no-isolation",
+                "--outdir",
+                tmp,
+                str(ROOT),
+            ],
+            env=env,
+            cwd=tmp,
+            capture_output=True,
+            text=True,
+        )
         if done.returncode:
             raise BuildError(f"wheel build failed:\n{done.stdout}\n{done.stderr}")
         wheels = list(Path(tmp).glob("driftdose-*.whl"))
@@ -90,6 +118,7 @@ def describe_forms() -> dict:
     sys.path.insert(0, str(ROOT / "pycore"))
     try:
         from driftdose import api
+
         return api.describe()
     finally:
         sys.path.pop(0)
@@ -117,32 +146,41 @@ def build(dist: Path = DIST) -> dict:
     wheel = build_wheel(dist / "wheels")
     forms = describe_forms()
     (dist / "forms.json").write_text(json.dumps(forms, ensure_ascii=False, indent=1) + "\n")
-    info = {"version": forms["version"], "pyodide": versions["pyodide"],
-            "chartjs": versions["chart.js"], "wheel": f"wheels/{wheel.name}"}
+    info = {
+        "version": forms["version"],
+        "pyodide": versions["pyodide"],
+        "chartjs": versions["chart.js"],
+        "wheel": f"wheels/{wheel.name}",
+    }
     (dist / "build-info.json").write_text(json.dumps(info, indent=1) + "\n")
     files = sorted(p for p in dist.rglob("*") if p.is_file() and p.name != "precache.json")
     precache = [{"url": p.relative_to(dist).as_posix(), "sha256": _sha256(p)} for p in files]
     digest = hashlib.sha256(json.dumps(precache).encode()).hexdigest()[:16]
-    (dist / "precache.json").write_text(json.dumps({"build": digest, "files": precache},
-                                                   indent=1) + "\n")
+    (dist / "precache.json").write_text(
+        json.dumps({"build": digest, "files": precache}, indent=1) + "\n"
+    )
     info["build"] = digest
     return info
 
 
 class _Handler(http.server.SimpleHTTPRequestHandler):
-    extensions_map = {**http.server.SimpleHTTPRequestHandler.extensions_map, **MIME}
+    extensions_map: ClassVar[dict[str, str]] = {
+        **http.server.SimpleHTTPRequestHandler.extensions_map,
+        **MIME,
+    }
 
     def end_headers(self) -> None:
         self.send_header("Cache-Control", "no-cache")
         super().end_headers()
 
-    def log_message(self, format: str, *args: object) -> None:  # noqa: A002
+    def log_message(self, format: str, *args: object) -> None:
         if os.environ.get("DRIFTDOSE_SERVER_LOG"):
             super().log_message(format, *args)
 
 
-def serve(directory: Path = DIST, port: int = 8000) -> tuple[http.server.ThreadingHTTPServer,
-                                                             threading.Thread]:
+def serve(
+    directory: Path = DIST, port: int = 8000
+) -> tuple[http.server.ThreadingHTTPServer, threading.Thread]:
     """Serve ``directory`` on 127.0.0.1:``port`` (0 picks a free port) in a daemon thread."""
     handler = functools.partial(_Handler, directory=str(directory))
     server = http.server.ThreadingHTTPServer(("127.0.0.1", port), handler)
@@ -163,8 +201,10 @@ def main(argv: list[str] | None = None) -> int:
     except (BuildError, subprocess.CalledProcessError) as exc:
         print(f"build failed: {exc}", file=sys.stderr)
         return 1
-    print(f"built {args.out} (driftdose {info['version']}, Pyodide {info['pyodide']}, "
-          f"build {info['build']})")
+    print(
+        f"built {args.out} (driftdose {info['version']}, Pyodide {info['pyodide']}, "
+        f"build {info['build']})"
+    )
     if args.serve:
         server, thread = serve(args.out, args.port)
         host, port = server.server_address[:2]

@@ -8,7 +8,7 @@ import * as motion from "./panels/motion.js";
 const PANELS = [motion];
 
 const root = document.documentElement;
-const engine = new Engine(new URL("./worker.js", import.meta.url));
+export const engine = new Engine(new URL("./worker.js", import.meta.url));
 const controllers = new Map();
 let active = PANELS[0].id;
 

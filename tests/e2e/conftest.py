@@ -18,9 +18,16 @@ import pytest
 
 ROOT = Path(__file__).resolve().parents[2]
 ARTIFACTS = ROOT / "test-artifacts"
-CHROMIUM_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking",
-                 "--disable-component-update", "--disable-sync", "--no-first-run",
-                 "--disable-quic", "--disable-dev-shm-usage"]
+CHROMIUM_ARGS = [
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+    "--no-first-run",
+    "--disable-quic",
+    "--disable-dev-shm-usage",
+]
 
 
 def _load_build_module():
@@ -113,9 +120,10 @@ def new_watched_page(browser, base_url: str, **context_args):
 
 @pytest.fixture
 def watched(browser, base_url: str):
-    """A fresh page (1280 x 900) whose test fails on console errors or outside requests."""
-    context, page, watch = new_watched_page(browser, base_url,
-                                            viewport={"width": 1280, "height": 900})
+    """Yield a fresh page (1280 x 900) that fails its test on console errors or outside hosts."""
+    context, page, watch = new_watched_page(
+        browser, base_url, viewport={"width": 1280, "height": 900}
+    )
     yield page, watch
     context.close()
     assert not watch.outside, f"requests to other hosts: {watch.outside}"

@@ -15,13 +15,16 @@ pytestmark = pytest.mark.e2e
 def _wait_updates(page, panel: str, at_least: int) -> None:
     page.wait_for_function(
         "([p, n]) => Number(document.getElementById('panel-' + p).dataset.updates || 0) >= n",
-        arg=[panel, at_least])
+        arg=[panel, at_least],
+    )
 
 
 def _settled(page, panel: str = "motion") -> None:
     page.wait_for_function(
         "p => { const s = document.getElementById('panel-' + p);"
-        " return !s.hasAttribute('aria-busy') && s.dataset.state; }", arg=panel)
+        " return !s.hasAttribute('aria-busy') && s.dataset.state; }",
+        arg=panel,
+    )
 
 
 def test_page_reaches_ready_and_shows_cautions(page, base_url):
@@ -48,14 +51,22 @@ def test_numbers_shown_equal_core(page, base_url):
     page.get_by_label("Time unit").select_option("min")
     page.wait_for_function(
         "() => document.querySelector('#panel-motion tr[data-key=aerodynamic_diameter] td')"
-        "?.textContent === '2.5'")
+        "?.textContent === '2.5'"
+    )
     _settled(page)
     shown = table_values(page, "motion")
-    reply = api.handle({"kind": "motion", "inputs": {
-        "particle_diameter": {"value": "2.5", "unit": "um"}, "diameter_type": "aerodynamic",
-        "particle_density": {"value": "2.2", "unit": "g/cm3"},
-        "temperature": {"value": "35", "unit": "degC"},
-        "time": {"value": "10", "unit": "min"}}})
+    reply = api.handle(
+        {
+            "kind": "motion",
+            "inputs": {
+                "particle_diameter": {"value": "2.5", "unit": "um"},
+                "diameter_type": "aerodynamic",
+                "particle_density": {"value": "2.2", "unit": "g/cm3"},
+                "temperature": {"value": "35", "unit": "degC"},
+                "time": {"value": "10", "unit": "min"},
+            },
+        }
+    )
     assert reply["ok"]
     compared = 0
     for key, row in reply["results"].items():
@@ -69,23 +80,27 @@ def test_numbers_shown_equal_core(page, base_url):
     assert compared >= 15
 
 
-@pytest.mark.parametrize(("label", "value", "fragment"), [
-    ("Particle diameter", "abc", "must be a number"),
-    ("Particle diameter", "-5", "from 0.5 nm to 1 mm"),
-    ("Air temperature", "900", "from -50 °C to 500 °C"),
-    ("Air pressure", "", "is required"),
-    ("Time", "NaN", "finite number"),
-])
-def test_bad_input_message_next_to_field_and_results_marked_stale(page, base_url, label, value,
-                                                                    fragment):
+@pytest.mark.parametrize(
+    ("label", "value", "fragment"),
+    [
+        ("Particle diameter", "abc", "must be a number"),
+        ("Particle diameter", "-5", "from 0.5 nm to 1 mm"),
+        ("Air temperature", "900", "from -50 °C to 500 °C"),
+        ("Air pressure", "", "is required"),
+        ("Time", "NaN", "finite number"),
+    ],
+)
+def test_bad_input_message_next_to_field_and_results_marked_stale(
+    page, base_url, label, value, fragment
+):
     page.goto(base_url)
     wait_ready(page)
     _wait_updates(page, "motion", 1)
     before = table_values(page, "motion")
     field = page.get_by_label(label, exact=True)
     field.fill(value)
-    box = page.locator(f"#panel-motion .field:has(input[aria-describedby='{field.get_attribute('aria-describedby')}'])")
-    error = box.locator(".error")
+    error_id = field.get_attribute("aria-describedby").split()[1]
+    error = page.locator(f"[id='{error_id}']")
     error.wait_for(state="visible")
     assert fragment in error.inner_text()
     assert field.get_attribute("aria-invalid") == "true"
@@ -104,7 +119,8 @@ def test_chart_has_curves_crossover_and_exports_png(page, base_url):
     _wait_updates(page, "motion", 1)
     labels = page.evaluate(
         "() => Chart.getChart(document.querySelector('#panel-motion canvas'))"
-        ".data.datasets.map(d => [d.label, d.data.length])")
+        ".data.datasets.map(d => [d.label, d.data.length])"
+    )
     names = dict(labels)
     assert names["Brownian rms displacement √(2Dt), one direction"] >= 200
     assert names["Settling distance vₜₛ·t"] >= 200

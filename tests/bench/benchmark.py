@@ -1,0 +1,225 @@
+#!/usr/bin/env python3
+"""Speed and size figures of Drift & Dose, printed as one JSON object (a script, not a test).
+
+    .venv/bin/python tests/bench/benchmark.py [--runs 5] [--edits 40]
+
+Measures in one run, on one server, in the same Chromium:
+- page time to ready divided by a bare Pyodide page's load time (both load Pyodide in a module
+  worker; cold caches, fresh browser contexts, alternating runs, medians);
+- repeat visit (HTTP cache warm) time to ready divided by the cold time;
+- input change to updated chart, per panel: median and 95th percentile over many edits;
+- the app's own assets (everything but Pyodide's core), gzip-compressed size;
+- the heaviest core calculations in CPython, and the same requests in the page, with ratios.
+Targets are recorded in the README; this script only reports.
+"""
+
+from __future__ import annotations
+
+import argparse
+import gzip
+import importlib.util
+import json
+import statistics
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[2]
+sys.path.insert(0, str(ROOT / "pycore"))
+sys.path.insert(0, str(ROOT / "tests"))
+
+from e2e.conftest import CHROMIUM_ARGS, find_chromium  # noqa: E402
+
+from driftdose import api  # noqa: E402
+
+BARE_HTML = """<!doctype html><html data-engine="loading"><head><meta charset="utf-8">
+<script type="module" src="bare.js"></script></head><body>bare</body></html>"""
+BARE_JS = """const w = new Worker(new URL("./bare-worker.js", import.meta.url), {type: "module"});
+w.onmessage = () => { document.documentElement.dataset.engine = "ready"; };"""
+BARE_WORKER = """import { loadPyodide } from "../pyodide/pyodide.mjs";
+await loadPyodide({ indexURL: new URL("../pyodide/", import.meta.url).href, packages: [] });
+postMessage("ready");"""
+
+# (panel id, input label, values to cycle) for the recalculation timing
+EDITS = [("motion", "Particle diameter", ["100", "150", "220", "330", "470", "680"])]
+# heaviest request per calculation, for the CPython-vs-page comparison
+HEAVY = [
+    (
+        "motion",
+        {
+            "diameter_type": "aerodynamic",
+            "particle_density": {"value": 3, "unit": "g/cm3"},
+            "shape_factor": {"value": 1.5, "unit": "1"},
+        },
+    )
+]
+
+
+def _load_build():
+    spec = importlib.util.spec_from_file_location("driftdose_build", ROOT / "build.py")
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
+
+
+def _pct(values: list[float], q: float) -> float:
+    ordered = sorted(values)
+    k = (len(ordered) - 1) * q
+    lo, hi = int(k), min(int(k) + 1, len(ordered) - 1)
+    return ordered[lo] + (ordered[hi] - ordered[lo]) * (k - lo)
+
+
+def _time_to_ready(context, url: str) -> float:
+    page = context.new_page()
+    t0 = time.perf_counter()
+    page.goto(url)
+    page.wait_for_selector("html[data-engine='ready']", timeout=120_000)
+    elapsed = time.perf_counter() - t0
+    page.close()
+    return elapsed
+
+
+def _recalc_times(page, panel: str, label: str, values: list[str], edits: int) -> list[float]:
+    field = page.locator(f"#panel-{panel}").get_by_label(label, exact=True)
+    handle = field.element_handle()
+    out = []
+    for i in range(edits):
+        value = values[i % len(values)]
+        ms = page.evaluate(
+            """([input, panel, value]) => new Promise((resolve) => {
+                 const section = document.getElementById('panel-' + panel);
+                 const before = Number(section.dataset.updates || 0);
+                 const t0 = performance.now();
+                 const obs = new MutationObserver(() => {
+                   if (Number(section.dataset.updates || 0) > before) {
+                     obs.disconnect();
+                     requestAnimationFrame(() => resolve(performance.now() - t0));
+                   }
+                 });
+                 obs.observe(section, {attributes: true, attributeFilter: ['data-updates']});
+                 input.value = value;
+                 input.dispatchEvent(new Event('input', {bubbles: true}));
+               })""",
+            [handle, panel, value],
+        )
+        out.append(ms)
+    return out
+
+
+def _cpython_ms(kind: str, inputs: dict, repeats: int = 20) -> float:
+    api.handle({"kind": kind, "inputs": inputs})
+    times = []
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        reply = api.handle({"kind": kind, "inputs": inputs})
+        times.append((time.perf_counter() - t0) * 1000)
+        assert reply["ok"], reply
+    return statistics.median(times)
+
+
+def _page_ms(page, kind: str, inputs: dict, repeats: int = 20) -> float:
+    return page.evaluate(
+        """async ([kind, inputs, repeats]) => {
+             const mod = await import('./js/app.js');
+             const engine = mod.engine;
+             await engine.request(kind, inputs);
+             const times = [];
+             for (let i = 0; i < repeats; i++) {
+               const t0 = performance.now();
+               const reply = await engine.request(kind, inputs);
+               times.push(performance.now() - t0);
+               if (!reply.ok) throw new Error(JSON.stringify(reply.errors));
+             }
+             times.sort((a, b) => a - b);
+             return times[Math.floor(times.length / 2)];
+           }""",
+        [kind, inputs, repeats],
+    )
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    parser.add_argument("--runs", type=int, default=5)
+    parser.add_argument("--edits", type=int, default=40)
+    args = parser.parse_args()
+    from playwright.sync_api import sync_playwright
+
+    build = _load_build()
+    figures: dict = {}
+    with tempfile.TemporaryDirectory() as tmp:
+        dist = Path(tmp) / "site"
+        build.build(dist)
+        bare = dist / "bare"
+        bare.mkdir()
+        (bare / "index.html").write_text(BARE_HTML)
+        (bare / "bare.js").write_text(BARE_JS)
+        (bare / "bare-worker.js").write_text(BARE_WORKER)
+        own = [
+            p
+            for p in dist.rglob("*")
+            if p.is_file() and "pyodide" not in p.parts and "bare" not in p.parts
+        ]
+        figures["own_assets_gzip_MB"] = round(
+            sum(len(gzip.compress(p.read_bytes(), 9)) for p in own) / 1e6, 3
+        )
+        figures["pyodide_core_MB"] = round(
+            sum(p.stat().st_size for p in (dist / "pyodide").iterdir()) / 1e6, 2
+        )
+        server, _ = build.serve(dist, 0)
+        host, port = server.server_address[:2]
+        base = f"http://{host}:{port}/"
+        with sync_playwright() as pw:
+            browser = pw.chromium.launch(executable_path=find_chromium(), args=CHROMIUM_ARGS)
+            app_cold, bare_cold, app_warm = [], [], []
+            for _ in range(args.runs):
+                ctx = browser.new_context()
+                bare_cold.append(_time_to_ready(ctx, base + "bare/"))
+                ctx.close()
+                ctx = browser.new_context()
+                app_cold.append(_time_to_ready(ctx, base))
+                app_warm.append(_time_to_ready(ctx, base))
+                ctx.close()
+            figures["bare_pyodide_ready_s"] = round(statistics.median(bare_cold), 3)
+            figures["page_ready_cold_s"] = round(statistics.median(app_cold), 3)
+            figures["page_ready_repeat_s"] = round(statistics.median(app_warm), 3)
+            figures["ready_ratio_page_over_bare"] = round(
+                statistics.median(app_cold) / statistics.median(bare_cold), 3
+            )
+            figures["repeat_over_cold_ratio"] = round(
+                statistics.median(app_warm) / statistics.median(app_cold), 3
+            )
+
+            ctx = browser.new_context(viewport={"width": 1280, "height": 900})
+            page = ctx.new_page()
+            page.goto(base)
+            page.wait_for_selector("html[data-engine='ready']", timeout=120_000)
+            page.wait_for_function("() => document.querySelector('table.results')")
+            recalc = {}
+            for panel, label, values in EDITS:
+                page.evaluate(f"() => document.getElementById('tab-{panel}').click()")
+                times = _recalc_times(page, panel, label, values, args.edits)
+                recalc[panel] = {
+                    "median_ms": round(statistics.median(times), 1),
+                    "p95_ms": round(_pct(times, 0.95), 1),
+                }
+            figures["input_to_chart"] = recalc
+            heavy = {}
+            for kind, inputs in HEAVY:
+                cpy = _cpython_ms(kind, inputs)
+                web = _page_ms(page, kind, inputs)
+                heavy[kind] = {
+                    "cpython_ms": round(cpy, 2),
+                    "page_ms": round(web, 2),
+                    "page_over_cpython": round(web / cpy, 2),
+                }
+            figures["heaviest_calculations"] = heavy
+            ctx.close()
+            browser.close()
+        server.shutdown()
+    print(json.dumps(figures, indent=1))
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
