@@ -46,7 +46,7 @@ GAMMA_HIGH_RISK = 2.5e-6
 
 
 def _phi(x: float) -> float:
-    """Standard normal cumulative distribution function."""
+    """Return the standard normal cumulative distribution function at x."""
     return 0.5 * math.erfc(-x / math.sqrt(2.0))
 
 

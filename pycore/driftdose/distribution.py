@@ -20,6 +20,7 @@ Surface area and mass assume spheres of the volume-equivalent diameter.
 
 from __future__ import annotations
 
+import itertools
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
@@ -192,6 +193,7 @@ class LognormalMode:
         Particle density. [kg/m^3]
     shape_factor : float
         Dynamic shape factor. [-]
+
     """
 
     cmd: float
@@ -324,6 +326,7 @@ class Multimodal:
     ----------
     modes : tuple of LognormalMode
         The modes; each keeps its own density and shape factor.
+
     """
 
     modes: tuple[LognormalMode, ...]
@@ -374,6 +377,7 @@ class BinnedSpectrum:
     edges : tuple of float
         Bin edges, one more than the diameters: geometric means between neighbours, the
         outer edges mirrored in log space (common practice for spectra given by mid-points).
+
     """
 
     diameters: tuple[float, ...]
@@ -389,7 +393,7 @@ class BinnedSpectrum:
             raise ValueError("at least two bins with one number each are needed")
         if any(not (x > 0.0 and math.isfinite(x)) for x in d):
             raise ValueError("diameters must be positive")
-        if any(b <= a for a, b in zip(d, d[1:], strict=False)):
+        if any(b <= a for a, b in itertools.pairwise(d)):
             raise ValueError("diameters must increase strictly")
         if any(not (x >= 0.0 and math.isfinite(x)) for x in n):
             raise ValueError("numbers must be non-negative")
@@ -438,7 +442,7 @@ def bin_edges(diameters: Sequence[float]) -> tuple[float, ...]:
 
     """
     d = list(diameters)
-    inner = [math.sqrt(a * b) for a, b in zip(d, d[1:], strict=False)]
+    inner = [math.sqrt(a * b) for a, b in itertools.pairwise(d)]
     first = d[0] * d[0] / inner[0]
     last = d[-1] * d[-1] / inner[-1]
     return (first, *inner, last)

@@ -149,6 +149,7 @@ class BreathingPattern:
     scale_t, scale_b, scale_a : float
         ICRP body-size scaling factors for trachea/bronchi, bronchioles, alveoli (1 for the
         adult male). [-]
+
     """
 
     name: str
@@ -200,7 +201,7 @@ ACTIVITIES: dict[str, BreathingPattern] = {
 
 
 def activity(name: str, route: str = "mixed") -> BreathingPattern:
-    """Reference adult male breathing for an activity and breathing route.
+    """Return reference adult male breathing for an activity and breathing route.
 
     Parameters
     ----------
@@ -242,6 +243,7 @@ class Subject:
         Activities and hours. Fractions are weighted by the air volume inhaled in each.
     wind_speed : float
         Ambient wind speed for the inhalability term. [m/s]
+
     """
 
     name: str
@@ -274,12 +276,12 @@ class Subject:
 
     @classmethod
     def single(cls, pattern: BreathingPattern, wind_speed: float = 0.0) -> Subject:
-        """A subject breathing one pattern throughout."""
+        """Return a subject breathing one pattern throughout."""
         return cls(pattern.name, ((pattern, 1.0),), wind_speed)
 
 
 def reference_worker(route: str = "mixed") -> Subject:
-    """The ICRP reference worker: 8 h of 2.5 h sitting and 5.5 h light exercise.
+    """Return the ICRP reference worker: 8 h of 2.5 h sitting and 5.5 h light exercise.
 
     Parameters
     ----------
@@ -411,7 +413,7 @@ class _FastSize:
         return self._solve(target, d * math.sqrt(rho / (1000.0 * chi)))
 
     def to_volume_equivalent(self, d_ae: float, rho: float, chi: float) -> float:
-        """d from d_ae, the same relation solved the other way."""
+        """Return d from d_ae, the same relation solved the other way."""
         if rho == 1000.0 and chi == 1.0:
             return d_ae
         target = d_ae * d_ae * self.cc(d_ae) * 1000.0 * chi / rho
@@ -697,7 +699,7 @@ def icrp66_lognormal(
 
 
 def warnings_for(d_min: float, d_max: float, subject: Subject | None = None) -> list[str]:
-    """Validity warnings for sizes from ``d_min`` to ``d_max`` [m] and a subject's breathing."""
+    """Warn about sizes from ``d_min`` to ``d_max`` [m] and breathing outside the model."""
     out = []
     if d_min < D_MIN:
         out.append(
