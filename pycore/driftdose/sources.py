@@ -38,6 +38,30 @@ SOURCES: dict[str, str] = {
         "Schiller, L., Naumann, A. (1933). Z. Ver. Dtsch. Ing. 77:318-320 (drag beyond the "
         "Stokes regime, Re < 800; see Clift, Grace & Weber 1978, Bubbles, Drops and Particles)."
     ),
+    "icrp66": (
+        "ICRP (1994). Human Respiratory Tract Model for Radiological Protection. ICRP "
+        "Publication 66, Ann. ICRP 24(1-3) (regional deposition model, Annex D; reference "
+        "breathing parameters, Annex B)."
+    ),
+    "icrp68": (
+        "ICRP (1994). Dose Coefficients for Intakes of Radionuclides by Workers. ICRP "
+        "Publication 68, Ann. ICRP 24(4) (reference worker aerosol: 5 um AMAD, density "
+        "3 g/cm3, shape factor 1.5)."
+    ),
+    "hinds1999_ch11": (
+        "Hinds, W. C. (1999). Aerosol Technology, 2nd ed. Wiley, New York, section 11.4, "
+        "eqs. 11.1-11.5 (simplified algebraic fits to the ICRP 66 deposition model)."
+    ),
+    "iso7708": (
+        "ISO 7708:1995. Air quality - Particle size fraction definitions for health-related "
+        "sampling (inhalable, thoracic, respirable and high-risk respirable conventions; "
+        "identical to EN 481:1993)."
+    ),
+    "hatch_choate1929": (
+        "Hatch, T., Choate, S. P. (1929). Statistical description of the size properties of "
+        "non-uniform particulate substances. J. Franklin Inst. 207:369-387 (conversions "
+        "between count, surface and mass medians of a lognormal)."
+    ),
 }
 
 
