@@ -62,6 +62,62 @@ SOURCES: dict[str, str] = {
         "non-uniform particulate substances. J. Franklin Inst. 207:369-387 (conversions "
         "between count, surface and mass medians of a lognormal)."
     ),
+    # --- transport (sampling lines and stages) ---
+    "gormley_kennedy1949": (
+        "Gormley, P. G., Kennedy, M. (1949). Diffusion from a stream flowing through a "
+        "cylindrical tube. Proc. R. Irish Acad. 52A:163-169 (laminar tube diffusion losses)."
+    ),
+    "brockmann2001": (
+        "Brockmann, J. E. (2001). Sampling and transport of aerosols. In Baron, P. A., "
+        "Willeke, K. (eds.), Aerosol Measurement, 2nd ed. Wiley, New York, ch. 8 (collected "
+        "forms of the tube, settling and bend loss models)."
+    ),
+    "friedlander1977": (
+        "Friedlander, S. K. (1977). Smoke, Dust and Haze. Wiley, New York (turbulent "
+        "diffusion deposition velocity 0.04 U Re^-1/4 Sc^-2/3)."
+    ),
+    "fuchs1964": (
+        "Fuchs, N. A. (1964). The Mechanics of Aerosols. Pergamon, Oxford (settling in a "
+        "horizontal tube in laminar flow)."
+    ),
+    "thomas1958": (
+        "Thomas, J. W. (1958). Gravity settling of particles in a horizontal tube. J. Air "
+        "Pollut. Control Assoc. 8:32-34."
+    ),
+    "heyder_gebhart1977": (
+        "Heyder, J., Gebhart, J. (1977). Gravitational deposition of particles from laminar "
+        "aerosol flow through inclined circular tubes. J. Aerosol Sci. 8:289-295."
+    ),
+    "schwendiman1975": (
+        "Schwendiman, L. C., Stegen, G. E., Glissmeyer, J. A. (1975). Report BNWL-SA-5138, "
+        "Battelle Pacific Northwest Laboratories (settling in turbulent tube flow)."
+    ),
+    "pui1987": (
+        "Pui, D. Y. H., Romay-Novas, F., Liu, B. Y. H. (1987). Experimental study of particle "
+        "deposition in bends of circular cross section. Aerosol Sci. Technol. 7:301-315."
+    ),
+    "marple_willeke1976": (
+        "Marple, V. A., Willeke, K. (1976). Impactor design. Atmos. Environ. 10:891-896 "
+        "(Stokes number at the 50 % cut: 0.24 round, 0.59 rectangular jets)."
+    ),
+    "cheng_yeh1980": (
+        "Cheng, Y. S., Yeh, H. C. (1980). Theory of a screen-type diffusion battery. "
+        "J. Aerosol Sci. 11:313-320 (fan-model screen penetration, eta_D = 2.7 Pe^-2/3)."
+    ),
+    "cheng_yeh_brinsko1985": (
+        "Cheng, Y. S., Yeh, H. C., Brinsko, K. J. (1985). Use of wire screens as a fan model "
+        "filter. Aerosol Sci. Technol. 4:165-174 (diffusion and interception on screens)."
+    ),
+    "kirsch1978": (
+        "Kirsch, A. A., Stechkina, I. B. (1978). The theory of aerosol filtration with "
+        "fibrous filters. In Shaw, D. T. (ed.), Fundamentals of Aerosol Science. Wiley, "
+        "New York (fan model hydrodynamic factor)."
+    ),
+    "landahl_herrmann1949": (
+        "Landahl, H. D., Herrmann, K. (1949). Sampling of liquid aerosols by wires, "
+        "cylinders and slides, and the efficiency of impaction of the droplets. J. Colloid "
+        "Sci. 4:103-136 (impaction on an isolated cylinder)."
+    ),
 }
 
 

@@ -1,0 +1,138 @@
+"""Shared helpers of the transport models: tube flow, Reynolds number, speed of sound.
+
+Conventions used by every stage: diameters are volume-equivalent sphere diameters [m] unless a
+name says aerodynamic; flows are volumetric at the stated temperature and pressure [m^3/s];
+angles are in radians.
+"""
+
+from __future__ import annotations
+
+import math
+
+from .. import gas
+from ..constants import AIR_MOLAR_MASS, GAS_CONSTANT, P_DEFAULT, T_DEFAULT
+
+__all__ = [
+    "HEAT_CAPACITY_RATIO",
+    "MACH_ERROR",
+    "MACH_WARNING",
+    "RE_LAMINAR_MAX",
+    "RE_SWITCH",
+    "RE_TURBULENT_MIN",
+    "flow_regime",
+    "mach_number",
+    "normal_cdf",
+    "speed_of_sound",
+    "tube_reynolds_number",
+    "tube_velocity",
+]
+
+HEAT_CAPACITY_RATIO = 1.4
+"""Ratio of specific heats of dry air near room temperature (common practice). [-]"""
+
+RE_LAMINAR_MAX = 2000.0
+"""Below this tube Reynolds number pipe flow is laminar (common practice). [-]"""
+
+RE_TURBULENT_MIN = 4000.0
+"""Above this tube Reynolds number pipe flow is fully turbulent (common practice). [-]"""
+
+RE_SWITCH = 2300.0
+"""Reynolds number at which the models switch from laminar to turbulent forms.
+
+2300 is the critical Reynolds number of pipe flow usually quoted (common practice). Between
+:data:`RE_LAMINAR_MAX` and :data:`RE_TURBULENT_MIN` the flow may be either, and every stage
+that depends on the regime warns. [-]
+"""
+
+MACH_WARNING = 0.3
+"""Mach number above which compressibility is no longer negligible (common practice); the
+incompressible models are then extrapolated. [-]"""
+
+MACH_ERROR = 0.7
+"""Mach number treated as near sonic: inputs giving a mean speed at or above it are refused.
+Our threshold (no published source): the density of air changes by more than about 20 % at
+such speeds and none of the models applies. [-]"""
+
+
+def tube_velocity(flow: float, tube_diameter: float) -> float:
+    """Mean air velocity in a circular tube, U = 4 Q / (pi d_t^2).
+
+    Parameters
+    ----------
+    flow : float
+        Volumetric flow rate. [m^3/s]
+    tube_diameter : float
+        Inner diameter of the tube. [m]
+
+    Returns
+    -------
+    float
+        Mean velocity. [m/s]
+
+    """
+    return 4.0 * flow / (math.pi * tube_diameter * tube_diameter)
+
+
+def tube_reynolds_number(
+    flow: float, tube_diameter: float, T: float = T_DEFAULT, P: float = P_DEFAULT
+) -> float:
+    """Flow Reynolds number of a circular tube, Re = rho_g U d_t / mu.
+
+    Parameters
+    ----------
+    flow : float
+        Volumetric flow rate. [m^3/s]
+    tube_diameter : float
+        Inner diameter of the tube. [m]
+    T : float
+        Temperature. [K]
+    P : float
+        Pressure. [Pa]
+
+    Returns
+    -------
+    float
+        Reynolds number. [-]
+
+    """
+    u = tube_velocity(flow, tube_diameter)
+    return gas.air_density(T, P) * u * tube_diameter / gas.air_viscosity(T)
+
+
+def flow_regime(reynolds: float) -> str:
+    """Return ``"laminar"`` below :data:`RE_SWITCH`, else ``"turbulent"``."""
+    return "laminar" if reynolds < RE_SWITCH else "turbulent"
+
+
+def speed_of_sound(T: float = T_DEFAULT) -> float:
+    """Speed of sound in dry air as an ideal gas, c = sqrt(gamma R T / M).
+
+    Parameters
+    ----------
+    T : float
+        Temperature. [K]
+
+    Returns
+    -------
+    float
+        Speed of sound. [m/s]
+
+    Examples
+    --------
+    About 343 m/s at 20 degrees C (handbook value):
+
+    >>> round(speed_of_sound(293.15))
+    343
+
+    """
+    return math.sqrt(HEAT_CAPACITY_RATIO * GAS_CONSTANT * T / AIR_MOLAR_MASS)
+
+
+def mach_number(velocity: float, T: float = T_DEFAULT) -> float:
+    """Mach number of a mean air ``velocity`` [m/s] at temperature ``T`` [K]. [-]"""
+    return abs(velocity) / speed_of_sound(T)
+
+
+def normal_cdf(x: float) -> float:
+    """Return the standard normal cumulative distribution function, 0.5 erfc(-x/sqrt 2). [-]"""
+    return 0.5 * math.erfc(-x / math.sqrt(2.0))
