@@ -7,8 +7,9 @@ from __future__ import annotations
 
 from types import ModuleType
 
-from . import motion
+from . import deposition, motion
 
 CALCULATIONS: dict[str, ModuleType] = {
     "motion": motion,
+    "deposition": deposition,
 }

@@ -1,0 +1,739 @@
+"""Calculation ``deposition``: where a workplace aerosol deposits in the respiratory tract.
+
+Answers, for a size distribution given as up to four lognormal modes (count- or mass-based)
+or as a measured spectrum in CSV, the deposition fraction per region (ICRP 66 regions, or
+head airways / tracheobronchial / alveolar for the simplified fits), the deposited number,
+surface area and mass per hour and per exposure, for the ICRP reference worker, one
+activity or custom breathing, with an optional comparison with benchmark concentrations the
+user enters. Curves: deposition fraction per region versus size with the distribution
+overlaid, and dose per region as bars.
+
+``demo_scenarios()`` lists invented demo inputs (labelled as such) that the page loads with
+one click; they are also attached to the first field's description.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+from .. import particle
+from .._numerics import logspace
+from ..deposition import Subject, activity, reference_worker
+from ..deposition.icrp66 import BreathingPattern
+from ..deposition.icrp66 import warnings_for as icrp66_warnings
+from ..deposition.simplified import validity_warnings as simplified_warnings
+from ..distribution import GSD_MAX, MAX_MODES, LognormalMode, Multimodal
+from ..dose import DoseResult, deposited_dose, deposition_curves
+from ..sources import cite
+from ..spectrum import MAX_BYTES, SpectrumError, parse_spectrum_csv
+from .fields import Field, FieldError
+from .reply import text_result
+from .units import canonical_unit, to_si, unit_label
+
+TITLE = "Respiratory deposition and dose per shift"
+
+CURVE_POINTS = 241
+CURVE_RANGE = (1e-9, 100e-6)  # [m]
+D_RANGE = (1e-9, 100e-6)  # accepted mode medians [m]
+NUMBER_MAX = 1e15  # [1/m^3], 1e9 per cm^3: above it an input is taken as a mistake
+MASS_MAX = 1e-2  # [kg/m^3], 10 g/m^3
+
+REGION_LABELS = {
+    "ET1": "ET1 (front of the nose)",
+    "ET2": "ET2 (back of nose, mouth, pharynx, larynx)",
+    "BB": "BB (bronchi)",
+    "bb": "bb (bronchioles)",
+    "AI": "AI (alveolar-interstitial)",
+    "head_airways": "Head airways",
+    "tracheobronchial": "Tracheobronchial",
+    "alveolar": "Alveolar",
+    "total": "Total",
+}
+
+_MODE_UNITS = {
+    "length": ("nm", "um"),
+    "number_concentration": ("1/cm3", "1/m3"),
+    "mass_concentration": ("mg/m3", "ug/m3"),
+}
+
+_DEMO_CSV = (
+    "# invented demo spectrum, not a measurement\n"
+    "diameter_nm;dN/dlogDp_per_cm3\n"
+    "10;1200\n15;3500\n20;7800\n30;14500\n40;19800\n50;21500\n70;19000\n100;13200\n"
+    "150;7100\n200;3900\n300;1500\n400;620\n500;280\n700;90\n1000;25\n"
+)
+
+DEMOS: tuple[dict[str, Any], ...] = (
+    {
+        "id": "demo_fume",
+        "label": "Invented demo: metal fume, two fine modes",
+        "note": "Invented numbers for trying the tool; not a measurement or a typical value.",
+        "inputs": {
+            "distribution_source": "lognormal",
+            "modes": [
+                {
+                    "basis": "count",
+                    "median": {"value": 40, "unit": "nm"},
+                    "gsd": 1.7,
+                    "concentration": {"value": 150000, "unit": "1/cm3"},
+                },
+                {
+                    "basis": "count",
+                    "median": {"value": 250, "unit": "nm"},
+                    "gsd": 1.6,
+                    "concentration": {"value": 8000, "unit": "1/cm3"},
+                },
+            ],
+            "particle_density": {"value": 5.0, "unit": "g/cm3"},
+            "shape_factor": {"value": 1.2, "unit": "1"},
+            "model": "icrp66",
+            "breathing": "reference_worker",
+            "route": "mixed",
+            "exposure_duration": {"value": 8, "unit": "h"},
+        },
+    },
+    {
+        "id": "demo_dust",
+        "label": "Invented demo: grinding dust by mass, with a benchmark",
+        "note": "Invented numbers, and an invented benchmark; not a legal limit.",
+        "inputs": {
+            "distribution_source": "lognormal",
+            "modes": [
+                {
+                    "basis": "mass",
+                    "median": {"value": 6, "unit": "um"},
+                    "gsd": 2.2,
+                    "concentration": {"value": 2.0, "unit": "mg/m3"},
+                }
+            ],
+            "particle_density": {"value": 2.6, "unit": "g/cm3"},
+            "shape_factor": {"value": 1.4, "unit": "1"},
+            "model": "icrp66",
+            "breathing": "activity",
+            "activity": "heavy_exercise",
+            "route": "mixed",
+            "exposure_duration": {"value": 4, "unit": "h"},
+            "benchmark_mass": {"value": 1.0, "unit": "mg/m3"},
+        },
+    },
+    {
+        "id": "demo_spectrum",
+        "label": "Invented demo: measured spectrum from CSV",
+        "note": "An invented spectrum in CSV form, to show the import; not a measurement.",
+        "inputs": {
+            "distribution_source": "csv",
+            "csv_text": _DEMO_CSV,
+            "csv_diameter_column": "diameter_nm",
+            "csv_concentration_column": "dN/dlogDp_per_cm3",
+            "csv_concentration_type": "dN/dlogDp",
+            "csv_diameter_unit": "nm",
+            "csv_concentration_unit": "1/cm3",
+            "particle_density": {"value": 1.5, "unit": "g/cm3"},
+            "shape_factor": {"value": 1.0, "unit": "1"},
+            "model": "icrp66",
+            "breathing": "reference_worker",
+            "route": "mixed",
+            "exposure_duration": {"value": 8, "unit": "h"},
+            "benchmark_number": {"value": 20000, "unit": "1/cm3"},
+        },
+    },
+)
+"""Invented demo scenarios (labelled as invented) for the page's one-click loading."""
+
+
+def demo_scenarios() -> list[dict[str, Any]]:
+    """Return the invented demo scenarios: id, label, note and the request inputs."""
+    return [dict(d) for d in DEMOS]
+
+
+_MODE_SCHEMA = {
+    "max_items": MAX_MODES,
+    "item_fields": [
+        {
+            "name": "basis",
+            "label": "Mode given by",
+            "kind": "choice",
+            "choices": [
+                {"value": "count", "label": "Count (CMD, number concentration)"},
+                {"value": "mass", "label": "Mass (MMAD, mass concentration)"},
+            ],
+        },
+        {
+            "name": "median",
+            "label": "Median diameter (CMD, or MMAD for a mass mode)",
+            "kind": "length",
+            "units": ["nm", "um"],
+            "range": "from 1 nm to 100 µm",
+        },
+        {"name": "gsd", "label": "Geometric standard deviation", "kind": "dimensionless"},
+        {
+            "name": "concentration",
+            "label": "Concentration (number for count modes, mass for mass modes)",
+            "kind": "concentration",
+            "units": ["1/cm3", "1/m3", "mg/m3", "ug/m3"],
+        },
+    ],
+}
+
+FIELDS: tuple[Field, ...] = (
+    Field(
+        "distribution_source",
+        "Size distribution from",
+        "choice",
+        "lognormal",
+        choices=(("lognormal", "Lognormal modes"), ("csv", "Measured spectrum (CSV file)")),
+        help="Describe the aerosol by up to four lognormal modes, or import a measured spectrum.",
+        extra={"demos": [dict(d) for d in DEMOS]},
+    ),
+    Field(
+        "modes",
+        "Lognormal modes",
+        "data",
+        [
+            {
+                "basis": "count",
+                "median": {"value": 50, "unit": "nm"},
+                "gsd": 1.8,
+                "concentration": {"value": 10000, "unit": "1/cm3"},
+            }
+        ],
+        required=False,
+        help="Up to four modes, each by count (CMD, GSD, number concentration) or by mass "
+        "(MMAD, GSD, mass concentration).",
+        extra=_MODE_SCHEMA,
+    ),
+    Field(
+        "csv_text",
+        "Spectrum CSV file",
+        "data",
+        None,
+        required=False,
+        help="Plain text table, one row per size; commas, semicolons or tabs; at most 5 MB.",
+        extra={"max_bytes": MAX_BYTES, "accept": ".csv,.txt,.tsv"},
+    ),
+    Field(
+        "csv_diameter_column",
+        "Diameter column (header name or number)",
+        "text",
+        "1",
+        required=False,
+        extra={"max_length": 80},
+    ),
+    Field(
+        "csv_concentration_column",
+        "Concentration column (header name or number)",
+        "text",
+        "2",
+        required=False,
+        extra={"max_length": 80},
+    ),
+    Field(
+        "csv_concentration_type",
+        "Concentration is given",
+        "choice",
+        "dN/dlogDp",
+        choices=(
+            ("per_bin", "per size bin (dN)"),
+            ("dN/dlogDp", "per log10 of diameter (dN/dlogDp)"),
+            ("dN/dDp", "per unit diameter (dN/dDp)"),
+        ),
+    ),
+    Field(
+        "csv_diameter_unit",
+        "Diameter unit in the file",
+        "choice",
+        "nm",
+        choices=(("nm", "nm"), ("um", "µm"), ("m", "m")),
+    ),
+    Field(
+        "csv_concentration_unit",
+        "Concentration unit in the file",
+        "choice",
+        "1/cm3",
+        choices=(("1/cm3", "particles per cm³"), ("1/m3", "particles per m³")),
+        help="For dN/dDp, per diameter unit of the file (e.g. per cm³ per nm).",
+    ),
+    Field(
+        "particle_density",
+        "Particle density",
+        "density",
+        (1.0, "g/cm3"),
+        ("g/cm3", "kg/m3"),
+        minimum=100.0,
+        maximum=25000.0,
+        help="Material density of the particles (applies to every mode or bin).",
+    ),
+    Field(
+        "shape_factor",
+        "Dynamic shape factor",
+        "dimensionless",
+        (1.0, "1"),
+        ("1",),
+        minimum=1.0,
+        maximum=5.0,
+        help="1 for spheres; ICRP's default worker aerosol uses 1.5.",
+    ),
+    Field(
+        "model",
+        "Deposition model",
+        "choice",
+        "icrp66",
+        choices=(
+            ("icrp66", "ICRP 66 full regional model (ET1, ET2, BB, bb, AI)"),
+            ("simplified", "Simplified fits to ICRP 66 (Hinds 1999)"),
+        ),
+    ),
+    Field(
+        "breathing",
+        "Breathing",
+        "choice",
+        "reference_worker",
+        choices=(
+            ("reference_worker", "ICRP reference worker (2.5 h sitting, 5.5 h light exercise)"),
+            ("activity", "One activity level"),
+            ("custom", "Custom breathing parameters"),
+        ),
+    ),
+    Field(
+        "activity",
+        "Activity level",
+        "choice",
+        "light_exercise",
+        choices=(
+            ("sleep", "Sleep"),
+            ("sitting", "Sitting awake"),
+            ("light_exercise", "Light exercise"),
+            ("heavy_exercise", "Heavy exercise"),
+        ),
+    ),
+    Field(
+        "route",
+        "Breathing route",
+        "choice",
+        "mixed",
+        choices=(
+            ("mixed", "Normal nose breather (ICRP: mouth joins at heavy exercise)"),
+            ("nose", "Nose only"),
+            ("mouth", "Mouth only"),
+            ("mouth_breather", "Habitual mouth breather (ICRP)"),
+        ),
+    ),
+    Field(
+        "tidal_volume",
+        "Tidal volume (custom)",
+        "volume",
+        (1.25, "L"),
+        ("L", "m3"),
+        minimum=0.2e-3,
+        maximum=4e-3,
+    ),
+    Field(
+        "breathing_frequency",
+        "Breathing frequency (custom), breaths per minute",
+        "dimensionless",
+        (20.0, "1"),
+        ("1",),
+        minimum=4.0,
+        maximum=60.0,
+    ),
+    Field(
+        "nasal_fraction",
+        "Share of air through the nose (custom)",
+        "dimensionless",
+        (1.0, "1"),
+        ("1",),
+        minimum=0.0,
+        maximum=1.0,
+    ),
+    Field(
+        "exposure_duration",
+        "Exposure duration",
+        "time",
+        (8.0, "h"),
+        ("h", "min"),
+        minimum=0.0,
+        maximum=24 * 3600.0,
+        exclusive_min=True,
+    ),
+    Field(
+        "benchmark_number",
+        "Benchmark number concentration (optional)",
+        "number_concentration",
+        (None, "1/cm3"),
+        ("1/cm3", "1/m3"),
+        minimum=0.0,
+        maximum=NUMBER_MAX,
+        exclusive_min=True,
+        required=False,
+        help="A value you choose to compare with, with its source; none is built in.",
+    ),
+    Field(
+        "benchmark_mass",
+        "Benchmark mass concentration (optional)",
+        "mass_concentration",
+        (None, "mg/m3"),
+        ("mg/m3", "ug/m3"),
+        minimum=0.0,
+        maximum=MASS_MAX,
+        exclusive_min=True,
+        required=False,
+        help="A value you choose to compare with, with its source; none is built in.",
+    ),
+)
+
+
+def _quantity_in(
+    raw: Any, kinds: tuple[str, ...], where: str, field: str
+) -> tuple[float, str] | None:
+    """Parse ``{"value": x, "unit": u}`` of one of ``kinds``; return (SI, kind)."""
+    if isinstance(raw, dict):
+        value, unit = raw.get("value"), raw.get("unit")
+    else:
+        value, unit = raw, None
+    if isinstance(value, str):
+        text = value.strip().replace("\u2212", "-").replace(" ", "")
+        if text.count(",") == 1 and "." not in text:
+            text = text.replace(",", ".")
+        try:
+            value = float(text)
+        except ValueError:
+            raise FieldError(field, f"{where}: {value[:20]!r} is not a number.") from None
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise FieldError(field, f"{where}: enter a number.")
+    value = float(value)
+    if not math.isfinite(value):
+        raise FieldError(field, f"{where}: enter a finite number.")
+    for kind in kinds:
+        if unit is None:
+            continue
+        try:
+            u = canonical_unit(kind, str(unit))
+        except KeyError:
+            continue
+        return to_si(value, kind, u), kind
+    offered = ", ".join(unit_label(u) for k in kinds for u in _MODE_UNITS[k])
+    raise FieldError(field, f"{where}: unknown unit {str(unit)[:20]!r}; use one of {offered}.")
+
+
+def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
+    field = "modes"
+    if not isinstance(raw, list) or not raw:
+        raise FieldError(field, "Give at least one lognormal mode.")
+    if len(raw) > MAX_MODES:
+        raise FieldError(field, f"At most {MAX_MODES} modes can be combined.")
+    modes = []
+    for i, m in enumerate(raw, start=1):
+        where = f"Mode {i}"
+        if not isinstance(m, dict):
+            raise FieldError(field, f"{where}: expected basis, median, GSD and concentration.")
+        basis = m.get("basis", "count")
+        if basis not in ("count", "mass"):
+            raise FieldError(field, f"{where}: basis must be count or mass.")
+        med = _quantity_in(m.get("median"), ("length",), f"{where} median diameter", field)
+        assert med is not None
+        median = med[0]
+        if not (D_RANGE[0] <= median <= D_RANGE[1]):
+            raise FieldError(field, f"{where}: the median diameter must be from 1 nm to 100 µm.")
+        gsd_raw = m.get("gsd")
+        gsd_q = _quantity_in(
+            {"value": gsd_raw, "unit": "1"} if not isinstance(gsd_raw, dict) else gsd_raw,
+            ("dimensionless",),
+            f"{where} GSD",
+            field,
+        )
+        assert gsd_q is not None
+        gsd = gsd_q[0]
+        if gsd <= 1.0:
+            raise FieldError(
+                field,
+                f"{where}: the GSD must be above 1 (1 would mean all particles share one "
+                "size; use e.g. 1.05 for a nearly uniform aerosol).",
+            )
+        if gsd > GSD_MAX:
+            raise FieldError(
+                field,
+                f"{where}: a GSD above {GSD_MAX:g} is implausible for one mode; describe the "
+                "aerosol with several modes instead.",
+            )
+        conc_kind = "number_concentration" if basis == "count" else "mass_concentration"
+        conc_q = _quantity_in(m.get("concentration"), (conc_kind,), f"{where} concentration", field)
+        assert conc_q is not None
+        conc = conc_q[0]
+        if conc <= 0.0:
+            raise FieldError(field, f"{where}: the concentration must be above 0.")
+        if basis == "count":
+            if conc > NUMBER_MAX:
+                raise FieldError(
+                    field,
+                    f"{where}: a number concentration above 10⁹ per cm³ is not plausible "
+                    "for a workplace aerosol; check the unit.",
+                )
+            modes.append(LognormalMode.from_count(median, gsd, conc, density, chi))
+        else:
+            if conc > MASS_MAX:
+                raise FieldError(
+                    field,
+                    f"{where}: a mass concentration above 10 g/m³ is not plausible; check "
+                    "the unit.",
+                )
+            mmd = particle.volume_equivalent_diameter(median, density, chi)
+            modes.append(LognormalMode.from_mass(mmd, gsd, conc, density, chi))
+    return Multimodal(tuple(modes))
+
+
+def _parse_csv(v: dict[str, Any], density: float, chi: float) -> tuple[Any, dict[str, Any]]:
+    text = v.get("csv_text")
+    if text is None or (isinstance(text, str) and not text.strip()):
+        raise FieldError("csv_text", "Choose a CSV file with the measured spectrum.")
+    if not isinstance(text, str):
+        raise FieldError("csv_text", "The spectrum must be sent as text.")
+    d_scale = to_si(1.0, "length", v["csv_diameter_unit"])
+    c_scale = to_si(1.0, "number_concentration", v["csv_concentration_unit"])
+    try:
+        imported = parse_spectrum_csv(
+            text,
+            v.get("csv_diameter_column") or "1",
+            v.get("csv_concentration_column") or "2",
+            v["csv_concentration_type"],
+            d_scale,
+            c_scale,
+        )
+    except SpectrumError as exc:
+        raise FieldError("csv_text", str(exc)) from None
+    if imported.diameters[0] < D_RANGE[0] * 0.999 or imported.diameters[-1] > D_RANGE[1] * 1.001:
+        raise FieldError(
+            "csv_text",
+            f"Diameters run from {imported.diameters[0] * 1e9:.3g} nm to "
+            f"{imported.diameters[-1] * 1e6:.3g} µm; the models cover 1 nm to 100 µm. Check "
+            "the diameter unit.",
+        )
+    if sum(imported.numbers) <= 0.0:
+        raise FieldError("csv_text", "All concentrations in the spectrum are zero.")
+    if sum(imported.numbers) > NUMBER_MAX:
+        raise FieldError(
+            "csv_text",
+            "The spectrum adds up to more than 10⁹ particles per cm³; check the "
+            "concentration unit and type.",
+        )
+    return imported.to_distribution(density, chi), imported.report
+
+
+def _subject(v: dict[str, Any]) -> Subject:
+    route = v["route"]
+    if v["breathing"] == "reference_worker":
+        return reference_worker(route)
+    if v["breathing"] == "activity":
+        return Subject.single(activity(v["activity"], route))
+    pattern = BreathingPattern(
+        "custom breathing",
+        v["tidal_volume"],
+        v["breathing_frequency"] / 60.0,
+        v["nasal_fraction"],
+    )
+    try:
+        return Subject.single(pattern)
+    except ValueError as exc:
+        raise FieldError("tidal_volume", f"Custom breathing: {exc}.") from None
+
+
+def _row(
+    label: str, si: float, factor: float, unit: str, si_unit: str, symbol: str = "", note: str = ""
+) -> dict[str, Any]:
+    return {
+        "label": label,
+        "symbol": symbol,
+        "value": si / factor,
+        "unit": unit,
+        "si": si,
+        "si_unit": si_unit,
+        "note": note,
+    }
+
+
+# display units for the three weights: (factor to SI, unit label, SI unit label)
+_DOSE_UNITS = {
+    "number": (1.0, "particles", "1"),
+    "surface": (1e-6, "mm²", "m²"),
+    "mass": (1e-9, "µg", "kg"),
+}
+_WEIGHT_LABEL = {"number": "number", "surface": "surface area", "mass": "mass"}
+
+
+def run(v: dict[str, Any]) -> dict[str, Any]:
+    """Compute the deposition reply from validated SI inputs."""
+    rho, chi = v["particle_density"], v["shape_factor"]
+    report = None
+    if v["distribution_source"] == "lognormal":
+        dist = _parse_modes(v.get("modes"), rho, chi)
+    else:
+        dist, report = _parse_csv(v, rho, chi)
+    subject = _subject(v)
+    model = v["model"]
+    duration = v["exposure_duration"]
+    try:
+        res = deposited_dose(
+            dist,
+            subject,
+            duration,
+            model,
+            benchmark_number=v.get("benchmark_number"),
+            benchmark_mass=v.get("benchmark_mass"),
+        )
+    except ValueError as exc:
+        raise FieldError("", str(exc)) from None
+    warnings = _warnings(dist, subject, model, res, v)
+    if report is not None:
+        warnings.extend(f"CSV import: {n}" for n in report["notes"])
+    sources = ["icrp66", "hatch_choate1929", "iso7708", "kim2005", "einstein1905"]
+    if model == "simplified":
+        sources.insert(1, "hinds1999_ch11")
+    if v["breathing"] == "reference_worker":
+        sources.insert(1, "icrp68")
+    return {
+        "results": _results(res, subject, dist, report),
+        "curves": _curves(dist, subject, model, rho, chi, res),
+        "warnings": warnings,
+        "sources": cite(*sources),
+    }
+
+
+def _results(
+    res: DoseResult, subject: Subject, dist: Any, report: dict[str, Any] | None
+) -> dict[str, Any]:
+    out: dict[str, Any] = {
+        "breathing": text_result("Breathing", subject.name),
+        "inhaled_volume": _row(
+            "Air inhaled over the exposure", res.inhaled_volume, 1.0, "m³", "m³", "V"
+        ),
+        "ventilation": _row(
+            "Mean ventilation", res.ventilation, 1.0 / 3600.0, "m³/h", "m³/s", "V̇ₑ"
+        ),
+        "number_concentration": _row(
+            "Airborne number concentration", res.ambient["number"], 1e6, "1/cm³", "1/m³"
+        ),
+        "surface_concentration": _row(
+            "Airborne surface-area concentration",
+            res.ambient["surface"],
+            1e-6,
+            "µm²/cm³",
+            "m²/m³",
+        ),
+        "mass_concentration": _row(
+            "Airborne mass concentration", res.ambient["mass"], 1e-9, "µg/m³", "kg/m³"
+        ),
+    }
+    if report is not None:
+        out["csv_rows"] = text_result(
+            "Spectrum imported",
+            f"{report['rows']} rows (lines {report['first_line']}–{report['last_line']}), "
+            f"{report['delimiter']}-separated",
+        )
+    hours = res.duration / 3600.0
+    for r in res.regions:
+        name = REGION_LABELS[r]
+        for w in ("number", "surface", "mass"):
+            out[f"fraction_{r}_{w}"] = _row(
+                f"{name}: deposited fraction by {_WEIGHT_LABEL[w]}",
+                res.fractions[r][w],
+                1.0,
+                "–",
+                "–",
+            )
+        for w in ("number", "surface", "mass"):
+            factor, unit, si_unit = _DOSE_UNITS[w]
+            out[f"rate_{r}_{w}"] = _row(
+                f"{name}: {_WEIGHT_LABEL[w]} deposited per hour",
+                res.rates[r][w] * 3600.0,
+                factor,
+                f"{unit}/h",
+                f"{si_unit}/h",
+            )
+            out[f"dose_{r}_{w}"] = _row(
+                f"{name}: {_WEIGHT_LABEL[w]} deposited in {hours:g} h",
+                res.doses[r][w],
+                factor,
+                unit,
+                si_unit,
+            )
+    for metric, ratio in res.benchmark.items():
+        out[f"benchmark_{metric}"] = _row(
+            f"Airborne {metric} concentration ÷ your benchmark", ratio, 1.0, "–", "–"
+        )
+    return out
+
+
+def _curves(
+    dist: Any, subject: Subject, model: str, rho: float, chi: float, res: DoseResult
+) -> dict[str, Any]:
+    xs = logspace(*CURVE_RANGE, CURVE_POINTS)
+    dep = deposition_curves(model, xs, rho, chi, subject)
+    x_um = [x * 1e6 for x in xs]
+    series = {
+        r: {"label": REGION_LABELS[r], "x": x_um, "y": [min(1.0, max(0.0, y)) for y in dep[r]]}
+        for r in res.regions
+    }
+    overlay = {}
+    for w in ("number", "mass"):
+        ys = [dist.density_per_ln_d(x, w) for x in xs]
+        top = max(ys) if ys else 0.0
+        overlay[w] = {
+            "label": f"Your distribution by {w} (dW/dln d, scaled to peak 1)",
+            "x": x_um,
+            "y": [y / top if top > 0 else 0.0 for y in ys],
+        }
+    hours = res.duration / 3600.0
+    bars: dict[str, Any] = {
+        "regions": [REGION_LABELS[r] for r in res.regions],
+        "keys": list(res.regions),
+        "per": f"{hours:g} h",
+    }
+    for w in ("number", "surface", "mass"):
+        factor, unit, _ = _DOSE_UNITS[w]
+        bars[w] = {
+            "label": f"Deposited {_WEIGHT_LABEL[w]} in {hours:g} h",
+            "unit": unit,
+            "y": [res.doses[r][w] / factor for r in res.regions],
+            "per_hour": [res.rates[r][w] * 3600.0 / factor for r in res.regions],
+        }
+    return {
+        "x_label": "Particle diameter (volume-equivalent)",
+        "x_unit": "µm",
+        "y_label": "Deposition fraction",
+        "y_unit": "–",
+        "deposition": series,
+        "distribution": overlay,
+        "dose_bars": bars,
+    }
+
+
+def _warnings(
+    dist: Any, subject: Subject, model: str, res: DoseResult, v: dict[str, Any]
+) -> list[str]:
+    modes = getattr(dist, "modes", None)
+    if modes is not None:
+        lo = min(m.median("number") / m.gsd**3.29 for m in modes)  # 0.05 % of number
+        hi = max(m.median("mass") * m.gsd**3.29 for m in modes)  # 99.95 % of mass
+    else:
+        lo, hi = dist.edges[0], dist.edges[-1]
+    out = icrp66_warnings(lo, hi, subject) if model == "icrp66" else simplified_warnings(lo, hi)
+    if model == "simplified":
+        out.append(
+            "The simplified fits describe unit-density spheres averaged over breathing "
+            "conditions; they are entered with the aerodynamic diameter above 0.5 µm and the "
+            "physical diameter below, and ignore the breathing chosen except for the "
+            "ventilation."
+        )
+    labels = {"number": "number", "mass": "mass"}
+    for metric, ratio in res.benchmark.items():
+        if ratio > 1.0:
+            out.append(
+                f"The airborne {labels[metric]} concentration is {ratio:.3g} times the "
+                "benchmark you entered."
+            )
+    if v["breathing"] == "custom" and v["nasal_fraction"] < 1.0 and model == "icrp66":
+        out.append(
+            "Part of the air is breathed through the mouth: the mouth deposits fewer coarse "
+            "particles than the nose, so more reach the lungs."
+        )
+    return out
