@@ -146,20 +146,21 @@ def build(dist: Path = DIST) -> dict:
     wheel = build_wheel(dist / "wheels")
     forms = describe_forms()
     (dist / "forms.json").write_text(json.dumps(forms, ensure_ascii=False, indent=1) + "\n")
+    files = sorted(p for p in dist.rglob("*") if p.is_file())
+    precache = [{"url": p.relative_to(dist).as_posix(), "sha256": _sha256(p)} for p in files]
+    digest = hashlib.sha256(json.dumps(precache).encode()).hexdigest()[:16]
     info = {
         "version": forms["version"],
         "pyodide": versions["pyodide"],
         "chartjs": versions["chart.js"],
         "wheel": f"wheels/{wheel.name}",
+        "build": digest,
     }
     (dist / "build-info.json").write_text(json.dumps(info, indent=1) + "\n")
-    files = sorted(p for p in dist.rglob("*") if p.is_file() and p.name != "precache.json")
-    precache = [{"url": p.relative_to(dist).as_posix(), "sha256": _sha256(p)} for p in files]
-    digest = hashlib.sha256(json.dumps(precache).encode()).hexdigest()[:16]
+    precache.append({"url": "build-info.json", "sha256": _sha256(dist / "build-info.json")})
     (dist / "precache.json").write_text(
         json.dumps({"build": digest, "files": precache}, indent=1) + "\n"
     )
-    info["build"] = digest
     return info
 
 

@@ -1,16 +1,22 @@
 // Page start-up: build the panels from the published field descriptions, start the engine,
-// keep the URL fragment in step with the inputs, and show the engine's loading progress.
+// keep the URL fragment in step with the inputs, show loading progress, and offer the record
+// tools (copy link, save/load inputs, printable report) and the offline service worker.
 import { Engine } from "./engine.js";
 import { el } from "./forms.js";
+import { download, readText, stamp } from "./files.js";
+import { buildReport } from "./report.js";
 import { STATE_VERSION, decodeState, encodeState } from "./state.js";
 import * as motion from "./panels/motion.js";
 
-const PANELS = [motion];
+export const PANELS = [motion];
+const STATE_FORMAT = "drift-and-dose-inputs";
 
 const root = document.documentElement;
-export const engine = new Engine(new URL("./worker.js", import.meta.url));
-const controllers = new Map();
+const workerFactory = globalThis.driftdoseWorkerFactory;
+export const engine = new Engine(workerFactory ? workerFactory() : new URL("./worker.js", import.meta.url));
+export const controllers = new Map();
 let active = PANELS[0].id;
+let engineInfo = { version: "", pyodide: "" };
 
 engine.onStatus((status) => {
   const text = document.getElementById("engine-text");
@@ -19,6 +25,7 @@ engine.onStatus((status) => {
     text.textContent = status.text;
     bar.value = status.value;
   } else if (status.type === "ready") {
+    engineInfo = { version: status.version, pyodide: status.pyodide };
     root.dataset.engine = "ready";
     text.textContent = "Ready — results update as you type.";
     bar.value = 100;
@@ -35,18 +42,23 @@ function showPanel(pid, focus = false) {
   active = pid;
   for (const p of PANELS) {
     const selected = p.id === pid;
-    document.getElementById(`tab-${p.id}`).setAttribute("aria-selected", String(selected));
-    document.getElementById(`tab-${p.id}`).tabIndex = selected ? 0 : -1;
+    const tab = document.getElementById(`tab-${p.id}`);
+    tab.setAttribute("aria-selected", String(selected));
+    tab.tabIndex = selected ? 0 : -1;
     document.getElementById(`panel-${p.id}`).hidden = !selected;
   }
   if (focus) document.getElementById(`tab-${pid}`).focus();
   writeState();
 }
 
-function writeState() {
+function allInputs() {
   const panels = {};
   for (const [pid, controller] of controllers) panels[pid] = controller.getState();
-  history.replaceState(null, "", `#${encodeState(active, panels)}`);
+  return panels;
+}
+
+function writeState() {
+  history.replaceState(null, "", `#${encodeState(active, allInputs())}`);
 }
 
 function notice(message) {
@@ -55,8 +67,106 @@ function notice(message) {
   box.hidden = !message;
 }
 
+function toolMessage(message) {
+  document.getElementById("tool-message").textContent = message;
+}
+
+/** Apply a decoded state {panel, panels}; unknown panels and fields are reported, not fatal. */
+function applyState(state, origin) {
+  const ignored = [];
+  for (const [pid, values] of Object.entries(state.panels || {})) {
+    const controller = controllers.get(pid);
+    if (!controller || typeof values !== "object" || values === null) {
+      ignored.push(pid);
+      continue;
+    }
+    for (const name of Object.keys(values)) {
+      if (!controller.knows(name)) ignored.push(`${pid}.${name}`);
+    }
+    controller.setState(values);
+  }
+  if (state.panel && controllers.has(state.panel)) showPanel(state.panel);
+  const problems = [];
+  if (state.version !== undefined && String(state.version) !== STATE_VERSION) {
+    problems.push(`${origin} was made by another version of the tool (format ${String(state.version).slice(0, 12)}); its inputs were loaded as far as they still apply.`);
+  }
+  if (ignored.length) problems.push(`Ignored unknown entries: ${ignored.slice(0, 6).join(", ").slice(0, 200)}.`);
+  if (problems.length) notice(`${problems.join(" ")} Check the inputs before relying on the results.`);
+}
+
+function setupTools() {
+  document.getElementById("copy-link").addEventListener("click", async () => {
+    writeState();
+    try {
+      await navigator.clipboard.writeText(location.href);
+      toolMessage("Link copied. It reproduces every input on this page.");
+    } catch {
+      toolMessage(`Copy this link: ${location.href}`);
+    }
+  });
+  document.getElementById("save-inputs").addEventListener("click", () => {
+    const state = { format: STATE_FORMAT, version: Number(STATE_VERSION), tool_version: engineInfo.version,
+      saved: new Date().toISOString(), panel: active, panels: allInputs() };
+    download(`drift-dose-inputs-${stamp()}.json`, `${JSON.stringify(state, null, 1)}\n`, "application/json");
+    toolMessage("Inputs saved as a JSON file.");
+  });
+  document.getElementById("load-inputs").addEventListener("change", async (event) => {
+    const file = event.target.files[0];
+    event.target.value = "";
+    if (!file) return;
+    try {
+      const data = JSON.parse(await readText(file, 1024 * 1024));
+      if (!data || data.format !== STATE_FORMAT || typeof data.panels !== "object") {
+        throw new Error("it is not a Drift & Dose inputs file");
+      }
+      notice("");
+      applyState(data, "The file");
+      toolMessage(`Loaded inputs from ${file.name.slice(0, 80)}.`);
+    } catch (err) {
+      toolMessage(`Could not load ${file.name.slice(0, 80)}: ${err.message}.`);
+    }
+  });
+  document.getElementById("print-report").addEventListener("click", () => {
+    prepareReport();
+    window.print();
+  });
+  window.addEventListener("beforeprint", prepareReport);
+}
+
+function prepareReport() {
+  writeState();
+  buildReport(document.getElementById("report"), controllers, engineInfo);
+}
+
+function setupServiceWorker(build) {
+  if (!("serviceWorker" in navigator) || location.protocol !== "http:" && location.protocol !== "https:") return;
+  const banner = document.getElementById("update-banner");
+  const hadController = Boolean(navigator.serviceWorker.controller);
+  navigator.serviceWorker.register(`sw.js?build=${encodeURIComponent(build)}`).then((reg) => {
+    const offer = (worker) => {
+      if (!worker || !hadController) return;
+      banner.hidden = false;
+      document.getElementById("update-reload").onclick = () => worker.postMessage("skip-waiting");
+    };
+    if (reg.waiting) offer(reg.waiting);
+    reg.addEventListener("updatefound", () => {
+      const worker = reg.installing;
+      worker.addEventListener("statechange", () => {
+        if (worker.state === "installed") offer(worker);
+      });
+    });
+  }).catch(() => {});
+  let reloading = false;
+  navigator.serviceWorker.addEventListener("controllerchange", () => {
+    if (hadController && !reloading) {
+      reloading = true;
+      location.reload();
+    }
+  });
+}
+
 async function start() {
-  const forms = await (await fetch("forms.json")).json();
+  const forms = globalThis.driftdoseForms || await (await fetch("forms.json")).json();
   document.getElementById("app-version").textContent = forms.version;
   const tabs = document.getElementById("panel-tabs");
   const panels = document.getElementById("panels");
@@ -77,15 +187,13 @@ async function start() {
     controller.onChange(() => writeState());
     controllers.set(p.id, controller);
   }
+  setupTools();
   const state = decodeState(location.hash);
-  if (state) {
-    if (state.version !== STATE_VERSION) {
-      notice("This link was made by another version of the tool; its inputs were loaded as far as they still apply. Check them before relying on the results.");
-    }
-    for (const [pid, values] of Object.entries(state.panels)) controllers.get(pid)?.fields.setValues(values);
-    if (state.panel && controllers.has(state.panel)) active = state.panel;
-  }
+  if (state) applyState(state, "This link");
   showPanel(active);
+  if (!globalThis.driftdoseForms) {
+    fetch("build-info.json").then((r) => r.json()).then((info) => setupServiceWorker(info.build)).catch(() => {});
+  }
   try {
     await engine.ready;
   } catch {

@@ -53,6 +53,15 @@ export class Engine {
     });
   }
 
+  /** Turn a reply into CSV text ("results" or "curves") with the core's exporter. */
+  exportCsv(reply, part) {
+    const id = this.nextId++;
+    return new Promise((resolve) => {
+      this.pending.set(id, { resolve });
+      this.worker.postMessage({ id, op: "export", reply, part });
+    });
+  }
+
   /**
    * Send a request on a named channel; resolves with the reply, or with null when a newer
    * request on the same channel was sent meanwhile (the page keeps only the newest answer).

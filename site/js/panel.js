@@ -3,6 +3,7 @@
 // the last good results, warnings and sources. A panel supplies only its own rendering.
 import { FieldSet, el } from "./forms.js";
 import { formatNumber } from "./format.js";
+import { download, stamp } from "./files.js";
 
 export class CalcPanel {
   /**
@@ -15,6 +16,8 @@ export class CalcPanel {
     this.busy = false;
     this.queued = false;
     this.lastGood = null;
+    this.lastGoodInputs = null;
+    this.demoLabel = "";
     this.listeners = new Set();
 
     root.append(el("h2", { id: `${opts.id}-title` }, opts.title));
@@ -38,11 +41,58 @@ export class CalcPanel {
     this.output.append(this.warnings);
     this.sources = el("details", { class: "sources" });
     this.output.append(this.sources);
+    const tools = el("div", { class: "export-tools", role: "group", "aria-label": "Exports" });
+    const csvResults = el("button", { type: "button", class: "secondary" }, "Download results (CSV)");
+    csvResults.addEventListener("click", () => this.exportCsv("results"));
+    const csvCurves = el("button", { type: "button", class: "secondary" }, "Download curves (CSV)");
+    csvCurves.addEventListener("click", () => this.exportCsv("curves"));
+    tools.append(csvResults, csvCurves);
+    this.output.append(tools);
     grid.append(this.output);
     root.append(grid);
 
     this.fields = new FieldSet(this.fieldsBox, opts.description.fields, opts.id);
-    this.fields.onInput(() => this.schedule());
+    this.fields.onInput(() => {
+      this.demoLabel = "";
+      this.schedule();
+    });
+  }
+
+  /** Whether `name` is an input of this panel (for reporting unknown link entries). */
+  knows(name) {
+    return this.fields.handles.has(name);
+  }
+
+  isStale() {
+    return this.output.classList.contains("stale");
+  }
+
+  /** Rows {label, value, unit} describing `inputs` in the words of the form. */
+  describeInputs(inputs) {
+    const rows = [];
+    for (const field of this.opts.description.fields) {
+      const raw = inputs ? inputs[field.name] : undefined;
+      if (raw === undefined) continue;
+      if (field.kind === "choice") {
+        const choice = (field.choices || []).find((c) => c.value === raw);
+        rows.push({ label: field.label, value: choice ? choice.label : String(raw), unit: "" });
+      } else if (raw && typeof raw === "object" && "value" in raw) {
+        const unit = (field.units || []).find((u) => u.unit === raw.unit);
+        const label = unit ? unit.label : String(raw.unit ?? "");
+        rows.push({ label: field.label, value: String(raw.value), unit: label === "–" ? "" : label });
+      } else if (field.kind === "data") {
+        rows.push({ label: field.label, value: this.opts.describeData ? this.opts.describeData(field.name, raw) : JSON.stringify(raw), unit: "" });
+      } else {
+        rows.push({ label: field.label, value: String(raw), unit: "" });
+      }
+    }
+    return rows;
+  }
+
+  async exportCsv(part) {
+    if (!this.lastGood) return;
+    const reply = await this.engine.exportCsv(this.lastGood, part);
+    if (reply && reply.ok) download(`drift-dose-${this.opts.id}-${part}-${stamp()}.csv`, reply.text, "text/csv;charset=utf-8");
   }
 
   onChange(listener) {
@@ -73,7 +123,8 @@ export class CalcPanel {
     this.queued = false;
     this.root.setAttribute("aria-busy", "true");
     const started = performance.now();
-    const reply = await this.engine.latestOn(this.opts.id, this.opts.kind, this.inputs());
+    const inputs = this.inputs();
+    const reply = await this.engine.latestOn(this.opts.id, this.opts.kind, inputs);
     this.busy = false;
     if (this.queued) {
       this.recalc();
@@ -81,7 +132,7 @@ export class CalcPanel {
     }
     this.root.removeAttribute("aria-busy");
     if (!reply) return;
-    this.apply(reply);
+    this.apply(reply, inputs);
     this.root.dataset.updatedMs = String(performance.now() - started);
     this.root.dataset.updates = String(Number(this.root.dataset.updates || 0) + 1);
   }
@@ -91,7 +142,7 @@ export class CalcPanel {
     return this.fields.values();
   }
 
-  apply(reply) {
+  apply(reply, inputs) {
     const orphans = this.fields.showErrors(reply.ok ? [] : reply.errors);
     if (!reply.ok) {
       this.formMessage.textContent = orphans.join(" ");
@@ -103,6 +154,7 @@ export class CalcPanel {
     }
     this.formMessage.hidden = true;
     this.lastGood = reply;
+    this.lastGoodInputs = inputs;
     this.output.classList.remove("stale");
     this.staleNote.hidden = true;
     this.opts.render(reply, this);

@@ -5,6 +5,7 @@ import { loadPyodide } from "../pyodide/pyodide.mjs";
 
 const base = new URL("../", import.meta.url);
 let handleJson = null;
+let exporter = null;
 
 function progress(value, text) {
   postMessage({ type: "progress", value, text });
@@ -21,6 +22,7 @@ async function start() {
   progress(90, "Preparing…");
   const api = pyodide.pyimport("driftdose.api");
   handleJson = api.handle_json;
+  exporter = pyodide.pyimport("driftdose.export");
   const version = JSON.parse(handleJson(JSON.stringify({ kind: "describe" }))).version;
   postMessage({ type: "ready", version, pyodide: pyodide.version, ms: performance.now() - t0 });
 }
@@ -30,12 +32,19 @@ const started = start().catch((err) => {
   throw err;
 });
 
+function exportCsv(reply, part) {
+  const fn = part === "curves" ? exporter.curves_csv_json : exporter.results_csv_json;
+  return { ok: true, text: fn(JSON.stringify(reply)) };
+}
+
 self.addEventListener("message", async (event) => {
-  const { id, kind, inputs } = event.data;
+  const { id, kind, inputs, op } = event.data;
   let reply;
   try {
     await started;
-    reply = JSON.parse(handleJson(JSON.stringify({ kind, inputs })));
+    reply = op === "export"
+      ? exportCsv(event.data.reply, event.data.part)
+      : JSON.parse(handleJson(JSON.stringify({ kind, inputs })));
   } catch (err) {
     reply = { ok: false, errors: [{ field: "", message: "The calculation engine is not available." }] };
   }

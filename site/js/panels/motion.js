@@ -36,6 +36,7 @@ export function mount(root, { engine, description }) {
     id, kind: "motion", title: "How it moves: diffusion versus settling",
     intro: "For a particle of one size: how far Brownian motion carries it and how far it settles in the same time, where the two are equal, and how long each takes to cross a reference distance such as an alveolus.",
     legend: "Particle and air",
+    tableKeys: TABLE_KEYS,
     engine, description,
     render(reply) {
       tableBox.replaceChildren(resultsTable(reply.results, "Properties of this particle", TABLE_KEYS));

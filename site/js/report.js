@@ -1,0 +1,82 @@
+// The printable record: built from each panel's last valid inputs and reply, shown only in
+// print (the browser's "Save as PDF" makes the file). Everything is inserted as text.
+import { el } from "./forms.js";
+import { resultsTable } from "./panel.js";
+
+const CAUTIONS = [
+  "These are screening estimates from published models, each valid within the stated range.",
+  "They are not a substitute for measurement or for professional judgment.",
+  "Local regulations, exposure limits and licensed practice take precedence.",
+];
+
+/** Fill `target` with the record of every panel in `controllers` (Map id -> CalcPanel). */
+export function buildReport(target, controllers, { version, pyodide }) {
+  const now = new Date();
+  const parts = [
+    el("h1", {}, "Drift & Dose — screening record"),
+    el("p", { class: "report-meta" },
+      `Prepared ${now.toLocaleString()} (${now.toISOString()}) with Drift & Dose ${version}, Python engine Pyodide ${pyodide || "(not loaded)"}.`),
+    el("p", { class: "report-meta" }, `Link to these inputs: ${location.href}`),
+  ];
+  const cautions = el("section", { class: "report-cautions" });
+  cautions.append(el("h2", {}, "Cautions"));
+  const list = el("ul");
+  for (const c of CAUTIONS) list.append(el("li", {}, c));
+  cautions.append(list);
+  parts.push(cautions);
+  for (const controller of controllers.values()) {
+    parts.push(panelRecord(controller));
+  }
+  target.replaceChildren(...parts);
+}
+
+function panelRecord(controller) {
+  const section = el("section", { class: "report-panel" });
+  section.append(el("h2", {}, controller.opts.title));
+  const reply = controller.lastGood;
+  if (!reply) {
+    section.append(el("p", {}, "No valid result for this calculation yet."));
+    return section;
+  }
+  if (controller.demoLabel) {
+    section.append(el("p", { class: "report-demo" },
+      `Invented demo data: ${controller.demoLabel}. Not a measurement.`));
+  }
+  if (controller.isStale()) {
+    section.append(el("p", { class: "report-demo" },
+      "The current inputs are not valid; this record shows the last valid inputs and their results."));
+  }
+  section.append(el("h3", {}, "Inputs"));
+  const inputs = el("table", { class: "results" });
+  const body = el("tbody");
+  for (const row of controller.describeInputs(controller.lastGoodInputs)) {
+    const tr = el("tr");
+    tr.append(el("th", { scope: "row" }, row.label), el("td", {}, row.value), el("td", {}, row.unit));
+    body.append(tr);
+  }
+  inputs.append(body);
+  section.append(inputs);
+  section.append(el("h3", {}, "Results"));
+  section.append(resultsTable(reply.results, "Results", controller.opts.tableKeys));
+  for (const canvas of controller.root.querySelectorAll("canvas")) {
+    if (!canvas.width || !canvas.height) continue;
+    const img = el("img", { class: "report-chart", src: canvas.toDataURL("image/png"), alt: canvas.getAttribute("aria-label") || "Chart" });
+    section.append(img);
+  }
+  if (reply.warnings && reply.warnings.length) {
+    section.append(el("h3", {}, "Warnings raised"));
+    const ul = el("ul");
+    for (const w of reply.warnings) ul.append(el("li", {}, w));
+    section.append(ul);
+  }
+  section.append(el("h3", {}, "Models, sources and validity"));
+  const ol = el("ol");
+  for (const s of reply.sources || []) ol.append(el("li", {}, s.citation));
+  section.append(ol);
+  if (reply.assumptions && reply.assumptions.length) {
+    const ul = el("ul");
+    for (const a of reply.assumptions) ul.append(el("li", {}, a));
+    section.append(ul);
+  }
+  return section;
+}
