@@ -26,7 +26,7 @@ from dataclasses import dataclass, field
 from .deposition import REGIONS as ICRP_REGIONS
 from .deposition import Subject, icrp66_curves, simplified_icrp
 from .deposition.simplified import REGIONS as SIMPLE_REGIONS
-from .distribution import WEIGHTS, BinnedSpectrum, Distribution
+from .distribution import WEIGHTS, Distribution
 from .particle import aerodynamic_diameter
 
 __all__ = [
@@ -139,7 +139,7 @@ def deposited_dose(
     model: str = "icrp66",
     benchmark_number: float | None = None,
     benchmark_mass: float | None = None,
-    nodes: int = 48,
+    step: float | None = None,
 ) -> DoseResult:
     """Deposited number, surface area and mass per region over an exposure.
 
@@ -159,8 +159,9 @@ def deposited_dose(
         A number concentration to compare with. [1/m^3]
     benchmark_mass : float, optional
         A mass concentration to compare with. [kg/m^3]
-    nodes : int
-        Gauss–Hermite nodes per lognormal mode.
+    step : float, optional
+        Integration grid step in ln d for lognormal modes (default: see
+        :meth:`~driftdose.distribution.LognormalMode.grid`).
 
     Returns
     -------
@@ -184,26 +185,12 @@ def deposited_dose(
     volume = ventilation * duration
     sums = {r: dict.fromkeys(WEIGHTS, 0.0) for r in regions}
     for mode in _modes(distribution):
-        per_weight = {w: mode.quadrature(w, nodes) for w in WEIGHTS}
-        if isinstance(mode, BinnedSpectrum):
-            sizes = [d for d, _ in per_weight["number"]]
-            curves = deposition_curves(model, sizes, mode.density, mode.shape_factor, subject)
-            for w, quad in per_weight.items():
-                for r in regions:
-                    sums[r][w] += math.fsum(
-                        q * f for (_, q), f in zip(quad, curves[r], strict=True)
-                    )
-            continue
-        sizes = [d for w in WEIGHTS for d, _ in per_weight[w]]
+        sizes = mode.grid(step)
         curves = deposition_curves(model, sizes, mode.density, mode.shape_factor, subject)
-        offset = 0
         for w in WEIGHTS:
-            quad = per_weight[w]
-            n = len(quad)
+            quad = mode.quadrature(w, step)
             for r in regions:
-                vals = curves[r][offset : offset + n]
-                sums[r][w] += math.fsum(q * f for (_, q), f in zip(quad, vals, strict=True))
-            offset += n
+                sums[r][w] += math.fsum(q * f for (_, q), f in zip(quad, curves[r], strict=True))
     ambient = {w: distribution.total(w) for w in WEIGHTS}
     fractions = {
         r: {w: (sums[r][w] / ambient[w] if ambient[w] > 0 else 0.0) for w in WEIGHTS}
