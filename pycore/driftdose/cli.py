@@ -1,0 +1,995 @@
+"""Command line over :mod:`driftdose.api`: ``python -m driftdose`` (or ``driftdose``).
+
+Every calculation in the registry gets a subcommand whose flags are generated from its field
+descriptions (:func:`driftdose.api.describe`), so a new calculation needs no change here::
+
+    python -m driftdose motion --particle-diameter 2.5um --diameter-type aerodynamic
+    python -m driftdose motion --input saved.json --format csv --curves curves.csv
+    python -m driftdose describe
+    python -m driftdose run saved.json
+    python -m driftdose batch <calculation> --spectra a.csv b.csv --out table.csv
+
+Requests go through :func:`driftdose.api.handle_json`, the very path the page's worker uses, so
+every number printed here equals the page's: tables use the page's rounding (four significant
+figures, the semantics of JavaScript's ``Number.prototype.toPrecision``; see
+``site/js/format.js``).
+
+Exit status: 0 on success, 2 for invalid input (each problem printed as ``field: message`` on
+standard error), 1 for an unexpected failure.
+
+Standard library only (argparse, csv, json, decimal), so the module also imports under Pyodide.
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import io
+import json
+import math
+import os
+import re
+import sys
+import textwrap
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+from decimal import ROUND_HALF_UP, Decimal
+from pathlib import Path
+from typing import Any, NoReturn, TextIO
+
+from . import __version__, api
+
+__all__ = ["UserError", "format_number", "main", "plain_number", "to_precision"]
+
+PROG = "driftdose"
+EXIT_OK, EXIT_FAILURE, EXIT_USAGE = 0, 1, 2
+SIG_FIGS = 4  # as SIG_FIGS in site/js/format.js
+COMMANDS = ("describe", "run", "batch")  # subcommands that are not calculations
+QUANTITY_KINDS_EXCLUDED = ("choice", "integer", "text", "data")
+MAX_FILE_BYTES = 64 * 1024 * 1024  # a guard against reading huge files; the api sets the limits
+_SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+_NUMBER_THEN_UNIT = re.compile(
+    r"^\s*([-+\u2212]?(?:\d[\d,]*(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$"
+)
+
+
+class UserError(Exception):
+    """A problem with what the user gave; printed as ``field: message``, exit status 2."""
+
+    def __init__(self, field: str, message: str) -> None:
+        super().__init__(message)
+        self.field = field
+        self.message = message
+
+
+# --- numbers as the page shows them ---------------------------------------------------------
+
+
+def to_precision(value: float, digits: int) -> str:
+    """Return ``value.toPrecision(digits)`` exactly as JavaScript writes it.
+
+    ECMAScript's ``Number.prototype.toPrecision`` rounds the exact binary value to ``digits``
+    significant figures, taking the larger candidate on an exact tie (half away from zero),
+    and switches to exponential notation when the decimal exponent is below -6 or at least
+    ``digits``. Python's ``format(x, ".4g")`` rounds ties to even and so differs on values
+    such as 1.0625.
+
+    >>> to_precision(1.0625, 4), to_precision(12345.6, 4), to_precision(-0.000123456, 3)
+    ('1.063', '1.235e+4', '-0.000123')
+    """
+    digits_text, exponent = _round_significant(value, digits)
+    sign = "-" if value < 0 else ""
+    if exponent < -6 or exponent >= digits:
+        mantissa = digits_text[0] + ("." + digits_text[1:] if digits > 1 else "")
+        return f"{sign}{mantissa}e{'+' if exponent >= 0 else '-'}{abs(exponent)}"
+    if exponent >= digits - 1:
+        return sign + digits_text
+    if exponent >= 0:
+        return f"{sign}{digits_text[: exponent + 1]}.{digits_text[exponent + 1 :]}"
+    return f"{sign}0.{'0' * (-exponent - 1)}{digits_text}"
+
+
+def to_exponential(value: float, fraction_digits: int) -> str:
+    """Return ``value.toExponential(fraction_digits)`` as JavaScript writes it (``2.735e-11``)."""
+    digits_text, exponent = _round_significant(value, fraction_digits + 1)
+    sign = "-" if value < 0 else ""
+    mantissa = digits_text[0] + ("." + digits_text[1:] if fraction_digits else "")
+    return f"{sign}{mantissa}e{'+' if exponent >= 0 else '-'}{abs(exponent)}"
+
+
+def _round_significant(value: float, digits: int) -> tuple[str, int]:
+    """Digits (``digits`` of them) and decimal exponent of ``|value|``, ties away from zero."""
+    exact = abs(Decimal(value))  # the exact binary value, as the ECMAScript algorithm uses
+    if exact == 0:
+        return "0" * digits, 0
+    exponent = exact.adjusted()
+    scaled = exact.scaleb(digits - 1 - exponent).quantize(Decimal(1), rounding=ROUND_HALF_UP)
+    if scaled >= Decimal(10) ** digits:  # rounded up to the next power of ten
+        exponent += 1
+        scaled = exact.scaleb(digits - 1 - exponent).quantize(Decimal(1), rounding=ROUND_HALF_UP)
+    return str(int(scaled)), exponent
+
+
+def _trim_zeros(text: str) -> str:
+    if "." not in text or "e" in text:
+        return text
+    return re.sub(r"\.?0+$", "", text)
+
+
+def _is_number(value: Any) -> bool:
+    """A finite int or float (``typeof value === "number"`` and finite, in the page's terms)."""
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        return False
+    try:
+        return math.isfinite(value)
+    except OverflowError:  # an int beyond the float range
+        return False
+
+
+def format_number(value: Any, digits: int = SIG_FIGS) -> str:
+    """Format a number exactly as the page does (``formatNumber`` in ``site/js/format.js``).
+
+    >>> format_number(2.73456e-11), format_number(0.12345), format_number(100.0), format_number(0)
+    ('2.735 × 10⁻¹¹', '0.1235', '100', '0')
+    """
+    if not _is_number(value):
+        return "—"
+    if value == 0:
+        return "0"
+    if 1e-3 <= abs(value) < 1e6:
+        return _trim_zeros(to_precision(float(value), digits))
+    mantissa, exponent = to_exponential(float(value), digits - 1).split("e")
+    return f"{_trim_zeros(mantissa)} × 10{str(int(exponent)).translate(_SUPERSCRIPT)}"
+
+
+def plain_number(value: Any, digits: int = SIG_FIGS) -> str:
+    """The page's number written for spreadsheets: same rounding, ``e`` for powers of ten.
+
+    ``digits`` 0 gives the full precision (the shortest text that reads back exactly); a
+    missing value gives an empty text.
+
+    >>> plain_number(2.73456e-11), plain_number(0.12345), plain_number(12345.6)
+    ('2.735e-11', '0.1235', '1.235e+4')
+    """
+    if not _is_number(value):
+        return ""
+    if digits <= 0:
+        return repr(float(value))
+    shown = format_number(value, digits)
+    if " × 10" not in shown:
+        return shown
+    mantissa, power = shown.split(" × 10")
+    return f"{mantissa}e{power.translate(str.maketrans('⁻⁰¹²³⁴⁵⁶⁷⁸⁹', '-0123456789'))}"
+
+
+# --- field descriptions -> flags ------------------------------------------------------------
+
+
+def _is_quantity(fd: dict[str, Any]) -> bool:
+    return fd.get("kind") not in QUANTITY_KINDS_EXCLUDED and "units" in fd
+
+
+def _is_file_field(fd: dict[str, Any]) -> bool:
+    """A text or data field whose value is the content of a file (a CSV spectrum, say)."""
+    if fd.get("kind") not in ("text", "data"):
+        return False
+    hint = " ".join(
+        str(fd.get(k, "")) for k in ("name", "format", "accept", "content", "media_type")
+    ).lower()
+    return "csv" in hint or "spectrum" in hint or "file" in hint
+
+
+def _flag(name: str) -> str:
+    return "--" + name.replace("_", "-")
+
+
+def _unit_text(unit: str) -> str:
+    return "" if unit in ("–", "1", "") else unit
+
+
+def _default_text(fd: dict[str, Any]) -> str:
+    default = fd.get("default")
+    if isinstance(default, dict):
+        unit = next(
+            (u["label"] for u in fd.get("units", []) if u["unit"] == default.get("unit")),
+            default.get("unit", ""),
+        )
+        return f"{_js_string(default.get('value'))} {_unit_text(unit)}".strip()
+    if default is None or default == "":
+        return "none"
+    if isinstance(default, str):
+        return default
+    return json.dumps(default, ensure_ascii=False)
+
+
+def _field_help(fd: dict[str, Any]) -> str:
+    parts = [fd.get("label", fd["name"])]
+    if fd.get("help"):
+        parts.append(fd["help"].rstrip("."))
+    if _is_quantity(fd):
+        labels = [u["label"] for u in fd.get("units", [])]
+        if len(labels) > 1:
+            parts.append("units: " + ", ".join(labels))
+    if fd.get("range"):
+        parts.append(f"valid: {fd['range']}")
+    if fd.get("kind") == "data":
+        parts.append("JSON text or @FILE.json")
+    elif fd.get("kind") == "text":
+        parts.append("a file name" if _is_file_field(fd) else "text or @FILE")
+    parts.append(f"default: {_default_text(fd)}")
+    return ". ".join(parts).replace("%", "%%") + "."
+
+
+@dataclass
+class _FlagMap:
+    """Which field each generated flag sets (``dest`` -> field description)."""
+
+    values: dict[str, dict[str, Any]]
+    units: dict[str, dict[str, Any]]
+    options: dict[str, str]  # option string -> field name (for argparse's messages)
+
+
+def _add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any]]) -> _FlagMap:
+    """Add one flag per field (two for a quantity: value and unit); flags are all optional."""
+    fmap = _FlagMap({}, {}, {})
+    group = parser.add_argument_group("inputs (defaults as on the page)")
+    taken = set(parser._option_string_actions)  # argparse keeps no public list
+
+    def option(name: str) -> str:
+        flag = _flag(name)
+        return flag if flag not in taken else _flag("field_" + name)
+
+    for fd in fields:
+        name = fd["name"]
+        flag = option(name)
+        dest = f"field:{name}"
+        kwargs: dict[str, Any] = {"dest": dest, "default": argparse.SUPPRESS}
+        if fd.get("kind") == "choice":
+            kwargs["choices"] = [c["value"] for c in fd.get("choices", [])]
+            kwargs["metavar"] = "{" + ",".join(kwargs["choices"]) + "}"
+        elif _is_quantity(fd):
+            kwargs["metavar"] = "VALUE[UNIT]"
+        elif fd.get("kind") == "integer":
+            kwargs["metavar"] = "N"
+        elif fd.get("kind") == "data":
+            kwargs["metavar"] = "JSON|@FILE"
+        elif _is_file_field(fd):
+            kwargs["metavar"] = "FILE"
+        else:
+            kwargs["metavar"] = "TEXT|@FILE"
+        aliases = [flag]
+        if _is_file_field(fd) and fd.get("kind") == "text":
+            short = _flag(re.sub(r"_?(csv|text|file)$", "", name) or name)
+            if short != flag and short not in taken and short not in fmap.options:
+                aliases.append(short)
+        group.add_argument(*aliases, help=_field_help(fd), **kwargs)
+        taken.update(aliases)
+        fmap.values[dest] = fd
+        for a in aliases:
+            fmap.options[a] = name
+        if _is_quantity(fd):
+            unit_flag = option(name + "_unit")
+            unit_dest = f"unit:{name}"
+            offered = ", ".join(u["unit"] for u in fd.get("units", []))
+            group.add_argument(
+                unit_flag,
+                dest=unit_dest,
+                default=argparse.SUPPRESS,
+                metavar="UNIT",
+                help=f"Unit of {flag} when its value has none ({offered}; "
+                f"default {fd['default']['unit']}).".replace("%", "%%"),
+            )
+            taken.add(unit_flag)
+            fmap.units[unit_dest] = fd
+            fmap.options[unit_flag] = name
+    return fmap
+
+
+def _split_quantity(text: str) -> tuple[str, str | None]:
+    """Split ``"100nm"`` or ``"100 nm"`` into value text and unit (None when there is none)."""
+    m = _NUMBER_THEN_UNIT.match(text)
+    if not m:
+        return text, None  # not a number: the api says so, with the valid range
+    return m.group(1), (m.group(2) or None)
+
+
+def _flag_inputs(args: argparse.Namespace, fmap: _FlagMap, base: dict[str, Any]) -> dict[str, Any]:
+    """Inputs from the flags given, on top of ``base`` (the inputs of an --input file)."""
+    inputs = dict(base)
+    given = vars(args)
+    for dest, fd in fmap.values.items():
+        if dest not in given:
+            continue
+        name, raw = fd["name"], given[dest]
+        if _is_quantity(fd):
+            value, unit = _split_quantity(raw)
+            flag_unit = given.get(f"unit:{name}")
+            if unit and flag_unit and unit != flag_unit:
+                raise UserError(
+                    name, f"unit given twice: {unit!r} in the value and {flag_unit!r} by its flag."
+                )
+            unit = unit or flag_unit or _unit_of(base.get(name)) or fd["default"]["unit"]
+            inputs[name] = {"value": value, "unit": unit}
+        elif fd.get("kind") == "data":
+            inputs[name] = _parse_json_text(raw, name)
+        elif fd.get("kind") == "text":
+            if raw.startswith("@") or _is_file_field(fd):
+                inputs[name] = _read_text_file(raw.removeprefix("@"), name, csv_like=True)
+            else:
+                inputs[name] = raw
+        else:
+            inputs[name] = raw
+    for dest, fd in fmap.units.items():  # a unit flag alone changes the unit of the value
+        name = fd["name"]
+        if dest in given and f"field:{name}" not in given:
+            current = base.get(name)
+            value = current.get("value") if isinstance(current, dict) else current
+            if value is None:
+                value = fd["default"]["value"]
+            inputs[name] = {"value": value, "unit": given[dest]}
+    return inputs
+
+
+def _js_string(value: Any) -> str:
+    """A default value written as the page's form writes it (JavaScript ``String(value)``)."""
+    if not isinstance(value, float) or not math.isfinite(value):
+        return str(value)
+    if value.is_integer() and abs(value) < 1e21:
+        return str(int(value))
+    if 1e-6 <= abs(value) < 1e21:
+        return format(Decimal(repr(value)), "f")  # shortest digits, no exponent
+    mantissa, exponent = repr(value).split("e")
+    return f"{mantissa}e{'-' if exponent.startswith('-') else '+'}{int(exponent[1:])}"
+
+
+def _unit_of(raw: Any) -> str | None:
+    return raw.get("unit") if isinstance(raw, dict) and isinstance(raw.get("unit"), str) else None
+
+
+# --- files ------------------------------------------------------------------------------------
+
+
+def _read_bytes(path: str, field: str) -> bytes:
+    try:
+        if path == "-":
+            return sys.stdin.buffer.read(MAX_FILE_BYTES + 1)
+        p = Path(path)
+        if p.is_dir():
+            raise UserError(field, f"{path!r} is a folder, not a file.")
+        with p.open("rb") as fh:
+            data = fh.read(MAX_FILE_BYTES + 1)
+    except OSError as exc:
+        raise UserError(field, f"cannot read {path!r}: {exc.strerror or exc}.") from None
+    if len(data) > MAX_FILE_BYTES:
+        raise UserError(field, f"{path!r} is larger than {MAX_FILE_BYTES // 2**20} MB.")
+    return data
+
+
+def _read_text_file(path: str, field: str, csv_like: bool = False) -> str:
+    """Read a text file as the page's ``File.text()`` does: UTF-8, bad bytes replaced, no BOM.
+
+    The api then judges the content (binary, empty, delimiters) with the page's own messages.
+    """
+    text = _read_bytes(path, field).decode("utf-8", errors="replace" if csv_like else "strict")
+    return text.removeprefix("\ufeff")
+
+
+def _parse_json_text(raw: str, field: str) -> Any:
+    source = raw
+    if raw.startswith("@"):
+        path = raw[1:]
+        try:
+            source = _read_bytes(path, field).decode("utf-8-sig")
+        except UnicodeDecodeError:
+            raise UserError(field, f"{path!r} is not UTF-8 text.") from None
+    try:
+        return json.loads(source)
+    except (ValueError, RecursionError) as exc:
+        where = f" (line {exc.lineno}, column {exc.colno})" if hasattr(exc, "lineno") else ""
+        raise UserError(field, f"not valid JSON{where}.") from None
+
+
+def _load_document(path: str) -> Any:
+    try:
+        text = _read_bytes(path, "input").decode("utf-8-sig")
+    except UnicodeDecodeError:
+        raise UserError("input", f"{path!r} is not UTF-8 text.") from None
+    try:
+        return json.loads(text)
+    except (ValueError, RecursionError) as exc:
+        where = f" (line {exc.lineno}, column {exc.colno})" if hasattr(exc, "lineno") else ""
+        raise UserError("input", f"{path!r} is not valid JSON{where}.") from None
+
+
+def _document_kind(doc: Any) -> str | None:
+    """The calculation a request or saved state names, if any."""
+    if isinstance(doc, dict):
+        if isinstance(doc.get("kind"), str):
+            return doc["kind"]
+        panels = doc.get("panels")
+        if isinstance(panels, dict) and len(panels) == 1:
+            return next(iter(panels))
+        if isinstance(doc.get("panel"), str):
+            return doc["panel"]
+    return None
+
+
+def _document_inputs(doc: Any, kind: str) -> dict[str, Any]:
+    """Inputs for ``kind`` from a request (``{"kind", "inputs"}``), a saved state or a dict.
+
+    Accepted: ``{"inputs": {...}}`` with an optional ``"kind"``; a state of several panels
+    ``{"panels": {kind: {...}}}``; or a plain object of field values.
+    """
+    if not isinstance(doc, dict):
+        raise UserError("input", "the input file must hold a JSON object.")
+    if isinstance(doc.get("kind"), str) and doc["kind"] != kind:
+        raise UserError("kind", f"the input file is for {doc['kind']!r}, not {kind!r}.")
+    if isinstance(doc.get("panels"), dict) and "inputs" not in doc:
+        panels = doc["panels"]
+        if kind not in panels:
+            raise UserError("input", f"the saved state has no inputs for {kind!r}.")
+        doc = panels[kind]
+        if isinstance(doc, dict) and isinstance(doc.get("inputs"), dict):
+            doc = doc["inputs"]
+    elif "inputs" in doc:
+        doc = doc["inputs"]
+    if not isinstance(doc, dict):
+        raise UserError("inputs", "inputs must be an object of named fields.")
+    return doc
+
+
+# --- output -----------------------------------------------------------------------------------
+
+
+def _rows(results: dict[str, Any]) -> Iterable[tuple[str, dict[str, Any]]]:
+    """Result rows (key, row) in reply order; anything not shaped as a row is skipped."""
+    for key, row in results.items():
+        if isinstance(row, dict) and ("value" in row or "text" in row):
+            yield key, row
+
+
+def _row_label(row: dict[str, Any], symbol: bool = True) -> str:
+    label = str(row.get("label", ""))
+    if symbol and row.get("symbol"):
+        label += f" {row['symbol']}"
+    if row.get("note"):
+        label += f" ({row['note']})"
+    return label
+
+
+def _with_unit(label: str, unit: str) -> str:
+    unit = _unit_text(unit)
+    return f"{label} [{unit}]" if unit else label
+
+
+def _table_text(
+    title: str, inputs: list[tuple[str, str]], reply: dict[str, Any], digits: int
+) -> str:
+    out: list[str] = [title, "=" * len(title), ""]
+    if inputs:
+        out.append("Inputs")
+        width = max(len(k) for k, _ in inputs)
+        out += [f"  {k.ljust(width)}  {v}" for k, v in inputs]
+        out.append("")
+    lines = [("Quantity", "Value", "Unit")]
+    for _, row in _rows(reply.get("results", {})):
+        if "text" in row:
+            lines.append((_row_label(row), str(row["text"]), ""))
+        else:
+            shown = format_number(row.get("value"), digits) if digits > 0 else repr(row["value"])
+            lines.append((_row_label(row), shown, _unit_text(str(row.get("unit", "")))))
+    w0 = max(len(a) for a, _, _ in lines)
+    w1 = max(len(b) for _, b, _ in lines)
+    out.append("Results")
+    out += [f"  {a.ljust(w0)}  {b.ljust(w1)}  {c}".rstrip() for a, b, c in lines]
+    wrap = textwrap.TextWrapper(width=100, initial_indent="  - ", subsequent_indent="    ")
+    if reply.get("warnings"):
+        out += ["", "Warnings"]
+        out += [wrap.fill(str(w)) for w in reply["warnings"]]
+    if reply.get("sources"):
+        out += ["", "Published methods used"]
+        for i, s in enumerate(reply["sources"], 1):
+            text = s.get("citation", s) if isinstance(s, dict) else s
+            out.append(
+                textwrap.fill(str(text), 100, initial_indent=f"  {i}. ", subsequent_indent=" " * 5)
+            )
+    return "\n".join(out) + "\n"
+
+
+def _results_csv(reply: dict[str, Any], digits: int) -> str:
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["quantity", "value", "unit", "key"])
+    for key, row in _rows(reply.get("results", {})):
+        if "text" in row:
+            w.writerow([_row_label(row, symbol=False), row["text"], "", key])
+        else:
+            value = plain_number(row.get("value"), digits)
+            w.writerow([_row_label(row, symbol=False), value, _unit_text(row.get("unit", "")), key])
+    return buf.getvalue()
+
+
+@dataclass
+class _Series:
+    name: str
+    x_label: str
+    x_unit: str
+    y_label: str
+    y_unit: str
+    x: list[Any]
+    y: list[Any]
+
+
+_AXIS_KEYS = ("x_label", "x_unit", "y_label", "y_unit")
+
+
+def _curve_series(curves: Any, axes: dict[str, str] | None = None, prefix: str = "") -> list:
+    """Flatten a reply's curves into series: any object with lists ``x`` and ``y`` is one.
+
+    Axis labels and units (``x_label``, ``x_unit``, ``y_label``, ``y_unit``) are inherited
+    from the enclosing object; a chart nested in another is named ``outer/inner``.
+    """
+    if not isinstance(curves, dict):
+        return []
+    axes = dict(axes or {})
+    axes.update({k: str(curves[k]) for k in _AXIS_KEYS if isinstance(curves.get(k), str)})
+    out: list[_Series] = []
+    for key, val in curves.items():
+        if not isinstance(val, dict):
+            continue
+        if isinstance(val.get("x"), list) and isinstance(val.get("y"), list):
+            own = dict(axes)
+            own.update({k: str(val[k]) for k in _AXIS_KEYS if isinstance(val.get(k), str)})
+            out.append(
+                _Series(
+                    prefix + str(val.get("label", key)),
+                    own.get("x_label", "x"),
+                    own.get("x_unit", ""),
+                    own.get("y_label", "y"),
+                    own.get("y_unit", ""),
+                    val["x"],
+                    val["y"],
+                )
+            )
+        else:
+            out += _curve_series(val, axes, f"{prefix}{key}/")
+    return out
+
+
+def _cell(value: Any) -> str:
+    if _is_number(value):
+        return repr(float(value)) if isinstance(value, float) else str(value)
+    return "" if value is None else str(value)
+
+
+def _curves_csv(curves: Any) -> str:
+    """Curves as CSV: one row per point, with a header naming each quantity and its unit."""
+    series = _curve_series(curves)
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    axes = {(s.x_label, s.x_unit, s.y_label, s.y_unit) for s in series}
+    if len(axes) <= 1:
+        xl, xu, yl, yu = next(iter(axes), ("x", "", "y", ""))
+        w.writerow(["series", _with_unit(xl, xu), _with_unit(yl, yu)])
+        for s in series:
+            for x, y in zip(s.x, s.y, strict=False):
+                w.writerow([s.name, _cell(x), _cell(y)])
+    else:  # charts with different axes: name the quantity and unit on every row
+        w.writerow(["series", "x quantity", "x unit", "x", "y quantity", "y unit", "y"])
+        for s in series:
+            for x, y in zip(s.x, s.y, strict=False):
+                w.writerow([s.name, s.x_label, s.x_unit, _cell(x), s.y_label, s.y_unit, _cell(y)])
+    return buf.getvalue()
+
+
+def _write(path: str | None, text: str, stdout: TextIO) -> None:
+    if path in (None, "-"):
+        stdout.write(text)
+        return
+    try:
+        with open(path, "w", encoding="utf-8", newline="") as fh:
+            fh.write(text)
+    except OSError as exc:
+        raise UserError("out", f"cannot write {path!r}: {exc.strerror or exc}.") from None
+
+
+def _input_summary(fields: list[dict[str, Any]], inputs: dict[str, Any]) -> list[tuple[str, str]]:
+    """(label, value as given) for every field, defaults filled in, for the table's record."""
+    out = []
+    for fd in fields:
+        raw = inputs.get(fd["name"])
+        if raw is None:
+            raw = fd.get("default")
+        if isinstance(raw, dict) and "value" in raw and _is_quantity(fd):
+            unit = next(
+                (u["label"] for u in fd.get("units", []) if u["unit"] == raw.get("unit")),
+                str(raw.get("unit", "")),
+            )
+            shown = f"{_js_string(raw['value'])} {_unit_text(unit)}".strip()
+        elif fd.get("kind") == "choice":
+            shown = next((c["label"] for c in fd.get("choices", []) if c["value"] == raw), str(raw))
+        elif isinstance(raw, str):
+            lines = raw.count("\n") + 1
+            shown = raw if lines == 1 and len(raw) <= 60 else f"(text, {lines} lines)"
+        else:
+            text = json.dumps(raw, ensure_ascii=False)
+            shown = text if len(text) <= 60 else f"(data, {len(text)} characters)"
+        out.append((fd.get("label", fd["name"]), shown))
+    return out
+
+
+# --- running ----------------------------------------------------------------------------------
+
+
+def _call(kind: str, inputs: dict[str, Any]) -> dict[str, Any]:
+    """Ask the api exactly as the page's worker does: JSON text in, JSON text out."""
+    return json.loads(api.handle_json(json.dumps({"kind": kind, "inputs": inputs})))
+
+
+def _print_errors(errors: Sequence[dict[str, Any]], stderr: TextIO, prefix: str = "") -> None:
+    for e in errors:
+        stderr.write(f"{prefix}{e.get('field') or 'error'}: {e.get('message', '')}\n")
+
+
+def _warn_unknown(kind: str, fields: list[dict[str, Any]], inputs: Any, stderr: TextIO) -> None:
+    if not isinstance(inputs, dict):
+        return
+    known = {fd["name"] for fd in fields}
+    for name in inputs:
+        if name not in known:
+            stderr.write(f"note: {kind} has no input {name!r}; it is ignored.\n")
+
+
+def _compute(
+    kind: str,
+    description: dict[str, Any],
+    inputs: dict[str, Any],
+    opts: argparse.Namespace,
+    stdout: TextIO,
+    stderr: TextIO,
+) -> int:
+    fields = description["fields"]
+    _warn_unknown(kind, fields, inputs, stderr)
+    reply = _call(kind, inputs)
+    if not reply.get("ok"):
+        _print_errors(reply.get("errors", []), stderr)
+        return EXIT_USAGE
+    if opts.format == "json":
+        text = json.dumps(reply, indent=2, ensure_ascii=False) + "\n"
+    elif opts.format == "csv":
+        text = _results_csv(reply, opts.digits)
+        for w in reply.get("warnings", []):
+            stderr.write(f"warning: {w}\n")
+    else:
+        text = _table_text(description["title"], _input_summary(fields, inputs), reply, opts.digits)
+    _write(opts.out, text, stdout)
+    if opts.curves:
+        _write(opts.curves, _curves_csv(reply.get("curves", {})), stdout)
+    return EXIT_OK
+
+
+def _batch(
+    kind: str,
+    description: dict[str, Any],
+    base: dict[str, Any],
+    file_field: str,
+    opts: argparse.Namespace,
+    stdout: TextIO,
+    stderr: TextIO,
+) -> int:
+    """Run ``kind`` once per file and write one row per file (numbers in the page's rounding)."""
+    _warn_unknown(kind, description["fields"], base, stderr)
+    fd = next(f for f in description["fields"] if f["name"] == file_field)
+    records: list[tuple[str, dict[str, Any]]] = []
+    status = EXIT_OK
+    for path in opts.files:
+        try:
+            if fd.get("kind") == "data":
+                content: Any = _parse_json_text("@" + path, file_field)
+            else:
+                content = _read_text_file(path, file_field, csv_like=True)
+            reply = _call(kind, {**base, file_field: content})
+        except UserError as exc:
+            reply = {"ok": False, "errors": [{"field": exc.field, "message": exc.message}]}
+        if not reply.get("ok"):
+            _print_errors(reply.get("errors", []), stderr, prefix=f"{path}: ")
+            status = EXIT_USAGE
+        records.append((path, reply))
+
+    if opts.format == "json":
+        doc = [{"file": p, **r} for p, r in records]
+        _write(opts.out, json.dumps(doc, indent=2, ensure_ascii=False) + "\n", stdout)
+        return status
+    columns: dict[str, tuple[str, str, float | None]] = {}  # key -> (label, unit, unit per SI)
+    for _, reply in records:
+        for key, row in _rows(reply.get("results", {}) if reply.get("ok") else {}):
+            if key in columns and columns[key][2] is not None:
+                continue
+            unit = "" if "text" in row else _unit_text(str(row.get("unit", "")))
+            si, value = row.get("si"), row.get("value")
+            per_si = value / si if _is_number(si) and si and _is_number(value) else None
+            columns[key] = (_row_label(row, symbol=False), unit, per_si)
+    header = ["file"] + [_with_unit(lab, unit) for lab, unit, _ in columns.values()]
+    header += ["warnings", "errors"]
+    table = [header]
+    for path, reply in records:
+        line = [path]
+        results = reply.get("results", {}) if reply.get("ok") else {}
+        for key, (_, unit, per_si) in columns.items():
+            row = results.get(key)
+            if not isinstance(row, dict):
+                line.append("")
+            elif "text" in row:
+                line.append(str(row["text"]))
+            else:
+                value = row.get("value")
+                if _unit_text(str(row.get("unit", ""))) != unit and per_si is not None:
+                    value = row.get("si", 0.0) * per_si  # the column's unit, not this row's
+                line.append(plain_number(value, opts.digits))
+        line.append(" | ".join(map(str, reply.get("warnings", []))))
+        line.append(
+            " | ".join(
+                f"{e.get('field') or 'error'}: {e.get('message', '')}"
+                for e in reply.get("errors", [])
+            )
+        )
+        table.append(line)
+    if opts.format == "table":
+        widths = [max(len(r[i]) for r in table) for i in range(len(header) - 2)]
+        text = "".join(
+            "  ".join(c.ljust(w) for c, w in zip(r, widths, strict=False)).rstrip() + "\n"
+            for r in table
+        )
+        problems = [(p, r) for p, r in records if r.get("warnings")]
+        for p, r in problems:
+            text += "".join(f"warning ({p}): {w}\n" for w in r["warnings"])
+    else:
+        buf = io.StringIO()
+        csv.writer(buf, lineterminator="\n").writerows(table)
+        text = buf.getvalue()
+    _write(opts.out, text, stdout)
+    return status
+
+
+# --- the parser -------------------------------------------------------------------------------
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse with messages naming the field (``field: message``) and exit status 2."""
+
+    field_options: dict[str, str]
+
+    def __init__(self, *args: Any, **kwargs: Any) -> None:
+        super().__init__(*args, **kwargs)
+        self.field_options = {}
+        # Let values such as -10degC follow a flag (argparse takes them for options otherwise).
+        if hasattr(self, "_negative_number_matcher"):
+            self._negative_number_matcher = re.compile(r"^-\.?\d")
+
+    def error(self, message: str) -> NoReturn:
+        """Print the problem (naming the field when a field's flag is at fault) and exit 2."""
+        m = re.match(r"argument (\S+?)(?:/\S+)?: (.*)", message, re.S)
+        if m and m.group(1) in self.field_options:
+            self.exit(EXIT_USAGE, f"{self.field_options[m.group(1)]}: {m.group(2)}\n")
+        self.print_usage(sys.stderr)
+        self.exit(EXIT_USAGE, f"{self.prog}: error: {message}\n")
+
+
+def _output_options(parser: argparse.ArgumentParser, batch: bool = False) -> None:
+    out = parser.add_argument_group("output")
+    out.add_argument(
+        "--format",
+        choices=("table", "csv", "json"),
+        default="csv" if batch else "table",
+        help="table (as the page shows it), csv (rows of quantity, value, unit) or json "
+        "(the full reply). Default: %(default)s.",
+    )
+    out.add_argument("--out", metavar="FILE", help="write there instead of standard output")
+    if not batch:
+        out.add_argument(
+            "--curves", metavar="FILE", help="also write the curves (the page's charts) as CSV"
+        )
+    out.add_argument(
+        "--digits",
+        type=int,
+        default=SIG_FIGS,
+        metavar="N",
+        help="significant figures of the numbers (default %(default)s, as the page; "
+        "0 for full precision)",
+    )
+
+
+def _example(kind: str, fields: list[dict[str, Any]]) -> str:
+    for fd in fields:
+        if _is_quantity(fd):
+            d = fd["default"]
+            return f"example: {PROG} {kind} {_flag(fd['name'])} {d['value']}{d['unit']}"
+    return f"example: {PROG} {kind}"
+
+
+def _build_parser(description: dict[str, Any]) -> tuple[_Parser, dict[str, Any]]:
+    calcs = description["calculations"]
+    parser = _Parser(
+        prog=PROG,
+        description="Drift & Dose on the command line: the page's calculations, with the "
+        "same inputs, checks and numbers.",
+        epilog=f"'{PROG} <calculation> --help' lists a calculation's inputs.",
+    )
+    parser.add_argument("--version", action="version", version=f"{PROG} {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="<command>", required=True)
+    info: dict[str, Any] = {"calc": {}, "batch": {}}
+
+    for kind, calc in calcs.items():
+        if kind in COMMANDS:
+            continue  # a calculation may not shadow a command; describe() still lists it
+        p = sub.add_parser(
+            kind,
+            help=calc["title"],
+            description=calc["title"],
+            epilog=_example(kind, calc["fields"]),
+        )
+        p.add_argument(
+            "--input",
+            metavar="FILE",
+            help='inputs from a JSON file: a request {"kind", "inputs"} or a state the '
+            "page saved; flags given as well take precedence ('-' reads standard input)",
+        )
+        _output_options(p)
+        fmap = _add_field_flags(p, calc["fields"])
+        p.field_options = fmap.options
+        info["calc"][kind] = fmap
+
+    p = sub.add_parser("run", help="run a saved request or page state (JSON) as it stands")
+    p.add_argument("file", metavar="FILE", help='JSON: {"kind", "inputs"} or a saved state')
+    _output_options(p)
+
+    p = sub.add_parser("describe", help="list the calculations and their inputs")
+    p.add_argument("kinds", nargs="*", metavar="CALCULATION", help="only these calculations")
+    p.add_argument("--format", choices=("text", "json"), default="text")
+
+    batchable = {
+        kind: [fd for fd in calc["fields"] if _is_file_field(fd)]
+        for kind, calc in calcs.items()
+        if kind not in COMMANDS
+    }
+    batchable = {k: v for k, v in batchable.items() if v}
+    if batchable:
+        bp = sub.add_parser(
+            "batch",
+            help="run a calculation for many files, one row per file: "
+            + ", ".join(sorted(batchable)),
+            description="Run a calculation once per input file and write one table, one row "
+            "per file, a column for each result (units in the header).",
+        )
+        bsub = bp.add_subparsers(dest="batch_kind", metavar="<calculation>", required=True)
+        for kind, file_fields in batchable.items():
+            calc = calcs[kind]
+            ff = file_fields[0]
+            p = bsub.add_parser(kind, help=calc["title"], description=calc["title"])
+            p.add_argument(
+                "--spectra",
+                "--files",
+                dest="files",
+                nargs="+",
+                required=True,
+                metavar="FILE",
+                help=f"files, one run each, read into {ff['label']!r} ({ff['name']})",
+            )
+            p.add_argument(
+                "--input", metavar="FILE", help="the other inputs from a JSON file (as above)"
+            )
+            _output_options(p, batch=True)
+            others = [fd for fd in calc["fields"] if fd["name"] != ff["name"]]
+            fmap = _add_field_flags(p, others)
+            p.field_options = fmap.options
+            info["batch"][kind] = (fmap, ff["name"])
+    return parser, info
+
+
+def _describe_text(description: dict[str, Any], kinds: Sequence[str]) -> str:
+    out = [f"{PROG} {description.get('version', __version__)}", ""]
+    for kind, calc in description["calculations"].items():
+        if kinds and kind not in kinds:
+            continue
+        out.append(f"{kind}: {calc['title']}")
+        for fd in calc["fields"]:
+            kind_text = fd.get("kind", "")
+            out.append(f"  {_flag(fd['name'])}  ({fd['name']}, {kind_text})")
+            details = [fd.get("label", "")]
+            if fd.get("help"):
+                details.append(fd["help"].rstrip("."))
+            if _is_quantity(fd):
+                details.append("units: " + ", ".join(f"{u['unit']}" for u in fd.get("units", [])))
+            if fd.get("choices"):
+                details.append(
+                    "choices: " + "; ".join(f"{c['value']} ({c['label']})" for c in fd["choices"])
+                )
+            if fd.get("range"):
+                details.append(f"valid: {fd['range']}")
+            details.append(f"default: {_default_text(fd)}")
+            out.append(
+                textwrap.fill(
+                    ". ".join(details) + ".",
+                    100,
+                    initial_indent="      ",
+                    subsequent_indent="      ",
+                )
+            )
+        out.append("")
+    return "\n".join(out)
+
+
+def _run(argv: Sequence[str] | None, stdout: TextIO, stderr: TextIO) -> int:
+    description = api.describe()
+    parser, info = _build_parser(description)
+    opts = parser.parse_args(argv)
+    calcs = description["calculations"]
+
+    if opts.command == "describe":
+        unknown = [k for k in opts.kinds if k not in calcs]
+        if unknown:
+            raise UserError(
+                "kind", f"unknown calculation {unknown[0]!r}; valid: {', '.join(calcs)}."
+            )
+        if opts.format == "json":
+            if opts.kinds:
+                description = {
+                    **description,
+                    "calculations": {k: v for k, v in calcs.items() if k in opts.kinds},
+                }
+            stdout.write(json.dumps(description, indent=2, ensure_ascii=False) + "\n")
+        else:
+            stdout.write(_describe_text(description, opts.kinds))
+        return EXIT_OK
+
+    if opts.command == "run":
+        doc = _load_document(opts.file)
+        kind = _document_kind(doc)
+        if kind is None:
+            raise UserError("kind", "the file names no calculation ('kind').")
+        if kind not in calcs:
+            raise UserError("kind", f"unknown calculation {kind!r}; valid: {', '.join(calcs)}.")
+        return _compute(kind, calcs[kind], _document_inputs(doc, kind), opts, stdout, stderr)
+
+    if opts.command == "batch":
+        kind = opts.batch_kind
+        fmap, file_field = info["batch"][kind]
+        base = _document_inputs(_load_document(opts.input), kind) if opts.input else {}
+        base = _flag_inputs(opts, fmap, base)
+        return _batch(kind, calcs[kind], base, file_field, opts, stdout, stderr)
+
+    kind = opts.command
+    base = _document_inputs(_load_document(opts.input), kind) if opts.input else {}
+    inputs = _flag_inputs(opts, info["calc"][kind], base)
+    return _compute(kind, calcs[kind], inputs, opts, stdout, stderr)
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the command line; return the exit status (0 ok, 2 invalid input, 1 failure)."""
+    stdout, stderr = sys.stdout, sys.stderr
+    for stream in (stdout, stderr):  # never fail on a console that cannot show µ or ⁻¹¹
+        if isinstance(stream, io.TextIOWrapper) and stream.encoding.lower() not in (
+            "utf-8",
+            "utf8",
+        ):
+            stream.reconfigure(errors="replace")
+    try:
+        return _run(argv, stdout, stderr)
+    except UserError as exc:
+        stderr.write(f"{exc.field}: {exc.message}\n")
+        return EXIT_USAGE
+    except SystemExit as exc:  # argparse: --help, --version, usage errors
+        code = exc.code
+        return code if isinstance(code, int) else (EXIT_OK if code is None else EXIT_USAGE)
+    except BrokenPipeError:  # e.g. piped into `head`
+        if stdout is sys.__stdout__:
+            devnull = os.open(os.devnull, os.O_WRONLY)
+            os.dup2(devnull, stdout.fileno())
+        return EXIT_FAILURE
+    except KeyboardInterrupt:
+        stderr.write("interrupted\n")
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())
