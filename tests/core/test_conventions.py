@@ -27,8 +27,12 @@ from driftdose.distribution import LognormalMode
         (c.inhalable, 0.0, 1.000),
         (c.inhalable, 100.0, 0.501),
     ],
-    ids=["iso7708-respirable-50pct-4um", "iso7708-thoracic-50pct-10um",
-         "iso7708-inhalable-0um", "iso7708-inhalable-100um"],
+    ids=[
+        "iso7708-respirable-50pct-4um",
+        "iso7708-thoracic-50pct-10um",
+        "iso7708-inhalable-0um",
+        "iso7708-inhalable-100um",
+    ],
 )
 def test_conventions_iso7708_defined_points(func, d_um, expected):
     assert func(d_um * 1e-6) == pytest.approx(expected, abs=5e-4)

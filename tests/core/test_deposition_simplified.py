@@ -1,0 +1,66 @@
+"""Simplified algebraic fits to ICRP 66 (Hinds 1999, eqs. 11.1-11.5).
+
+Published-value checks: eq. 11.1 is the ICRP 66 inhalability; values of the fits at
+sizes Hinds discusses (from memory of his Figure 11.4 and text, to the 2 digits readable
+there). Cross-checks: the fits follow the full ICRP 66 model of this package in where the
+regional maxima and the total minimum lie. Regression pins are labelled as such.
+"""
+
+from __future__ import annotations
+
+import pytest
+
+from driftdose._numerics import logspace
+from driftdose.deposition import icrp66_curves, inhalability, reference_worker, simplified_icrp
+
+
+@pytest.mark.parametrize("d", [1e-9, 1e-7, 1e-6, 5e-6, 20e-6, 100e-6])
+def test_simplified_icrp_inhalable_equals_icrp66_inhalability(d):
+    # Hinds (1999) eq. 11.1 is the ICRP 66 Annex D inhalability (calm air)
+    assert simplified_icrp(d)["inhalable"] == pytest.approx(inhalability(d), rel=1e-12)
+
+
+@pytest.mark.parametrize(
+    ("d_um", "region", "expected"),
+    [
+        # Hinds (1999) Fig. 11.4 (from memory): alveolar deposition peaks near 0.5 at 20 nm
+        (0.02, "alveolar", 0.48),
+        # total deposition is smallest, about 0.13, near 0.3 um
+        (0.3, "total", 0.13),
+        # head-airway deposition reaches about 0.86 at 5 um
+        (5.0, "head_airways", 0.86),
+    ],
+    ids=["hinds1999-fig11.4-AL-20nm", "hinds1999-fig11.4-total-0.3um", "hinds1999-fig11.4-HA-5um"],
+)
+def test_simplified_icrp_hinds_figure(d_um, region, expected):
+    assert simplified_icrp(d_um * 1e-6)[region] == pytest.approx(expected, abs=0.01)
+
+
+def test_simplified_icrp_regression_pin():
+    # regression pin (no claim of truth): values of eqs. 11.2-11.5 at 1 um
+    r = simplified_icrp(1e-6)
+    assert r["head_airways"] == pytest.approx(0.28510, abs=5e-5)
+    assert r["tracheobronchial"] == pytest.approx(0.02715, abs=5e-5)
+    assert r["alveolar"] == pytest.approx(0.12168, abs=5e-5)
+    assert r["total"] == pytest.approx(0.42045, abs=5e-5)
+
+
+def _argmax(xs, ys):
+    return xs[max(range(len(ys)), key=ys.__getitem__)]
+
+
+def test_simplified_icrp_cross_check_peaks_with_full_model():
+    # cross-check between two published forms of the same model: the alveolar maximum
+    # in the ultrafine range and the total-deposition minimum lie at the same sizes
+    # within a factor 2 (the fits average several breathing conditions)
+    xs = logspace(1e-9, 10e-6, 161)
+    full = icrp66_curves(xs, subject=reference_worker())
+    simp = [simplified_icrp(x) for x in xs]
+    fine = [x for x in xs if x < 0.2e-6]
+    n = len(fine)
+    a_full = _argmax(fine, full["AI"][:n])
+    a_simp = _argmax(fine, [s["alveolar"] for s in simp[:n]])
+    assert 0.5 < a_full / a_simp < 2.0
+    m_full = _argmax(xs, [-y for y in full["total"]])
+    m_simp = _argmax(xs, [-s["total"] for s in simp])
+    assert 0.5 < m_full / m_simp < 2.0
