@@ -166,7 +166,7 @@ def _detect_delimiter(lines: list[str]) -> tuple[str, str]:
             continue
         mode = max(set(counts), key=counts.count)
         consistent = counts.count(mode)
-        if mode < 2 or consistent < 0.8 * len(counts):
+        if mode < 2 or consistent < 0.5 * len(counts):
             continue
         numeric = sum(
             1 for r in rows for c in r if _to_number(c, decimal_comma=delim != ",") is not None
@@ -180,6 +180,13 @@ def _detect_delimiter(lines: list[str]) -> tuple[str, str]:
             "semicolons or tabs on every data line."
         )
     return best[2], best[3]
+
+
+def _is_number_spec(spec: Any) -> bool:
+    """Tell whether a column is given by number (int or digit string)."""
+    if isinstance(spec, bool):
+        return False
+    return isinstance(spec, int) or (isinstance(spec, str) and spec.strip().isdigit())
 
 
 def _column_index(spec: Any, header: list[str] | None, label: str) -> int:
@@ -279,7 +286,16 @@ def parse_spectrum_csv(
             continue
         if first_row:
             first_row = False
-            numeric = [_to_number(c, decimal_comma_allowed) is not None for c in cells]
+            by_number = all(_is_number_spec(x) for x in (diameter_column, concentration_column))
+            if by_number:
+                idx = [
+                    _column_index(x, None, "column")
+                    for x in (diameter_column, concentration_column)
+                ]
+                looked = [cells[i] for i in idx if i < len(cells)]
+            else:
+                looked = cells
+            numeric = [_to_number(c, decimal_comma_allowed) is not None for c in looked]
             if not all(numeric):
                 header = cells
                 i_d = _column_index(diameter_column, header, "diameter")
