@@ -325,7 +325,7 @@ FIELDS: tuple[Field, ...] = (
         "volume",
         (1.25, "L"),
         ("L", "m3"),
-        minimum=0.2e-3,
+        minimum=0.1e-3,
         maximum=4e-3,
     ),
     Field(
