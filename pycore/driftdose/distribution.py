@@ -76,11 +76,11 @@ def hatch_choate_median(cmd: float, gsd: float, q: float) -> float:
 
     Examples
     --------
-    A count median of 1 um and GSD 2 gives a mass median of about 4.2 um (Hinds 1999,
-    eq. 4.47 applied as in his Example 4.4 style):
+    A count median of 1 um and GSD 2 gives a mass median of 1 um x exp(3 ln^2 2), about
+    4.23 um:
 
     >>> round(hatch_choate_median(1e-6, 2.0, 3) * 1e6, 2)
-    4.22
+    4.23
 
     """
     return cmd * math.exp(q * math.log(gsd) ** 2)
