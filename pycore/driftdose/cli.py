@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import argparse
 import csv
+import fnmatch
 import io
 import json
 import math
@@ -31,13 +32,14 @@ import os
 import re
 import sys
 import textwrap
+import unicodedata
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from decimal import ROUND_HALF_UP, Decimal
 from pathlib import Path
 from typing import Any, NoReturn, TextIO
 
-from . import __version__, api
+from . import __version__, api, export
 
 __all__ = ["UserError", "format_number", "main", "plain_number", "to_precision"]
 
@@ -170,13 +172,26 @@ def _is_quantity(fd: dict[str, Any]) -> bool:
 
 
 def _is_file_field(fd: dict[str, Any]) -> bool:
-    """A text or data field whose value is the content of a file (a CSV spectrum, say)."""
-    if fd.get("kind") not in ("text", "data"):
-        return False
-    hint = " ".join(
-        str(fd.get(k, "")) for k in ("name", "format", "accept", "content", "media_type")
-    ).lower()
-    return "csv" in hint or "spectrum" in hint or "file" in hint
+    """A field whose value is the text of a file the user picks (a CSV spectrum, say).
+
+    The field description marks it with ``accept`` (the file types the page's file picker
+    offers) or ``max_bytes`` (the largest file taken).
+    """
+    return fd.get("kind") in ("text", "data") and ("accept" in fd or "max_bytes" in fd)
+
+
+def _source_choice(fields: list[dict[str, Any]], file_field: dict[str, Any]) -> tuple[str, str]:
+    """The choice that makes a calculation use its file field: ``("distribution_source",
+    "csv")`` for a field ``csv_text``; ``("", "")`` when there is none.
+    """
+    prefix = file_field["name"].split("_")[0].lower()
+    wanted = {prefix, "csv", "file", "spectrum"}
+    for fd in fields:
+        if fd.get("kind") == "choice":
+            for c in fd.get("choices", []):
+                if str(c["value"]).lower() in wanted:
+                    return fd["name"], c["value"]
+    return "", ""
 
 
 def _flag(name: str) -> str:
@@ -227,12 +242,16 @@ class _FlagMap:
     values: dict[str, dict[str, Any]]
     units: dict[str, dict[str, Any]]
     options: dict[str, str]  # option string -> field name (for argparse's messages)
+    fields: list[dict[str, Any]]
 
 
 def _add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any]]) -> _FlagMap:
-    """Add one flag per field (two for a quantity: value and unit); flags are all optional."""
-    fmap = _FlagMap({}, {}, {})
-    group = parser.add_argument_group("inputs (defaults as on the page)")
+    """Add one flag per field (and a unit flag for a quantity offered in several units).
+
+    A flag that would clash with one of the command's own options becomes ``--field-<name>``.
+    """
+    fmap = _FlagMap({}, {}, {}, fields)
+    group = parser.add_argument_group("inputs (a field left out takes the page's default)")
     taken = set(parser._option_string_actions)  # argparse keeps no public list
 
     def option(name: str) -> str:
@@ -241,46 +260,42 @@ def _add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any
 
     for fd in fields:
         name = fd["name"]
-        flag = option(name)
+        flags = [option(name)]
         dest = f"field:{name}"
         kwargs: dict[str, Any] = {"dest": dest, "default": argparse.SUPPRESS}
         if fd.get("kind") == "choice":
             kwargs["choices"] = [c["value"] for c in fd.get("choices", [])]
             kwargs["metavar"] = "{" + ",".join(kwargs["choices"]) + "}"
         elif _is_quantity(fd):
-            kwargs["metavar"] = "VALUE[UNIT]"
+            kwargs["metavar"] = "VALUE[UNIT]" if len(fd.get("units", [])) > 1 else "VALUE"
         elif fd.get("kind") == "integer":
             kwargs["metavar"] = "N"
-        elif fd.get("kind") == "data":
-            kwargs["metavar"] = "JSON|@FILE"
         elif _is_file_field(fd):
             kwargs["metavar"] = "FILE"
+            wanted = "spectrum" in f"{name} {fd.get('label', '')}".lower()
+            if wanted and "--spectrum" not in taken and "--spectrum" not in fmap.options:
+                flags.append("--spectrum")
+        elif fd.get("kind") == "data":
+            kwargs["metavar"] = "JSON|@FILE"
         else:
             kwargs["metavar"] = "TEXT|@FILE"
-        aliases = [flag]
-        if _is_file_field(fd) and fd.get("kind") == "text":
-            short = _flag(re.sub(r"_?(csv|text|file)$", "", name) or name)
-            if short != flag and short not in taken and short not in fmap.options:
-                aliases.append(short)
-        group.add_argument(*aliases, help=_field_help(fd), **kwargs)
-        taken.update(aliases)
+        group.add_argument(*flags, help=_field_help(fd), **kwargs)
+        taken.update(flags)
         fmap.values[dest] = fd
-        for a in aliases:
-            fmap.options[a] = name
-        if _is_quantity(fd):
+        fmap.options.update(dict.fromkeys(flags, name))
+        if _is_quantity(fd) and len(fd.get("units", [])) > 1:
             unit_flag = option(name + "_unit")
-            unit_dest = f"unit:{name}"
-            offered = ", ".join(u["unit"] for u in fd.get("units", []))
+            offered = ", ".join(u["unit"] for u in fd["units"])
             group.add_argument(
                 unit_flag,
-                dest=unit_dest,
+                dest=f"unit:{name}",
                 default=argparse.SUPPRESS,
                 metavar="UNIT",
-                help=f"Unit of {flag} when its value has none ({offered}; "
+                help=f"Unit of {flags[0]} when its value has none ({offered}; "
                 f"default {fd['default']['unit']}).".replace("%", "%%"),
             )
             taken.add(unit_flag)
-            fmap.units[unit_dest] = fd
+            fmap.units[f"unit:{name}"] = fd
             fmap.options[unit_flag] = name
     return fmap
 
@@ -293,8 +308,15 @@ def _split_quantity(text: str) -> tuple[str, str | None]:
     return m.group(1), (m.group(2) or None)
 
 
-def _flag_inputs(args: argparse.Namespace, fmap: _FlagMap, base: dict[str, Any]) -> dict[str, Any]:
-    """Inputs from the flags given, on top of ``base`` (the inputs of an --input file)."""
+def _flag_inputs(
+    args: argparse.Namespace, fmap: _FlagMap, base: dict[str, Any], origins: dict[str, str]
+) -> dict[str, Any]:
+    """Inputs from the flags given, on top of ``base`` (the inputs of an --input file).
+
+    A quantity's unit is, in this order: written after the number, its ``--<name>-unit``
+    flag, the unit the --input file gave, the field's default unit (as the page's unit menu).
+    ``origins`` records the file each file field was read from.
+    """
     inputs = dict(base)
     given = vars(args)
     for dest, fd in fmap.values.items():
@@ -310,16 +332,21 @@ def _flag_inputs(args: argparse.Namespace, fmap: _FlagMap, base: dict[str, Any])
                 )
             unit = unit or flag_unit or _unit_of(base.get(name)) or fd["default"]["unit"]
             inputs[name] = {"value": value, "unit": unit}
+        elif _is_file_field(fd):
+            path = raw.removeprefix("@")
+            inputs[name] = _read_text_file(path, name)
+            origins[name] = path
+            choice, value = _source_choice(fmap.fields, fd)
+            if choice and f"field:{choice}" not in given:
+                inputs[choice] = value  # a file given means: use it (as choosing it on the page)
         elif fd.get("kind") == "data":
             inputs[name] = _parse_json_text(raw, name)
-        elif fd.get("kind") == "text":
-            if raw.startswith("@") or _is_file_field(fd):
-                inputs[name] = _read_text_file(raw.removeprefix("@"), name, csv_like=True)
-            else:
-                inputs[name] = raw
+        elif fd.get("kind") == "text" and raw.startswith("@"):
+            inputs[name] = _read_text_file(raw[1:], name)
+            origins[name] = raw[1:]
         else:
             inputs[name] = raw
-    for dest, fd in fmap.units.items():  # a unit flag alone changes the unit of the value
+    for dest, fd in fmap.units.items():  # a unit flag alone re-labels the value, as on the page
         name = fd["name"]
         if dest in given and f"field:{name}" not in given:
             current = base.get(name)
@@ -365,13 +392,17 @@ def _read_bytes(path: str, field: str) -> bytes:
     return data
 
 
-def _read_text_file(path: str, field: str, csv_like: bool = False) -> str:
-    """Read a text file as the page's ``File.text()`` does: UTF-8, bad bytes replaced, no BOM.
+def _read_text_file(path: str, field: str) -> str:
+    """Read a file's text as the core reads a file's bytes: UTF-8, else Windows-1252.
 
-    The api then judges the content (binary, empty, delimiters) with the page's own messages.
+    A byte-order mark is kept, so that the api notices and reports it as it does for the page;
+    the api also judges the content (empty, binary, too large) with the page's messages.
     """
-    text = _read_bytes(path, field).decode("utf-8", errors="replace" if csv_like else "strict")
-    return text.removeprefix("\ufeff")
+    data = _read_bytes(path, field)
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError:
+        return data.decode("cp1252", errors="replace")
 
 
 def _parse_json_text(raw: str, field: str) -> Any:
@@ -441,8 +472,10 @@ def _document_inputs(doc: Any, kind: str) -> dict[str, Any]:
 # --- output -----------------------------------------------------------------------------------
 
 
-def _rows(results: dict[str, Any]) -> Iterable[tuple[str, dict[str, Any]]]:
+def _rows(results: Any) -> Iterable[tuple[str, dict[str, Any]]]:
     """Result rows (key, row) in reply order; anything not shaped as a row is skipped."""
+    if not isinstance(results, dict):
+        return
     for key, row in results.items():
         if isinstance(row, dict) and ("value" in row or "text" in row):
             yield key, row
@@ -462,124 +495,55 @@ def _with_unit(label: str, unit: str) -> str:
     return f"{label} [{unit}]" if unit else label
 
 
+def _width(text: str) -> int:
+    """Columns that ``text`` takes in a terminal (combining marks such as in V̇ take none)."""
+    return sum(0 if unicodedata.combining(ch) else 1 for ch in text)
+
+
+def _pad(text: str, width: int) -> str:
+    return text + " " * max(0, width - _width(text))
+
+
+def _shown(value: Any, digits: int) -> str:
+    """A number for the terminal: as the page shows it, or in full with ``digits`` 0."""
+    if digits <= 0:
+        return plain_number(value, 0) or "—"
+    return format_number(value, digits)
+
+
 def _table_text(
     title: str, inputs: list[tuple[str, str]], reply: dict[str, Any], digits: int
 ) -> str:
+    """The reply as the page shows it: inputs, results (label, value, unit), warnings, sources."""
     out: list[str] = [title, "=" * len(title), ""]
     if inputs:
         out.append("Inputs")
-        width = max(len(k) for k, _ in inputs)
-        out += [f"  {k.ljust(width)}  {v}" for k, v in inputs]
+        width = max(_width(k) for k, _ in inputs)
+        out += [f"  {_pad(k, width)}  {v}".rstrip() for k, v in inputs]
         out.append("")
     lines = [("Quantity", "Value", "Unit")]
-    for _, row in _rows(reply.get("results", {})):
+    for _, row in _rows(reply.get("results")):
         if "text" in row:
             lines.append((_row_label(row), str(row["text"]), ""))
         else:
-            shown = format_number(row.get("value"), digits) if digits > 0 else repr(row["value"])
-            lines.append((_row_label(row), shown, _unit_text(str(row.get("unit", "")))))
-    w0 = max(len(a) for a, _, _ in lines)
-    w1 = max(len(b) for _, b, _ in lines)
+            unit = _unit_text(str(row.get("unit", "")))
+            lines.append((_row_label(row), _shown(row.get("value"), digits), unit))
+    w0 = max(_width(a) for a, _, _ in lines)
+    w1 = max(_width(b) for _, b, c in lines if c or b == "Value")  # words may run past
     out.append("Results")
-    out += [f"  {a.ljust(w0)}  {b.ljust(w1)}  {c}".rstrip() for a, b, c in lines]
-    wrap = textwrap.TextWrapper(width=100, initial_indent="  - ", subsequent_indent="    ")
+    out += [f"  {_pad(a, w0)}  {_pad(b, w1)}  {c}".rstrip() for a, b, c in lines]
     if reply.get("warnings"):
         out += ["", "Warnings"]
+        wrap = textwrap.TextWrapper(width=100, initial_indent="  - ", subsequent_indent="    ")
         out += [wrap.fill(str(w)) for w in reply["warnings"]]
     if reply.get("sources"):
         out += ["", "Published methods used"]
         for i, s in enumerate(reply["sources"], 1):
             text = s.get("citation", s) if isinstance(s, dict) else s
             out.append(
-                textwrap.fill(str(text), 100, initial_indent=f"  {i}. ", subsequent_indent=" " * 5)
+                textwrap.fill(str(text), 100, initial_indent=f"  {i}. ", subsequent_indent="     ")
             )
     return "\n".join(out) + "\n"
-
-
-def _results_csv(reply: dict[str, Any], digits: int) -> str:
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(["quantity", "value", "unit", "key"])
-    for key, row in _rows(reply.get("results", {})):
-        if "text" in row:
-            w.writerow([_row_label(row, symbol=False), row["text"], "", key])
-        else:
-            value = plain_number(row.get("value"), digits)
-            w.writerow([_row_label(row, symbol=False), value, _unit_text(row.get("unit", "")), key])
-    return buf.getvalue()
-
-
-@dataclass
-class _Series:
-    name: str
-    x_label: str
-    x_unit: str
-    y_label: str
-    y_unit: str
-    x: list[Any]
-    y: list[Any]
-
-
-_AXIS_KEYS = ("x_label", "x_unit", "y_label", "y_unit")
-
-
-def _curve_series(curves: Any, axes: dict[str, str] | None = None, prefix: str = "") -> list:
-    """Flatten a reply's curves into series: any object with lists ``x`` and ``y`` is one.
-
-    Axis labels and units (``x_label``, ``x_unit``, ``y_label``, ``y_unit``) are inherited
-    from the enclosing object; a chart nested in another is named ``outer/inner``.
-    """
-    if not isinstance(curves, dict):
-        return []
-    axes = dict(axes or {})
-    axes.update({k: str(curves[k]) for k in _AXIS_KEYS if isinstance(curves.get(k), str)})
-    out: list[_Series] = []
-    for key, val in curves.items():
-        if not isinstance(val, dict):
-            continue
-        if isinstance(val.get("x"), list) and isinstance(val.get("y"), list):
-            own = dict(axes)
-            own.update({k: str(val[k]) for k in _AXIS_KEYS if isinstance(val.get(k), str)})
-            out.append(
-                _Series(
-                    prefix + str(val.get("label", key)),
-                    own.get("x_label", "x"),
-                    own.get("x_unit", ""),
-                    own.get("y_label", "y"),
-                    own.get("y_unit", ""),
-                    val["x"],
-                    val["y"],
-                )
-            )
-        else:
-            out += _curve_series(val, axes, f"{prefix}{key}/")
-    return out
-
-
-def _cell(value: Any) -> str:
-    if _is_number(value):
-        return repr(float(value)) if isinstance(value, float) else str(value)
-    return "" if value is None else str(value)
-
-
-def _curves_csv(curves: Any) -> str:
-    """Curves as CSV: one row per point, with a header naming each quantity and its unit."""
-    series = _curve_series(curves)
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    axes = {(s.x_label, s.x_unit, s.y_label, s.y_unit) for s in series}
-    if len(axes) <= 1:
-        xl, xu, yl, yu = next(iter(axes), ("x", "", "y", ""))
-        w.writerow(["series", _with_unit(xl, xu), _with_unit(yl, yu)])
-        for s in series:
-            for x, y in zip(s.x, s.y, strict=False):
-                w.writerow([s.name, _cell(x), _cell(y)])
-    else:  # charts with different axes: name the quantity and unit on every row
-        w.writerow(["series", "x quantity", "x unit", "x", "y quantity", "y unit", "y"])
-        for s in series:
-            for x, y in zip(s.x, s.y, strict=False):
-                w.writerow([s.name, s.x_label, s.x_unit, _cell(x), s.y_label, s.y_unit, _cell(y)])
-    return buf.getvalue()
 
 
 def _write(path: str | None, text: str, stdout: TextIO) -> None:
@@ -593,19 +557,26 @@ def _write(path: str | None, text: str, stdout: TextIO) -> None:
         raise UserError("out", f"cannot write {path!r}: {exc.strerror or exc}.") from None
 
 
-def _input_summary(fields: list[dict[str, Any]], inputs: dict[str, Any]) -> list[tuple[str, str]]:
+def _input_summary(
+    fields: list[dict[str, Any]], inputs: dict[str, Any], origins: dict[str, str]
+) -> list[tuple[str, str]]:
     """(label, value as given) for every field, defaults filled in, for the table's record."""
     out = []
     for fd in fields:
-        raw = inputs.get(fd["name"])
+        name = fd["name"]
+        raw = inputs.get(name)
         if raw is None:
             raw = fd.get("default")
-        if isinstance(raw, dict) and "value" in raw and _is_quantity(fd):
+        if raw is None or (isinstance(raw, dict) and raw.get("value") is None):
+            shown = "—"
+        elif name in origins:
+            shown = f"from {origins[name]}"
+        elif isinstance(raw, dict) and _is_quantity(fd):
             unit = next(
                 (u["label"] for u in fd.get("units", []) if u["unit"] == raw.get("unit")),
                 str(raw.get("unit", "")),
             )
-            shown = f"{_js_string(raw['value'])} {_unit_text(unit)}".strip()
+            shown = f"{_js_string(raw.get('value'))} {_unit_text(unit)}".strip()
         elif fd.get("kind") == "choice":
             shown = next((c["label"] for c in fd.get("choices", []) if c["value"] == raw), str(raw))
         elif isinstance(raw, str):
@@ -613,8 +584,11 @@ def _input_summary(fields: list[dict[str, Any]], inputs: dict[str, Any]) -> list
             shown = raw if lines == 1 and len(raw) <= 60 else f"(text, {lines} lines)"
         else:
             text = json.dumps(raw, ensure_ascii=False)
-            shown = text if len(text) <= 60 else f"(data, {len(text)} characters)"
-        out.append((fd.get("label", fd["name"]), shown))
+            n = len(raw) if isinstance(raw, list) else len(text)
+            many = f"{n} item" if isinstance(raw, list) else f"{n} character"
+            many += "" if n == 1 else "s"
+            shown = text if len(text) <= 60 else f"({many})"
+        out.append((fd.get("label", name), shown))
     return out
 
 
@@ -644,10 +618,12 @@ def _compute(
     kind: str,
     description: dict[str, Any],
     inputs: dict[str, Any],
+    origins: dict[str, str],
     opts: argparse.Namespace,
     stdout: TextIO,
     stderr: TextIO,
 ) -> int:
+    """Run one calculation and write its reply in the chosen format."""
     fields = description["fields"]
     _warn_unknown(kind, fields, inputs, stderr)
     reply = _call(kind, inputs)
@@ -657,64 +633,97 @@ def _compute(
     if opts.format == "json":
         text = json.dumps(reply, indent=2, ensure_ascii=False) + "\n"
     elif opts.format == "csv":
-        text = _results_csv(reply, opts.digits)
+        text = export.results_csv(reply)  # the page's "Download results (CSV)", byte for byte
         for w in reply.get("warnings", []):
             stderr.write(f"warning: {w}\n")
     else:
-        text = _table_text(description["title"], _input_summary(fields, inputs), reply, opts.digits)
+        summary = _input_summary(fields, inputs, origins)
+        text = _table_text(description["title"], summary, reply, _digits(opts, 4))
     _write(opts.out, text, stdout)
-    if opts.curves:
-        _write(opts.curves, _curves_csv(reply.get("curves", {})), stdout)
+    if getattr(opts, "curves", None):
+        _write(opts.curves, export.curves_csv(reply), stdout)
     return EXIT_OK
+
+
+def _digits(opts: argparse.Namespace, default: int) -> int:
+    return default if opts.digits is None else opts.digits
 
 
 def _batch(
     kind: str,
     description: dict[str, Any],
     base: dict[str, Any],
-    file_field: str,
+    file_field: dict[str, Any],
     opts: argparse.Namespace,
     stdout: TextIO,
     stderr: TextIO,
 ) -> int:
-    """Run ``kind`` once per file and write one row per file (numbers in the page's rounding)."""
-    _warn_unknown(kind, description["fields"], base, stderr)
-    fd = next(f for f in description["fields"] if f["name"] == file_field)
+    """Run ``kind`` once per file and write one table: one row per file, one column per result.
+
+    Numbers are in full precision in CSV (as the page's CSV exports) and as the page shows
+    them in the table format; ``--digits`` overrides both. A file that fails keeps its row,
+    with the messages in the ``errors`` column; the exit status is then 2.
+    """
+    fields = description["fields"]
+    _warn_unknown(kind, fields, base, stderr)
+    name = file_field["name"]
     records: list[tuple[str, dict[str, Any]]] = []
-    status = EXIT_OK
     for path in opts.files:
         try:
-            if fd.get("kind") == "data":
-                content: Any = _parse_json_text("@" + path, file_field)
-            else:
-                content = _read_text_file(path, file_field, csv_like=True)
-            reply = _call(kind, {**base, file_field: content})
+            reply = _call(kind, {**base, name: _read_text_file(path, name)})
         except UserError as exc:
             reply = {"ok": False, "errors": [{"field": exc.field, "message": exc.message}]}
         if not reply.get("ok"):
             _print_errors(reply.get("errors", []), stderr, prefix=f"{path}: ")
-            status = EXIT_USAGE
         records.append((path, reply))
+    status = EXIT_OK if all(r.get("ok") for _, r in records) else EXIT_USAGE
 
     if opts.format == "json":
         doc = [{"file": p, **r} for p, r in records]
         _write(opts.out, json.dumps(doc, indent=2, ensure_ascii=False) + "\n", stdout)
         return status
-    columns: dict[str, tuple[str, str, float | None]] = {}  # key -> (label, unit, unit per SI)
+    digits = _digits(opts, 4 if opts.format == "table" else 0)
+    table = _batch_table(records, opts.columns, digits, opts.format == "table")
+    if opts.format == "table":
+        widths = [max(_width(r[i]) for r in table) for i in range(len(table[0]))]
+        text = "".join(
+            "  ".join(_pad(c, w) for c, w in zip(r, widths, strict=True)).rstrip() + "\n"
+            for r in table
+        )
+    else:
+        buf = io.StringIO()
+        csv.writer(buf, lineterminator="\r\n").writerows(table)  # as the page's CSV exports
+        text = buf.getvalue()
+    _write(opts.out, text, stdout)
+    return status
+
+
+def _batch_table(
+    records: list[tuple[str, dict[str, Any]]],
+    patterns: Sequence[str] | None,
+    digits: int,
+    for_terminal: bool,
+) -> list[list[str]]:
+    """Rows of the batch table, header first: file, one column per result key, warnings,
+    errors. ``patterns`` (shell-style, on result keys) select the result columns.
+    """
+    # key -> (label, unit, display value per SI value); the first file that has a key sets it
+    columns: dict[str, tuple[str, str, float | None]] = {}
     for _, reply in records:
-        for key, row in _rows(reply.get("results", {}) if reply.get("ok") else {}):
+        for key, row in _rows(reply.get("results") if reply.get("ok") else None):
+            if patterns and not any(fnmatch.fnmatchcase(key, p) for p in patterns):
+                continue
             if key in columns and columns[key][2] is not None:
                 continue
             unit = "" if "text" in row else _unit_text(str(row.get("unit", "")))
             si, value = row.get("si"), row.get("value")
             per_si = value / si if _is_number(si) and si and _is_number(value) else None
             columns[key] = (_row_label(row, symbol=False), unit, per_si)
-    header = ["file"] + [_with_unit(lab, unit) for lab, unit, _ in columns.values()]
-    header += ["warnings", "errors"]
-    table = [header]
+    header = ["file", *(_with_unit(lab, unit) for lab, unit, _ in columns.values())]
+    table = [[*header, "warnings", "errors"]]
     for path, reply in records:
-        line = [path]
         results = reply.get("results", {}) if reply.get("ok") else {}
+        line = [path]
         for key, (_, unit, per_si) in columns.items():
             row = results.get(key)
             if not isinstance(row, dict):
@@ -724,8 +733,8 @@ def _batch(
             else:
                 value = row.get("value")
                 if _unit_text(str(row.get("unit", ""))) != unit and per_si is not None:
-                    value = row.get("si", 0.0) * per_si  # the column's unit, not this row's
-                line.append(plain_number(value, opts.digits))
+                    value = row["si"] * per_si  # in the column's unit, not this row's
+                line.append(_shown(value, digits) if for_terminal else plain_number(value, digits))
         line.append(" | ".join(map(str, reply.get("warnings", []))))
         line.append(
             " | ".join(
@@ -734,21 +743,7 @@ def _batch(
             )
         )
         table.append(line)
-    if opts.format == "table":
-        widths = [max(len(r[i]) for r in table) for i in range(len(header) - 2)]
-        text = "".join(
-            "  ".join(c.ljust(w) for c, w in zip(r, widths, strict=False)).rstrip() + "\n"
-            for r in table
-        )
-        problems = [(p, r) for p, r in records if r.get("warnings")]
-        for p, r in problems:
-            text += "".join(f"warning ({p}): {w}\n" for w in r["warnings"])
-    else:
-        buf = io.StringIO()
-        csv.writer(buf, lineterminator="\n").writerows(table)
-        text = buf.getvalue()
-    _write(opts.out, text, stdout)
-    return status
+    return table
 
 
 # --- the parser -------------------------------------------------------------------------------
@@ -781,8 +776,12 @@ def _output_options(parser: argparse.ArgumentParser, batch: bool = False) -> Non
         "--format",
         choices=("table", "csv", "json"),
         default="csv" if batch else "table",
-        help="table (as the page shows it), csv (rows of quantity, value, unit) or json "
-        "(the full reply). Default: %(default)s.",
+        help=(
+            "csv (one row per file; units in the header), table or json. Default: %(default)s."
+            if batch
+            else "table (as the page shows it), csv (the page's results CSV: quantity, "
+            "value, unit, ...) or json (the full reply). Default: %(default)s."
+        ),
     )
     out.add_argument("--out", metavar="FILE", help="write there instead of standard output")
     if not batch:
@@ -792,10 +791,10 @@ def _output_options(parser: argparse.ArgumentParser, batch: bool = False) -> Non
     out.add_argument(
         "--digits",
         type=int,
-        default=SIG_FIGS,
         metavar="N",
-        help="significant figures of the numbers (default %(default)s, as the page; "
-        "0 for full precision)",
+        help=f"significant figures in a table (default {SIG_FIGS}, as the page shows them; 0 "
+        "for full precision)"
+        + ("; in CSV numbers are in full precision unless this is given" if batch else ""),
     )
 
 
@@ -803,7 +802,7 @@ def _example(kind: str, fields: list[dict[str, Any]]) -> str:
     for fd in fields:
         if _is_quantity(fd):
             d = fd["default"]
-            return f"example: {PROG} {kind} {_flag(fd['name'])} {d['value']}{d['unit']}"
+            return f"example: {PROG} {kind} {_flag(fd['name'])} {_js_string(d['value'])}{d['unit']}"
     return f"example: {PROG} {kind}"
 
 
@@ -840,7 +839,15 @@ def _build_parser(description: dict[str, Any]) -> tuple[_Parser, dict[str, Any]]
         info["calc"][kind] = fmap
 
     p = sub.add_parser("run", help="run a saved request or page state (JSON) as it stands")
-    p.add_argument("file", metavar="FILE", help='JSON: {"kind", "inputs"} or a saved state')
+    p.add_argument(
+        "file", metavar="FILE", help='JSON: a request {"kind", "inputs"} or a state the page saved'
+    )
+    p.add_argument(
+        "--kind",
+        choices=[k for k in calcs if k not in COMMANDS],
+        help="the calculation to run from a saved state of several panels (default: the panel "
+        "that was open)",
+    )
     _output_options(p)
 
     p = sub.add_parser("describe", help="list the calculations and their inputs")
@@ -878,11 +885,18 @@ def _build_parser(description: dict[str, Any]) -> tuple[_Parser, dict[str, Any]]
             p.add_argument(
                 "--input", metavar="FILE", help="the other inputs from a JSON file (as above)"
             )
+            p.add_argument(
+                "--columns",
+                nargs="+",
+                metavar="PATTERN",
+                help="only the results whose keys match these shell-style patterns "
+                "(e.g. 'dose_*'; 'describe --format json' or '--format json' shows the keys)",
+            )
             _output_options(p, batch=True)
             others = [fd for fd in calc["fields"] if fd["name"] != ff["name"]]
             fmap = _add_field_flags(p, others)
             p.field_options = fmap.options
-            info["batch"][kind] = (fmap, ff["name"])
+            info["batch"][kind] = (fmap, ff)
     return parser, info
 
 
@@ -944,24 +958,32 @@ def _run(argv: Sequence[str] | None, stdout: TextIO, stderr: TextIO) -> int:
 
     if opts.command == "run":
         doc = _load_document(opts.file)
-        kind = _document_kind(doc)
+        kind = opts.kind or _document_kind(doc)
         if kind is None:
             raise UserError("kind", "the file names no calculation ('kind').")
-        if kind not in calcs:
-            raise UserError("kind", f"unknown calculation {kind!r}; valid: {', '.join(calcs)}.")
-        return _compute(kind, calcs[kind], _document_inputs(doc, kind), opts, stdout, stderr)
+        if kind not in calcs or kind in COMMANDS:
+            valid = ", ".join(k for k in calcs if k not in COMMANDS)
+            raise UserError("kind", f"unknown calculation {kind!r}; valid: {valid}.")
+        return _compute(kind, calcs[kind], _document_inputs(doc, kind), {}, opts, stdout, stderr)
 
+    origins: dict[str, str] = {}
     if opts.command == "batch":
         kind = opts.batch_kind
         fmap, file_field = info["batch"][kind]
         base = _document_inputs(_load_document(opts.input), kind) if opts.input else {}
-        base = _flag_inputs(opts, fmap, base)
+        base = _flag_inputs(opts, fmap, base, origins)
+        choice, value = _source_choice(calcs[kind]["fields"], file_field)
+        if choice:  # every run reads its file, as choosing the file on the page
+            given = getattr(opts, f"field:{choice}", value)
+            if given != value:
+                raise UserError(choice, f"batch runs read each file: {choice} must be {value!r}.")
+            base[choice] = value
         return _batch(kind, calcs[kind], base, file_field, opts, stdout, stderr)
 
     kind = opts.command
     base = _document_inputs(_load_document(opts.input), kind) if opts.input else {}
-    inputs = _flag_inputs(opts, info["calc"][kind], base)
-    return _compute(kind, calcs[kind], inputs, opts, stdout, stderr)
+    inputs = _flag_inputs(opts, info["calc"][kind], base, origins)
+    return _compute(kind, calcs[kind], inputs, origins, opts, stdout, stderr)
 
 
 def main(argv: Sequence[str] | None = None) -> int:
