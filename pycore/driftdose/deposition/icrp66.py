@@ -14,12 +14,12 @@ BB, ET2, ET1 on exhalation. Filter j deposits
 
     DE_j = IF phi_j eta_j prod_{k<j} (1 - eta_k)
 
-of the particles in the ambient air (ICRP 66, Annex D; there in the recursive form
-DE_j = DE_{j-1} eta_j (phi_j / phi_{j-1}) (1/eta_{j-1} - 1)), where IF is the
-inhalability, eta_j the filter efficiency and phi_j the fraction of the tidal air that reaches filter j (the
+of the particles in the ambient air (ICRP 66, Annex D; there in the recursive form DE_j =
+DE_{j-1} eta_j (phi_j / phi_{j-1}) (1/eta_{j-1} - 1)), where IF is the inhalability, eta_j
+the filter efficiency and phi_j the fraction of the tidal air that reaches filter j (the
 remainder stays in the dead space of the airways upstream). Each efficiency combines an
-aerodynamic (impaction, sedimentation) and a thermodynamic (diffusion) part as
-eta = sqrt(eta_ae^2 + eta_th^2), limited to 1.
+aerodynamic (impaction, sedimentation) and a thermodynamic (diffusion) part as eta =
+sqrt(eta_ae^2 + eta_th^2), limited to 1.
 
 - Extrathoracic filters: eta_ae = 1 - 1 / (1 + a R^p); eta_th = 1 - exp(-a R^p).
   Nose, anterior (ET1, half the nasal efficiency): aerodynamic a = 3.0e-4, R = d_ae^2 Q,
