@@ -9,7 +9,7 @@ them); breathing data: :class:`BreathingPattern`, :class:`Subject`, :data:`ACTIV
 The model
 ---------
 The respiratory tract is a series of filters passed in turn on inhalation and exhalation
-(ICRP 66, Annex D, section D.3): inhalability, ET1, ET2, BB, bb, AI on inhalation, then bb,
+(ICRP 66, Annex D): inhalability, ET1, ET2, BB, bb, AI on inhalation, then bb,
 BB, ET2, ET1 on exhalation. Filter j deposits
 
     DE_j = IF phi_j eta_j prod_{k<j} (1 - eta_k)
