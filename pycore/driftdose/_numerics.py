@@ -90,10 +90,13 @@ def brent_root(
 def logspace(start: float, stop: float, num: int) -> list[float]:
     """Return ``num`` values spaced evenly on a log scale from ``start`` to ``stop``.
 
-    Both ends are included exactly (like ``numpy.geomspace``).
+    Both ends are included exactly (like ``numpy.geomspace``); ``num`` 0 gives an empty
+    list and 1 gives ``[start]``, as numpy does.
     """
+    if num < 0:
+        raise ValueError(f"number of points must be non-negative, got {num}")
     if num < 2:
-        return [start]
+        return [start][:num]
     a, b = math.log(start), math.log(stop)
     step = (b - a) / (num - 1)
     values = [math.exp(a + i * step) for i in range(num)]

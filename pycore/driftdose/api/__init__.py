@@ -56,7 +56,7 @@ def _handle(request: Any) -> dict[str, Any]:
     if calc is None:
         return _error(
             "kind",
-            f"Unknown calculation {str(kind)[:40]!r}; valid: {', '.join(sorted(CALCULATIONS))}.",
+            f"Unknown calculation {_short(kind)}; valid: {', '.join(sorted(CALCULATIONS))}.",
         )
     values, errors = parse_fields(calc.FIELDS, request.get("inputs", {}))
     if errors:
@@ -69,6 +69,13 @@ def _handle(request: Any) -> dict[str, Any]:
     reply.update(out)
     _check_finite(reply)
     return reply
+
+
+def _short(value: Any) -> str:
+    """Quote a text for a message, cut to 40 characters; name the type of anything else."""
+    if isinstance(value, str):
+        return repr(value[:40])
+    return "(missing)" if value is None else f"of type {type(value).__name__}"
 
 
 def _error(field: str, message: str) -> dict[str, Any]:
@@ -91,6 +98,9 @@ def handle_json(text: str) -> str:
     """JSON string in, JSON string out: the form the browser worker uses."""
     try:
         request = json.loads(text)
-    except (ValueError, TypeError):
+    except (ValueError, TypeError, RecursionError):  # RecursionError: nesting too deep
         return json.dumps(_error("", "Request is not valid JSON."))
-    return json.dumps(handle(request), allow_nan=False, ensure_ascii=False)
+    try:
+        return json.dumps(handle(request), allow_nan=False, ensure_ascii=False)
+    except (ValueError, TypeError, RecursionError) as exc:  # never expected; never escapes
+        return json.dumps(_error("", f"Internal error, please report it: {type(exc).__name__}"))

@@ -74,11 +74,13 @@ class Field:
 
     def range_text(self) -> str:
         """Human-readable valid range in the field's default unit."""
-        if self.kind == "integer":
-            return f"{self.minimum:.0f} to {self.maximum:.0f}"
-        unit = self.default[1]
+        if self.kind not in UNITS and self.kind != "integer":
+            return ""
 
         def fmt(x: float) -> str:
+            if self.kind == "integer":
+                return f"{x:.0f}"
+            unit = self.default[1]
             return format_si(x, self.kind, auto_unit(self.kind, x, unit) if x else unit)
 
         lo = "" if self.minimum is None else fmt(self.minimum)
@@ -93,12 +95,12 @@ class Field:
         """Validate one raw input and return it in SI (or as the chosen value)."""
         if raw is None or (isinstance(raw, str) and not raw.strip()):
             if self.required:
-                raise FieldError(self.name, f"{self.label} is required.")
+                raise FieldError(self.name, f"{self.label} is required: {self.expected()}.")
             return None
         if self.kind == "choice":
             valid = [v for v, _ in self.choices]
-            if raw not in valid:
-                raise FieldError(self.name, f"{self.label}: choose one of {', '.join(valid)}.")
+            if not isinstance(raw, str) or raw not in valid:
+                raise FieldError(self.name, f"{self.label}: {self.expected()}.")
             return raw
         if self.kind == "text":
             if not isinstance(raw, str) or len(raw) > self.extra.get("max_length", 200):
@@ -113,7 +115,7 @@ class Field:
         if self.kind == "integer":
             number = _number(self, raw)
             if number != int(number):
-                raise FieldError(self.name, f"{self.label} must be a whole number.")
+                raise FieldError(self.name, f"{self.label} must be a whole number{_within(self)}.")
             self._check_range(number, number)
             return int(number)
         # quantity
@@ -123,38 +125,63 @@ class Field:
             value, unit = raw, SI_UNIT[self.kind]
         if value is None or (isinstance(value, str) and not value.strip()):
             if self.required:
-                raise FieldError(self.name, f"{self.label} is required.")
+                raise FieldError(self.name, f"{self.label} is required: {self.expected()}.")
             return None
         number = _number(self, value)
-        if not isinstance(unit, str):
-            raise FieldError(self.name, f"{self.label}: unknown unit.")
         try:
+            if not isinstance(unit, str):
+                raise KeyError(unit)
             si = to_si(number, self.kind, unit)
             unit = canonical_unit(self.kind, unit)
         except KeyError:
             offered = ", ".join(unit_label(u) for u in (self.units or UNITS[self.kind]))
+            shown = repr(unit[:20]) if isinstance(unit, str) else "of that type"
             raise FieldError(
-                self.name, f"{self.label}: unknown unit {unit!r}; use one of {offered}."
+                self.name,
+                f"{self.label}: unknown unit {shown}; use one of {offered} "
+                f"(valid:{_within(self) or ' any value'}).",
             ) from None
         self._check_range(si, number, unit)
         return si
 
+    def expected(self) -> str:
+        """Describe a valid input for error messages, naming the valid range or choices."""
+        if self.kind == "choice":
+            return f"choose one of {', '.join(v for v, _ in self.choices)}"
+        if self.kind == "text":
+            return f"text of at most {self.extra.get('max_length', 200)} characters"
+        if self.kind == "data":
+            return "structured data"
+        return f"enter a number{_within(self)}"
+
     def _check_range(self, si: float, shown: float, unit: str | None = None) -> None:
         lo, hi = self.minimum, self.maximum
+        # A value typed at a stated limit may land one rounding step outside it after unit
+        # conversion (-50 degC -> 223.14999999999998 K); accept it (relative slack 1e-12).
         bad = (
-            not math.isfinite(si)
-            or (lo is not None and (si <= lo if self.exclusive_min else si < lo))
-            or (hi is not None and si > hi)
+            not math.isfinite(si)  # e.g. 1e308 atm overflows on conversion
+            or (lo is not None and (si <= lo if self.exclusive_min else si < lo - 1e-12 * abs(lo)))
+            or (hi is not None and si > hi + 1e-12 * abs(hi))
         )
         if bad:
-            raise FieldError(self.name, f"{self.label} must be {self.range_text()}.")
+            rng = self.range_text() or "a finite number"
+            raise FieldError(self.name, f"{self.label} must be {rng}.")
+
+
+def _within(f: Field) -> str:
+    """Return the valid range as a phrase with a leading space, or nothing without bounds."""
+    text = f.range_text()
+    return f" {text}" if text else ""
 
 
 def _number(f: Field, value: Any) -> float:
     if isinstance(value, bool):
-        raise FieldError(f.name, f"{f.label} must be a number.")
+        raise FieldError(f.name, f"{f.label} must be a number{_within(f)}.")
     if isinstance(value, int | float):
-        number = float(value)
+        try:
+            number = float(value)
+        except OverflowError:  # an int beyond the float range
+            number = math.inf if value > 0 else -math.inf
     elif isinstance(value, str):
         text = value.strip().replace("\u2212", "-").replace(" ", "")
         if text.count(",") == 1 and "." not in text:
@@ -162,11 +189,13 @@ def _number(f: Field, value: Any) -> float:
         try:
             number = float(text)
         except ValueError:
-            raise FieldError(f.name, f"{f.label} must be a number, not {value[:20]!r}.") from None
+            raise FieldError(
+                f.name, f"{f.label} must be a number{_within(f)}, not {value[:20]!r}."
+            ) from None
     else:
-        raise FieldError(f.name, f"{f.label} must be a number.")
+        raise FieldError(f.name, f"{f.label} must be a number{_within(f)}.")
     if not math.isfinite(number):
-        raise FieldError(f.name, f"{f.label} must be a finite number ({f.range_text()}).")
+        raise FieldError(f.name, f"{f.label} must be a finite number{_within(f)}.")
     return number
 
 

@@ -74,6 +74,7 @@ _ALIASES = {
     "sec": "s",
     "hr": "h",
     "-": "1",
+    "\u2013": "1",  # the label shown for dimensionless quantities
     "": "1",
     "°": "deg",
 }

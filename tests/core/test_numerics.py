@@ -1,0 +1,260 @@
+"""Cross-checks against scipy and numpy as independent numerical references.
+
+No published values here: each test solves the same equation as the core with a scipy
+routine (root finding, ODE integration) and compares. Tolerances follow the solvers'
+requested accuracies.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from scipy.integrate import solve_ivp
+from scipy.optimize import brentq
+
+from driftdose import gas, particle
+from driftdose._numerics import brent_root, logspace
+from driftdose.constants import STANDARD_GRAVITY
+
+# ---------------------------------------------------------------------------------------------
+# brent_root vs scipy.optimize.brentq
+# ---------------------------------------------------------------------------------------------
+
+ROOT_PROBLEMS = [
+    pytest.param(lambda x: x**3 - 2 * x - 5, 2.0, 3.0, id="wallis-cubic"),
+    pytest.param(lambda x: math.cos(x) - x, 0.0, 1.0, id="cos-fixed-point"),
+    pytest.param(lambda x: math.exp(x) - 10.0, -5.0, 5.0, id="exp"),
+    pytest.param(lambda x: x**9, -1.0, 2.0, id="flat-ninth-power"),
+    pytest.param(lambda x: math.log(x) - math.log(3e-9), 1e-12, 1.0, id="log-wide-bracket"),
+    pytest.param(lambda x: math.atan(1e4 * (x - 0.3)), -1.0, 1.0, id="steep-atan"),
+    pytest.param(lambda x: (x - 1e-7) * 1e20, 0.0, 1.0, id="tiny-root"),
+    pytest.param(lambda x: math.tanh(x - 7.5) + 1e-3, 0.0, 20.0, id="tanh-plateaus"),
+]
+
+
+@pytest.mark.parametrize(("f", "a", "b"), ROOT_PROBLEMS)
+def test_brent_root_vs_brentq(f, a: float, b: float) -> None:
+    ours = brent_root(f, a, b)
+    ref = brentq(f, a, b, xtol=1e-15, rtol=4 * np.finfo(float).eps, maxiter=500)
+    assert ours == pytest.approx(ref, rel=1e-11, abs=1e-14)
+
+
+@pytest.mark.parametrize(("f", "a", "b"), ROOT_PROBLEMS)
+def test_brent_root_reversed_bracket(f, a: float, b: float) -> None:
+    assert brent_root(f, b, a) == pytest.approx(brent_root(f, a, b), rel=1e-11, abs=1e-14)
+
+
+def test_brent_root_endpoint_root() -> None:
+    assert brent_root(lambda x: x - 2.0, 2.0, 5.0) == 2.0
+    assert brent_root(lambda x: x - 5.0, 2.0, 5.0) == 5.0
+
+
+def test_brent_root_not_bracketed() -> None:
+    with pytest.raises(ValueError, match="bracketed"):
+        brent_root(lambda x: x * x + 1.0, -1.0, 1.0)
+
+
+def test_brent_root_counts_evaluations_like_brentq() -> None:
+    # Brent's method needs about as many evaluations as scipy's implementation of it.
+    calls = {"ours": 0, "scipy": 0}
+
+    def counted(key):
+        def f(x: float) -> float:
+            calls[key] += 1
+            return x**3 - 2 * x - 5
+
+        return f
+
+    brent_root(counted("ours"), 2.0, 3.0, xtol=1e-12, rtol=1e-12)
+    brentq(counted("scipy"), 2.0, 3.0, xtol=1e-12, rtol=1e-12)
+    assert calls["ours"] <= calls["scipy"] + 3
+
+
+# ---------------------------------------------------------------------------------------------
+# logspace vs numpy.geomspace
+# ---------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    ("start", "stop", "num"),
+    [
+        (1e-9, 100e-6, 241),
+        (1e-9, 100e-6, 200),
+        (1.0, 10.0, 2),
+        (1.0, 10.0, 1),
+        (1.0, 10.0, 0),
+        (100.0, 1e-3, 17),
+        (3.0, 3.0, 5),
+    ],
+)
+def test_logspace_vs_geomspace(start: float, stop: float, num: int) -> None:
+    ours = logspace(start, stop, num)
+    ref = np.geomspace(start, stop, num)
+    assert len(ours) == len(ref)
+    np.testing.assert_allclose(ours, ref, rtol=1e-13)
+    if num >= 2:
+        assert ours[0] == start and ours[-1] == stop
+
+
+def test_logspace_negative_count() -> None:
+    with pytest.raises(ValueError):
+        logspace(1.0, 10.0, -1)
+
+
+# ---------------------------------------------------------------------------------------------
+# Aerodynamic <-> volume-equivalent diameter vs brentq on the same relation
+# ---------------------------------------------------------------------------------------------
+
+AERO_CASES = [
+    pytest.param(1e-9, 2000.0, 1.0, 293.15, 101325.0, id="1nm-2000"),
+    pytest.param(20e-9, 8000.0, 1.0, 293.15, 101325.0, id="20nm-8000"),
+    pytest.param(0.3e-6, 500.0, 1.0, 293.15, 101325.0, id="0.3um-500"),
+    pytest.param(2e-6, 2650.0, 1.36, 293.15, 101325.0, id="2um-quartz"),
+    pytest.param(5e-6, 3000.0, 1.5, 310.15, 101325.0, id="5um-worker-aerosol"),
+    pytest.param(50e-6, 19300.0, 1.0, 273.15, 70e3, id="50um-gold-low-pressure"),
+    pytest.param(0.1e-6, 1000.0, 2.0, 293.15, 101325.0, id="0.1um-chi2"),
+]
+
+
+@pytest.mark.parametrize(("d", "rho", "chi", "T", "P"), AERO_CASES)
+def test_aerodynamic_diameter_vs_brentq(d, rho, chi, T, P) -> None:
+    target = d * d * particle.slip_correction(d, T, P) * rho / chi
+
+    def g(x: float) -> float:
+        return x * x * particle.slip_correction(x, T, P) * 1000.0 - target
+
+    ref = brentq(g, d * 1e-3, d * 1e3, xtol=1e-30, rtol=1e-14, maxiter=500)
+    assert particle.aerodynamic_diameter(d, rho, chi, T, P) == pytest.approx(ref, rel=1e-10)
+
+
+@pytest.mark.parametrize(("d", "rho", "chi", "T", "P"), AERO_CASES)
+def test_volume_equivalent_diameter_vs_brentq(d, rho, chi, T, P) -> None:
+    d_ae = d  # read the same numbers as an aerodynamic diameter
+    target = d_ae * d_ae * particle.slip_correction(d_ae, T, P) * 1000.0
+
+    def g(x: float) -> float:
+        return x * x * particle.slip_correction(x, T, P) * rho / chi - target
+
+    ref = brentq(g, d_ae * 1e-3, d_ae * 1e3, xtol=1e-30, rtol=1e-14, maxiter=500)
+    assert particle.volume_equivalent_diameter(d_ae, rho, chi, T, P) == pytest.approx(
+        ref, rel=1e-10
+    )
+
+
+@pytest.mark.parametrize(("d", "rho", "chi", "T", "P"), AERO_CASES)
+def test_aerodynamic_diameter_round_trip(d, rho, chi, T, P) -> None:
+    d_ae = particle.aerodynamic_diameter(d, rho, chi, T, P)
+    assert particle.volume_equivalent_diameter(d_ae, rho, chi, T, P) == pytest.approx(d, rel=1e-10)
+
+
+# ---------------------------------------------------------------------------------------------
+# Crossover diameter vs brentq
+# ---------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    ("t", "rho", "chi", "T", "P"),
+    [
+        (1e-3, 1000.0, 1.0, 293.15, 101325.0),
+        (1.0, 1000.0, 1.0, 293.15, 101325.0),
+        (60.0, 1000.0, 1.0, 293.15, 101325.0),
+        (3600.0, 2500.0, 1.4, 310.15, 90e3),
+        (86400.0, 100.0, 1.0, 223.15, 10e3),
+    ],
+)
+def test_crossover_diameter_vs_brentq(t, rho, chi, T, P) -> None:
+    def g(log_d: float) -> float:
+        d = math.exp(log_d)
+        return particle.settling_distance(d, t, rho, T, P, chi) - particle.rms_displacement(
+            d, t, T, P, chi
+        )
+
+    ref = math.exp(brentq(g, math.log(1e-10), math.log(1e-3), xtol=1e-14, rtol=1e-14))
+    assert particle.crossover_diameter(t, rho, T, P, chi) == pytest.approx(ref, rel=1e-9)
+
+
+def test_crossover_diameter_none_outside_interval() -> None:
+    # With a search interval that does not contain the root there is no crossover.
+    assert particle.crossover_diameter(60.0, 1000.0, d_min=1e-6, d_max=1e-3) is None
+
+
+# ---------------------------------------------------------------------------------------------
+# Schiller & Naumann settling vs scipy solving the same force balance
+# ---------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    ("d", "rho", "chi", "T", "P"),
+    [
+        (1e-6, 1000.0, 1.0, 293.15, 101325.0),
+        (20e-6, 1000.0, 1.0, 293.15, 101325.0),
+        (50e-6, 1000.0, 1.0, 293.15, 101325.0),
+        (100e-6, 1000.0, 1.0, 293.15, 101325.0),
+        (200e-6, 2650.0, 1.36, 293.15, 101325.0),
+        (500e-6, 7800.0, 1.0, 323.15, 95e3),
+        (1e-3, 25000.0, 1.0, 773.15, 200e3),
+    ],
+)
+def test_settling_velocity_schiller_naumann1933_vs_scipy(d, rho, chi, T, P) -> None:
+    # Gravity m g = drag 3 pi mu d V chi (1 + 0.15 Re^0.687) / Cc, Re = rho_g V d / mu,
+    # written out independently here and solved with brentq.
+    mu, rho_g = gas.air_viscosity(T), gas.air_density(T, P)
+    cc = particle.slip_correction(d, T, P)
+    weight = rho * math.pi * d**3 / 6.0 * STANDARD_GRAVITY
+
+    def balance(v: float) -> float:
+        re = rho_g * v * d / mu
+        return 3 * math.pi * mu * d * v * chi * (1 + 0.15 * re**0.687) / cc - weight
+
+    ref = brentq(balance, 0.0, 1e3, xtol=1e-300, rtol=1e-14, maxiter=500)
+    got = particle.settling_velocity_schiller_naumann1933(d, rho, T, P, chi)
+    assert got == pytest.approx(ref, rel=1e-10)
+
+
+# ---------------------------------------------------------------------------------------------
+# Stopping distance vs numerical integration of the equation of motion
+# ---------------------------------------------------------------------------------------------
+
+
+def _integrated_stopping_distance(d, v0, rho, drag_correction) -> float:
+    """Integrate dv/dt = -(v/tau) f(Re), dx/dt = v with solve_ivp until the particle stops."""
+    T, P = 293.15, 101325.0
+    tau = particle.relaxation_time(d, rho, T, P)
+    k = gas.air_density(T, P) * d / gas.air_viscosity(T)  # Re = k v
+
+    def rhs(_t, y):
+        _x, v = y
+        return [v, -(v / tau) * drag_correction(k * max(v, 0.0))]
+
+    # The drag is at least Stokes's, so v <= v0 exp(-t/tau): after 50 tau what is left to
+    # travel is below v0 tau e^-50, nothing.
+    sol = solve_ivp(
+        rhs, (0.0, 50.0 * tau), [0.0, v0], method="DOP853", rtol=1e-12, atol=[1e-20, 1e-20]
+    )
+    assert sol.success
+    return float(sol.y[0, -1])
+
+
+def _klyachko(re: float) -> float:
+    return 1.0 + re ** (2.0 / 3.0) / 6.0
+
+
+@pytest.mark.parametrize("re0", [1.5, 5.0, 20.0, 100.0, 400.0, 1500.0])
+def test_stopping_distance_closed_form_vs_solve_ivp(re0: float) -> None:
+    # Above Re0 = 1 the core uses the closed form of the Klyachko drag law
+    # C_D = (24/Re)(1 + Re^(2/3)/6); integrating the same law numerically must agree.
+    d, rho = 50e-6, 1000.0
+    v0 = re0 * gas.air_viscosity() / (gas.air_density() * d)
+    ref = _integrated_stopping_distance(d, v0, rho, _klyachko)
+    assert particle.stopping_distance(d, v0, rho) == pytest.approx(ref, rel=1e-8)
+
+
+@pytest.mark.parametrize("re0", [0.01, 0.5, 1.0])
+def test_stopping_distance_stokes_vs_solve_ivp(re0: float) -> None:
+    # At and below Re0 = 1 the core uses S = V0 tau, the integral of Stokes drag.
+    d, rho = 20e-6, 2000.0
+    v0 = re0 * gas.air_viscosity() / (gas.air_density() * d)
+    ref = _integrated_stopping_distance(d, v0, rho, lambda re: 1.0)
+    assert particle.stopping_distance(d, v0, rho) == pytest.approx(ref, rel=1e-8)
