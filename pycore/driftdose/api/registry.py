@@ -7,9 +7,10 @@ from __future__ import annotations
 
 from types import ModuleType
 
-from . import deposition, motion
+from . import deposition, motion, sampling
 
 CALCULATIONS: dict[str, ModuleType] = {
     "motion": motion,
     "deposition": deposition,
+    "sampling": sampling,
 }

@@ -567,7 +567,7 @@ class ChainResult:
     stage_penetrations: list[list[float]]  # per stage, per size [-]
     overall: list[float]  # product over stages, per size [-]
     reports: list[StageReport]
-    warnings: list[str]  # chain-level warnings (stage warnings are in reports)
+    size_warnings: list[list[str]]  # per stage: warnings that depend on the size range
     density: float  # particle density [kg/m^3]
     temperature: float  # [K]
     pressure: float  # [Pa]
@@ -626,7 +626,7 @@ class Chain:
             for row in per_stage:
                 p *= row[i]
             overall.append(p)
-        warnings = []
+        size_warnings: list[list[str]] = []
         d_max = max(diameters) if diameters else 0.0
         for stage in self.stages:
             text = ""
@@ -634,8 +634,7 @@ class Chain:
                 text = stage.axial_settling_warning(d_max, density, T, P)
             elif isinstance(stage, ScreenStack):
                 text = stage.impaction_warning(d_max, density, T, P)
-            if text:
-                warnings.append(f"{stage.name}: {text}")
+            size_warnings.append([text] if text else [])
         return ChainResult(
             diameters=list(diameters),
             aerodynamic_diameters=[
@@ -645,7 +644,7 @@ class Chain:
             stage_penetrations=per_stage,
             overall=overall,
             reports=reports,
-            warnings=warnings,
+            size_warnings=size_warnings,
             density=density,
             temperature=T,
             pressure=P,

@@ -1,0 +1,975 @@
+"""Calculation ``sampling``: does a chain of sampling stages deliver the sizes that matter?
+
+Inputs: ``stages``, an ordered list of stage objects, each ``{"type": ..., <parameter>:
+{"value": ..., "unit": ...}, ...}`` with the parameters of :data:`STAGE_FIELDS` for its type
+(checked by the same :class:`~driftdose.api.fields.Field` machinery as every other input;
+errors name the field as ``stages.<index>.<parameter>``, index from 0); the sampling
+``flow`` used by every stage that gives no flow of its own; air ``temperature`` and
+``pressure``; ``particle_density``; an optional ISO 7708 ``target`` fraction; and an
+optional measured ``spectrum`` (see :func:`_parse_spectrum`).
+
+Reply:
+
+- ``curves``: penetration versus volume-equivalent diameter on 241 sizes from 1 nm to
+  100 um, ``stages`` (one series per stage, in order), ``overall``, ``target`` (the ISO
+  7708 fraction at each size's aerodynamic diameter; ``None`` beyond 100 um aerodynamic),
+  ``x_aerodynamic`` (um) and, with a spectrum, ``spectrum`` (measured and corrected per bin);
+- ``results``: the overall penetration at 10 nm, 100 nm, 1 um and 10 um, the size band
+  passed with at least 50 %, the departure from the target (:func:`_departure`), a
+  ``stages_table`` (per stage: regime, key numbers, penetration at those sizes, its 50 %
+  sizes, warnings) and, with a spectrum, a ``spectrum_table`` with bins flagged where the
+  chain's penetration is below 50 % (correction unreliable);
+- ``warnings``: transition flow, Reynolds or Stokes numbers outside a model's range,
+  compressible speeds, extrapolated size ranges;
+- ``sources``: the published methods used.
+
+Bad input gives ``{"ok": false, "errors": [...]}`` with one message per faulty field.
+
+:data:`DEMOS` holds invented example chains (clearly labelled as such; none copies a
+published or commercial sampler) that the page can load; they are also offered through the
+``stages`` field's description.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+from .. import particle
+from .._numerics import logspace
+from ..sources import cite
+from ..transport import (
+    Bend,
+    Chain,
+    Cyclone,
+    Impactor,
+    ScreenStack,
+    StageInputError,
+    Tube,
+    correct_spectrum,
+    iso7708_fraction,
+)
+from ..transport.chain import UNRELIABLE_BELOW
+from ..transport.cyclone import ISO7708_MAX_DIAMETER
+from ..transport.impactor import DEFAULT_STEEPNESS
+from .fields import Field, FieldError, parse_fields
+from .reply import quantity, text_result
+from .units import auto_unit, canonical_unit, from_si, to_si, unit_label
+
+TITLE = "Sampling line and pre-separator penetration"
+
+CURVE_POINTS = 241
+CURVE_RANGE = (1e-9, 100e-6)  # [m]
+MAX_STAGES = 20
+MAX_SPECTRUM_BINS = 5000
+REFERENCE_SIZES = (("10nm", 10e-9), ("100nm", 100e-9), ("1um", 1e-6), ("10um", 10e-6))  # [m]
+DEPARTURE_RANGE = (0.1e-6, 100e-6)
+"""Aerodynamic diameters over which the departure from a target is measured [m]: the sizes
+that carry the mass of workplace aerosols and for which the ISO 7708 conventions are meant
+(our choice of range)."""
+
+# ---------------------------------------------------------------------------------------------
+# Per-stage fields
+# ---------------------------------------------------------------------------------------------
+
+
+def _name() -> Field:
+    return Field(
+        "name",
+        "Stage name",
+        "text",
+        "",
+        required=False,
+        help="Your label for this stage.",
+        extra={"max_length": 60},
+    )
+
+
+def _flow() -> Field:
+    return Field(
+        "flow",
+        "Flow through this stage",
+        "flow",
+        (None, "L/min"),
+        ("L/min", "m3/h", "cm3/s", "m3/s"),
+        minimum=0.0,
+        maximum=0.1,
+        exclusive_min=True,
+        required=False,
+        help="Leave empty to use the sampling flow.",
+    )
+
+
+def _tube_diameter() -> Field:
+    return Field(
+        "tube_diameter",
+        "Tube inner diameter",
+        "length",
+        (4.0, "mm"),
+        ("mm", "cm", "m"),
+        minimum=0.0,
+        maximum=1.0,
+        exclusive_min=True,
+    )
+
+
+STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
+    "tube": (
+        _name(),
+        Field(
+            "length",
+            "Tube length",
+            "length",
+            (1.0, "m"),
+            ("m", "cm", "mm"),
+            minimum=0.0,
+            maximum=1000.0,
+            exclusive_min=True,
+        ),
+        _tube_diameter(),
+        Field(
+            "inclination",
+            "Inclination from horizontal",
+            "angle",
+            (0.0, "deg"),
+            ("deg",),
+            minimum=-math.pi / 2,
+            maximum=math.pi / 2,
+            help="0° horizontal, 90° vertical.",
+        ),
+        Field(
+            "mechanisms",
+            "Loss mechanisms",
+            "choice",
+            "both",
+            choices=(
+                ("both", "Diffusion and settling"),
+                ("diffusion", "Diffusion only"),
+                ("settling", "Settling only"),
+            ),
+        ),
+        _flow(),
+    ),
+    "bend": (
+        _name(),
+        _tube_diameter(),
+        Field(
+            "bend_angle",
+            "Bend angle",
+            "angle",
+            (90.0, "deg"),
+            ("deg",),
+            minimum=0.0,
+            maximum=2 * math.pi,
+            exclusive_min=True,
+        ),
+        Field(
+            "curvature_radius",
+            "Bend radius (to the tube axis)",
+            "length",
+            (5.0, "cm"),
+            ("cm", "mm", "m"),
+            minimum=0.0,
+            maximum=10.0,
+            exclusive_min=True,
+            help="Must exceed half the tube's inner diameter.",
+        ),
+        _flow(),
+    ),
+    "cyclone": (
+        _name(),
+        Field(
+            "curve",
+            "Penetration curve",
+            "choice",
+            "lognormal",
+            choices=(
+                ("lognormal", "Lognormal from cut size and steepness"),
+                ("iso7708_respirable", "Ideal ISO 7708 respirable curve"),
+            ),
+        ),
+        Field(
+            "d50",
+            "Cut size (aerodynamic, 50 % penetration)",
+            "length",
+            (4.0, "um"),
+            ("um",),
+            minimum=0.05e-6,
+            maximum=100e-6,
+        ),
+        Field(
+            "steepness",
+            "Steepness (GSD of the curve)",
+            "dimensionless",
+            (1.5, "1"),
+            ("1",),
+            minimum=1.0,
+            maximum=5.0,
+            exclusive_min=True,
+            help="d50 / d84; smaller is sharper. Above 1.",
+        ),
+    ),
+    "impactor": (
+        _name(),
+        Field(
+            "jet",
+            "Jet shape",
+            "choice",
+            "round",
+            choices=(("round", "Round nozzles"), ("rectangular", "Rectangular slits")),
+        ),
+        Field(
+            "nozzle_diameter",
+            "Nozzle diameter or slit width",
+            "length",
+            (1.0, "mm"),
+            ("mm", "um", "cm"),
+            minimum=0.0,
+            maximum=0.1,
+            exclusive_min=True,
+        ),
+        Field(
+            "n_nozzles",
+            "Number of nozzles",
+            "integer",
+            1,
+            minimum=1,
+            maximum=10000,
+        ),
+        Field(
+            "slit_length",
+            "Slit length (rectangular jets)",
+            "length",
+            (10.0, "mm"),
+            ("mm", "cm"),
+            minimum=0.0,
+            maximum=1.0,
+            exclusive_min=True,
+        ),
+        Field(
+            "steepness",
+            "Steepness of the efficiency curve",
+            "dimensionless",
+            (DEFAULT_STEEPNESS, "1"),
+            ("1",),
+            minimum=1.0,
+            maximum=5.0,
+            exclusive_min=True,
+            help="Width in √Stk around the cut; 1.2 is a plain default, not a published value.",
+        ),
+        _flow(),
+    ),
+    "screens": (
+        _name(),
+        Field(
+            "wire_diameter",
+            "Wire diameter",
+            "length",
+            (50.0, "um"),
+            ("um", "mm"),
+            minimum=0.0,
+            maximum=5e-3,
+            exclusive_min=True,
+        ),
+        Field(
+            "solidity",
+            "Solidity (solid volume fraction)",
+            "dimensionless",
+            (0.3, "1"),
+            ("1",),
+            minimum=0.0,
+            maximum=1.0,
+            exclusive_min=True,
+            help="Between 0 and 1; ordinary mesh screens are about 0.2 to 0.4.",
+        ),
+        Field(
+            "thickness",
+            "Thickness of one screen",
+            "length",
+            (100.0, "um"),
+            ("um", "mm"),
+            minimum=0.0,
+            maximum=0.05,
+            exclusive_min=True,
+            help="About twice the wire diameter for plain-woven screens.",
+        ),
+        Field(
+            "screen_diameter",
+            "Exposed screen diameter",
+            "length",
+            (25.0, "mm"),
+            ("mm", "cm"),
+            minimum=0.0,
+            maximum=1.0,
+            exclusive_min=True,
+        ),
+        Field(
+            "n_screens",
+            "Number of screens",
+            "integer",
+            1,
+            minimum=1,
+            maximum=500,
+        ),
+        Field(
+            "impaction",
+            "Impaction on the wires",
+            "choice",
+            "off",
+            choices=(("off", "Not included"), ("on", "Isolated-cylinder estimate")),
+            help="The fan-model fit covers diffusion and interception.",
+        ),
+        _flow(),
+    ),
+}
+"""Parameters of each stage type, validated with :func:`~driftdose.api.fields.parse_fields`."""
+
+STAGE_LABELS: dict[str, str] = {
+    "tube": "Straight tube",
+    "bend": "Bend",
+    "cyclone": "Cyclone or pre-separator",
+    "impactor": "Impactor stage",
+    "screens": "Wire screens",
+}
+
+STAGE_HELP: dict[str, str] = {
+    "tube": "Diffusion (Gormley & Kennedy; Friedlander) and settling (Fuchs; Heyder & "
+    "Gebhart; Schwendiman) in a straight tube.",
+    "bend": "Inertial loss in a bend (Pui, Romay-Novas & Liu 1987).",
+    "cyclone": "A penetration curve from a cut size and steepness, or the ideal ISO 7708 "
+    "respirable curve.",
+    "impactor": "Cut size from the Stokes number at 50 % (Marple & Willeke 1976).",
+    "screens": "A stack of wire screens as a fan-model filter (Cheng & Yeh 1980; Cheng, Yeh "
+    "& Brinsko 1985).",
+}
+
+# Core parameter names (StageInputError.parameter) -> field names of this boundary.
+_PARAMETER_FIELDS = {"angle": "inclination"}
+
+
+def _q(value: float, unit: str) -> dict[str, Any]:
+    return {"value": value, "unit": unit}
+
+
+DEMOS: dict[str, dict[str, Any]] = {
+    "long_narrow_tube": {
+        "label": "Long narrow sampling tube (invented demo)",
+        "description": (
+            "An invented example, not a real installation: 10 m of 4 mm tubing laid "
+            "horizontally and one 90° bend, at 1.5 L/min."
+        ),
+        "inputs": {
+            "flow": _q(1.5, "L/min"),
+            "particle_density": _q(1.0, "g/cm3"),
+            "target": "none",
+            "stages": [
+                {
+                    "type": "tube",
+                    "name": "10 m of 4 mm tubing",
+                    "length": _q(10.0, "m"),
+                    "tube_diameter": _q(4.0, "mm"),
+                    "inclination": _q(0.0, "deg"),
+                    "mechanisms": "both",
+                },
+                {
+                    "type": "bend",
+                    "name": "90° bend",
+                    "tube_diameter": _q(4.0, "mm"),
+                    "bend_angle": _q(90.0, "deg"),
+                    "curvature_radius": _q(5.0, "cm"),
+                },
+            ],
+        },
+    },
+    "screen_stack": {
+        "label": "Screen stack (invented demo)",
+        "description": (
+            "An invented example, not a real instrument: 30 cm of 6 mm tubing feeding a "
+            "stack of 20 generic wire screens (40 µm wire, solidity 0.3) 20 mm across, "
+            "at 1.5 L/min."
+        ),
+        "inputs": {
+            "flow": _q(1.5, "L/min"),
+            "particle_density": _q(1.0, "g/cm3"),
+            "target": "none",
+            "stages": [
+                {
+                    "type": "tube",
+                    "name": "Inlet tube",
+                    "length": _q(30.0, "cm"),
+                    "tube_diameter": _q(6.0, "mm"),
+                    "inclination": _q(0.0, "deg"),
+                    "mechanisms": "both",
+                },
+                {
+                    "type": "screens",
+                    "name": "20 screens",
+                    "wire_diameter": _q(40.0, "um"),
+                    "solidity": _q(0.3, "1"),
+                    "thickness": _q(80.0, "um"),
+                    "screen_diameter": _q(20.0, "mm"),
+                    "n_screens": 20,
+                    "impaction": "off",
+                },
+            ],
+        },
+    },
+    "respirable_line": {
+        "label": "Short line with a respirable pre-separator (invented demo)",
+        "description": (
+            "An invented example: 1 m of 6 mm horizontal tubing to a pre-separator "
+            "with a lognormal curve (cut 4 µm, steepness 1.5), compared with the ISO 7708 "
+            "respirable convention, at 2.5 L/min."
+        ),
+        "inputs": {
+            "flow": _q(2.5, "L/min"),
+            "particle_density": _q(2.0, "g/cm3"),
+            "target": "respirable",
+            "stages": [
+                {
+                    "type": "tube",
+                    "name": "Inlet tube",
+                    "length": _q(1.0, "m"),
+                    "tube_diameter": _q(6.0, "mm"),
+                    "inclination": _q(0.0, "deg"),
+                    "mechanisms": "both",
+                },
+                {
+                    "type": "cyclone",
+                    "name": "Pre-separator",
+                    "curve": "lognormal",
+                    "d50": _q(4.0, "um"),
+                    "steepness": _q(1.5, "1"),
+                },
+            ],
+        },
+    },
+}
+"""Invented demonstration chains for the page; none copies a published or commercial design."""
+
+TARGETS = (
+    ("none", "None"),
+    ("inhalable", "ISO 7708 inhalable"),
+    ("thoracic", "ISO 7708 thoracic"),
+    ("respirable", "ISO 7708 respirable"),
+    ("high_risk_respirable", "ISO 7708 high-risk respirable"),
+)
+
+FIELDS: tuple[Field, ...] = (
+    Field(
+        "stages",
+        "Sampling chain",
+        "data",
+        DEMOS["long_narrow_tube"]["inputs"]["stages"],
+        help="Stages in the order the air passes them.",
+        extra={
+            "max_stages": MAX_STAGES,
+            "stage_types": {
+                kind: {
+                    "label": STAGE_LABELS[kind],
+                    "help": STAGE_HELP[kind],
+                    "fields": [f.describe() for f in fields],
+                }
+                for kind, fields in STAGE_FIELDS.items()
+            },
+            "demos": DEMOS,
+        },
+    ),
+    Field(
+        "flow",
+        "Sampling flow",
+        "flow",
+        (1.5, "L/min"),
+        ("L/min", "m3/h", "cm3/s", "m3/s"),
+        minimum=0.0,
+        maximum=0.1,
+        exclusive_min=True,
+        help="Used by every stage that does not set its own flow.",
+    ),
+    Field(
+        "particle_density",
+        "Particle density",
+        "density",
+        (1.0, "g/cm3"),
+        ("g/cm3", "kg/m3"),
+        minimum=100.0,
+        maximum=25000.0,
+    ),
+    Field(
+        "temperature",
+        "Air temperature",
+        "temperature",
+        (20.0, "degC"),
+        ("degC", "K"),
+        minimum=223.15,
+        maximum=773.15,
+    ),
+    Field(
+        "pressure",
+        "Air pressure",
+        "pressure",
+        (101.325, "kPa"),
+        ("kPa", "atm", "hPa", "Pa"),
+        minimum=10e3,
+        maximum=200e3,
+    ),
+    Field(
+        "target",
+        "Target curve",
+        "choice",
+        "none",
+        choices=TARGETS,
+        help="A health-related fraction the chain should reproduce.",
+    ),
+    Field(
+        "spectrum",
+        "Measured spectrum to correct",
+        "data",
+        None,
+        required=False,
+        help=(
+            "Bins as {diameters, concentrations, diameter_unit, diameter_type} or a CSV "
+            "text as {csv, diameter_column, concentration_column, concentration_type, "
+            "diameter_unit, concentration_unit, diameter_type}."
+        ),
+    ),
+)
+
+
+# ---------------------------------------------------------------------------------------------
+# Building the chain
+# ---------------------------------------------------------------------------------------------
+
+
+def _stage_error(index: int, kind: str | None, field: str, message: str) -> dict[str, str]:
+    label = STAGE_LABELS.get(kind or "", "stage")
+    return {
+        "field": f"stages.{index}.{field}",
+        "message": f"Stage {index + 1} ({label.lower()}): {message}",
+    }
+
+
+def _build_stage(index: int, raw: Any, flow: float, T: float, P: float):
+    """Validate one stage description; return (stage, errors)."""
+    if not isinstance(raw, dict):
+        return None, [_stage_error(index, None, "type", "must be an object with a type.")]
+    kind = raw.get("type")
+    if not isinstance(kind, str) or kind not in STAGE_FIELDS:
+        return None, [
+            _stage_error(index, None, "type", f"type must be one of {', '.join(STAGE_FIELDS)}.")
+        ]
+    v, errors = parse_fields(STAGE_FIELDS[kind], raw)
+    if errors:
+        return None, [_stage_error(index, kind, e["field"], e["message"]) for e in errors]
+    own_flow = v.get("flow")
+    q = own_flow if own_flow is not None else flow
+    name = v.get("name") or f"{index + 1}. {STAGE_LABELS[kind]}"
+    try:
+        stage = _make_stage(kind, v, q, name)
+        stage.report(T, P)  # refuses near-sonic speeds
+    except StageInputError as exc:
+        field = _PARAMETER_FIELDS.get(exc.parameter, exc.parameter)
+        if field == "flow" and own_flow is None:
+            return None, [
+                {
+                    "field": "flow",
+                    "message": f"Sampling flow, at stage {index + 1} "
+                    f"({STAGE_LABELS[kind].lower()}): {exc.message}",
+                }
+            ]
+        return None, [_stage_error(index, kind, field, exc.message)]
+    return stage, []
+
+
+def _make_stage(kind: str, v: dict[str, Any], q: float, name: str):
+    if kind == "tube":
+        mech = v["mechanisms"]
+        return Tube(
+            v["length"],
+            v["tube_diameter"],
+            q,
+            angle=v["inclination"],
+            diffusion=mech in ("both", "diffusion"),
+            settling=mech in ("both", "settling"),
+            name=name,
+        )
+    if kind == "bend":
+        return Bend(v["tube_diameter"], q, v["bend_angle"], v["curvature_radius"], name=name)
+    if kind == "cyclone":
+        return Cyclone(v["d50"], v["steepness"], v["curve"], name=name)
+    if kind == "impactor":
+        rect = v["jet"] == "rectangular"
+        return Impactor(
+            v["nozzle_diameter"],
+            q,
+            v["n_nozzles"],
+            v["jet"],
+            v["slit_length"] if rect else None,
+            v["steepness"],
+            name=name,
+        )
+    return ScreenStack(
+        v["wire_diameter"],
+        v["solidity"],
+        v["thickness"],
+        q,
+        v["screen_diameter"],
+        v["n_screens"],
+        v["impaction"] == "on",
+        name=name,
+    )
+
+
+# ---------------------------------------------------------------------------------------------
+# The measured spectrum
+# ---------------------------------------------------------------------------------------------
+
+
+def _parse_spectrum(raw: Any, density: float, T: float, P: float) -> dict[str, Any]:
+    """Turn the ``spectrum`` input into bins in SI; raise FieldError on a fault.
+
+    Two forms are accepted:
+
+    - already-parsed bins: ``{"diameters": [...], "concentrations": [...],
+      "diameter_unit": "nm", "concentration_unit": "1/cm3", "diameter_type":
+      "volume_equivalent" | "aerodynamic"}``; concentrations may be in any unit (dN, dN/dlogD,
+      mass...) and are returned in the same unit, which is only a label here;
+    - CSV text read by :func:`driftdose.spectrum.parse_spectrum_csv`: ``{"csv": text,
+      "diameter_column", "concentration_column", "concentration_type", "diameter_unit",
+      "concentration_unit", "diameter_type"}``; concentrations become particles per bin,
+      shown per cm^3.
+    """
+    if not isinstance(raw, dict):
+        raise FieldError("spectrum", "Measured spectrum must be an object of bins or CSV text.")
+    d_unit = raw.get("diameter_unit", "nm")
+    try:
+        d_unit = canonical_unit("length", str(d_unit))
+    except KeyError:
+        raise FieldError("spectrum", "Spectrum: unknown diameter unit; use nm, um or m.") from None
+    d_type = raw.get("diameter_type", "volume_equivalent")
+    if d_type not in ("volume_equivalent", "aerodynamic"):
+        raise FieldError(
+            "spectrum", "Spectrum: diameter type must be volume_equivalent or aerodynamic."
+        )
+    if "csv" in raw:
+        from .. import spectrum as _spectrum  # the shared CSV importer
+
+        c_unit = raw.get("concentration_unit", "1/cm3")
+        try:
+            c_unit = canonical_unit("number_concentration", str(c_unit))
+        except KeyError:
+            raise FieldError(
+                "spectrum", "Spectrum: unknown concentration unit; use 1/cm3 or 1/m3."
+            ) from None
+        try:
+            imported = _spectrum.parse_spectrum_csv(
+                raw["csv"] if isinstance(raw["csv"], str) else "",
+                raw.get("diameter_column", 1),
+                raw.get("concentration_column", 2),
+                raw.get("concentration_type", "dN/dlogDp"),
+                to_si(1.0, "length", d_unit),
+                to_si(1.0, "number_concentration", c_unit),
+            )
+        except ValueError as exc:  # SpectrumError is a ValueError
+            raise FieldError("spectrum", f"Spectrum file: {exc}") from None
+        diameters = list(imported.diameters)
+        values = [n / 1e6 for n in imported.numbers]  # per bin, shown per cm^3
+        shown_unit = "particles/cm³ per bin"
+    else:
+        diameters_raw = raw.get("diameters")
+        values_raw = raw.get("concentrations")
+        if not isinstance(diameters_raw, list) or not isinstance(values_raw, list):
+            raise FieldError("spectrum", "Spectrum: give lists of diameters and concentrations.")
+        if len(diameters_raw) != len(values_raw):
+            raise FieldError("spectrum", "Spectrum: diameters and concentrations differ in length.")
+        if not 1 <= len(diameters_raw) <= MAX_SPECTRUM_BINS:
+            raise FieldError("spectrum", f"Spectrum: give 1 to {MAX_SPECTRUM_BINS} bins.")
+        diameters, values = [], []
+        for i, (d, c) in enumerate(zip(diameters_raw, values_raw, strict=True)):
+            if not _is_number(d) or not _is_number(c):
+                raise FieldError("spectrum", f"Spectrum: bin {i + 1} is not a pair of numbers.")
+            if d <= 0.0:
+                raise FieldError("spectrum", f"Spectrum: bin {i + 1} has a diameter ≤ 0.")
+            if c < 0.0:
+                raise FieldError("spectrum", f"Spectrum: bin {i + 1} has a negative value.")
+            diameters.append(to_si(float(d), "length", d_unit))
+            values.append(float(c))
+        shown_unit = str(raw.get("concentration_unit", ""))[:30]
+    for i, d in enumerate(diameters):
+        if not 0.5e-9 <= d <= 1e-3:
+            raise FieldError(
+                "spectrum", f"Spectrum: bin {i + 1} diameter must lie between 0.5 nm and 1 mm."
+            )
+    if d_type == "aerodynamic":
+        diameters_ve = [
+            particle.volume_equivalent_diameter(d, density, 1.0, T, P) for d in diameters
+        ]
+    else:
+        diameters_ve = diameters
+    return {
+        "diameters": diameters,
+        "diameters_ve": diameters_ve,
+        "values": values,
+        "unit": shown_unit,
+        "diameter_type": d_type,
+    }
+
+
+def _is_number(x: Any) -> bool:
+    return isinstance(x, int | float) and not isinstance(x, bool) and math.isfinite(x)
+
+
+# ---------------------------------------------------------------------------------------------
+# Helpers for the reply
+# ---------------------------------------------------------------------------------------------
+
+
+def _crossings(xs: list[float], ys: list[float], level: float) -> list[float]:
+    """Sizes where the curve crosses ``level`` (linear in y, logarithmic in x)."""
+    out = []
+    for i in range(len(xs) - 1):
+        y0, y1 = ys[i] - level, ys[i + 1] - level
+        if (y0 < 0.0) != (y1 < 0.0):
+            t = y0 / (y0 - y1)
+            out.append(math.exp(math.log(xs[i]) + t * (math.log(xs[i + 1]) - math.log(xs[i]))))
+    return out
+
+
+def _length_text(x: float) -> str:
+    unit = auto_unit("length", x)
+    return f"{from_si(x, 'length', unit):.3g} {unit_label(unit)}"
+
+
+def _band_text(xs: list[float], ys: list[float]) -> str:
+    """Describe the size bands where the curve is at or above 50 %."""
+    above = [y >= 0.5 for y in ys]
+    if not any(above):
+        return "No size between 1 nm and 100 µm passes with 50 % or more."
+    if all(above):
+        return "Every size from 1 nm to 100 µm passes with at least 50 %."
+    edges = _crossings(xs, ys, 0.5)
+    points = (["1 nm"] if above[0] else []) + [_length_text(x) for x in edges]
+    if above[-1]:
+        points.append("100 µm")
+    bands = [f"{points[i]} to {points[i + 1]}" for i in range(0, len(points) - 1, 2)]
+    return "From " + "; from ".join(bands) + "."
+
+
+def _fraction_row(label: str, p: float, note: str = "") -> dict[str, Any]:
+    return {
+        "label": label,
+        "symbol": "",
+        "value": 100.0 * p,
+        "unit": "%",
+        "si": p,
+        "si_unit": "–",
+        "note": note,
+    }
+
+
+_UNIT_KINDS = {"m/s": "velocity", "m": "length", "s": "time"}
+
+
+def _report_rows(quantities: dict[str, tuple[str, float, str]]) -> list[dict[str, Any]]:
+    rows = []
+    for key, (label, si, unit) in quantities.items():
+        kind = _UNIT_KINDS.get(unit)
+        row = quantity(label, si, kind) if kind else quantity(label, si, None, unit)
+        row["key"] = key
+        rows.append(row)
+    return rows
+
+
+def _departure(
+    xs_ae: list[float], overall: list[float], target: list[float | None]
+) -> dict[str, Any]:
+    """Maximum and mean absolute difference between the chain and the target.
+
+    Both are taken over the curve's sizes whose aerodynamic diameter lies in
+    :data:`DEPARTURE_RANGE` (0.1 to 100 um): the maximum of |P - E| with the size where it
+    occurs, and the mean of |P - E| over those sizes, which are evenly spaced in log d, so
+    the mean weights every decade of size alike. Both are in fraction units (0.1 = 10
+    percentage points).
+    """
+    lo, hi = DEPARTURE_RANGE
+    diffs = [
+        (abs(p - e), x)
+        for x, p, e in zip(xs_ae, overall, target, strict=True)
+        if e is not None and lo <= x <= hi
+    ]
+    if not diffs:
+        return {}
+    worst, at = max(diffs)
+    mean = sum(d for d, _ in diffs) / len(diffs)
+    return {
+        "departure_max": _fraction_row(
+            "Largest departure from the target (0.1–100 µm aerodynamic)",
+            worst,
+            note=f"at {_length_text(at)} aerodynamic; percentage points",
+        ),
+        "departure_mean": _fraction_row(
+            "Mean departure from the target (0.1–100 µm aerodynamic, log-size average)",
+            mean,
+            note="percentage points",
+        ),
+    }
+
+
+# ---------------------------------------------------------------------------------------------
+# The calculation
+# ---------------------------------------------------------------------------------------------
+
+
+def run(v: dict[str, Any]) -> dict[str, Any]:
+    """Compute the sampling reply from validated SI inputs."""
+    T, P, rho, flow = v["temperature"], v["pressure"], v["particle_density"], v["flow"]
+    raw_stages = v["stages"]
+    if not isinstance(raw_stages, list) or not raw_stages:
+        raise FieldError("stages", "Add at least one stage to the sampling chain.")
+    if len(raw_stages) > MAX_STAGES:
+        raise FieldError("stages", f"A chain may hold at most {MAX_STAGES} stages.")
+    stages, errors = [], []
+    for i, raw in enumerate(raw_stages):
+        stage, errs = _build_stage(i, raw, flow, T, P)
+        errors += errs
+        stages.append(stage)
+    spectrum = None
+    if v.get("spectrum") is not None:
+        try:
+            spectrum = _parse_spectrum(v["spectrum"], rho, T, P)
+        except FieldError as exc:
+            errors.append({"field": exc.field, "message": exc.message})
+    if errors:
+        return {"ok": False, "errors": errors}
+
+    chain = Chain(tuple(stages))
+    xs = logspace(*CURVE_RANGE, CURVE_POINTS)
+    result = chain.evaluate(xs, rho, T, P)
+    x_um = [x * 1e6 for x in xs]
+    warnings: list[str] = []
+    sources: list[str] = [
+        "sutherland_ussa1976",
+        "willeke1976",
+        "kim2005",
+        "einstein1905",
+        "hinds1999",
+        "schiller_naumann1933",
+    ]
+
+    stage_rows = []
+    curves: dict[str, Any] = {
+        "x_label": "Particle diameter (volume-equivalent)",
+        "x_unit": "µm",
+        "y_label": "Penetration",
+        "y_unit": "–",
+        "x_aerodynamic": [x * 1e6 for x in result.aerodynamic_diameters],
+        "stages": [],
+    }
+    for i, (stage, report, row, more) in enumerate(
+        zip(stages, result.reports, result.stage_penetrations, result.size_warnings, strict=True)
+    ):
+        curves["stages"].append({"label": report.name, "x": x_um, "y": row})
+        stage_warnings = list(report.warnings) + more
+        for w in stage_warnings:
+            warnings.append(f"Stage {i + 1} ({report.name}): {w}")
+        for key in report.sources:
+            if key not in sources:
+                sources.append(key)
+        stage_rows.append(
+            {
+                "index": i,
+                "name": report.name,
+                "type": stage.kind,
+                "type_label": STAGE_LABELS[stage.kind],
+                "regime": report.regime,
+                "quantities": _report_rows(report.quantities),
+                "penetration_at": [
+                    _fraction_row(_length_text(d), stage.penetration(d, rho, T, P))
+                    for _, d in REFERENCE_SIZES
+                ],
+                "half_penetration_sizes": [
+                    quantity("50 % size", x, "length") for x in _crossings(xs, row, 0.5)
+                ],
+                "warnings": stage_warnings,
+            }
+        )
+    curves["overall"] = {"label": "Whole chain", "x": x_um, "y": result.overall}
+
+    results: dict[str, Any] = {}
+    for key, d in REFERENCE_SIZES:
+        results[f"overall_{key}"] = _fraction_row(
+            f"Whole chain, {_length_text(d)}", chain.penetration(d, rho, T, P)
+        )
+    results["pass_band"] = text_result(
+        "Sizes passed with at least 50 %", _band_text(xs, result.overall), "volume-equivalent"
+    )
+
+    target = v["target"]
+    if target != "none":
+        label = dict(TARGETS)[target]
+        ys_target: list[float | None] = [
+            iso7708_fraction(x, target) if x <= ISO7708_MAX_DIAMETER else None
+            for x in result.aerodynamic_diameters
+        ]
+        curves["target"] = {"label": label, "x": x_um, "y": ys_target}
+        results.update(_departure(result.aerodynamic_diameters, result.overall, ys_target))
+        if "iso7708" not in sources:
+            sources.append("iso7708")
+
+    results["stages_table"] = {
+        "label": "Stages",
+        "reference_sizes": [_length_text(d) for _, d in REFERENCE_SIZES],
+        "rows": stage_rows,
+    }
+
+    if spectrum is not None:
+        corrected = correct_spectrum(chain, spectrum["diameters_ve"], spectrum["values"], rho, T, P)
+        shown = [s * 1e6 for s in spectrum["diameters"]]
+        results["spectrum_table"] = {
+            "label": "Measured spectrum corrected for the chain's losses",
+            "diameter_type": spectrum["diameter_type"],
+            "diameter_unit": "µm",
+            "concentration_unit": spectrum["unit"],
+            "unreliable_below": UNRELIABLE_BELOW,
+            "rows": [
+                {
+                    "diameter": x,
+                    "measured": m,
+                    "penetration": p,
+                    "corrected": c,
+                    "unreliable": flag,
+                }
+                for x, m, p, c, flag in zip(
+                    shown,
+                    corrected.measured,
+                    corrected.penetration,
+                    corrected.corrected,
+                    corrected.unreliable,
+                    strict=True,
+                )
+            ],
+        }
+        n_bad = sum(corrected.unreliable)
+        if n_bad:
+            warnings.append(
+                f"{n_bad} of {len(corrected.unreliable)} spectrum bins pass the chain with less "
+                "than 50 %: their correction is unreliable (flagged)."
+            )
+        curves["spectrum"] = {
+            "x_label": "Diameter"
+            + (" (aerodynamic)" if spectrum["diameter_type"] == "aerodynamic" else ""),
+            "x_unit": "µm",
+            "y_label": "Concentration",
+            "y_unit": spectrum["unit"],
+            "measured": {"label": "Measured", "x": shown, "y": corrected.measured},
+            "corrected": {"label": "Corrected for losses", "x": shown, "y": corrected.corrected},
+            "unreliable": corrected.unreliable,
+        }
+
+    if rho != 1000.0:
+        warnings.append(
+            "Sizes on the chart are volume-equivalent diameters of spheres of the given "
+            "density; cyclone curves and targets act on the aerodynamic diameter and are "
+            "converted."
+        )
+    return {"results": results, "curves": curves, "warnings": warnings, "sources": cite(*sources)}
