@@ -139,7 +139,9 @@ def format_number(value: Any, digits: int = SIG_FIGS) -> str:
     if value == 0:
         return "0"
     if 1e-3 <= abs(value) < 1e6:
-        return _trim_zeros(to_precision(float(value), digits))
+        text = to_precision(float(value), digits)
+        # toPrecision writes 12350 as 1.235e+4; the page then writes the number out in full
+        return _js_string(float(text)) if "e" in text else _trim_zeros(text)
     mantissa, exponent = to_exponential(float(value), digits - 1).split("e")
     return f"{_trim_zeros(mantissa)} × 10{str(int(exponent)).translate(_SUPERSCRIPT)}"
 
@@ -151,7 +153,7 @@ def plain_number(value: Any, digits: int = SIG_FIGS) -> str:
     missing value gives an empty text.
 
     >>> plain_number(2.73456e-11), plain_number(0.12345), plain_number(12345.6)
-    ('2.735e-11', '0.1235', '1.235e+4')
+    ('2.735e-11', '0.1235', '12350')
     """
     if not _is_number(value):
         return ""
