@@ -1,0 +1,328 @@
+"""The sampling calculation's reply: shape, validation messages, and agreement with the core.
+
+Wiring checks: the models are checked against sources in tests/core; here the reply must carry
+what the core returns for the same SI inputs, and every bad input must come back as a message
+on its own field.
+"""
+
+from __future__ import annotations
+
+import copy
+import json
+import math
+
+import pytest
+
+from driftdose import particle
+from driftdose.api import describe, handle, handle_json
+from driftdose.api.sampling import CURVE_POINTS, DEMOS, STAGE_FIELDS
+from driftdose.sources import SOURCES
+from driftdose.transport import Bend, Chain, Cyclone, Impactor, ScreenStack, Tube, iso7708_fraction
+
+
+def q(value, unit):
+    return {"value": value, "unit": unit}
+
+
+def request(stages, **inputs):
+    return {"kind": "sampling", "inputs": {"stages": stages, **inputs}}
+
+
+TUBE = {"type": "tube", "length": q(2, "m"), "tube_diameter": q(4, "mm")}
+BEND = {
+    "type": "bend",
+    "tube_diameter": q(4, "mm"),
+    "bend_angle": q(90, "deg"),
+    "curvature_radius": q(3, "cm"),
+}
+CYCLONE = {"type": "cyclone", "curve": "lognormal", "d50": q(4, "um"), "steepness": q(1.5, "1")}
+IMPACTOR = {
+    "type": "impactor",
+    "jet": "round",
+    "nozzle_diameter": q(1, "mm"),
+    "n_nozzles": 1,
+    "steepness": q(1.2, "1"),
+}
+SCREENS = {
+    "type": "screens",
+    "wire_diameter": q(50, "um"),
+    "solidity": q(0.3, "1"),
+    "thickness": q(100, "um"),
+    "screen_diameter": q(25, "mm"),
+    "n_screens": 5,
+}
+ALL = [TUBE, BEND, CYCLONE, IMPACTOR, SCREENS]
+
+
+def errors_by_field(reply):
+    assert reply["ok"] is False
+    return {e["field"]: e["message"] for e in reply["errors"]}
+
+
+# --- shape and agreement with the core --------------------------------------------------------
+
+
+def test_sampling_reply_shape_and_json() -> None:
+    reply = handle(request(ALL, flow=q(1.5, "L/min"), target="respirable"))
+    assert reply["ok"] is True, reply.get("errors")
+    curves = reply["curves"]
+    assert len(curves["stages"]) == 5
+    for series in [*curves["stages"], curves["overall"], curves["target"]]:
+        assert len(series["x"]) == len(series["y"]) == CURVE_POINTS >= 200
+    assert curves["overall"]["x"][0] == pytest.approx(1e-3)  # 1 nm in um
+    assert curves["overall"]["x"][-1] == pytest.approx(100.0)  # 100 um
+    results = reply["results"]
+    for key in ("overall_10nm", "overall_100nm", "overall_1um", "overall_10um", "pass_band"):
+        assert key in results
+    assert "departure_max" in results and "departure_mean" in results
+    assert len(results["stages_table"]["rows"]) == 5
+    for src in reply["sources"]:
+        assert SOURCES[src["key"]] == src["citation"]
+    text = handle_json(json.dumps(request(ALL, target="thoracic")))
+    assert json.loads(text)["ok"] is True
+
+
+def test_sampling_curves_match_core_chain() -> None:
+    reply = handle(
+        request(
+            ALL,
+            flow=q(1.5, "L/min"),
+            particle_density=q(2.0, "g/cm3"),
+            temperature=q(30, "degC"),
+            pressure=q(95, "kPa"),
+        )
+    )
+    assert reply["ok"] is True
+    Q, T, P, rho = 1.5e-3 / 60, 303.15, 95e3, 2000.0
+    chain = Chain(
+        (
+            Tube(2.0, 4e-3, Q),
+            Bend(4e-3, Q, math.pi / 2, 0.03),
+            Cyclone(4e-6, 1.5),
+            Impactor(1e-3, Q, steepness=1.2),
+            ScreenStack(50e-6, 0.3, 100e-6, Q, 25e-3, 5),
+        )
+    )
+    xs = [x * 1e-6 for x in reply["curves"]["overall"]["x"]]
+    for i in (0, 60, 120, 180, 240):
+        d = xs[i]
+        assert reply["curves"]["overall"]["y"][i] == pytest.approx(
+            chain.penetration(d, rho, T, P), rel=1e-9, abs=1e-300
+        )
+        for k, stage in enumerate(chain.stages):
+            assert reply["curves"]["stages"][k]["y"][i] == pytest.approx(
+                stage.penetration(d, rho, T, P), rel=1e-9, abs=1e-300
+            )
+    p1 = chain.penetration(1e-6, rho, T, P)
+    assert reply["results"]["overall_1um"]["value"] == pytest.approx(100 * p1, rel=1e-9)
+    assert reply["results"]["overall_1um"]["si"] == pytest.approx(p1, rel=1e-9)
+
+
+def test_sampling_target_overlay_and_departure() -> None:
+    reply = handle(request([CYCLONE], target="respirable"))
+    assert reply["ok"] is True
+    curves = reply["curves"]
+    xs_ae = [x * 1e-6 for x in curves["x_aerodynamic"]]
+    ys = curves["target"]["y"]
+    for x, y in zip(xs_ae, ys, strict=True):
+        if x > 100e-6:
+            assert y is None
+        else:
+            assert y == pytest.approx(iso7708_fraction(x, "respirable"), rel=1e-12)
+    # Departure: max and mean of |P - E| over 0.1-100 um aerodynamic, in percentage points.
+    overall = curves["overall"]["y"]
+    diffs = [
+        abs(p - e)
+        for x, p, e in zip(xs_ae, overall, ys, strict=True)
+        if e is not None and 0.1e-6 <= x <= 100e-6
+    ]
+    assert reply["results"]["departure_max"]["value"] == pytest.approx(100 * max(diffs))
+    assert reply["results"]["departure_mean"]["value"] == pytest.approx(
+        100 * sum(diffs) / len(diffs)
+    )
+
+
+def test_sampling_ideal_respirable_cyclone_has_no_departure_from_respirable() -> None:
+    ideal = {"type": "cyclone", "curve": "iso7708_respirable"}
+    reply = handle(request([ideal], target="respirable"))
+    assert reply["results"]["departure_max"]["si"] == pytest.approx(0.0, abs=1e-12)
+
+
+def test_sampling_spectrum_bins_corrected_and_flagged() -> None:
+    spectrum = {
+        "diameters": [5, 20, 100, 500, 3000],
+        "diameter_unit": "nm",
+        "concentrations": [1000.0, 2000.0, 3000.0, 400.0, 10.0],
+        "concentration_unit": "1/cm³ per bin",
+    }
+    reply = handle(request([TUBE, CYCLONE], flow=q(1, "L/min"), spectrum=spectrum))
+    assert reply["ok"] is True, reply.get("errors")
+    table = reply["results"]["spectrum_table"]
+    chain = Chain((Tube(2.0, 4e-3, 1e-3 / 60), Cyclone(4e-6, 1.5)))
+    for row, d_nm, c in zip(
+        table["rows"], spectrum["diameters"], spectrum["concentrations"], strict=True
+    ):
+        p = chain.penetration(d_nm * 1e-9, 1000.0)
+        assert row["diameter"] == pytest.approx(d_nm * 1e-3)
+        assert row["penetration"] == pytest.approx(p, rel=1e-12)
+        assert row["corrected"] == pytest.approx(c / p, rel=1e-12)
+        assert row["unreliable"] == (p < 0.5)
+    assert reply["curves"]["spectrum"]["corrected"]["y"][0] == table["rows"][0]["corrected"]
+
+
+def test_sampling_spectrum_aerodynamic_diameters_converted() -> None:
+    spectrum = {
+        "diameters": [2.0],
+        "diameter_unit": "um",
+        "diameter_type": "aerodynamic",
+        "concentrations": [1.0],
+    }
+    rho = 3000.0
+    reply = handle(request([CYCLONE], particle_density=q(3, "g/cm3"), spectrum=spectrum))
+    assert reply["ok"] is True
+    d_ve = particle.volume_equivalent_diameter(2e-6, rho)
+    p = Cyclone(4e-6, 1.5).penetration(d_ve, rho, 293.15, 101325.0)
+    assert reply["results"]["spectrum_table"]["rows"][0]["penetration"] == pytest.approx(p)
+
+
+def test_sampling_spectrum_from_csv() -> None:
+    spectrum = {
+        "csv": "d_nm;dN\n10;100\n100;50\n1000;10\n",
+        "diameter_column": "d_nm",
+        "concentration_column": "dN",
+        "concentration_type": "per_bin",
+        "diameter_unit": "nm",
+        "concentration_unit": "1/cm3",
+    }
+    reply = handle(request([TUBE], spectrum=spectrum))
+    assert reply["ok"] is True, reply.get("errors")
+    rows = reply["results"]["spectrum_table"]["rows"]
+    assert [r["measured"] for r in rows] == pytest.approx([100.0, 50.0, 10.0])
+    bad = handle(request([TUBE], spectrum={"csv": "d;n\n10;x\n"}))
+    assert "spectrum" in errors_by_field(bad)
+
+
+def test_sampling_stage_flow_overrides_sampling_flow() -> None:
+    own = dict(TUBE, flow=q(5, "L/min"))
+    a = handle(request([own], flow=q(1, "L/min")))
+    b = handle(request([TUBE], flow=q(5, "L/min")))
+    assert a["curves"]["overall"]["y"] == b["curves"]["overall"]["y"]
+
+
+@pytest.mark.parametrize("name", sorted(DEMOS))
+def test_sampling_demos_run_and_are_labelled_invented(name) -> None:
+    demo = DEMOS[name]
+    assert "invented" in demo["label"].lower()
+    reply = handle({"kind": "sampling", "inputs": demo["inputs"]})
+    assert reply["ok"] is True, reply.get("errors")
+
+
+def test_sampling_describe_offers_stage_types_and_demos() -> None:
+    desc = describe()["calculations"]["sampling"]
+    stages = next(f for f in desc["fields"] if f["name"] == "stages")
+    assert set(stages["stage_types"]) == set(STAGE_FIELDS)
+    assert set(stages["demos"]) == set(DEMOS)
+    json.dumps(desc)  # JSON-ready
+
+
+# --- bad input: one clear message on its field ---------------------------------------------
+
+
+def with_param(stage, **params):
+    out = copy.deepcopy(stage)
+    out.update(params)
+    return out
+
+
+@pytest.mark.parametrize(
+    ("stages", "field"),
+    [
+        pytest.param([with_param(TUBE, length=q(0, "m"))], "stages.0.length", id="zero-length"),
+        pytest.param([with_param(TUBE, length=q(-3, "m"))], "stages.0.length", id="neg-length"),
+        pytest.param(
+            [TUBE, with_param(TUBE, tube_diameter=q(0, "mm"))],
+            "stages.1.tube_diameter",
+            id="zero-diameter",
+        ),
+        pytest.param([with_param(TUBE, flow=q(-1, "L/min"))], "stages.0.flow", id="neg-flow"),
+        pytest.param(
+            [with_param(SCREENS, solidity=q(0, "1"))], "stages.0.solidity", id="solidity-0"
+        ),
+        pytest.param(
+            [with_param(SCREENS, solidity=q(1, "1"))], "stages.0.solidity", id="solidity-1"
+        ),
+        pytest.param(
+            [with_param(SCREENS, solidity=q(1.4, "1"))], "stages.0.solidity", id="solidity-1.4"
+        ),
+        pytest.param(
+            [with_param(SCREENS, thickness=q(10, "um"))], "stages.0.thickness", id="thin-screen"
+        ),
+        pytest.param(
+            [TUBE, TUBE, with_param(BEND, curvature_radius=q(1.5, "mm"))],
+            "stages.2.curvature_radius",
+            id="bend-radius-below-tube-radius",
+        ),
+        pytest.param(
+            [with_param(IMPACTOR, jet="rectangular", slit_length=q(0.5, "mm"))],
+            "stages.0.slit_length",
+            id="slit-shorter-than-wide",
+        ),
+        pytest.param(
+            [with_param(IMPACTOR, nozzle_diameter=q(0.2, "mm"), flow=q(10, "L/min"))],
+            "stages.0.flow",
+            id="sonic-jet",
+        ),
+        pytest.param([with_param(IMPACTOR, n_nozzles=0)], "stages.0.n_nozzles", id="no-nozzle"),
+        pytest.param([with_param(CYCLONE, steepness=q(1, "1"))], "stages.0.steepness", id="sigma1"),
+        pytest.param([{"type": "pipe"}], "stages.0.type", id="unknown-type"),
+        pytest.param(["tube"], "stages.0.type", id="not-an-object"),
+        pytest.param([], "stages", id="empty-chain"),
+        pytest.param("tube", "stages", id="not-a-list"),
+    ],
+)
+def test_sampling_bad_input_message_on_field(stages, field) -> None:
+    errors = errors_by_field(handle(request(stages)))
+    assert field in errors
+    assert errors[field]
+    if field.startswith("stages."):
+        index = int(field.split(".")[1])
+        assert errors[field].startswith(f"Stage {index + 1} ")
+
+
+def test_sampling_sonic_sampling_flow_reported_on_flow_field() -> None:
+    # The stage has no flow of its own: the fault is the sampling flow.
+    errors = errors_by_field(handle(request([TUBE], flow=q(0.09, "m3/s"))))
+    assert "flow" in errors
+    assert "speed of sound" in errors["flow"]
+
+
+def test_sampling_reports_several_faulty_stages_at_once() -> None:
+    stages = [with_param(TUBE, length=q(0, "m")), with_param(SCREENS, solidity=q(2, "1"))]
+    errors = errors_by_field(handle(request(stages)))
+    assert {"stages.0.length", "stages.1.solidity"} <= set(errors)
+
+
+@pytest.mark.parametrize(
+    "spectrum",
+    [
+        {"diameters": [10, 20], "concentrations": [1.0]},
+        {"diameters": [10, -20], "concentrations": [1.0, 2.0]},
+        {"diameters": [10, 20], "concentrations": [1.0, -2.0]},
+        {"diameters": [10, "x"], "concentrations": [1.0, 2.0]},
+        {"diameters": [10], "concentrations": [1.0], "diameter_unit": "furlong"},
+        {"diameters": [10], "concentrations": [1.0], "diameter_type": "optical"},
+        {"diameters": [1e9], "concentrations": [1.0]},
+        "10,20",
+    ],
+)
+def test_sampling_bad_spectrum_message_on_field(spectrum) -> None:
+    errors = errors_by_field(handle(request([TUBE], spectrum=spectrum)))
+    assert "spectrum" in errors
+
+
+def test_sampling_warns_in_transition_flow() -> None:
+    # 10 mm tube at about Re 3000: 0.0181 / 1.204 * 3000 * pi * 0.01 / 4 m3/s = 21 L/min.
+    stage = with_param(TUBE, tube_diameter=q(10, "mm"))
+    reply = handle(request([stage], flow=q(21, "L/min")))
+    assert reply["ok"] is True
+    assert any("transition" in w for w in reply["warnings"])
