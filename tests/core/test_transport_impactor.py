@@ -22,7 +22,7 @@ from driftdose.transport import impactor
 @pytest.mark.parametrize(
     ("jet", "stk50", "kwargs"),
     [
-        # Marple & Willeke (1976): Stk50 = 0.24 for round jets (Hinds 1999, section 5.7).
+        # Marple & Willeke (1976): Stk50 = 0.24 for round jets (Hinds 1999, ch. 5).
         pytest.param("round", 0.24, {}, id="marple_willeke1976-round-0.24"),
         # Marple & Willeke (1976): Stk50 = 0.59 for rectangular jets.
         pytest.param(
@@ -42,7 +42,7 @@ def test_impactor_cut_diameter_stokes_number_at_cut(jet, stk50, kwargs, nozzle) 
 @pytest.mark.parametrize(
     ("jet", "sqrt_stk50"),
     [
-        # Hinds (1999), section 5.7: sqrt(Stk50) = 0.49 round, 0.77 rectangular (from
+        # Hinds (1999), ch. 5: sqrt(Stk50) = 0.49 round, 0.77 rectangular (from
         # memory); printed to 2 digits: half a unit, 0.005.
         pytest.param("round", 0.49, id="hinds1999-round-0.49"),
         pytest.param("rectangular", 0.77, id="hinds1999-rectangular-0.77"),
@@ -54,7 +54,7 @@ def test_stk50_matches_hinds_square_roots(jet, sqrt_stk50) -> None:
 
 def test_impactor_cut_diameter_round_jet_closed_form() -> None:
     # Round jet: d50 sqrt(Cc) = [9 pi mu n W^3 Stk50 / (4 rho_p Q)]^(1/2) (Hinds 1999,
-    # eq. 5.30 with n nozzles sharing Q; from memory).
+    # ch. 5, with n nozzles sharing Q; from memory).
     w, flow, n, rho = 0.8e-3, 5e-3 / 60, 4, 2000.0
     d50 = impactor.impactor_cut_diameter(w, flow, n, rho)
     rhs = math.sqrt(9 * math.pi * gas.air_viscosity() * n * w**3 * 0.24 / (4 * rho * flow))
@@ -63,7 +63,7 @@ def test_impactor_cut_diameter_round_jet_closed_form() -> None:
 
 def test_impactor_cut_diameter_continuum_flow_scaling() -> None:
     # Continuum regime (Cc ~ 1): d50 is proportional to Q^(-1/2) for a round jet (Hinds 1999,
-    # eq. 5.30). At d50 near 10 um slip changes Cc by under 2 %, which sets the tolerance
+    # ch. 5). At d50 near 10 um slip changes Cc by under 2 %, which sets the tolerance
     # (Cc(10 um) = 1.016, Seinfeld & Pandis 2006, Table 9.3).
     w = 10e-3
     d1 = impactor.impactor_cut_diameter(w, 5e-3 / 60)

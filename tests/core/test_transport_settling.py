@@ -29,8 +29,8 @@ def test_penetration_heyder_gebhart1977_complete_deposition_at_kappa_one() -> No
 
 def test_penetration_heyder_gebhart1977_small_kappa_limit() -> None:
     # For small kappa the loss is the flux settling through the horizontal section d_t L:
-    # 1 - P = (4/pi) Z = (16 / (3 pi)) kappa, whatever the velocity profile (Hinds 1999,
-    # section 3.8 argument; the first-order expansion of the Fuchs formula gives the same).
+    # 1 - P = (4/pi) Z = (16 / (3 pi)) kappa, whatever the velocity profile (first-order
+    # argument; the expansion of the Fuchs formula gives the same).
     kappa = 1e-6
     loss = 1.0 - settling.penetration_heyder_gebhart1977(kappa)
     assert loss == pytest.approx(16.0 / (3.0 * math.pi) * kappa, rel=1e-3)

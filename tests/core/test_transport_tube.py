@@ -30,7 +30,7 @@ def test_penetration_gormley_kennedy1949_graetz_eigenvalue() -> None:
     # Far downstream only the first mode survives: -d ln P / d xi -> the first Graetz
     # eigenvalue, the fully developed Sherwood (Nusselt) number 3.66 of laminar tube flow at
     # uniform wall concentration (Incropera & DeWitt, Fundamentals of Heat and Mass
-    # Transfer, 5th ed. 2002, eq. 8.55, Nu_D = 3.66; from memory). Printed to 3 digits:
+    # Transfer, 5th ed. 2002, Nu_D = 3.66; from memory). Printed to 3 digits:
     # tolerance half a unit in the last digit.
     xi1, xi2 = 0.5, 0.6
     p1 = tube.penetration_gormley_kennedy1949(xi1 / math.pi)
@@ -41,7 +41,7 @@ def test_penetration_gormley_kennedy1949_graetz_eigenvalue() -> None:
 
 def test_penetration_gormley_kennedy1949_leveque_limit() -> None:
     # Entrance region: mean Sherwood number 1.615 (Re Sc d/L)^(1/3) (Leveque 1928; Incropera
-    # & DeWitt 2002, section 8.4, from memory). With Re Sc d/L = 4/xi the loss is
+    # & DeWitt 2002, from memory). With Re Sc d/L = 4/xi the loss is
     # 1 - P = 1.615 4^(1/3) xi^(2/3) = 2.5637 xi^(2/3), the 2.56 of Gormley & Kennedy.
     # The next term is smaller by 1.2 xi^(1/3) / 2.56, below 1e-5 at xi = 1e-15. The model
     # carries Gormley & Kennedy's 2.56, printed to 3 digits: tolerance half a unit, 0.005.
@@ -101,7 +101,7 @@ def test_penetration_two_published_forms_agree(mu) -> None:
 
 
 def test_tube_diffusion_penetration_independent_of_tube_diameter() -> None:
-    # Laminar losses depend on mu = D L / Q only (Hinds 1999, section 7.5): the stable
+    # Laminar losses depend on mu = D L / Q only (Hinds 1999, ch. 7): the stable
     # interface has no tube diameter, and the auto-regime one gives the same answer for any
     # diameter that keeps the flow laminar.
     d, length, flow = 20e-9, 2.0, 1e-3 / 60

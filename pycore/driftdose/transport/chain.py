@@ -325,7 +325,7 @@ class Cyclone:
         if self.curve == "lognormal":
             q["d50"] = ("Cut size (aerodynamic)", self.d50, "m")
             q["steepness"] = ("Steepness (GSD of the curve)", self.steepness, "–")
-            sources: tuple[str, ...] = ("hinds1999",)
+            sources: tuple[str, ...] = ()  # a user-defined curve: nothing to cite
         else:
             sources = ("iso7708",)
         return StageReport(self.name, self.kind, None, q, [], sources)

@@ -61,8 +61,8 @@ def lognormal_penetration(d_ae: float, d50: float, steepness: float) -> float:
 
     Notes
     -----
-    The usual description of a cyclone's penetration (common practice; e.g. Hinds 1999,
-    section 5.8 for separators characterised by a cut size and a slope).
+    The usual description of a cyclone's penetration by a cut size and a slope (common
+    practice).
 
     Examples
     --------
@@ -102,7 +102,7 @@ def iso7708_fraction(d_ae: float, fraction: str) -> float:
 
     Examples
     --------
-    The respirable convention passes 50 % of 4 um particles (ISO 7708 Table 1 lists 50.0 %
+    The respirable convention passes 50 % of 4 um particles (ISO 7708 tabulates 50.0 %
     at 4 um, from memory):
 
     >>> round(iso7708_fraction(4e-6, "respirable") * 100, 1)

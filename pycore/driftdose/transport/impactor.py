@@ -5,7 +5,7 @@ Interfaces: :func:`impactor_cut_diameter` (stable name), :func:`impactor_stokes_
 
 Model: the Stokes number of the jet, Stk = rho_p Cc d^2 U / (9 mu W), reaches a fixed value
 at the 50 % cut, Stk50 = 0.24 for round and 0.59 for rectangular jets (Marple & Willeke
-1976, as summarised by Hinds 1999, section 5.7). The efficiency curve around the cut is a
+1976, as summarised by Hinds 1999, ch. 5). The efficiency curve around the cut is a
 documented sigmoid, not a published fit: a cumulative normal in ln(sqrt(Stk)).
 """
 
@@ -31,13 +31,13 @@ __all__ = [
 ]
 
 STK50: dict[str, float] = {"round": 0.24, "rectangular": 0.59}
-"""Stokes number at 50 % collection efficiency (Marple & Willeke 1976; Hinds 1999, section
-5.7 gives sqrt(Stk50) = 0.49 and 0.77), for well-designed impactors with jet-to-plate
+"""Stokes number at 50 % collection efficiency (Marple & Willeke 1976; Hinds 1999,
+ch. 5 gives sqrt(Stk50) = 0.49 and 0.77), for well-designed impactors with jet-to-plate
 distance of at least about one jet width and jet Reynolds numbers of 500 to 3000. [-]"""
 
 JET_RE_RANGE = (500.0, 3000.0)
 """Jet Reynolds numbers over which Stk50 is nearly constant (Marple & Willeke 1976, via
-Hinds 1999, section 5.7, from memory). [-]"""
+Hinds 1999, ch. 5, from memory). [-]"""
 
 DEFAULT_STEEPNESS = 1.2
 """Default steepness of the efficiency curve, sqrt(Stk50 / Stk16) = sqrt(Stk84 / Stk50).
@@ -151,7 +151,7 @@ def impactor_stokes_number(
     Returns
     -------
     float
-        Stk = tau U / (W/2) (Hinds 1999, eq. 5.23). [-]
+        Stk = tau U / (W/2) (Hinds 1999, ch. 5). [-]
 
     """
     u = jet_velocity(nozzle_diameter, flow, n_nozzles, jet, slit_length)
@@ -196,7 +196,7 @@ def impactor_cut_diameter(
 
     Notes
     -----
-    d50^2 Cc(d50) = 9 mu W Stk50 / (rho_p U) (Hinds 1999, eq. 5.28, with slip). Because Cc
+    d50^2 Cc(d50) = 9 mu W Stk50 / (rho_p U) (Hinds 1999, ch. 5, with slip). Because Cc
     depends on d50 the equation is solved by Brent's method in ln d, so the slip correction
     is evaluated at the cut size itself rather than assumed.
 

@@ -62,7 +62,7 @@ def diffusion_parameter(
     Returns
     -------
     float
-        mu = D L / Q (Hinds 1999, section 7.5). [-]
+        mu = D L / Q (Hinds 1999, ch. 7). [-]
 
     """
     return particle.diffusion_coefficient(d, T, P) * length / flow
@@ -178,7 +178,7 @@ def tube_diffusion_penetration(
     Notes
     -----
     In fully developed laminar flow the loss depends only on mu = D L / Q, not on the tube
-    diameter (Hinds 1999, section 7.5). The caller is responsible for checking that the flow
+    diameter (Hinds 1999, ch. 7). The caller is responsible for checking that the flow
     is laminar (Re below about 2000); see :func:`tube_diffusion_penetration_any`.
 
     Examples
