@@ -7,8 +7,9 @@ import { download, readText, stamp } from "./files.js";
 import { buildReport } from "./report.js";
 import { STATE_VERSION, decodeState, encodeState } from "./state.js";
 import * as motion from "./panels/motion.js";
+import * as deposition from "./panels/deposition.js";
 
-export const PANELS = [motion];
+export const PANELS = [motion, deposition];
 const STATE_FORMAT = "drift-and-dose-inputs";
 
 const root = document.documentElement;
@@ -59,6 +60,8 @@ function allInputs() {
 
 function writeState() {
   history.replaceState(null, "", `#${encodeState(active, allInputs())}`);
+  const dropped = encodeState.dropped || [];
+  document.getElementById("link-size-note").hidden = dropped.length === 0;
 }
 
 function notice(message) {

@@ -26,36 +26,41 @@ export function decadeTicks(label) {
  * Create a chart on `canvas`. `axes` = {x: {title, type, tick}, y: {...}}; datasets are given
  * later through update(). Returns the Chart.js instance.
  */
-export function createChart(canvas, axes, { legendLabel, readout } = {}) {
+export function createChart(canvas, axes, { legendLabel, readout, type = "line" } = {}) {
   const Chart = window.Chart;
   const text = cssVar("--ink");
   const grid = cssVar("--grid");
   Chart.defaults.font.family = cssVar("--font-body") || "system-ui, sans-serif";
   const scale = (axis) => ({
     type: axis.type || "logarithmic",
+    position: axis.position,
     title: { display: true, text: axis.title, color: text },
     min: axis.min, max: axis.max,
-    ticks: { color: text, autoSkip: false, maxRotation: 0, callback: axis.tick },
-    grid: { color: (ctx) => (ctx.tick && isDecade(ctx.tick.value) ? grid : "transparent") },
+    ticks: { color: text, autoSkip: !axis.tick, maxRotation: 0, ...(axis.tick ? { callback: axis.tick } : {}) },
+    grid: axis.type && axis.type !== "logarithmic"
+      ? { color: grid, drawOnChartArea: !axis.secondary }
+      : { color: (ctx) => (ctx.tick && isDecade(ctx.tick.value) ? grid : "transparent"), drawOnChartArea: !axis.secondary },
   });
+  const scales = {};
+  for (const [key, axis] of Object.entries(axes)) scales[key] = scale(axis);
   return new Chart(canvas, {
-    type: "line",
+    type,
     plugins: [backgroundPlugin],
     data: { datasets: [] },
     options: {
       animation: false,
       responsive: true,
       maintainAspectRatio: false,
-      parsing: false,
+      parsing: type === "bar",
       normalized: true,
-      interaction: { mode: "nearest", axis: "x", intersect: false },
-      scales: { x: scale(axes.x), y: scale(axes.y) },
+      interaction: { mode: type === "bar" ? "index" : "nearest", axis: "x", intersect: false },
+      scales,
       plugins: {
         legend: { labels: { color: text, usePointStyle: true, filter: legendLabel } },
         tooltip: {
           callbacks: {
             label: readout || ((ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 3)}`),
-            title: (items) => (items.length ? axes.x.readout(items[0].parsed.x) : ""),
+            title: (items) => (items.length && axes.x.readout ? axes.x.readout(items[0].parsed.x) : items[0]?.label ?? ""),
           },
         },
       },

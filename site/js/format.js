@@ -10,7 +10,9 @@ export function formatNumber(value, digits = SIG_FIGS) {
   if (value === 0) return "0";
   const abs = Math.abs(value);
   if (abs >= 1e-3 && abs < 1e6) {
-    return trimZeros(value.toPrecision(digits));
+    const text = value.toPrecision(digits);
+    // toPrecision switches to exponent form once the integer part has more digits than asked
+    return text.includes("e") ? String(Number(text)) : trimZeros(text);
   }
   const [mantissa, exponent] = value.toExponential(digits - 1).split("e");
   const exp = String(Number(exponent)).split("").map((c) => SUPERSCRIPT[c]).join("");

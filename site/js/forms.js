@@ -3,6 +3,9 @@
 
 let counter = 0;
 
+// Typographic labels for unit codes that arrive without one (presentation only).
+const UNIT_LABELS = { um: "µm", "1/cm3": "1/cm³", "1/m3": "1/m³", "mg/m3": "mg/m³", "ug/m3": "µg/m³", m3: "m³", "kg/m3": "kg/m³", "g/cm3": "g/cm³" };
+
 function el(tag, attrs = {}, text = "") {
   const node = document.createElement(tag);
   for (const [key, value] of Object.entries(attrs)) {
@@ -18,6 +21,8 @@ export { el };
  * Render one field description into `container`; returns a handle with get(), set(), showError().
  */
 export function renderField(container, field, prefix) {
+  if (field.kind === "data" && field.item_fields) return renderList(container, field, prefix);
+  if (field.kind === "data" && field.accept) return renderFile(container, field, prefix);
   const id = `${prefix}-${field.name}-${++counter}`;
   const wrap = el("div", { class: "field", "data-field": field.name });
   const label = el("label", { for: id }, field.label);
@@ -37,11 +42,11 @@ export function renderField(container, field, prefix) {
     row.append(input);
   } else {
     input = el("input", {
-      id, name: field.name, type: "text", inputmode: "decimal", autocomplete: "off",
+      id, name: field.name, type: "text", inputmode: field.kind === "text" ? "text" : "decimal", autocomplete: "off",
       spellcheck: "false", "aria-describedby": `${helpId} ${errorId}`,
     });
     const def = field.default && typeof field.default === "object" ? field.default : { value: field.default };
-    input.value = String(def.value);
+    input.value = def.value === null || def.value === undefined ? "" : String(def.value);
     row.append(input);
     if (field.units && field.units.length > 1) {
       unitSelect = el("select", { "aria-label": `${field.label} unit`, name: `${field.name}-unit` });
@@ -63,7 +68,7 @@ export function renderField(container, field, prefix) {
   return {
     field, input, unitSelect, wrap,
     get() {
-      if (field.kind === "choice") return input.value;
+      if (field.kind === "choice" || field.kind === "text" || field.kind === "plain") return input.value;
       return { value: input.value, unit: unitSelect ? unitSelect.value : defaultUnit };
     },
     set(raw) {
@@ -126,9 +131,153 @@ export class FieldSet {
 
   onInput(callback) {
     for (const handle of this.handles.values()) {
+      if (handle.listen) {
+        handle.listen(callback);
+        continue;
+      }
       handle.input.addEventListener("input", callback);
       handle.input.addEventListener("change", callback);
       if (handle.unitSelect) handle.unitSelect.addEventListener("change", callback);
     }
   }
+}
+
+function fieldShell(container, field, prefix) {
+  const id = `${prefix}-${field.name}-${++counter}`;
+  const wrap = el("div", { class: "field", "data-field": field.name });
+  const error = el("p", { class: "error", id: `${id}-error`, hidden: "" });
+  container.append(wrap);
+  return {
+    id, wrap, error,
+    showError(message) {
+      error.textContent = message || "";
+      error.hidden = !message;
+      wrap.classList.toggle("invalid", Boolean(message));
+    },
+  };
+}
+
+/** A file field: reads a text file the user picks; the text is what the engine receives. */
+function renderFile(container, field, prefix) {
+  const shell = fieldShell(container, field, prefix);
+  const input = el("input", { id: shell.id, type: "file", accept: field.accept, "aria-describedby": `${shell.id}-help ${shell.id}-status ${shell.id}-error` });
+  const label = el("label", { for: shell.id }, field.label);
+  const status = el("p", { class: "file-status", id: `${shell.id}-status` }, "No file loaded.");
+  shell.wrap.append(label, input, status, el("p", { class: "help", id: `${shell.id}-help` }, field.help || ""), shell.error);
+  let text = field.default ?? null;
+  let name = "";
+  const listeners = [];
+  input.addEventListener("change", async () => {
+    const file = input.files[0];
+    if (!file) return;
+    const limit = field.max_bytes || 5 * 1024 * 1024;
+    if (file.size > limit) {
+      text = null;
+      name = "";
+      status.textContent = `${file.name.slice(0, 80)} is ${(file.size / 1e6).toFixed(1)} MB; the limit is ${(limit / 1e6).toFixed(0)} MB.`;
+      shell.showError(status.textContent);
+      return;
+    }
+    text = await file.text();
+    name = file.name;
+    status.textContent = `Loaded ${name.slice(0, 80)} (${text.length.toLocaleString()} characters).`;
+    for (const cb of listeners) cb();
+  });
+  return {
+    field, wrap: shell.wrap, input, unitSelect: null, showError: shell.showError,
+    get() { return text; },
+    set(raw, label = "") {
+      text = raw === undefined ? null : raw;
+      name = label;
+      status.textContent = text ? `Loaded ${label || "text"} (${String(text).length.toLocaleString()} characters).` : "No file loaded.";
+    },
+    listen(cb) { listeners.push(cb); },
+  };
+}
+
+/** A list of items (such as lognormal modes), each a small group of fields. */
+function renderList(container, field, prefix) {
+  const shell = fieldShell(container, field, prefix);
+  const group = el("fieldset", { class: "item-list" });
+  group.append(el("legend", {}, field.label));
+  if (field.help) group.append(el("p", { class: "help" }, field.help));
+  const items = el("div", { class: "items" });
+  const add = el("button", { type: "button", class: "secondary" }, `Add ${field.item_label || "an item"}`);
+  group.append(items, add, shell.error);
+  shell.wrap.append(group);
+  const listeners = [];
+  let rows = [];
+  const notify = () => { for (const cb of listeners) cb(); };
+
+  function itemRow(values) {
+    const box = el("fieldset", { class: "item" });
+    const legend = el("legend");
+    box.append(legend);
+    const handles = new Map();
+    for (const f of field.item_fields) {
+      const sub = { ...f, default: values[f.name] };
+      if (!f.units && f.kind !== "choice") sub.units = [];
+      else if (f.units) sub.units = f.units.map((u) => (typeof u === "string" ? { unit: u, label: UNIT_LABELS[u] || u } : u));
+      if (sub.kind !== "choice" && !(sub.default && typeof sub.default === "object")) sub.kind = "plain";
+      const h = renderField(box, sub, `${prefix}-${field.name}`);
+      h.input.addEventListener("input", notify);
+      h.input.addEventListener("change", notify);
+      if (h.unitSelect) h.unitSelect.addEventListener("change", notify);
+      handles.set(f.name, h);
+    }
+    const remove = el("button", { type: "button", class: "secondary" }, "Remove");
+    remove.addEventListener("click", () => {
+      rows = rows.filter((r) => r !== row);
+      box.remove();
+      relabel();
+      notify();
+    });
+    box.append(remove);
+    const row = { box, legend, handles, remove };
+    return row;
+  }
+
+  function relabel() {
+    rows.forEach((r, i) => {
+      r.legend.textContent = `${field.item_label ? field.item_label.replace(/^an? /, "") : "Item"} ${i + 1}`.replace(/^./, (c) => c.toUpperCase());
+      r.remove.textContent = `Remove ${r.legend.textContent.toLowerCase()}`;
+      r.remove.hidden = rows.length <= 1;
+    });
+    add.hidden = rows.length >= (field.max_items || 4);
+  }
+
+  function setItems(list) {
+    items.replaceChildren();
+    rows = [];
+    for (const values of Array.isArray(list) ? list.slice(0, field.max_items || 4) : []) {
+      const row = itemRow(values || {});
+      rows.push(row);
+      items.append(row.box);
+    }
+    relabel();
+  }
+
+  add.addEventListener("click", () => {
+    const template = rows.length ? readRow(rows[rows.length - 1]) : (field.default || [{}])[0];
+    const row = itemRow(template);
+    rows.push(row);
+    items.append(row.box);
+    relabel();
+    row.handles.values().next().value?.input.focus();
+    notify();
+  });
+
+  function readRow(row) {
+    const out = {};
+    for (const [name, h] of row.handles) out[name] = h.get();
+    return out;
+  }
+
+  setItems(field.default || []);
+  return {
+    field, wrap: shell.wrap, input: add, unitSelect: null, showError: shell.showError,
+    get() { return rows.map(readRow); },
+    set(raw) { setItems(raw); },
+    listen(cb) { listeners.push(cb); },
+  };
 }

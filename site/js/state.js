@@ -1,6 +1,9 @@
 // Input state in the URL fragment, so that a link reproduces a calculation exactly.
-// Format (version 1): #v=1&panel=<id>&<panel>.<field>=<value>[~<unit>]
+// Format (version 1): #v=1&panel=<id>&<panel>.<field>=<value>[~<unit>]; structured inputs
+// (lists of modes or stages, imported file text) as <panel>.<field>=j:<JSON>.
 // Values are raw strings: they go through the same Python validation as typed input.
+
+export const MAX_LINK_CHARS = 60000;
 
 export const STATE_VERSION = "1";
 
@@ -8,15 +11,22 @@ export function encodeState(activePanel, panels) {
   const params = new URLSearchParams();
   params.set("v", STATE_VERSION);
   params.set("panel", activePanel);
+  const dropped = [];
   for (const [pid, values] of Object.entries(panels)) {
     for (const [name, raw] of Object.entries(values)) {
-      if (raw && typeof raw === "object") {
+      if (raw === null || raw === undefined) continue;
+      if (raw && typeof raw === "object" && !Array.isArray(raw) && "value" in raw) {
         params.set(`${pid}.${name}`, raw.unit ? `${raw.value}~${raw.unit}` : String(raw.value));
+      } else if (typeof raw === "object" || (typeof raw === "string" && raw.includes("\n"))) {
+        const text = `j:${JSON.stringify(raw)}`;
+        if (text.length > MAX_LINK_CHARS) dropped.push(`${pid}.${name}`);
+        else params.set(`${pid}.${name}`, text);
       } else {
         params.set(`${pid}.${name}`, String(raw));
       }
     }
   }
+  encodeState.dropped = dropped;
   return params.toString();
 }
 
@@ -31,8 +41,17 @@ export function decodeState(hash) {
     if (dot < 1) continue;
     const pid = key.slice(0, dot);
     const name = key.slice(dot + 1);
-    const tilde = value.lastIndexOf("~");
-    const raw = tilde >= 0 ? { value: value.slice(0, tilde), unit: value.slice(tilde + 1) } : value;
+    let raw;
+    if (value.startsWith("j:")) {
+      try {
+        raw = JSON.parse(value.slice(2));
+      } catch {
+        raw = value;
+      }
+    } else {
+      const tilde = value.lastIndexOf("~");
+      raw = tilde >= 0 ? { value: value.slice(0, tilde), unit: value.slice(tilde + 1) } : value;
+    }
     (out.panels[pid] ||= {})[name] = raw;
   }
   return out;

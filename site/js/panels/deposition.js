@@ -1,0 +1,228 @@
+// Panel "Where it lands": regional deposition in the respiratory tract and dose per shift.
+import { CalcPanel, resultsTable } from "../panel.js";
+import { el } from "../forms.js";
+import { createChart, decadeTicks, exportChart, seriesColour, setDatasets } from "../charts.js";
+import { formatNumber, lengthTick } from "../format.js";
+
+export const id = "deposition";
+export const title = "Where it lands";
+
+const METRICS = [
+  ["number", "Number"],
+  ["surface", "Surface area"],
+  ["mass", "Mass"],
+];
+
+// Which inputs apply, by the value of another input (presentation only; Python validates).
+const VISIBLE_WHEN = {
+  modes: ["distribution_source", ["lognormal"]],
+  csv_text: ["distribution_source", ["csv"]],
+  csv_diameter_column: ["distribution_source", ["csv"]],
+  csv_concentration_column: ["distribution_source", ["csv"]],
+  csv_concentration_type: ["distribution_source", ["csv"]],
+  csv_diameter_unit: ["distribution_source", ["csv"]],
+  csv_concentration_unit: ["distribution_source", ["csv"]],
+  activity: ["breathing", ["activity"]],
+  route: ["breathing", ["reference_worker", "activity"]],
+  tidal_volume: ["breathing", ["custom"]],
+  breathing_frequency: ["breathing", ["custom"]],
+  nasal_fraction: ["breathing", ["custom"]],
+};
+
+const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
+
+export function mount(root, { engine, description }) {
+  const fields = description.fields.map((f) => (f.name === "modes" ? { ...f, item_label: "a mode" } : f));
+  const demos = (fields.find((f) => f.name === "distribution_source") || {}).demos || [];
+  let fractionChart = null;
+  let doseChart = null;
+  let lastReply = null;
+
+  const summaryBox = el("div", { class: "table-box" });
+  const regionBox = el("div", { class: "table-box" });
+  const metricSelect = el("select", { id: "deposition-metric" });
+  for (const [value, label] of METRICS) metricSelect.append(el("option", { value }, label));
+  metricSelect.value = "mass";
+  const perSelect = el("select", { id: "deposition-per" });
+  perSelect.append(el("option", { value: "dose" }, "Over the exposure"), el("option", { value: "rate" }, "Per hour"));
+  const controls = el("div", { class: "view-controls" });
+  controls.append(
+    el("label", { for: "deposition-metric" }, "Dose as"), metricSelect,
+    el("label", { for: "deposition-per" }, "Shown"), perSelect,
+  );
+
+  const fractionFigure = chartFigure("deposition-fraction",
+    "Deposition fraction in each region against particle size (ICRP region names), with your size distribution overlaid, scaled to a peak of 1.",
+    "Save fraction chart image", "drift-dose-deposition-fractions.png", () => fractionChart);
+  const doseFigure = chartFigure("deposition-dose",
+    "Deposited dose per region for the chosen metric.",
+    "Save dose chart image", "drift-dose-deposition-dose.png", () => doseChart);
+
+  const panel = new CalcPanel(root, {
+    id, kind: "deposition", title: "Where it lands: respiratory deposition and dose",
+    intro: "Of the particles a worker breathes, the share that deposits in each region of the respiratory tract, and the number, surface area and mass deposited over the exposure. Define the aerosol by lognormal modes or import a measured spectrum.",
+    legend: "Aerosol, breathing and exposure",
+    engine, description: { ...description, fields },
+    render(reply) {
+      lastReply = reply;
+      const general = Object.keys(reply.results).filter((k) => !/^(fraction|rate|dose)_/.test(k));
+      summaryBox.replaceChildren(resultsTable(reply.results, "Aerosol and breathing", general));
+      renderRegions();
+      renderFractionChart(reply.curves);
+      renderDoseChart();
+    },
+    tableKeys: undefined,
+  });
+
+  function renderRegions() {
+    const reply = lastReply;
+    const bars = reply.curves.dose_bars;
+    const per = perSelect.value;
+    const table = el("table", { class: "results regions" });
+    table.append(el("caption", {}, per === "dose" ? `Deposition by region, over ${bars.per}` : "Deposition by region, per hour"));
+    const head = el("thead");
+    const row1 = el("tr");
+    row1.append(el("th", { scope: "col", rowspan: "2" }, "Region"));
+    row1.append(el("th", { scope: "colgroup", colspan: "3" }, "Deposited fraction of inhaled"));
+    row1.append(el("th", { scope: "colgroup", colspan: "3" }, per === "dose" ? "Deposited amount" : "Deposited per hour"));
+    const row2 = el("tr");
+    for (const [, label] of METRICS) row2.append(el("th", { scope: "col" }, label.toLowerCase()));
+    for (const [metric, label] of METRICS) {
+      const unit = reply.results[`${per}_${bars.keys[0]}_${metric}`]?.unit || "";
+      row2.append(el("th", { scope: "col" }, `${label.toLowerCase()} (${unit})`));
+    }
+    head.append(row1, row2);
+    table.append(head);
+    const body = el("tbody");
+    bars.keys.forEach((key, i) => {
+      const tr = el("tr", { "data-region": key });
+      tr.append(el("th", { scope: "row" }, bars.regions[i]));
+      for (const [metric] of METRICS) cell(tr, reply.results[`fraction_${key}_${metric}`], "", `fraction_${key}_${metric}`);
+      for (const [metric] of METRICS) {
+        const r = reply.results[`${per}_${key}_${metric}`];
+        const headUnit = reply.results[`${per}_${bars.keys[0]}_${metric}`]?.unit;
+        cell(tr, r, r && r.unit !== headUnit ? r.unit : "", `${per}_${key}_${metric}`);
+      }
+      body.append(tr);
+    });
+    table.append(body);
+    regionBox.replaceChildren(table);
+  }
+
+  function cell(tr, r, unit, key) {
+    const text = r ? `${formatNumber(r.value)}${unit ? ` ${unit}` : ""}` : "—";
+    tr.append(el("td", { class: "value", "data-key": key }, text));
+  }
+
+  function renderFractionChart(curves) {
+    if (!fractionChart) {
+      fractionChart = createChart(fractionFigure.canvas, {
+        x: { title: `${curves.x_label} (µm)`, tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => lengthTick(x * 1e-6), min: 1e-3, max: 100 },
+        y: { title: curves.y_label, type: "linear", min: 0, max: 1 },
+        y2: { title: "Your distribution (scaled)", type: "linear", min: 0, max: 1, position: "right", secondary: true },
+      }, { readout: (ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 3)}` });
+    }
+    const sets = [];
+    Object.values(curves.deposition).forEach((curve, i) => {
+      sets.push({
+        label: curve.label, data: toPoints(curve), borderColor: seriesColour(i), backgroundColor: seriesColour(i),
+        pointRadius: 0, borderWidth: curve.label.startsWith("Total") ? 3 : 2, borderDash: curve.label.startsWith("Total") ? [8, 4] : [], yAxisID: "y",
+      });
+    });
+    Object.values(curves.distribution).forEach((curve, i) => {
+      sets.push({
+        label: curve.label, data: toPoints(curve), yAxisID: "y2", pointRadius: 0, borderWidth: 1,
+        borderColor: seriesColour(6 - i), backgroundColor: i === 0 ? "rgba(120,120,120,0.18)" : "rgba(120,120,120,0.08)", fill: "origin",
+      });
+    });
+    setDatasets(fractionChart, sets);
+  }
+
+  function renderDoseChart() {
+    const bars = lastReply.curves.dose_bars;
+    const metric = metricSelect.value;
+    const per = perSelect.value;
+    const data = bars[metric];
+    const values = per === "dose" ? data.y : data.per_hour;
+    const unit = per === "dose" ? data.unit : `${data.unit}/h`;
+    if (doseChart) doseChart.destroy();
+    doseChart = createChart(doseFigure.canvas, {
+      x: { title: "Region", type: "category" },
+      y: { title: `${per === "dose" ? data.label : data.label.replace(/ in .*$/, " per hour")} (${unit})`, type: "linear", min: 0 },
+    }, { type: "bar", readout: (ctx) => `${formatNumber(ctx.parsed.y, 4)} ${unit}` });
+    doseChart.data.labels = bars.keys.map((k) => (k === "total" ? "Total" : k));
+    setDatasets(doseChart, [{ label: per === "dose" ? data.label : `${data.label} per hour`, data: values, backgroundColor: bars.keys.map((_, i) => seriesColour(i)) }]);
+    doseFigure.canvas.setAttribute("aria-label", `Bar chart of ${data.label.toLowerCase()} by region: ${bars.keys.map((k, i) => `${k} ${formatNumber(values[i], 3)} ${unit}`).join(", ")}.`);
+  }
+
+  metricSelect.addEventListener("change", () => lastReply && renderDoseChart());
+  perSelect.addEventListener("change", () => {
+    if (!lastReply) return;
+    renderRegions();
+    renderDoseChart();
+  });
+
+  // demos: one click loads an invented scenario, labelled as such in the page and the report
+  if (demos.length) {
+    const box = el("div", { class: "demos", role: "group", "aria-label": "Invented demo scenarios" });
+    box.append(el("p", { class: "help" }, "Try an invented demo scenario (not measurements):"));
+    for (const demo of demos) {
+      const button = el("button", { type: "button", class: "secondary" }, demo.label);
+      button.addEventListener("click", () => {
+        const csv = panel.fields.handles.get("csv_text");
+        if (csv && demo.inputs.csv_text) csv.set(demo.inputs.csv_text, "invented demo spectrum");
+        panel.setState({ ...demo.inputs, demo: demo.id });
+      });
+      box.append(button);
+    }
+    panel.fieldsBox.prepend(box);
+  }
+  const demoNote = el("p", { class: "demo-note", role: "status", hidden: "" });
+  panel.output.prepend(demoNote);
+  panel.onChange(() => {
+    if (!panel.demoLabel) demoNote.hidden = true;
+  });
+
+  function applyVisibility() {
+    for (const [name, [other, values]] of Object.entries(VISIBLE_WHEN)) {
+      const handle = panel.fields.handles.get(name);
+      const ruler = panel.fields.handles.get(other);
+      if (handle && ruler) handle.wrap.hidden = !values.includes(ruler.get());
+    }
+  }
+  for (const name of new Set(Object.values(VISIBLE_WHEN).map(([o]) => o))) {
+    panel.fields.handles.get(name)?.input.addEventListener("change", applyVisibility);
+  }
+  const baseSet = panel.setState.bind(panel);
+  const baseGet = panel.getState.bind(panel);
+  const baseKnows = panel.knows.bind(panel);
+  // the demo in use travels with the inputs, so a shared link is still marked as invented data
+  panel.getState = () => (panel.demoLabel ? { ...baseGet(), demo: panel.demoId } : baseGet());
+  panel.knows = (name) => name === "demo" || baseKnows(name);
+  panel.setState = (values) => {
+    const demo = demos.find((d) => d.id === values.demo);
+    if (demo) {
+      panel.demoLabel = demo.label;
+      panel.demoId = demo.id;
+      demoNote.textContent = `Showing: ${demo.label}. ${demo.note || ""}`;
+      demoNote.hidden = false;
+    }
+    baseSet(values);
+    applyVisibility();
+  };
+  applyVisibility();
+
+  panel.body.append(summaryBox, regionBox, controls, doseFigure.figure, fractionFigure.figure);
+  return panel;
+}
+
+function chartFigure(idBase, captionText, buttonText, filename, getChart) {
+  const figure = el("figure", { class: "chart-card" });
+  const box = el("div", { class: "chart-box" });
+  const canvas = el("canvas", { id: `${idBase}-canvas`, role: "img", "aria-label": captionText });
+  box.append(canvas);
+  const save = el("button", { type: "button", class: "secondary" }, buttonText);
+  save.addEventListener("click", () => getChart() && exportChart(getChart(), filename));
+  figure.append(box, el("figcaption", {}, captionText), save);
+  return { figure, canvas };
+}

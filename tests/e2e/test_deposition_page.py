@@ -1,0 +1,153 @@
+"""The deposition panel in Chromium: lognormal modes, CSV import, demos, link round trip."""
+
+from __future__ import annotations
+
+import pytest
+
+from driftdose import api
+
+from .conftest import screenshot, wait_ready
+from .helpers import parse_shown, round_sig
+
+pytestmark = pytest.mark.e2e
+
+PANEL = "#panel-deposition"
+
+
+def _open(page, base_url: str, fragment: str = "#v=1&panel=deposition") -> None:
+    page.goto(base_url + fragment)
+    wait_ready(page)
+    page.wait_for_function("() => Number(document.getElementById('panel-deposition')"
+                           ".dataset.updates || 0) >= 1")
+
+
+def _settled(page) -> None:
+    page.wait_for_function("() => { const s = document.getElementById('panel-deposition');"
+                           " return !s.hasAttribute('aria-busy') && s.dataset.state; }")
+
+
+def _region_cells(page) -> dict[str, str]:
+    cells = page.locator(f"{PANEL} table.regions td[data-key]")
+    return {cells.nth(i).get_attribute("data-key"): cells.nth(i).inner_text()
+            for i in range(cells.count())}
+
+
+def _assert_cells_match(page, reply: dict) -> int:
+    compared = 0
+    for key, text in _region_cells(page).items():
+        row = reply["results"][key]
+        value = text.split(" ", 1)[0] if "×" not in text else text
+        assert parse_shown(value) == pytest.approx(round_sig(row["value"]), rel=1e-12), key
+        compared += 1
+    return compared
+
+
+def test_lognormal_mode_by_labels_matches_core(page, base_url):
+    _open(page, base_url)
+    panel = page.locator(PANEL)
+    panel.get_by_label("Median diameter (CMD, or MMAD for a mass mode)", exact=True).fill("80")
+    panel.get_by_label("Geometric standard deviation", exact=True).fill("2")
+    panel.get_by_label("Particle density", exact=True).fill("2.5")
+    panel.get_by_label("Exposure duration", exact=True).fill("6")
+    panel.get_by_label("Deposition model").select_option("icrp66")
+    page.wait_for_function("() => location.hash.includes('deposition.exposure_duration=6')")
+    _settled(page)
+    reply = api.handle({"kind": "deposition", "inputs": {
+        "modes": [{"basis": "count", "median": {"value": "80", "unit": "nm"}, "gsd": "2",
+                   "concentration": {"value": "10000", "unit": "1/cm3"}}],
+        "particle_density": {"value": "2.5", "unit": "g/cm3"},
+        "exposure_duration": {"value": "6", "unit": "h"}}})
+    assert reply["ok"], reply
+    assert _assert_cells_match(page, reply) == 36
+    screenshot(page, "deposition-lognormal")
+
+
+def test_add_second_mode_and_mass_basis(page, base_url):
+    _open(page, base_url)
+    panel = page.locator(PANEL)
+    panel.get_by_role("button", name="Add a mode").click()
+    second = panel.locator("fieldset.item").nth(1)
+    second.get_by_label("Mode given by").select_option("mass")
+    second.get_by_label("Median diameter (CMD, or MMAD for a mass mode)", exact=True).fill("5")
+    second.get_by_label("Median diameter (CMD, or MMAD for a mass mode) unit").select_option("um")
+    second.get_by_label("Concentration (number for count modes, mass for mass modes)", exact=True).fill("1")
+    second.get_by_label(
+        "Concentration (number for count modes, mass for mass modes) unit").select_option(
+        "mg/m3")
+    page.wait_for_function("() => location.hash.includes('mg%2Fm3')")
+    _settled(page)
+    reply = api.handle({"kind": "deposition", "inputs": {"modes": [
+        {"basis": "count", "median": {"value": "50", "unit": "nm"}, "gsd": "1.8",
+         "concentration": {"value": "10000", "unit": "1/cm3"}},
+        {"basis": "mass", "median": {"value": "5", "unit": "um"}, "gsd": "1.8",
+         "concentration": {"value": "1", "unit": "mg/m3"}}]}})
+    assert reply["ok"], reply
+    assert _assert_cells_match(page, reply) == 36
+
+
+def test_csv_file_import_matches_core(page, base_url, tmp_path):
+    text = ("size_nm,conc\n"
+            "20,1000\n30,3000\n50,6000\n80,5000\n120,2500\n200,900\n400,150\n")
+    path = tmp_path / "spectrum.csv"
+    path.write_text(text)
+    _open(page, base_url)
+    panel = page.locator(PANEL)
+    panel.get_by_label("Size distribution from").select_option("csv")
+    panel.get_by_label("Spectrum CSV file").set_input_files(str(path))
+    panel.get_by_label("Diameter column (header name or number)").fill("size_nm")
+    panel.get_by_label("Concentration column (header name or number)").fill("conc")
+    panel.get_by_label("Concentration is given").select_option("per_bin")
+    page.wait_for_function("() => location.hash.includes('csv_concentration_column=conc')")
+    _settled(page)
+    reply = api.handle({"kind": "deposition", "inputs": {
+        "distribution_source": "csv", "csv_text": text, "csv_diameter_column": "size_nm",
+        "csv_concentration_column": "conc", "csv_concentration_type": "per_bin"}})
+    assert reply["ok"], reply
+    assert _assert_cells_match(page, reply) == 36
+    screenshot(page, "deposition-csv")
+
+
+def test_bad_csv_reports_line_number(page, base_url, tmp_path):
+    path = tmp_path / "bad.csv"
+    path.write_text("d,n\n10,100\n20,abc\n")
+    _open(page, base_url)
+    panel = page.locator(PANEL)
+    panel.get_by_label("Size distribution from").select_option("csv")
+    panel.get_by_label("Spectrum CSV file").set_input_files(str(path))
+    error = panel.locator(".field[data-field=csv_text] .error")
+    error.wait_for(state="visible")
+    assert "Line 3" in error.inner_text()
+    assert page.locator(f"{PANEL} .stale-note").is_visible()
+
+
+def test_demo_loads_with_one_click_and_is_marked_invented(page, base_url):
+    _open(page, base_url)
+    page.locator(PANEL).get_by_role("button", name="Invented demo: metal fume, two fine modes").click()
+    note = page.locator(f"{PANEL} .demo-note")
+    note.wait_for(state="visible")
+    assert "Invented demo" in note.inner_text()
+    page.wait_for_function("() => location.hash.includes('deposition.demo=demo_fume')")
+    _settled(page)
+    page.evaluate("() => window.dispatchEvent(new Event('beforeprint'))")
+    assert "Invented demo data" in page.locator("#report").inner_text()
+
+
+def test_link_round_trip_reproduces_deposition(page, base_url, browser):
+    _open(page, base_url)
+    page.locator(PANEL).get_by_role(
+        "button", name="Invented demo: measured spectrum from CSV").click()
+    page.wait_for_function("() => location.hash.includes('csv_text')")
+    _settled(page)
+    cells = _region_cells(page)
+    url = page.url
+    other = browser.new_context()
+    try:
+        p2 = other.new_page()
+        p2.goto(url)
+        wait_ready(p2)
+        p2.wait_for_function("() => Number(document.getElementById('panel-deposition')"
+                             ".dataset.updates || 0) >= 1")
+        assert _region_cells(p2) == cells
+        assert p2.locator(f"{PANEL} .demo-note").is_visible()
+    finally:
+        other.close()
