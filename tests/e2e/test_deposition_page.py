@@ -17,19 +17,24 @@ PANEL = "#panel-deposition"
 def _open(page, base_url: str, fragment: str = "#v=1&panel=deposition") -> None:
     page.goto(base_url + fragment)
     wait_ready(page)
-    page.wait_for_function("() => Number(document.getElementById('panel-deposition')"
-                           ".dataset.updates || 0) >= 1")
+    page.wait_for_function(
+        "() => Number(document.getElementById('panel-deposition').dataset.updates || 0) >= 1"
+    )
 
 
 def _settled(page) -> None:
-    page.wait_for_function("() => { const s = document.getElementById('panel-deposition');"
-                           " return !s.hasAttribute('aria-busy') && s.dataset.state; }")
+    page.wait_for_function(
+        "() => { const s = document.getElementById('panel-deposition');"
+        " return !s.hasAttribute('aria-busy') && s.dataset.state; }"
+    )
 
 
 def _region_cells(page) -> dict[str, str]:
     cells = page.locator(f"{PANEL} table.regions td[data-key]")
-    return {cells.nth(i).get_attribute("data-key"): cells.nth(i).inner_text()
-            for i in range(cells.count())}
+    return {
+        cells.nth(i).get_attribute("data-key"): cells.nth(i).inner_text()
+        for i in range(cells.count())
+    }
 
 
 def _assert_cells_match(page, reply: dict) -> int:
@@ -52,11 +57,23 @@ def test_lognormal_mode_by_labels_matches_core(page, base_url):
     panel.get_by_label("Deposition model").select_option("icrp66")
     page.wait_for_function("() => location.hash.includes('deposition.exposure_duration=6')")
     _settled(page)
-    reply = api.handle({"kind": "deposition", "inputs": {
-        "modes": [{"basis": "count", "median": {"value": "80", "unit": "nm"}, "gsd": "2",
-                   "concentration": {"value": "10000", "unit": "1/cm3"}}],
-        "particle_density": {"value": "2.5", "unit": "g/cm3"},
-        "exposure_duration": {"value": "6", "unit": "h"}}})
+    reply = api.handle(
+        {
+            "kind": "deposition",
+            "inputs": {
+                "modes": [
+                    {
+                        "basis": "count",
+                        "median": {"value": "80", "unit": "nm"},
+                        "gsd": "2",
+                        "concentration": {"value": "10000", "unit": "1/cm3"},
+                    }
+                ],
+                "particle_density": {"value": "2.5", "unit": "g/cm3"},
+                "exposure_duration": {"value": "6", "unit": "h"},
+            },
+        }
+    )
     assert reply["ok"], reply
     assert _assert_cells_match(page, reply) == 36
     screenshot(page, "deposition-lognormal")
@@ -70,24 +87,41 @@ def test_add_second_mode_and_mass_basis(page, base_url):
     second.get_by_label("Mode given by").select_option("mass")
     second.get_by_label("Median diameter (CMD, or MMAD for a mass mode)", exact=True).fill("5")
     second.get_by_label("Median diameter (CMD, or MMAD for a mass mode) unit").select_option("um")
-    second.get_by_label("Concentration (number for count modes, mass for mass modes)", exact=True).fill("1")
     second.get_by_label(
-        "Concentration (number for count modes, mass for mass modes) unit").select_option(
-        "mg/m3")
+        "Concentration (number for count modes, mass for mass modes)", exact=True
+    ).fill("1")
+    second.get_by_label(
+        "Concentration (number for count modes, mass for mass modes) unit"
+    ).select_option("mg/m3")
     page.wait_for_function("() => location.hash.includes('mg%2Fm3')")
     _settled(page)
-    reply = api.handle({"kind": "deposition", "inputs": {"modes": [
-        {"basis": "count", "median": {"value": "50", "unit": "nm"}, "gsd": "1.8",
-         "concentration": {"value": "10000", "unit": "1/cm3"}},
-        {"basis": "mass", "median": {"value": "5", "unit": "um"}, "gsd": "1.8",
-         "concentration": {"value": "1", "unit": "mg/m3"}}]}})
+    reply = api.handle(
+        {
+            "kind": "deposition",
+            "inputs": {
+                "modes": [
+                    {
+                        "basis": "count",
+                        "median": {"value": "50", "unit": "nm"},
+                        "gsd": "1.8",
+                        "concentration": {"value": "10000", "unit": "1/cm3"},
+                    },
+                    {
+                        "basis": "mass",
+                        "median": {"value": "5", "unit": "um"},
+                        "gsd": "1.8",
+                        "concentration": {"value": "1", "unit": "mg/m3"},
+                    },
+                ]
+            },
+        }
+    )
     assert reply["ok"], reply
     assert _assert_cells_match(page, reply) == 36
 
 
 def test_csv_file_import_matches_core(page, base_url, tmp_path):
-    text = ("size_nm,conc\n"
-            "20,1000\n30,3000\n50,6000\n80,5000\n120,2500\n200,900\n400,150\n")
+    text = "size_nm,conc\n20,1000\n30,3000\n50,6000\n80,5000\n120,2500\n200,900\n400,150\n"
     path = tmp_path / "spectrum.csv"
     path.write_text(text)
     _open(page, base_url)
@@ -99,9 +133,18 @@ def test_csv_file_import_matches_core(page, base_url, tmp_path):
     panel.get_by_label("Concentration is given").select_option("per_bin")
     page.wait_for_function("() => location.hash.includes('csv_concentration_column=conc')")
     _settled(page)
-    reply = api.handle({"kind": "deposition", "inputs": {
-        "distribution_source": "csv", "csv_text": text, "csv_diameter_column": "size_nm",
-        "csv_concentration_column": "conc", "csv_concentration_type": "per_bin"}})
+    reply = api.handle(
+        {
+            "kind": "deposition",
+            "inputs": {
+                "distribution_source": "csv",
+                "csv_text": text,
+                "csv_diameter_column": "size_nm",
+                "csv_concentration_column": "conc",
+                "csv_concentration_type": "per_bin",
+            },
+        }
+    )
     assert reply["ok"], reply
     assert _assert_cells_match(page, reply) == 36
     screenshot(page, "deposition-csv")
@@ -122,7 +165,9 @@ def test_bad_csv_reports_line_number(page, base_url, tmp_path):
 
 def test_demo_loads_with_one_click_and_is_marked_invented(page, base_url):
     _open(page, base_url)
-    page.locator(PANEL).get_by_role("button", name="Invented demo: metal fume, two fine modes").click()
+    page.locator(PANEL).get_by_role(
+        "button", name="Invented demo: metal fume, two fine modes"
+    ).click()
     note = page.locator(f"{PANEL} .demo-note")
     note.wait_for(state="visible")
     assert "Invented demo" in note.inner_text()
@@ -135,7 +180,8 @@ def test_demo_loads_with_one_click_and_is_marked_invented(page, base_url):
 def test_link_round_trip_reproduces_deposition(page, base_url, browser):
     _open(page, base_url)
     page.locator(PANEL).get_by_role(
-        "button", name="Invented demo: measured spectrum from CSV").click()
+        "button", name="Invented demo: measured spectrum from CSV"
+    ).click()
     page.wait_for_function("() => location.hash.includes('csv_text')")
     _settled(page)
     cells = _region_cells(page)
@@ -145,8 +191,9 @@ def test_link_round_trip_reproduces_deposition(page, base_url, browser):
         p2 = other.new_page()
         p2.goto(url)
         wait_ready(p2)
-        p2.wait_for_function("() => Number(document.getElementById('panel-deposition')"
-                             ".dataset.updates || 0) >= 1")
+        p2.wait_for_function(
+            "() => Number(document.getElementById('panel-deposition').dataset.updates || 0) >= 1"
+        )
         assert _region_cells(p2) == cells
         assert p2.locator(f"{PANEL} .demo-note").is_visible()
     finally:
