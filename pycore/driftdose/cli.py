@@ -50,6 +50,7 @@ COMMANDS = ("describe", "run", "batch")  # subcommands that are not calculations
 QUANTITY_KINDS_EXCLUDED = ("choice", "integer", "text", "data")
 MAX_FILE_BYTES = 64 * 1024 * 1024  # a guard against reading huge files; the api sets the limits
 _SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+_KEY_VALUE = re.compile(r"^([A-Za-z_][A-Za-z0-9_]*)=(.*)$", re.S)
 _NUMBER_THEN_UNIT = re.compile(
     r"^\s*([-+\u2212]?(?:\d[\d,]*(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$"
 )
@@ -229,10 +230,12 @@ def _field_help(fd: dict[str, Any]) -> str:
             parts.append("units: " + ", ".join(labels))
     if fd.get("range"):
         parts.append(f"valid: {fd['range']}")
-    if fd.get("kind") == "data":
-        parts.append("JSON text or @FILE.json")
+    if fd.get("kind") == "data" and not _is_file_field(fd):
+        parts.append("JSON text, @FILE.json, or KEY=VALUE pairs (@FILE as a value reads a file)")
+    elif _is_file_field(fd):
+        parts.append("a file name")
     elif fd.get("kind") == "text":
-        parts.append("a file name" if _is_file_field(fd) else "text or @FILE")
+        parts.append("text or @FILE")
     parts.append(f"default: {_default_text(fd)}")
     return ". ".join(parts).replace("%", "%%") + "."
 
@@ -278,7 +281,8 @@ def _add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any
             if wanted and "--spectrum" not in taken and "--spectrum" not in fmap.options:
                 flags.append("--spectrum")
         elif fd.get("kind") == "data":
-            kwargs["metavar"] = "JSON|@FILE"
+            kwargs["metavar"] = "JSON|@FILE|KEY=VALUE"
+            kwargs["nargs"] = "+"
         else:
             kwargs["metavar"] = "TEXT|@FILE"
         group.add_argument(*flags, help=_field_help(fd), **kwargs)
@@ -342,7 +346,7 @@ def _flag_inputs(
             if choice and f"field:{choice}" not in given:
                 inputs[choice] = value  # a file given means: use it (as choosing it on the page)
         elif fd.get("kind") == "data":
-            inputs[name] = _parse_json_text(raw, name)
+            inputs[name] = _data_value(raw, name, origins)
         elif fd.get("kind") == "text" and raw.startswith("@"):
             inputs[name] = _read_text_file(raw[1:], name)
             origins[name] = raw[1:]
@@ -357,6 +361,33 @@ def _flag_inputs(
                 value = fd["default"]["value"]
             inputs[name] = {"value": value, "unit": given[dest]}
     return inputs
+
+
+def _data_value(args: list[str], name: str, origins: dict[str, str]) -> Any:
+    """A data field's value: one JSON text or ``@file.json``, or ``KEY=VALUE`` pairs.
+
+    Pairs make an object; a value ``@path`` is that file's text (a CSV file, say), any other
+    value is read as JSON when it is JSON (numbers, lists) and kept as text otherwise.
+    """
+    if len(args) == 1 and not _KEY_VALUE.match(args[0]):
+        return _parse_json_text(args[0], name)
+    obj: dict[str, Any] = {}
+    for arg in args:
+        m = _KEY_VALUE.match(arg)
+        if not m:
+            raise UserError(
+                name, f"give one JSON text, @FILE or KEY=VALUE pairs, not {arg[:30]!r}."
+            )
+        key, value = m.groups()
+        if value.startswith("@"):
+            obj[key] = _read_text_file(value[1:], name)
+            origins[name] = f"{key} from {value[1:]}"
+            continue
+        try:
+            obj[key] = json.loads(value)
+        except (ValueError, RecursionError):
+            obj[key] = value
+    return obj
 
 
 def _js_string(value: Any) -> str:
@@ -530,10 +561,11 @@ def _table_text(
         else:
             unit = _unit_text(str(row.get("unit", "")))
             lines.append((_row_label(row), _shown(row.get("value"), digits), unit))
-    w0 = max(_width(a) for a, _, _ in lines)
-    w1 = max(_width(b) for _, b, c in lines if c or b == "Value")  # words may run past
     out.append("Results")
-    out += [f"  {_pad(a, w0)}  {_pad(b, w1)}  {c}".rstrip() for a, b, c in lines]
+    out += _aligned(lines)
+    for key, entry in reply.get("results", {}).items():
+        if isinstance(entry, dict) and not ("value" in entry or "text" in entry):
+            out += ["  " + line if line else line for line in _structured_block(key, entry, digits)]
     if reply.get("warnings"):
         out += ["", "Warnings"]
         wrap = textwrap.TextWrapper(width=100, initial_indent="  - ", subsequent_indent="    ")
@@ -546,6 +578,112 @@ def _table_text(
                 textwrap.fill(str(text), 100, initial_indent=f"  {i}. ", subsequent_indent="     ")
             )
     return "\n".join(out) + "\n"
+
+
+_SKIP_KEYS = frozenset({"index", "name", "label", "type", "type_label", "rows", "warnings"})
+
+
+def _words(key: str) -> str:
+    return key.replace("_", " ")
+
+
+def _scalar_text(value: Any, digits: int) -> str:
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if _is_number(value):
+        return _shown(value, digits)
+    if isinstance(value, list) and all(isinstance(v, str | int | float) for v in value):
+        return ", ".join(_scalar_text(v, digits) for v in value)
+    return "" if value is None else str(value)
+
+
+def _aligned(lines: list[tuple[str, str, str]], indent: str = "  ") -> list[str]:
+    """Lines of (label, value, unit) in columns; a line with neither value nor unit is a title."""
+    cells = [(a, b, c) for a, b, c in lines if b or c]
+    w0 = max((_width(a) for a, _, _ in cells), default=0)
+    w1 = max((_width(b) for a, b, c in cells if c), default=0)  # words may run past
+    return [
+        f"{indent}{_pad(a, w0)}  {_pad(b, w1)}  {c}".rstrip() if (b or c) else f"{indent}{a}"
+        for a, b, c in lines
+    ]
+
+
+def _structured_block(key: str, entry: dict[str, Any], digits: int) -> list[str]:
+    """Text lines for a result that is a table, not a row (generic over its shape).
+
+    An entry holds ``rows``. A row holding lists of result rows (``{label, value, unit}``)
+    becomes a titled group of them; rows of plain values become the lines of a table whose
+    columns are their keys (with the unit of column ``c`` from the entry's ``c_unit``). The
+    entry's other plain fields are listed first.
+    """
+    out = ["", str(entry.get("label", _words(key)))]
+    facts = [
+        (_words(k), _scalar_text(v, digits), "")
+        for k, v in entry.items()
+        if k not in _SKIP_KEYS and not isinstance(v, dict | list) and v is not None
+    ]
+    out += _aligned(facts)
+    rows = entry.get("rows")
+    if not isinstance(rows, list):
+        return [*out, "  (see --format json)"]
+    plain = [r for r in rows if isinstance(r, dict) and not _groups(r)]
+    if plain and len(plain) == len(rows):  # a table of plain values
+        columns = list(dict.fromkeys(k for r in plain for k in r))
+        header = [_with_unit(_words(c), str(entry.get(f"{c}_unit", ""))) for c in columns]
+        body = [[_scalar_text(r.get(c), digits) for c in columns] for r in plain]
+        widths = [max(_width(x) for x in col) for col in zip(header, *body, strict=True)]
+        for line in [header, *body]:
+            out.append("  " + "  ".join(_pad(x, w) for x, w in zip(line, widths, strict=True)))
+            out[-1] = out[-1].rstrip()
+        return out
+    lines: list[tuple[str, str, str]] = []
+    for i, row in enumerate(rows, 1):
+        if not isinstance(row, dict):
+            lines.append((str(i), _scalar_text(row, digits), ""))
+            continue
+        groups = _groups(row)
+        title = str(row.get("name") or row.get("label") or i)
+        if row.get("type_label"):
+            title += f" ({row['type_label']})"
+        lines.append((title, "", ""))
+        for k, v in row.items():
+            if k not in _SKIP_KEYS and k not in groups and not isinstance(v, dict | list):
+                lines.append((f"  {_words(k)}", _scalar_text(v, digits), ""))
+        for k, group in groups.items():
+            prefix = "" if k == "quantities" else f"{_words(k)}: "
+            for r in group:
+                if "value" in r:
+                    unit = _unit_text(str(r.get("unit", "")))
+                    lines.append((f"  {prefix}{_row_label(r)}", _shown(r["value"], digits), unit))
+                elif "text" in r:
+                    lines.append((f"  {prefix}{_row_label(r)}", str(r["text"]), ""))
+        lines += [(f"  warning: {w}", "", "") for w in row.get("warnings") or []]
+    return out + _aligned(lines)
+
+
+def _groups(row: dict[str, Any]) -> dict[str, list[dict[str, Any]]]:
+    """The lists of result rows that a table row holds, by key."""
+    return {
+        k: v
+        for k, v in row.items()
+        if isinstance(v, list) and v and all(isinstance(r, dict) and "label" in r for r in v)
+    }
+
+
+def _results_csv(reply: dict[str, Any], stderr: TextIO) -> str:
+    """The page's results CSV (:func:`driftdose.export.results_csv`) of the reply.
+
+    Results that are tables rather than rows are left out (with a note) if the shared
+    exporter cannot take them.
+    """
+    try:
+        return export.results_csv(reply)
+    except (KeyError, TypeError, ValueError):
+        results = reply.get("results", {})
+        rows = dict(_rows(results))
+        left = [k for k in results if k not in rows]
+        stderr.write(f"note: not in the CSV (tables, see --format json): {', '.join(left)}.\n")
+        return export.results_csv({**reply, "results": rows})
 
 
 def _write(path: str | None, text: str, stdout: TextIO) -> None:
@@ -569,7 +707,7 @@ def _input_summary(
         raw = inputs.get(name)
         if raw is None:
             raw = fd.get("default")
-        if raw is None or (isinstance(raw, dict) and raw.get("value") is None):
+        if raw is None or (_is_quantity(fd) and isinstance(raw, dict) and raw.get("value") is None):
             shown = "—"
         elif name in origins:
             shown = f"from {origins[name]}"
@@ -635,7 +773,7 @@ def _compute(
     if opts.format == "json":
         text = json.dumps(reply, indent=2, ensure_ascii=False) + "\n"
     elif opts.format == "csv":
-        text = export.results_csv(reply)  # the page's "Download results (CSV)", byte for byte
+        text = _results_csv(reply, stderr)  # the page's "Download results (CSV)", byte for byte
         for w in reply.get("warnings", []):
             stderr.write(f"warning: {w}\n")
     else:

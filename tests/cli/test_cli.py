@@ -630,6 +630,20 @@ def test_main_every_calculation_runs_with_defaults(capsys):
         assert json.loads(out) == api.handle({"kind": kind, "inputs": {}})
 
 
+@pytest.mark.parametrize("fmt", ["table", "csv", "json"])
+def test_main_every_calculation_every_format(capsys, tmp_path, fmt):
+    """Every registered calculation prints in every format and writes its curves, no crash."""
+    for kind in CALCULATIONS:
+        curves = tmp_path / f"{kind}-{fmt}.csv"
+        code, out, err = run_main(capsys, kind, "--format", fmt, "--curves", str(curves))
+        assert code == 0, (kind, err)
+        assert out.strip()
+        assert "Traceback" not in err
+        assert curves.read_text(encoding="utf-8").strip()
+        if fmt == "csv":
+            assert out.startswith("quantity,")
+
+
 def test_main_version(capsys):
     code, out, _ = run_main(capsys, "--version")
     assert code == 0
@@ -659,13 +673,16 @@ def _fake_calculation() -> types.ModuleType:
                 "sum": {
                     "label": "Sum",
                     "symbol": "",
-                    "value": v["length"] * 1000 * v["count"] + sum(v["table"]) + v["format"],
+                    "value": v["length"] * 1000 * v["count"]
+                    + (sum(v["table"]) if isinstance(v["table"], list) else 0)
+                    + v["format"],
                     "unit": "mm",
                     "si": 0.0,
                     "si_unit": "m",
                     "note": "",
                 },
                 "words": {"label": "Words", "text": f"{v['colour']} {v['note'] or ''}".strip()},
+                "table": {"label": "Table", "text": json.dumps(v["table"], sort_keys=True)},
             },
             "curves": {},
             "warnings": [],
@@ -942,6 +959,110 @@ def test_module_batch_deposition(tmp_path):
     assert [r[0] for r in rows[1:]] == ["a.csv", "b.csv"]
     col = next(i for i, h in enumerate(rows[0]) if h.startswith("Total: mass deposited"))
     assert float(rows[2][col]) == pytest.approx(2 * float(rows[1][col]), rel=1e-9)
+
+
+# --- a data field given as KEY=VALUE pairs with a file (sampling's spectrum) -----------------
+
+
+def test_main_sampling_spectrum_pairs_equal_api(capsys, tmp_path):
+    path = _spectrum(tmp_path, "a.csv", 1.0)
+    code, out, err = run_main(
+        capsys,
+        "sampling",
+        "--spectrum",
+        f"csv=@{path}",
+        "diameter_column=diameter_nm",
+        "concentration_column=dN/dlogDp_per_cm3",
+        "--target",
+        "thoracic",
+        "--format",
+        "json",
+    )
+    assert code == 0, err
+    spectrum = {
+        "csv": path.read_text(encoding="utf-8"),
+        "diameter_column": "diameter_nm",
+        "concentration_column": "dN/dlogDp_per_cm3",
+    }
+    expected = api.handle(
+        {"kind": "sampling", "inputs": {"spectrum": spectrum, "target": "thoracic"}}
+    )
+    assert expected["ok"]
+    assert json.loads(out) == expected
+    # the same object as one JSON text
+    code, out2, _ = run_main(
+        capsys,
+        "sampling",
+        "--spectrum",
+        json.dumps(spectrum),
+        "--target",
+        "thoracic",
+        "--format",
+        "json",
+    )
+    assert code == 0
+    assert out2 == out
+
+
+def test_main_pairs_read_json_values(capsys, monkeypatch):
+    monkeypatch.setitem(CALCULATIONS, "fake", _fake_calculation())
+    code, out, err = run_main(
+        capsys, "fake", "--table", "a=[1, 2]", "b=x", "c=2.5", "--format", "json"
+    )
+    assert code == 0, err
+    assert json.loads(json.loads(out)["results"]["table"]["text"]) == {
+        "a": [1, 2],
+        "b": "x",
+        "c": 2.5,
+    }
+    code, _, err = run_main(capsys, "fake", "--table", "a=1", "not a pair")
+    assert code == 2
+    assert err.startswith("table: give one JSON text")
+
+
+def test_main_table_shows_results_that_are_tables(capsys, tmp_path):
+    """Results shaped as tables (sampling's stages and spectrum) appear in the table format."""
+    path = _spectrum(tmp_path, "a.csv", 1.0)
+    argv = [
+        "sampling",
+        "--spectrum",
+        f"csv=@{path}",
+        "diameter_column=diameter_nm",
+        "concentration_column=dN/dlogDp_per_cm3",
+    ]
+    code, out, err = run_main(capsys, *argv)
+    assert code == 0, err
+    reply = json.loads(run_main(capsys, *argv, "--format", "json")[1])
+    tables = {k: v for k, v in reply["results"].items() if "rows" in v}
+    assert tables
+    lines = out.splitlines()
+    for table in tables.values():
+        assert any(line.strip() == table["label"] for line in lines)
+    for stage in reply["results"]["stages_table"]["rows"]:
+        for q in stage["quantities"]:
+            shown = page_format([q["value"]])[0]
+            assert any(
+                line.split()[: len(q["label"].split())] == q["label"].split() and shown in line
+                for line in lines
+            ), q["label"]
+    spectrum_rows = reply["results"]["spectrum_table"]["rows"]
+    corrected = page_format([r["corrected"] for r in spectrum_rows])
+    start = next(i for i, line in enumerate(lines) if line.split()[:2] == ["diameter", "[µm]"])
+    body = [line.split() for line in lines[start + 1 : start + 1 + len(spectrum_rows)]]
+    assert lines[start].split()[2:] == ["measured", "penetration", "corrected", "unreliable"]
+    assert [cells[3] for cells in body] == corrected
+
+
+def test_main_csv_leaves_out_tables_with_a_note(capsys):
+    code, out, err = run_main(capsys, "sampling", "--format", "csv")
+    assert code == 0
+    reply = api.handle({"kind": "sampling", "inputs": {}})
+    row_keys = [k for k, v in reply["results"].items() if "value" in v or "text" in v]
+    rows = list(csv.reader(io.StringIO(out)))
+    assert len(rows) == 1 + len(row_keys)
+    for key in reply["results"]:
+        if key not in row_keys:
+            assert key in err
 
 
 # --- packaging -----------------------------------------------------------------------------
