@@ -218,7 +218,7 @@ def test_every_default_is_valid() -> None:
         ("pressure", "from 10 kPa to 200 kPa"),
         ("time", "from 1 ms to 24 h"),
         ("reference_distance", "from 100 nm to 10 m"),
-        ("initial_velocity", "above 0 m/s to 100 m/s"),
+        ("initial_velocity", "greater than 0 m/s and at most 100 m/s"),
     ],
 )
 def test_range_text_motion_fields(name: str, text: str) -> None:

@@ -65,6 +65,8 @@ def _handle(request: Any) -> dict[str, Any]:
         out = calc.run(values)
     except FieldError as exc:
         return _error(exc.field, exc.message)
+    if out.get("ok") is False:  # a calculation that reports several field errors at once
+        return {"ok": False, "errors": out["errors"]}
     reply = {"ok": True, "results": {}, "curves": {}, "warnings": [], "sources": []}
     reply.update(out)
     _check_finite(reply)

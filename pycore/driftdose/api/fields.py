@@ -86,9 +86,11 @@ class Field:
         lo = "" if self.minimum is None else fmt(self.minimum)
         hi = "" if self.maximum is None else fmt(self.maximum)
         if lo and hi:
-            return f"{'above' if self.exclusive_min else 'from'} {lo} to {hi}"
+            if self.exclusive_min:
+                return f"greater than {lo} and at most {hi}"
+            return f"from {lo} to {hi}"
         if lo:
-            return f"{'above' if self.exclusive_min else 'at least'} {lo}"
+            return f"{'greater than' if self.exclusive_min else 'at least'} {lo}"
         return f"at most {hi}" if hi else ""
 
     def parse(self, raw: Any) -> Any:
@@ -185,6 +187,15 @@ def _number(f: Field, value: Any) -> float:
     elif isinstance(value, str):
         text = value.strip().replace("\u2212", "-").replace(" ", "")
         if text.count(",") == 1 and "." not in text:
+            whole, frac = text.split(",")
+            if len(frac) == 3 and whole.lstrip("+-") not in ("", "0"):
+                # "1,000" may be one thousand or one: refuse to guess
+                raise FieldError(
+                    f.name,
+                    f"{f.label}: {value[:20]!r} is ambiguous; write the "
+                    "number without a thousands separator, with a point or a "
+                    f"comma for decimals{_within(f)}.",
+                )
             text = text.replace(",", ".")  # decimal comma
         try:
             number = float(text)
