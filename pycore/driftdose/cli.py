@@ -340,7 +340,7 @@ def _flag_inputs(
             inputs[name] = {"value": value, "unit": unit}
         elif _is_file_field(fd):
             path = raw.removeprefix("@")
-            inputs[name] = _read_text_file(path, name)
+            inputs[name] = _read_text_file(path, name, fd.get("max_bytes"))
             origins[name] = path
             choice, value = _source_choice(fmap.fields, fd)
             if choice and f"field:{choice}" not in given:
@@ -425,17 +425,24 @@ def _read_bytes(path: str, field: str) -> bytes:
     return data
 
 
-def _read_text_file(path: str, field: str) -> str:
-    """Read a file's text as the core reads a file's bytes: UTF-8, else Windows-1252.
+def _read_text_file(path: str, field: str, limit: int | None = None) -> str:
+    """Read a file's text as the page's file field does (``File.text()``).
 
-    A byte-order mark is kept, so that the api notices and reports it as it does for the page;
-    the api also judges the content (empty, binary, too large) with the page's messages.
+    UTF-8 with undecodable bytes replaced and a leading byte-order mark dropped, so the api
+    sees the very text the page would send; a file over ``limit`` bytes (the field's
+    ``max_bytes``) is refused, as the page refuses it, before it is read.
     """
-    data = _read_bytes(path, field)
-    try:
-        return data.decode("utf-8")
-    except UnicodeDecodeError:
-        return data.decode("cp1252", errors="replace")
+    if limit is not None and path != "-":
+        try:
+            size = Path(path).stat().st_size
+        except OSError:
+            size = 0  # reading it reports the problem
+        if size > limit:
+            raise UserError(
+                field, f"{path} is {size / 1e6:.1f} MB; the limit is {limit / 1e6:.0f} MB."
+            )
+    text = _read_bytes(path, field).decode("utf-8", errors="replace")
+    return text.removeprefix("\ufeff")
 
 
 def _parse_json_text(raw: str, field: str) -> Any:
@@ -810,7 +817,8 @@ def _batch(
     records: list[tuple[str, dict[str, Any]]] = []
     for path in opts.files:
         try:
-            reply = _call(kind, {**base, name: _read_text_file(path, name)})
+            text = _read_text_file(path, name, file_field.get("max_bytes"))
+            reply = _call(kind, {**base, name: text})
         except UserError as exc:
             reply = {"ok": False, "errors": [{"field": exc.field, "message": exc.message}]}
         if not reply.get("ok"):

@@ -834,6 +834,30 @@ def test_main_deposition_bad_spectrum_gives_line_number(capsys, tmp_path):
     assert err.startswith("csv_text: Line 3")
 
 
+def test_main_spectrum_file_read_as_page_reads_it(capsys, tmp_path):
+    """A BOM is dropped and undecodable bytes replaced, as the browser's File.text() does
+    (WHATWG Encoding, "UTF-8 decode"), so the api gets the text the page would send.
+    """
+    plain = _spectrum(tmp_path, "plain.csv", 1.0).read_text(encoding="utf-8")
+    path = tmp_path / "bom.csv"
+    path.write_bytes(b"\xef\xbb\xbf# size \xb5m\n" + plain.encode("utf-8"))
+    code, out, err = run_main(
+        capsys, "deposition", "--spectrum", str(path), *SPECTRUM_FLAGS, "--format", "json"
+    )
+    assert code == 0, err
+    inputs = {**_deposition_inputs(tmp_path / "plain.csv"), "csv_text": "# size \ufffdm\n" + plain}
+    assert json.loads(out) == api.handle({"kind": "deposition", "inputs": inputs})
+
+
+def test_main_spectrum_file_over_limit_refused(capsys, tmp_path):
+    path = tmp_path / "big.csv"
+    path.write_bytes(b"10;1\n" * 1_300_000)  # 6.5 MB, over the field's 5 MB
+    code, out, err = run_main(capsys, "deposition", "--spectrum", str(path))
+    assert code == 2
+    assert out == ""
+    assert err.startswith("csv_text: ") and "the limit is 5 MB" in err
+
+
 def test_main_batch_deposition_one_row_per_file(capsys, tmp_path):
     files = [_spectrum(tmp_path, f"{n}.csv", s) for n, s in (("a", 1.0), ("b", 2.5), ("c", 0.1))]
     out_path = tmp_path / "table.csv"
