@@ -101,16 +101,20 @@ def to_exponential(value: float, fraction_digits: int) -> str:
 
 
 def _round_significant(value: float, digits: int) -> tuple[str, int]:
-    """Digits (``digits`` of them) and decimal exponent of ``|value|``, ties away from zero."""
+    """Digits (``digits`` of them) and decimal exponent of ``|value|``, ties away from zero.
+
+    ``quantize`` rounds the exact binary value once (a double has up to 767 significant
+    decimal digits; arithmetic such as ``scaleb`` would first round it to the context's 28).
+    """
     exact = abs(Decimal(value))  # the exact binary value, as the ECMAScript algorithm uses
     if exact == 0:
         return "0" * digits, 0
     exponent = exact.adjusted()
-    scaled = exact.scaleb(digits - 1 - exponent).quantize(Decimal(1), rounding=ROUND_HALF_UP)
-    if scaled >= Decimal(10) ** digits:  # rounded up to the next power of ten
+    rounded = exact.quantize(Decimal(1).scaleb(exponent - digits + 1), rounding=ROUND_HALF_UP)
+    if rounded.adjusted() > exponent:  # rounded up to the next power of ten
         exponent += 1
-        scaled = exact.scaleb(digits - 1 - exponent).quantize(Decimal(1), rounding=ROUND_HALF_UP)
-    return str(int(scaled)), exponent
+        rounded = exact.quantize(Decimal(1).scaleb(exponent - digits + 1), rounding=ROUND_HALF_UP)
+    return "".join(map(str, rounded.as_tuple().digits)), exponent
 
 
 def _trim_zeros(text: str) -> str:
@@ -217,7 +221,8 @@ def _default_text(fd: dict[str, Any]) -> str:
         return "none"
     if isinstance(default, str):
         return default
-    return json.dumps(default, ensure_ascii=False)
+    text = json.dumps(default, ensure_ascii=False)
+    return text if len(text) <= 160 else f"{text[:150]}… (in full: describe --format json)"
 
 
 def _field_help(fd: dict[str, Any]) -> str:
@@ -281,7 +286,7 @@ def _add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any
             if wanted and "--spectrum" not in taken and "--spectrum" not in fmap.options:
                 flags.append("--spectrum")
         elif fd.get("kind") == "data":
-            kwargs["metavar"] = "JSON|@FILE|KEY=VALUE"
+            kwargs["metavar"] = "DATA"
             kwargs["nargs"] = "+"
         else:
             kwargs["metavar"] = "TEXT|@FILE"
@@ -948,7 +953,7 @@ def _output_options(parser: argparse.ArgumentParser, batch: bool = False) -> Non
 
 def _example(kind: str, fields: list[dict[str, Any]]) -> str:
     for fd in fields:
-        if _is_quantity(fd):
+        if _is_quantity(fd) and fd["default"].get("value") is not None:
             d = fd["default"]
             return f"example: {PROG} {kind} {_flag(fd['name'])} {_js_string(d['value'])}{d['unit']}"
     return f"example: {PROG} {kind}"
