@@ -24,7 +24,7 @@ subjects = st.builds(
 )
 
 
-@settings(max_examples=300, deadline=None)
+@settings(max_examples=600, deadline=None)
 @given(sizes, densities, shapes, subjects)
 def test_icrp66_property_fractions_bounded_and_sum(d, rho, chi, subject):
     c = icrp66_curves([d], rho, chi, subject)
@@ -36,7 +36,7 @@ def test_icrp66_property_fractions_bounded_and_sum(d, rho, chi, subject):
     assert c["total"][0] <= c["inhalable"][0] + 1e-12
 
 
-@settings(max_examples=300, deadline=None)
+@settings(max_examples=600, deadline=None)
 @given(sizes)
 def test_simplified_icrp_property_fractions_bounded(d):
     r = simplified_icrp(d)
@@ -48,7 +48,7 @@ def test_simplified_icrp_property_fractions_bounded(d):
     assert r["head_airways"] <= r["inhalable"] + 1e-12
 
 
-@settings(max_examples=100, deadline=None)
+@settings(max_examples=400, deadline=None)
 @given(sizes, sizes)
 def test_icrp66_property_batch_order_independent(d1, d2):
     a = icrp66_curves([d1, d2])

@@ -15,7 +15,7 @@ from hypothesis import strategies as st
 from driftdose import gas, particle
 from driftdose.constants import STANDARD_GRAVITY
 
-FAST = settings(max_examples=100, deadline=None)
+FAST = settings(max_examples=320, deadline=None)
 
 
 def log_uniform(lo: float, hi: float) -> st.SearchStrategy[float]:

@@ -28,7 +28,7 @@ from driftdose.transport import (
 )
 from driftdose.transport._common import tube_reynolds_number
 
-FAST = settings(max_examples=80, deadline=None)
+FAST = settings(max_examples=260, deadline=None)
 
 
 def log_uniform(lo: float, hi: float) -> st.SearchStrategy[float]:
