@@ -257,6 +257,9 @@ _ATTR = re.compile(r"""([\w:-]+)(?:\s*=\s*(?:"([^"]*)"|'([^']*)'|([^\s>]+)))?"""
 
 def _single_check_pyodide(built: Path) -> None:
     """Fail loudly when the Pyodide release breaks an assumption of the single-file edition."""
+    for name in PYODIDE_FILES:
+        if not (built / "pyodide" / name).exists():
+            raise BuildError(f"single-file edition: pyodide/{name} is missing from the build")
     for name, needles in SINGLE_PYODIDE_ASSUMPTIONS.items():
         path = MODULES / "pyodide" / name if name.endswith(".d.ts") else built / "pyodide" / name
         if not path.exists():
