@@ -9,7 +9,9 @@ Measures in one run, on one server, in the same Chromium:
 - repeat visit (HTTP cache warm) time to ready divided by the cold time;
 - input change to updated chart, per panel: median and 95th percentile over many edits;
 - the app's own assets (everything but Pyodide's core), gzip-compressed size;
-- the heaviest core calculations in CPython, and the same requests in the page, with ratios.
+- the heaviest core calculations in CPython, and the same requests in the page, with ratios;
+- the single-file edition: its size, and its time to ready from file:// divided by the served
+  page's (cold, fresh contexts, alternating runs, medians).
 Targets are recorded in the README; this script only reports.
 """
 
@@ -162,6 +164,29 @@ def _page_ms(page, kind: str, inputs: dict, repeats: int = 20) -> float:
     )
 
 
+def _single_file_figures(build, browser, dist: Path, base: str, runs: int) -> dict:
+    """Single-file edition: size, time to ready from file://, ratio to the served page."""
+    with tempfile.TemporaryDirectory() as folder:
+        target = Path(folder) / build.SINGLE_NAME
+        build.build_single_file(target, dist)
+        served, single = [], []
+        for _ in range(runs):
+            ctx = browser.new_context()
+            served.append(_time_to_ready(ctx, base))
+            ctx.close()
+            ctx = browser.new_context()
+            single.append(_time_to_ready(ctx, target.as_uri()))
+            ctx.close()
+        return {
+            "size_MB": round(target.stat().st_size / 1e6, 2),
+            "ready_s": round(statistics.median(single), 3),
+            "served_page_ready_s": round(statistics.median(served), 3),
+            "ready_ratio_single_over_served": round(
+                statistics.median(single) / statistics.median(served), 3
+            ),
+        }
+
+
 def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--runs", type=int, default=5)
@@ -239,6 +264,7 @@ def main() -> int:
                 }
             figures["heaviest_calculations"] = heavy
             ctx.close()
+            figures["single_file"] = _single_file_figures(build, browser, dist, base, args.runs)
             browser.close()
         server.shutdown()
     print(json.dumps(figures, indent=1))
