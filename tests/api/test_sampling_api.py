@@ -14,8 +14,11 @@ import math
 import pytest
 
 from driftdose import particle
+from driftdose.api import deposition as deposition_api
 from driftdose.api import describe, handle, handle_json
-from driftdose.api.sampling import CURVE_POINTS, DEMOS, STAGE_FIELDS
+from driftdose.api import sampling as sampling_api
+from driftdose.api.sampling import CURVE_POINTS, DEMOS, STAGE_FIELDS, TARGETS
+from driftdose.deposition import REFERENCE_WORKER, icrp66_curves, simplified_icrp
 from driftdose.sources import SOURCES
 from driftdose.transport import Bend, Chain, Cyclone, Impactor, ScreenStack, Tube, iso7708_fraction
 
@@ -148,58 +151,114 @@ def test_sampling_ideal_respirable_cyclone_has_no_departure_from_respirable() ->
     assert reply["results"]["departure_max"]["si"] == pytest.approx(0.0, abs=1e-12)
 
 
+def csv_spectrum(text, **fields):
+    """Inputs that correct a spectrum given as CSV text (the deposition panel's fields)."""
+    return {"spectrum_source": "csv", "csv_text": text, **fields}
+
+
 def test_sampling_spectrum_bins_corrected_and_flagged() -> None:
-    spectrum = {
-        "diameters": [5, 20, 100, 500, 3000],
-        "diameter_unit": "nm",
-        "concentrations": [1000.0, 2000.0, 3000.0, 400.0, 10.0],
-        "concentration_unit": "1/cm³ per bin",
-    }
-    reply = handle(request([TUBE, CYCLONE], flow=q(1, "L/min"), spectrum=spectrum))
+    diameters = [5, 20, 100, 500, 3000, 8000]  # nm
+    values = [1000.0, 2000.0, 3000.0, 400.0, 10.0, 2.0]  # per cm3 per bin
+    text = "d_nm,n\n" + "".join(f"{d},{c}\n" for d, c in zip(diameters, values, strict=True))
+    inputs = csv_spectrum(text, csv_concentration_type="per_bin")
+    reply = handle(request([TUBE, CYCLONE], flow=q(1, "L/min"), **inputs))
     assert reply["ok"] is True, reply.get("errors")
     table = reply["results"]["spectrum_table"]
     chain = Chain((Tube(2.0, 4e-3, 1e-3 / 60), Cyclone(4e-6, 1.5)))
-    for row, d_nm, c in zip(
-        table["rows"], spectrum["diameters"], spectrum["concentrations"], strict=True
-    ):
+    flags = []
+    for row, d_nm, c in zip(table["rows"], diameters, values, strict=True):
         p = chain.penetration(d_nm * 1e-9, 1000.0)
         assert row["diameter"] == pytest.approx(d_nm * 1e-3)
+        assert row["measured"] == pytest.approx(c, rel=1e-12)
         assert row["penetration"] == pytest.approx(p, rel=1e-12)
         assert row["corrected"] == pytest.approx(c / p, rel=1e-12)
         assert row["unreliable"] == (p < 0.5)
+        flags.append(row["unreliable"])
+    assert any(flags) and not all(flags)  # the check sees both kinds of bin
     assert reply["curves"]["spectrum"]["corrected"]["y"][0] == table["rows"][0]["corrected"]
+    assert reply["curves"]["spectrum"]["unreliable"] == flags
+    assert any("unreliable" in w for w in reply["warnings"])
 
 
 def test_sampling_spectrum_aerodynamic_diameters_converted() -> None:
-    spectrum = {
-        "diameters": [2.0],
-        "diameter_unit": "um",
-        "diameter_type": "aerodynamic",
-        "concentrations": [1.0],
-    }
     rho = 3000.0
-    reply = handle(request([CYCLONE], particle_density=q(3, "g/cm3"), spectrum=spectrum))
-    assert reply["ok"] is True
+    inputs = csv_spectrum(
+        "2,1\n3,1\n",
+        csv_diameter_unit="um",
+        csv_concentration_type="per_bin",
+        spectrum_diameter_type="aerodynamic",
+    )
+    reply = handle(request([CYCLONE], particle_density=q(3, "g/cm3"), **inputs))
+    assert reply["ok"] is True, reply.get("errors")
     d_ve = particle.volume_equivalent_diameter(2e-6, rho)
     p = Cyclone(4e-6, 1.5).penetration(d_ve, rho, 293.15, 101325.0)
-    assert reply["results"]["spectrum_table"]["rows"][0]["penetration"] == pytest.approx(p)
+    row = reply["results"]["spectrum_table"]["rows"][0]
+    assert row["penetration"] == pytest.approx(p)
+    assert row["diameter"] == pytest.approx(2.0)  # shown as given in the file
+    assert reply["results"]["spectrum_table"]["diameter_type"] == "aerodynamic"
 
 
 def test_sampling_spectrum_from_csv() -> None:
-    spectrum = {
-        "csv": "d_nm;dN\n10;100\n100;50\n1000;10\n",
-        "diameter_column": "d_nm",
-        "concentration_column": "dN",
-        "concentration_type": "per_bin",
-        "diameter_unit": "nm",
-        "concentration_unit": "1/cm3",
-    }
-    reply = handle(request([TUBE], spectrum=spectrum))
+    inputs = csv_spectrum(
+        "d_nm;dN\n10;100\n100;50\n1000;10\n",
+        csv_diameter_column="d_nm",
+        csv_concentration_column="dN",
+        csv_concentration_type="per_bin",
+        csv_diameter_unit="nm",
+        csv_concentration_unit="1/cm3",
+    )
+    reply = handle(request([TUBE], **inputs))
     assert reply["ok"] is True, reply.get("errors")
     rows = reply["results"]["spectrum_table"]["rows"]
     assert [r["measured"] for r in rows] == pytest.approx([100.0, 50.0, 10.0])
-    bad = handle(request([TUBE], spectrum={"csv": "d;n\n10;x\n"}))
-    assert "spectrum" in errors_by_field(bad)
+    assert "3 rows" in reply["results"]["csv_rows"]["text"]
+
+
+def test_sampling_spectrum_ignored_unless_chosen() -> None:
+    inputs = csv_spectrum("not, a spectrum\n", spectrum_source="none")
+    reply = handle(request([TUBE], **inputs))
+    assert reply["ok"] is True
+    assert "spectrum_table" not in reply["results"]
+    assert "spectrum" not in reply["curves"]
+
+
+def test_sampling_spectrum_fields_are_the_deposition_fields() -> None:
+    """One declaration for both calculations: the same Field objects, in the same order."""
+    names = [
+        "csv_text",
+        "csv_diameter_column",
+        "csv_concentration_column",
+        "csv_concentration_type",
+        "csv_diameter_unit",
+        "csv_concentration_unit",
+    ]
+    ours = {f.name: f for f in sampling_api.FIELDS}
+    theirs = {f.name: f for f in deposition_api.FIELDS}
+    for name in names:
+        assert ours[name] is theirs[name], name
+    assert [f.name for f in sampling_api.FIELDS if f.name in names] == names
+
+
+def test_sampling_spectrum_csv_equals_deposition_import() -> None:
+    """The same CSV text gives the same bins (particles per cm3) in both calculations."""
+    text = "size,dNdlogDp\n20,1000\n40,3000\n80,2000\n160,500\n"
+    inputs = csv_spectrum(text, csv_diameter_column="size", csv_concentration_column="dNdlogDp")
+    reply = handle(request([TUBE], **inputs))
+    assert reply["ok"] is True, reply.get("errors")
+    binned, _ = deposition_api._parse_csv(
+        {
+            "csv_text": text,
+            "csv_diameter_column": "size",
+            "csv_concentration_column": "dNdlogDp",
+            "csv_concentration_type": "dN/dlogDp",
+            "csv_diameter_unit": "nm",
+            "csv_concentration_unit": "1/cm3",
+        },
+        1000.0,
+        1.0,
+    )
+    rows = reply["results"]["spectrum_table"]["rows"]
+    assert [r["measured"] for r in rows] == pytest.approx([n / 1e6 for n in binned.numbers])
 
 
 def test_sampling_stage_flow_overrides_sampling_flow() -> None:
@@ -303,21 +362,129 @@ def test_sampling_reports_several_faulty_stages_at_once() -> None:
 
 
 @pytest.mark.parametrize(
-    "spectrum",
+    ("inputs", "field"),
     [
-        {"diameters": [10, 20], "concentrations": [1.0]},
-        {"diameters": [10, -20], "concentrations": [1.0, 2.0]},
-        {"diameters": [10, 20], "concentrations": [1.0, -2.0]},
-        {"diameters": [10, "x"], "concentrations": [1.0, 2.0]},
-        {"diameters": [10], "concentrations": [1.0], "diameter_unit": "furlong"},
-        {"diameters": [10], "concentrations": [1.0], "diameter_type": "optical"},
-        {"diameters": [1e9], "concentrations": [1.0]},
-        "10,20",
+        pytest.param({"csv_text": None}, "csv_text", id="no-file"),
+        pytest.param({"csv_text": "   "}, "csv_text", id="empty-text"),
+        pytest.param({"csv_text": {"d": 1}}, "csv_text", id="not-text"),
+        pytest.param({"csv_text": "d;n\n10;x\n20;3\n"}, "csv_text", id="not-a-number"),
+        pytest.param({"csv_text": "d;n\n20;1\n10;3\n"}, "csv_text", id="unsorted"),
+        pytest.param({"csv_text": "d;n\n10;-1\n20;3\n"}, "csv_text", id="negative"),
+        pytest.param({"csv_text": "d;n\n10;1\n"}, "csv_text", id="one-row"),
+        pytest.param({"csv_text": "1e9;1\n2e9;1\n"}, "csv_text", id="beyond-100um"),
+        pytest.param(
+            {"csv_text": "d;n\n10;1\n20;3\n", "csv_diameter_column": "size"},
+            "csv_text",
+            id="unknown-column",
+        ),
+        pytest.param(
+            {"csv_text": "10;1\n20;3\n", "csv_diameter_unit": "furlong"},
+            "csv_diameter_unit",
+            id="unknown-unit",
+        ),
+        pytest.param(
+            {"csv_text": "10;1\n20;3\n", "spectrum_diameter_type": "optical"},
+            "spectrum_diameter_type",
+            id="unknown-diameter-type",
+        ),
+        pytest.param(
+            {"csv_text": "10;1\n20;3\n", "spectrum_source": "bins"},
+            "spectrum_source",
+            id="unknown-source",
+        ),
     ],
 )
-def test_sampling_bad_spectrum_message_on_field(spectrum) -> None:
-    errors = errors_by_field(handle(request([TUBE], spectrum=spectrum)))
-    assert "spectrum" in errors
+def test_sampling_bad_spectrum_message_on_field(inputs, field) -> None:
+    errors = errors_by_field(handle(request([TUBE], **{"spectrum_source": "csv", **inputs})))
+    assert field in errors
+    assert errors[field]
+
+
+def test_sampling_bad_spectrum_line_number_in_message() -> None:
+    errors = errors_by_field(handle(request([TUBE], **csv_spectrum("d;n\n10;1\n20;abc\n"))))
+    assert errors["csv_text"].startswith("Line 3")
+
+
+# --- deposition curves as targets -----------------------------------------------------------
+# Wiring checks: the deposition models themselves are checked against ICRP 66 and Hinds (1999)
+# in tests/core; here the target must be those models' curves for unit-density spheres of the
+# chain's aerodynamic diameters, and missing outside 1 nm to 100 um.
+
+
+def _targets(prefix):
+    return [value for value, _ in TARGETS if value.startswith(prefix)]
+
+
+@pytest.mark.parametrize("target", _targets("icrp66_"))
+def test_sampling_target_icrp66_is_reference_worker_unit_density_curve(target) -> None:
+    region = target.removeprefix("icrp66_")
+    reply = handle(request([CYCLONE], target=target, particle_density=q(2.5, "g/cm3")))
+    assert reply["ok"] is True, reply.get("errors")
+    curves = reply["curves"]
+    xs_ae = [x * 1e-6 for x in curves["x_aerodynamic"]]
+    inside = [i for i, x in enumerate(xs_ae) if 1e-9 <= x <= 100e-6]
+    expected = icrp66_curves(
+        [xs_ae[i] for i in inside], 1000.0, 1.0, REFERENCE_WORKER, "aerodynamic"
+    )[region]
+    ys = curves["target"]["y"]
+    for i, e in zip(inside, expected, strict=True):
+        assert ys[i] == pytest.approx(min(1.0, max(0.0, e)), rel=1e-12, abs=1e-15)
+    assert all(ys[i] is None for i in range(len(ys)) if i not in inside)
+    assert ys[-1] is None  # 100 um at 2.5 g/cm3 is beyond 100 um aerodynamic
+    keys = [s["key"] for s in reply["sources"]]
+    assert "icrp66" in keys and "icrp68" in keys
+    assert any("reference worker" in w and "unit-density" in w for w in reply["warnings"])
+
+
+@pytest.mark.parametrize("target", _targets("simplified_"))
+def test_sampling_target_simplified_is_hinds_fit_at_aerodynamic_size(target) -> None:
+    region = target.removeprefix("simplified_")
+    reply = handle(request([TUBE], target=target))
+    assert reply["ok"] is True, reply.get("errors")
+    curves = reply["curves"]
+    for x, y in zip(curves["x_aerodynamic"], curves["target"]["y"], strict=True):
+        if 1e-3 <= x <= 100.0:
+            e = simplified_icrp(x * 1e-6)[region]
+            assert y == pytest.approx(min(1.0, max(0.0, e)), rel=1e-12, abs=1e-15)
+    assert "hinds1999_ch11" in [s["key"] for s in reply["sources"]]
+
+
+def test_sampling_target_deposition_missing_below_1nm_aerodynamic() -> None:
+    # At 0.2 g/cm3 the smallest sizes have aerodynamic diameters below 1 nm.
+    reply = handle(request([TUBE], target="icrp66_AI", particle_density=q(0.2, "g/cm3")))
+    assert reply["ok"] is True
+    xs = reply["curves"]["x_aerodynamic"]
+    ys = reply["curves"]["target"]["y"]
+    assert xs[0] < 1e-3
+    for x, y in zip(xs, ys, strict=True):
+        assert (y is None) == (x < 1e-3 or x > 100.0)
+
+
+def test_sampling_target_deposition_departure_over_1nm_to_100um() -> None:
+    reply = handle(request([TUBE, BEND], target="icrp66_AI"))
+    curves = reply["curves"]
+    xs_ae = [x * 1e-6 for x in curves["x_aerodynamic"]]
+    diffs = [
+        abs(p - e)
+        for x, p, e in zip(xs_ae, curves["overall"]["y"], curves["target"]["y"], strict=True)
+        if e is not None and 1e-9 <= x <= 100e-6
+    ]
+    assert len(diffs) == CURVE_POINTS  # unit density: every size is inside
+    assert reply["results"]["departure_max"]["si"] == pytest.approx(max(diffs))
+    assert reply["results"]["departure_mean"]["si"] == pytest.approx(sum(diffs) / len(diffs))
+    assert "1 nm" in reply["results"]["departure_max"]["label"]
+
+
+@pytest.mark.parametrize("target", [value for value, _ in TARGETS])
+def test_sampling_every_target_runs(target) -> None:
+    reply = handle(request(ALL, target=target))
+    assert reply["ok"] is True, reply.get("errors")
+    assert ("target" in reply["curves"]) == (target != "none")
+    assert ("departure_max" in reply["results"]) == (target != "none")
+
+
+def test_sampling_unknown_target_message_on_field() -> None:
+    assert "target" in errors_by_field(handle(request([TUBE], target="icrp66_lungs")))
 
 
 def test_sampling_warns_in_transition_flow() -> None:

@@ -5,14 +5,18 @@ Inputs: ``stages``, an ordered list of stage objects, each ``{"type": ..., <para
 (checked by the same :class:`~driftdose.api.fields.Field` machinery as every other input;
 errors name the field as ``stages.<index>.<parameter>``, index from 0); the sampling
 ``flow`` used by every stage that gives no flow of its own; air ``temperature`` and
-``pressure``; ``particle_density``; an optional ISO 7708 ``target`` fraction; and an
-optional measured ``spectrum`` (see :func:`_parse_spectrum`).
+``pressure``; ``particle_density``; an optional ``target`` curve (an ISO 7708 fraction or a
+regional deposition curve, see :data:`TARGETS`); and, with ``spectrum_source`` set to
+``csv``, a measured spectrum read from CSV text by the same fields (and the same importer)
+as the deposition calculation: ``csv_text``, ``csv_diameter_column``,
+``csv_concentration_column``, ``csv_concentration_type``, ``csv_diameter_unit``,
+``csv_concentration_unit``, plus ``spectrum_diameter_type``.
 
 Reply:
 
 - ``curves``: penetration versus volume-equivalent diameter on 241 sizes from 1 nm to
-  100 um, ``stages`` (one series per stage, in order), ``overall``, ``target`` (the ISO
-  7708 fraction at each size's aerodynamic diameter; ``None`` beyond 100 um aerodynamic),
+  100 um, ``stages`` (one series per stage, in order), ``overall``, ``target`` (the target
+  fraction at each size's aerodynamic diameter; ``None`` where the target is not defined),
   ``x_aerodynamic`` (um) and, with a spectrum, ``spectrum`` (measured and corrected per bin);
 - ``results``: the overall penetration at 10 nm, 100 nm, 1 um and 10 um, the size band
   passed with at least 50 %, the departure from the target (:func:`_departure`), a
@@ -37,6 +41,7 @@ from typing import Any
 
 from .. import particle
 from .._numerics import logspace
+from ..deposition import REFERENCE_WORKER, icrp66_curves, simplified_icrp
 from ..sources import cite
 from ..transport import (
     Bend,
@@ -52,21 +57,25 @@ from ..transport import (
 from ..transport.chain import UNRELIABLE_BELOW
 from ..transport.cyclone import ISO7708_MAX_DIAMETER
 from ..transport.impactor import DEFAULT_STEEPNESS
+from . import deposition as _deposition
 from .fields import Field, FieldError, parse_fields
 from .reply import quantity, text_result
-from .units import auto_unit, canonical_unit, from_si, to_si, unit_label
+from .units import auto_unit, from_si, unit_label
 
 TITLE = "Sampling line and pre-separator penetration"
 
 CURVE_POINTS = 241
 CURVE_RANGE = (1e-9, 100e-6)  # [m]
 MAX_STAGES = 20
-MAX_SPECTRUM_BINS = 5000
 REFERENCE_SIZES = (("10nm", 10e-9), ("100nm", 100e-9), ("1um", 1e-6), ("10um", 10e-6))  # [m]
 DEPARTURE_RANGE = (0.1e-6, 100e-6)
-"""Aerodynamic diameters over which the departure from a target is measured [m]: the sizes
-that carry the mass of workplace aerosols and for which the ISO 7708 conventions are meant
-(our choice of range)."""
+"""Aerodynamic diameters over which the departure from an ISO 7708 target is measured [m]:
+the sizes that carry the mass of workplace aerosols and for which the ISO 7708 conventions
+are meant (our choice of range)."""
+DEPOSITION_TARGET_RANGE = (1e-9, 100e-6)
+"""Aerodynamic diameters over which a deposition target is given and the departure from it
+measured [m]: the stated range of both deposition models (ICRP 66 Annex D; Hinds 1999,
+section 11.4)."""
 
 # ---------------------------------------------------------------------------------------------
 # Per-stage fields
@@ -447,12 +456,73 @@ DEMOS: dict[str, dict[str, Any]] = {
 }
 """Invented demonstration chains for the page; none copies a published or commercial design."""
 
-TARGETS = (
-    ("none", "None"),
+ISO_TARGETS = (
     ("inhalable", "ISO 7708 inhalable"),
     ("thoracic", "ISO 7708 thoracic"),
     ("respirable", "ISO 7708 respirable"),
     ("high_risk_respirable", "ISO 7708 high-risk respirable"),
+)
+
+ICRP66_TARGET_REGIONS = ("total", "ET1", "ET2", "BB", "bb", "AI")
+SIMPLIFIED_TARGET_REGIONS = ("total", "head_airways", "tracheobronchial", "alveolar")
+
+TARGETS: tuple[tuple[str, str], ...] = (
+    ("none", "None"),
+    *ISO_TARGETS,
+    *(
+        (
+            f"icrp66_{r}",
+            "ICRP 66 total deposition, reference worker"
+            if r == "total"
+            else f"ICRP 66 deposition in {_deposition.REGION_LABELS[r]}, reference worker",
+        )
+        for r in ICRP66_TARGET_REGIONS
+    ),
+    *(
+        (
+            f"simplified_{r}",
+            f"Simplified ICRP fit: {_deposition.REGION_LABELS[r].lower()} deposition",
+        )
+        for r in SIMPLIFIED_TARGET_REGIONS
+    ),
+)
+"""Target curves: ISO 7708 fractions, and regional deposition fractions of unit-density
+spheres of each aerodynamic diameter, from the full ICRP 66 model for the ICRP reference
+worker (ICRP 66 with ICRP 68's breathing) or from the simplified fits (Hinds 1999, which
+average over their own breathing conditions)."""
+
+# The spectrum import: the same fields, declarations and importer as the deposition
+# calculation (one declaration, so page, command line and messages agree).
+_CSV_FIELD_NAMES = (
+    "csv_text",
+    "csv_diameter_column",
+    "csv_concentration_column",
+    "csv_concentration_type",
+    "csv_diameter_unit",
+    "csv_concentration_unit",
+)
+_DEPOSITION_FIELDS = {f.name: f for f in _deposition.FIELDS}
+
+SPECTRUM_FIELDS: tuple[Field, ...] = (
+    Field(
+        "spectrum_source",
+        "Measured spectrum to correct",
+        "choice",
+        "none",
+        choices=(("none", "None"), ("csv", "Measured spectrum (CSV file)")),
+        help="Correct a spectrum measured behind this chain for the chain's losses.",
+    ),
+    *(_DEPOSITION_FIELDS[name] for name in _CSV_FIELD_NAMES),
+    Field(
+        "spectrum_diameter_type",
+        "Diameters in the file are",
+        "choice",
+        "volume_equivalent",
+        choices=(
+            ("volume_equivalent", "volume-equivalent (physical size of spheres)"),
+            ("aerodynamic", "aerodynamic"),
+        ),
+    ),
 )
 
 FIELDS: tuple[Field, ...] = (
@@ -519,20 +589,10 @@ FIELDS: tuple[Field, ...] = (
         "choice",
         "none",
         choices=TARGETS,
-        help="A health-related fraction the chain should reproduce.",
+        help="A health-related fraction, or where particles deposit in the airways, that the "
+        "chain should reproduce.",
     ),
-    Field(
-        "spectrum",
-        "Measured spectrum to correct",
-        "data",
-        None,
-        required=False,
-        help=(
-            "Bins as {diameters, concentrations, diameter_unit, diameter_type} or a CSV "
-            "text as {csv, diameter_column, concentration_column, concentration_type, "
-            "diameter_unit, concentration_unit, diameter_type}."
-        ),
-    ),
+    *SPECTRUM_FIELDS,
 )
 
 
@@ -625,98 +685,33 @@ def _make_stage(kind: str, v: dict[str, Any], q: float, name: str):
 # ---------------------------------------------------------------------------------------------
 
 
-def _parse_spectrum(raw: Any, density: float, T: float, P: float) -> dict[str, Any]:
-    """Turn the ``spectrum`` input into bins in SI; raise FieldError on a fault.
+def _parse_spectrum(
+    v: dict[str, Any], density: float, T: float, P: float
+) -> tuple[dict[str, Any], dict[str, Any]]:
+    """Read the measured spectrum from the CSV fields; raise FieldError on a fault.
 
-    Two forms are accepted:
-
-    - already-parsed bins: ``{"diameters": [...], "concentrations": [...],
-      "diameter_unit": "nm", "concentration_unit": "1/cm3", "diameter_type":
-      "volume_equivalent" | "aerodynamic"}``; concentrations may be in any unit (dN, dN/dlogD,
-      mass...) and are returned in the same unit, which is only a label here;
-    - CSV text read by :func:`driftdose.spectrum.parse_spectrum_csv`: ``{"csv": text,
-      "diameter_column", "concentration_column", "concentration_type", "diameter_unit",
-      "concentration_unit", "diameter_type"}``; concentrations become particles per bin,
-      shown per cm^3.
+    The text goes through the deposition calculation's importer (same fields, checks and
+    messages); the bins' concentrations become particles per bin, shown per cm^3.
+    Aerodynamic diameters are turned into volume-equivalent ones for spheres of the
+    particle density at the air's T and P. Returns (bins, import report).
     """
-    if not isinstance(raw, dict):
-        raise FieldError("spectrum", "Measured spectrum must be an object of bins or CSV text.")
-    d_unit = raw.get("diameter_unit", "nm")
-    try:
-        d_unit = canonical_unit("length", str(d_unit))
-    except KeyError:
-        raise FieldError("spectrum", "Spectrum: unknown diameter unit; use nm, um or m.") from None
-    d_type = raw.get("diameter_type", "volume_equivalent")
-    if d_type not in ("volume_equivalent", "aerodynamic"):
-        raise FieldError(
-            "spectrum", "Spectrum: diameter type must be volume_equivalent or aerodynamic."
-        )
-    if "csv" in raw:
-        from .. import spectrum as _spectrum  # the shared CSV importer
-
-        c_unit = raw.get("concentration_unit", "1/cm3")
-        try:
-            c_unit = canonical_unit("number_concentration", str(c_unit))
-        except KeyError:
-            raise FieldError(
-                "spectrum", "Spectrum: unknown concentration unit; use 1/cm3 or 1/m3."
-            ) from None
-        try:
-            imported = _spectrum.parse_spectrum_csv(
-                raw["csv"] if isinstance(raw["csv"], str) else "",
-                raw.get("diameter_column", 1),
-                raw.get("concentration_column", 2),
-                raw.get("concentration_type", "dN/dlogDp"),
-                to_si(1.0, "length", d_unit),
-                to_si(1.0, "number_concentration", c_unit),
-            )
-        except ValueError as exc:  # SpectrumError is a ValueError
-            raise FieldError("spectrum", f"Spectrum file: {exc}") from None
-        diameters = list(imported.diameters)
-        values = [n / 1e6 for n in imported.numbers]  # per bin, shown per cm^3
-        shown_unit = "particles/cm³ per bin"
-    else:
-        diameters_raw = raw.get("diameters")
-        values_raw = raw.get("concentrations")
-        if not isinstance(diameters_raw, list) or not isinstance(values_raw, list):
-            raise FieldError("spectrum", "Spectrum: give lists of diameters and concentrations.")
-        if len(diameters_raw) != len(values_raw):
-            raise FieldError("spectrum", "Spectrum: diameters and concentrations differ in length.")
-        if not 1 <= len(diameters_raw) <= MAX_SPECTRUM_BINS:
-            raise FieldError("spectrum", f"Spectrum: give 1 to {MAX_SPECTRUM_BINS} bins.")
-        diameters, values = [], []
-        for i, (d, c) in enumerate(zip(diameters_raw, values_raw, strict=True)):
-            if not _is_number(d) or not _is_number(c):
-                raise FieldError("spectrum", f"Spectrum: bin {i + 1} is not a pair of numbers.")
-            if d <= 0.0:
-                raise FieldError("spectrum", f"Spectrum: bin {i + 1} has a diameter ≤ 0.")
-            if c < 0.0:
-                raise FieldError("spectrum", f"Spectrum: bin {i + 1} has a negative value.")
-            diameters.append(to_si(float(d), "length", d_unit))
-            values.append(float(c))
-        shown_unit = str(raw.get("concentration_unit", ""))[:30]
-    for i, d in enumerate(diameters):
-        if not 0.5e-9 <= d <= 1e-3:
-            raise FieldError(
-                "spectrum", f"Spectrum: bin {i + 1} diameter must lie between 0.5 nm and 1 mm."
-            )
+    imported, report = _deposition._parse_csv(v, 1000.0, 1.0)
+    d_type = v["spectrum_diameter_type"]
+    diameters = list(imported.diameters)
     if d_type == "aerodynamic":
         diameters_ve = [
             particle.volume_equivalent_diameter(d, density, 1.0, T, P) for d in diameters
         ]
     else:
         diameters_ve = diameters
-    return {
+    bins = {
         "diameters": diameters,
         "diameters_ve": diameters_ve,
-        "values": values,
-        "unit": shown_unit,
+        "values": [n / 1e6 for n in imported.numbers],  # per bin, shown per cm^3
+        "unit": "particles/cm³ per bin",
         "diameter_type": d_type,
     }
-
-
-def _is_number(x: Any) -> bool:
-    return isinstance(x, int | float) and not isinstance(x, bool) and math.isfinite(x)
+    return bins, report
 
 
 # ---------------------------------------------------------------------------------------------
@@ -781,17 +776,21 @@ def _report_rows(quantities: dict[str, tuple[str, float, str]]) -> list[dict[str
 
 
 def _departure(
-    xs_ae: list[float], overall: list[float], target: list[float | None]
+    xs_ae: list[float],
+    overall: list[float],
+    target: list[float | None],
+    size_range: tuple[float, float] = DEPARTURE_RANGE,
 ) -> dict[str, Any]:
     """Maximum and mean absolute difference between the chain and the target.
 
-    Both are taken over the curve's sizes whose aerodynamic diameter lies in
-    :data:`DEPARTURE_RANGE` (0.1 to 100 um): the maximum of |P - E| with the size where it
-    occurs, and the mean of |P - E| over those sizes, which are evenly spaced in log d, so
-    the mean weights every decade of size alike. Both are in fraction units (0.1 = 10
-    percentage points).
+    Both are taken over the curve's sizes whose aerodynamic diameter lies in ``size_range``
+    (:data:`DEPARTURE_RANGE`, 0.1 to 100 um, for ISO 7708 targets;
+    :data:`DEPOSITION_TARGET_RANGE`, 1 nm to 100 um, for deposition targets): the maximum
+    of |P - E| with the size where it occurs, and the mean of |P - E| over those sizes,
+    which are evenly spaced in log d, so the mean weights every decade of size alike. Both
+    are in fraction units (0.1 = 10 percentage points).
     """
-    lo, hi = DEPARTURE_RANGE
+    lo, hi = size_range
     diffs = [
         (abs(p - e), x)
         for x, p, e in zip(xs_ae, overall, target, strict=True)
@@ -801,18 +800,54 @@ def _departure(
         return {}
     worst, at = max(diffs)
     mean = sum(d for d, _ in diffs) / len(diffs)
+    if lo >= 0.1e-6:
+        span = f"{lo * 1e6:g}–{_length_text(hi)} aerodynamic"
+    else:
+        span = f"{_length_text(lo)} – {_length_text(hi)} aerodynamic"
     return {
         "departure_max": _fraction_row(
-            "Largest departure from the target (0.1–100 µm aerodynamic)",
+            f"Largest departure from the target ({span})",
             worst,
             note=f"at {_length_text(at)} aerodynamic; percentage points",
         ),
         "departure_mean": _fraction_row(
-            "Mean departure from the target (0.1–100 µm aerodynamic, log-size average)",
+            f"Mean departure from the target ({span}, log-size average)",
             mean,
             note="percentage points",
         ),
     }
+
+
+def _target_curve(target: str, xs_ae: list[float]) -> tuple[list[float | None], list[str]]:
+    """The target fraction at each aerodynamic diameter [m], and the sources it rests on.
+
+    ISO 7708 fractions are given up to 100 um aerodynamic. Deposition targets are the
+    regional deposition fractions (of the particles in the ambient air) of unit-density
+    spheres of each aerodynamic diameter, from 1 nm to 100 um: ``icrp66_<region>`` from the
+    full ICRP 66 model for the ICRP reference worker (ICRP 68's breathing, normal nose
+    breather), ``simplified_<region>`` from the algebraic fits of Hinds (1999, eqs.
+    11.1-11.5), which average over their own breathing conditions. ``None`` marks sizes
+    where the target is not given.
+    """
+    if target.startswith("icrp66_") or target.startswith("simplified_"):
+        lo, hi = DEPOSITION_TARGET_RANGE
+        inside = [i for i, x in enumerate(xs_ae) if lo <= x <= hi]
+        sizes = [xs_ae[i] for i in inside]
+        ys: list[float | None] = [None] * len(xs_ae)
+        if target.startswith("icrp66_"):
+            region = target.removeprefix("icrp66_")
+            # unit-density spheres: aerodynamic and volume-equivalent diameters coincide
+            fractions = icrp66_curves(sizes, 1000.0, 1.0, REFERENCE_WORKER, "aerodynamic")[region]
+            keys = ["icrp66", "icrp68"]
+        else:
+            region = target.removeprefix("simplified_")
+            fractions = [simplified_icrp(x)[region] for x in sizes]
+            keys = ["hinds1999_ch11", "icrp66"]
+        for i, y in zip(inside, fractions, strict=True):
+            ys[i] = min(1.0, max(0.0, y))
+        return ys, keys
+    ys_iso = [iso7708_fraction(x, target) if x <= ISO7708_MAX_DIAMETER else None for x in xs_ae]
+    return ys_iso, ["iso7708"]
 
 
 # ---------------------------------------------------------------------------------------------
@@ -833,10 +868,10 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         stage, errs = _build_stage(i, raw, flow, T, P)
         errors += errs
         stages.append(stage)
-    spectrum = None
-    if v.get("spectrum") is not None:
+    spectrum, csv_report = None, None
+    if v["spectrum_source"] == "csv":
         try:
-            spectrum = _parse_spectrum(v["spectrum"], rho, T, P)
+            spectrum, csv_report = _parse_spectrum(v, rho, T, P)
         except FieldError as exc:
             errors.append({"field": exc.field, "message": exc.message})
     if errors:
@@ -907,14 +942,33 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     target = v["target"]
     if target != "none":
         label = dict(TARGETS)[target]
-        ys_target: list[float | None] = [
-            iso7708_fraction(x, target) if x <= ISO7708_MAX_DIAMETER else None
-            for x in result.aerodynamic_diameters
-        ]
+        ys_target, target_sources = _target_curve(target, result.aerodynamic_diameters)
         curves["target"] = {"label": label, "x": x_um, "y": ys_target}
-        results.update(_departure(result.aerodynamic_diameters, result.overall, ys_target))
-        if "iso7708" not in sources:
-            sources.append("iso7708")
+        deposition_target = target not in dict(ISO_TARGETS)
+        size_range = DEPOSITION_TARGET_RANGE if deposition_target else DEPARTURE_RANGE
+        results.update(
+            _departure(result.aerodynamic_diameters, result.overall, ys_target, size_range)
+        )
+        for key in target_sources:
+            if key not in sources:
+                sources.append(key)
+        if deposition_target:
+            who = (
+                "the ICRP reference worker"
+                if target.startswith("icrp66_")
+                else "the breathing conditions the simplified fits average over"
+            )
+            warnings.append(
+                "The target is the fraction of the particles in the air that deposits in that "
+                f"region, for {who} and unit-density spheres of each aerodynamic diameter; a "
+                "sampler that matches it collects what would deposit there."
+                + (
+                    " Below about 0.5 µm deposition depends on the particles' physical size, "
+                    "so for your particle density the target is only indicative there."
+                    if rho != 1000.0
+                    else ""
+                )
+            )
 
     results["stages_table"] = {
         "label": "Stages",
@@ -922,6 +976,13 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "rows": stage_rows,
     }
 
+    if csv_report is not None:
+        results["csv_rows"] = text_result(
+            "Spectrum imported",
+            f"{csv_report['rows']} rows (lines {csv_report['first_line']}–"
+            f"{csv_report['last_line']}), {csv_report['delimiter']}-separated",
+        )
+        warnings.extend(f"CSV import: {n}" for n in csv_report["notes"])
     if spectrum is not None:
         corrected = correct_spectrum(chain, spectrum["diameters_ve"], spectrum["values"], rho, T, P)
         shown = [s * 1e6 for s in spectrum["diameters"]]
