@@ -282,8 +282,7 @@ def _add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any
             kwargs["metavar"] = "N"
         elif _is_file_field(fd):
             kwargs["metavar"] = "FILE"
-            wanted = "spectrum" in f"{name} {fd.get('label', '')}".lower()
-            if wanted and "--spectrum" not in taken and "--spectrum" not in fmap.options:
+            if _spectrum_alias(fd, fields) and "--spectrum" not in taken:
                 flags.append("--spectrum")
         elif fd.get("kind") == "data":
             kwargs["metavar"] = "DATA"
@@ -309,6 +308,19 @@ def _add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any
             fmap.units[f"unit:{name}"] = fd
             fmap.options[unit_flag] = name
     return fmap
+
+
+def _spectrum_alias(fd: dict[str, Any], fields: list[dict[str, Any]]) -> bool:
+    """Whether a file field also answers to ``--spectrum``: the first file field that names a
+    spectrum, in a calculation with no field called ``spectrum``.
+    """
+    files = [f for f in fields if _is_file_field(f)]
+    return (
+        bool(files)
+        and files[0] is fd
+        and "spectrum" in f"{fd['name']} {fd.get('label', '')}".lower()
+        and all(f["name"] != "spectrum" for f in fields)
+    )
 
 
 def _split_quantity(text: str) -> tuple[str, str | None]:
@@ -1061,7 +1073,10 @@ def _describe_text(description: dict[str, Any], kinds: Sequence[str]) -> str:
         out.append(f"{kind}: {calc['title']}")
         for fd in calc["fields"]:
             kind_text = fd.get("kind", "")
-            out.append(f"  {_flag(fd['name'])}  ({fd['name']}, {kind_text})")
+            flag = _flag(fd["name"])
+            if _spectrum_alias(fd, calc["fields"]):
+                flag += " (or --spectrum)"
+            out.append(f"  {flag}  ({fd['name']}, {kind_text})")
             details = [fd.get("label", "")]
             if fd.get("help"):
                 details.append(fd["help"].rstrip("."))

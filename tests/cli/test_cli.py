@@ -595,9 +595,12 @@ def test_main_describe_lists_every_calculation_and_field(capsys):
     for kind, calc in description["calculations"].items():
         assert f"{kind}: {calc['title']}" in out
         for fd in calc["fields"]:
-            assert f"--{fd['name'].replace('_', '-')}  ({fd['name']}" in out
+            flag = f"--{fd['name'].replace('_', '-')}"
+            assert re.search(rf"^  {flag}( \(or --\S+\))?  \({fd['name']}, ", out, re.M)
             if fd.get("range"):
                 assert fd["range"] in " ".join(out.split())
+
+    assert "--csv-text (or --spectrum)  (csv_text, data)" in out
 
 
 def test_main_describe_json_equals_api(capsys):
