@@ -38,6 +38,8 @@ CURVE_RANGE = (1e-9, 100e-6)  # [m]
 D_RANGE = (1e-9, 100e-6)  # accepted mode medians [m]
 NUMBER_MAX = 1e15  # [1/m^3], 1e9 per cm^3: above it an input is taken as a mistake
 MASS_MAX = 1e-2  # [kg/m^3], 10 g/m^3
+BENCHMARK_NUMBER_MIN = 1.0  # [1/m^3]: smaller benchmarks make the ratio overflow
+BENCHMARK_MASS_MIN = 1e-12  # [kg/m^3], 1 ng/m^3
 
 REGION_LABELS = {
     "ET1": "ET1 (front of the nose)",
@@ -362,9 +364,8 @@ FIELDS: tuple[Field, ...] = (
         "number_concentration",
         (None, "1/cm3"),
         ("1/cm3", "1/m3"),
-        minimum=0.0,
+        minimum=BENCHMARK_NUMBER_MIN,
         maximum=NUMBER_MAX,
-        exclusive_min=True,
         required=False,
         help="A value you choose to compare with, with its source; none is built in.",
     ),
@@ -374,9 +375,8 @@ FIELDS: tuple[Field, ...] = (
         "mass_concentration",
         (None, "mg/m3"),
         ("mg/m3", "ug/m3"),
-        minimum=0.0,
+        minimum=BENCHMARK_MASS_MIN,
         maximum=MASS_MAX,
-        exclusive_min=True,
         required=False,
         help="A value you choose to compare with, with its source; none is built in.",
     ),

@@ -67,6 +67,9 @@ TITLE = "Sampling line and pre-separator penetration"
 CURVE_POINTS = 241
 CURVE_RANGE = (1e-9, 100e-6)  # [m]
 MAX_STAGES = 20
+FLOW_MIN = 1e-9  # [m^3/s], 0.06 mL/min: below it a flow is taken as a typing mistake
+BORE_MIN = 1e-5  # [m], 10 um: narrowest tube or nozzle accepted (smaller ones overflow)
+WIRE_MIN = 1e-7  # [m], 0.1 um: thinnest screen wire accepted
 REFERENCE_SIZES = (("10nm", 10e-9), ("100nm", 100e-9), ("1um", 1e-6), ("10um", 10e-6))  # [m]
 DEPARTURE_RANGE = (0.1e-6, 100e-6)
 """Aerodynamic diameters over which the departure from an ISO 7708 target is measured [m]:
@@ -101,9 +104,8 @@ def _flow() -> Field:
         "flow",
         (None, "L/min"),
         ("L/min", "m3/h", "cm3/s", "m3/s"),
-        minimum=0.0,
+        minimum=FLOW_MIN,
         maximum=0.1,
-        exclusive_min=True,
         required=False,
         help="Leave empty to use the sampling flow.",
     )
@@ -116,9 +118,8 @@ def _tube_diameter() -> Field:
         "length",
         (4.0, "mm"),
         ("mm", "cm", "m"),
-        minimum=0.0,
+        minimum=BORE_MIN,
         maximum=1.0,
-        exclusive_min=True,
     )
 
 
@@ -233,9 +234,8 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             "length",
             (1.0, "mm"),
             ("mm", "um", "cm"),
-            minimum=0.0,
+            minimum=BORE_MIN,
             maximum=0.1,
-            exclusive_min=True,
         ),
         Field(
             "n_nozzles",
@@ -276,9 +276,8 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             "length",
             (50.0, "um"),
             ("um", "mm"),
-            minimum=0.0,
+            minimum=WIRE_MIN,
             maximum=5e-3,
-            exclusive_min=True,
         ),
         Field(
             "solidity",
@@ -551,9 +550,8 @@ FIELDS: tuple[Field, ...] = (
         "flow",
         (1.5, "L/min"),
         ("L/min", "m3/h", "cm3/s", "m3/s"),
-        minimum=0.0,
+        minimum=FLOW_MIN,
         maximum=0.1,
-        exclusive_min=True,
         help="Used by every stage that does not set its own flow.",
     ),
     Field(
