@@ -1,9 +1,9 @@
 """The single-file edition: one HTML file opened from file:// with no server and no network.
 
 The file is built from the session's served build into an empty folder (so nothing beside it
-could be read), opened in a fresh Chromium context with the network emulated offline, and must
-reach readiness and show the core's numbers while every request stays inside the page: the
-page's own file:// URL, or data:/blob: URLs.
+could be read; the folder name has a space and a non-ASCII letter), opened in a fresh Chromium
+context with the network emulated offline, and must reach readiness and show the core's numbers
+while every request stays inside the page: its own file:// URL, or data:/blob: URLs.
 """
 
 from __future__ import annotations
@@ -25,7 +25,9 @@ LIMIT_BYTES = 12_000_000  # issue 5: the single file is at most 12 MB
 
 @pytest.fixture(scope="module")
 def single_file(tmp_path_factory: pytest.TempPathFactory, dist_dir: Path, build_module) -> Path:
-    folder = tmp_path_factory.mktemp("single")
+    # a folder name with a space and a non-ASCII letter, as on many desktops
+    folder = tmp_path_factory.mktemp("single") / "Drift files ä"
+    folder.mkdir()
     target = folder / build_module.SINGLE_NAME
     build_module.build_single_file(target, dist_dir)
     return target
@@ -193,3 +195,34 @@ def test_single_file_refuses_the_network(opened):
     assert "never uses the network" in worker.evaluate(script, "https://example.org/y.whl")
     assert worker.evaluate("u => fetch(u).then((r) => r.status)", "build-info.json") == 200
     assert not [u for u in watch.requests if "example.org" in u or "not-embedded" in u]
+
+
+@pytest.mark.e2e
+def test_single_file_every_panel_computes_and_link_reopens(opened):
+    page, _ = opened
+    tabs = page.locator("#panel-tabs [role=tab]")
+    ids = [tabs.nth(i).get_attribute("aria-controls") for i in range(tabs.count())]
+    assert "panel-motion" in ids and len(ids) >= 2
+    for i, panel in enumerate(ids):
+        tabs.nth(i).click()
+        page.wait_for_function(
+            "id => Number(document.getElementById(id).dataset.updates || 0) >= 1", arg=panel
+        )
+        assert page.locator(f"#{panel} table.results").first.is_visible()
+    tabs.nth(0).click()
+    motion = page.locator("#panel-motion")
+    motion.get_by_label("Particle density", exact=True).fill("4.25")
+    page.wait_for_function("() => location.hash.includes('4.25')")
+    page.wait_for_function(
+        "() => !document.getElementById('panel-motion').hasAttribute('aria-busy')"
+    )
+    shown = table_values(page, "motion")
+    again = page.context.new_page()
+    again.goto(page.url)
+    wait_ready(again)
+    again.wait_for_function(
+        "() => Number(document.getElementById('panel-motion').dataset.updates || 0) >= 1"
+    )
+    density = again.locator("#panel-motion").get_by_label("Particle density", exact=True)
+    assert density.input_value() == "4.25"
+    assert table_values(again, "motion") == shown
