@@ -14,6 +14,7 @@ one click; they are also attached to the first field's description.
 
 from __future__ import annotations
 
+import bisect
 import math
 from typing import Any
 
@@ -23,7 +24,7 @@ from ..deposition import Subject, activity, reference_worker
 from ..deposition.icrp66 import BreathingPattern
 from ..deposition.icrp66 import warnings_for as icrp66_warnings
 from ..deposition.simplified import validity_warnings as simplified_warnings
-from ..distribution import GSD_MAX, MAX_MODES, LognormalMode, Multimodal
+from ..distribution import GSD_MAX, MAX_MODES, BinnedSpectrum, LognormalMode, Multimodal
 from ..dose import DoseResult, deposited_dose, deposition_curves
 from ..sources import cite
 from ..spectrum import MAX_BYTES, SpectrumError, parse_spectrum_csv
@@ -675,7 +676,7 @@ def _curves(
     }
     overlay = {}
     for w in ("number", "mass"):
-        ys = [dist.density_per_ln_d(x, w) for x in xs]
+        ys = _overlay_density(dist, xs, w)
         top = max(ys) if ys else 0.0
         overlay[w] = {
             "label": f"Your distribution by {w} (dW/dln d, scaled to peak 1)",
