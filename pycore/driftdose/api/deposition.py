@@ -708,6 +708,23 @@ def _curves(
     }
 
 
+def _overlay_density(dist: Any, xs: list[float], weight: str) -> list[float]:
+    """dW/dln d of ``dist`` at each of the increasing sizes ``xs``.
+
+    A binned spectrum is looked up by bisection with its bin totals computed once (its own
+    method scans every bin for each size, which took seconds for a 20 000-row file).
+    """
+    if not isinstance(dist, BinnedSpectrum):
+        return [dist.density_per_ln_d(x, weight) for x in xs]
+    e = dist.edges
+    per_ln_d = [w / math.log(e[i + 1] / e[i]) for i, (_, w) in enumerate(dist.quadrature(weight))]
+    out = []
+    for x in xs:
+        i = bisect.bisect_right(e, x) - 1
+        out.append(per_ln_d[i] if 0 <= i < len(per_ln_d) else 0.0)
+    return out
+
+
 def _warnings(
     dist: Any, subject: Subject, model: str, res: DoseResult, v: dict[str, Any]
 ) -> list[str]:
