@@ -8,8 +8,9 @@ import { buildReport } from "./report.js";
 import { STATE_VERSION, decodeState, encodeState } from "./state.js";
 import * as motion from "./panels/motion.js";
 import * as deposition from "./panels/deposition.js";
+import * as sampling from "./panels/sampling.js";
 
-export const PANELS = [motion, deposition];
+export const PANELS = [motion, deposition, sampling];
 const STATE_FORMAT = "drift-and-dose-inputs";
 
 const root = document.documentElement;
