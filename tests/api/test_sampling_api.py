@@ -345,7 +345,7 @@ def test_sampling_bad_input_message_on_field(stages, field) -> None:
     assert errors[field]
     if field.startswith("stages."):
         index = int(field.split(".")[1])
-        assert errors[field].startswith(f"Stage {index + 1} ")
+        assert errors[field].startswith((f"Stage {index + 1} (", f"Stage {index + 1}: "))
 
 
 def test_sampling_sonic_sampling_flow_reported_on_flow_field() -> None:

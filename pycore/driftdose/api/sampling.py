@@ -600,11 +600,9 @@ FIELDS: tuple[Field, ...] = (
 
 
 def _stage_error(index: int, kind: str | None, field: str, message: str) -> dict[str, str]:
-    label = STAGE_LABELS.get(kind or "", "stage")
-    return {
-        "field": f"stages.{index}.{field}",
-        "message": f"Stage {index + 1} ({label.lower()}): {message}",
-    }
+    label = STAGE_LABELS.get(kind or "")
+    where = f"Stage {index + 1} ({label.lower()})" if label else f"Stage {index + 1}"
+    return {"field": f"stages.{index}.{field}", "message": f"{where}: {message}"}
 
 
 def _build_stage(index: int, raw: Any, flow: float, T: float, P: float):
