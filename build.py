@@ -453,6 +453,8 @@ def build_single_file(target: Path | None = None, built: Path | None = None) -> 
 
     html, styles, scripts = _single_shell((built / "index.html").read_text("utf-8"), files)
     loader = (SINGLE_SRC / "loader.js").read_text("utf-8")
+    if "</script" in loader.lower():
+        raise BuildError("single-file edition: site/single/loader.js must not contain '</script'")
     csp = SINGLE_CSP.format(
         loader=_single_csp_hash(loader), styles=" ".join(map(_single_csp_hash, styles)) or "'none'"
     )
