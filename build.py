@@ -3,6 +3,7 @@
 
     python build.py            # writes dist/
     python build.py --serve    # writes dist/, then serves it at http://127.0.0.1:8000/
+    python build.py --single-file [PATH]   # also the single-file edition (dist/drift-and-dose.html)
 
 The output holds the page and its scripts (site/), the vendored Pyodide core and chart library
 (from site/node_modules, installed from site/package-lock.json), the driftdose wheel built from
