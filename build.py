@@ -418,7 +418,8 @@ def build_single_file(target: Path | None = None, built: Path | None = None) -> 
     files: dict[str, bytes] = {}
     for p in sorted(built.rglob("*")):
         rel = p.relative_to(built).as_posix()
-        if p.is_file() and rel not in SINGLE_SKIP and p.resolve() != target.resolve():
+        earlier = p.name == SINGLE_NAME or p.resolve() == target.resolve()  # no nesting
+        if p.is_file() and rel not in SINGLE_SKIP and not earlier:
             files[rel] = p.read_bytes()
     for p in sorted(SINGLE_SRC.glob("*.js")):
         if p.name != "loader.js":
