@@ -697,17 +697,10 @@ def _groups(row: dict[str, Any]) -> dict[str, list[dict[str, Any]]]:
 def _results_csv(reply: dict[str, Any], stderr: TextIO) -> str:
     """The page's results CSV (:func:`driftdose.export.results_csv`) of the reply.
 
-    Results that are tables rather than rows are left out (with a note) if the shared
-    exporter cannot take them.
+    Results that are tables (a row per stage, per bin) follow the rows as their own blocks.
     """
-    try:
-        return export.results_csv(reply)
-    except (KeyError, TypeError, ValueError):
-        results = reply.get("results", {})
-        rows = dict(_rows(results))
-        left = [k for k in results if k not in rows]
-        stderr.write(f"note: not in the CSV (tables, see --format json): {', '.join(left)}.\n")
-        return export.results_csv({**reply, "results": rows})
+    _ = stderr
+    return export.results_csv(reply)
 
 
 def _write(path: str | None, text: str, stdout: TextIO) -> None:

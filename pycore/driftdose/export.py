@@ -1,7 +1,9 @@
 """Plain-text exports of a reply: results and curves as CSV (stdlib ``csv``).
 
 The page (through the worker) and the command line both use these, so a CSV file is the same
-whichever front end wrote it. Header rows name each quantity and its unit.
+whichever front end wrote it. Header rows name each quantity and its unit. Where a reply holds
+several kinds of result or curve (a table of stages, curves on other axes), each kind is
+written as its own block with its own header row, blocks separated by an empty line.
 """
 
 from __future__ import annotations
@@ -9,66 +11,162 @@ from __future__ import annotations
 import csv
 import io
 import json
+import re
+from collections.abc import Iterator
 from typing import Any
 
 __all__ = ["curves_csv", "curves_csv_json", "results_csv", "results_csv_json"]
+
+_AXIS_KEYS = ("x_label", "x_unit", "y_label", "y_unit")
 
 
 def _writer(buffer: io.StringIO) -> Any:
     return csv.writer(buffer, lineterminator="\r\n")
 
 
+def _num(x: Any) -> str:
+    if x is None:
+        return ""
+    if isinstance(x, bool) or not isinstance(x, int | float):
+        return str(x)
+    return str(x) if isinstance(x, int) else repr(float(x))
+
+
+def _unit(u: Any) -> str:
+    return "" if u in (None, "–") else str(u)
+
+
 def results_csv(reply: dict[str, Any]) -> str:
-    """Results rows as CSV: quantity, symbol, value, unit, value in SI, SI unit, note."""
-    buffer = io.StringIO()
-    w = _writer(buffer)
-    w.writerow(["quantity", "symbol", "value", "unit", "value_si", "si_unit", "note"])
-    for row in reply.get("results", {}).values():
-        if not isinstance(row, dict) or "label" not in row:
-            continue
-        if "text" in row:
-            w.writerow([row["label"], "", row["text"], "", "", "", row.get("note", "")])
-        else:
-            unit = "" if row.get("unit") == "–" else row.get("unit", "")
-            si_unit = "" if row.get("si_unit") == "–" else row.get("si_unit", "")
-            w.writerow([row["label"], row.get("symbol", ""), repr(float(row["value"])), unit,
-                        repr(float(row["si"])), si_unit, row.get("note", "")])
-    return buffer.getvalue()
+    """Results as CSV: quantity, symbol, value, unit, value in SI, SI unit, note.
 
-
-def curves_csv(reply: dict[str, Any]) -> str:
-    """Every plotted curve as CSV in long form: curve, x (with unit), y (with unit).
-
-    Curve groups follow the reply's layout: a curve is a dict with ``x`` and ``y`` lists; the
-    axis titles and units come from the ``x_label``/``x_unit``/``y_label``/``y_unit`` keys of
-    the group that holds it (or of the curve itself).
+    Results that are tables themselves (a row per stage, per bin...) follow as blocks.
     """
     buffer = io.StringIO()
     w = _writer(buffer)
-    rows: list[list[str]] = []
-    header: list[str] | None = None
-    for group_name, curve, axes in _walk(reply.get("curves", {})):
-        x_head = f"{axes.get('x_label', 'x')} [{axes.get('x_unit', '')}]".replace(" []", "")
-        y_head = f"{axes.get('y_label', 'y')} [{axes.get('y_unit', '')}]".replace(" []", "")
-        header = header or ["curve", x_head, y_head]
-        label = curve.get("label", group_name)
-        for x, y in zip(curve["x"], curve["y"], strict=False):
-            rows.append([label, "" if x is None else repr(float(x)),
-                         "" if y is None else repr(float(y))])
-    w.writerow(header or ["curve", "x", "y"])
-    w.writerows(rows)
+    w.writerow(["quantity", "symbol", "value", "unit", "value_si", "si_unit", "note"])
+    tables = []
+    for row in reply.get("results", {}).values():
+        if not isinstance(row, dict) or "label" not in row:
+            continue
+        if isinstance(row.get("rows"), list):
+            tables.append(row)
+        elif "text" in row:
+            w.writerow([row["label"], "", row["text"], "", "", "", row.get("note", "")])
+        elif "value" in row:
+            w.writerow(
+                [
+                    row["label"],
+                    row.get("symbol", ""),
+                    _num(row["value"]),
+                    _unit(row.get("unit")),
+                    _num(row.get("si")),
+                    _unit(row.get("si_unit")),
+                    row.get("note", ""),
+                ]
+            )
+    for table in tables:
+        w.writerow([])
+        _table_block(w, table)
     return buffer.getvalue()
 
 
-def _walk(curves: dict[str, Any], axes: dict[str, Any] | None = None, name: str = ""):
-    axes = {**(axes or {}), **{k: v for k, v in curves.items()
-                               if k in ("x_label", "x_unit", "y_label", "y_unit")}}
-    if isinstance(curves.get("x"), list) and isinstance(curves.get("y"), list):
-        yield name, curves, axes
+def _table_block(w: Any, table: dict[str, Any]) -> None:
+    """One table result: a column per scalar field, and per listed quantity (with unit)."""
+    scalar: list[str] = []
+    quantities: list[tuple[str, str]] = []
+    for row in table["rows"]:
+        for key, value in row.items():
+            if key == "quantities" and isinstance(value, list):
+                for q in value:
+                    head = (q.get("label", ""), _unit(q.get("unit")))
+                    if head not in quantities:
+                        quantities.append(head)
+            elif not isinstance(value, dict | list) and key not in scalar:
+                scalar.append(key)
+    w.writerow([table["label"]])
+    w.writerow(scalar + [f"{label} [{unit}]" if unit else label for label, unit in quantities])
+    for row in table["rows"]:
+        by_head = {
+            (q.get("label", ""), _unit(q.get("unit"))): q.get("value", q.get("text"))
+            for q in row.get("quantities", [])
+        }
+        w.writerow([_num(row.get(k)) for k in scalar] + [_num(by_head.get(h)) for h in quantities])
+
+
+def curves_csv(reply: dict[str, Any]) -> str:
+    """Every plotted curve as CSV: one block per pair of axes (curve, x [unit], y [unit]).
+
+    A curve is a dict with equal-length ``x`` and ``y`` lists; its axis titles and units come
+    from the nearest ``x_label``/``x_unit``/``y_label``/``y_unit`` keys (its own or a parent
+    group's). Category data (a dict with ``keys`` and metric dicts holding ``y``) is written
+    as a block per metric with the categories as rows.
+    """
+    buffer = io.StringIO()
+    w = _writer(buffer)
+    blocks: dict[tuple[str, ...], list[list[str]]] = {}
+    for label, curve, axes in _walk(reply.get("curves", {}), {}, ""):
+        x_head = _head(axes.get("x_label", "x"), axes.get("x_unit"))
+        y_head = _head(axes.get("y_label", "y"), axes.get("y_unit"))
+        rows = blocks.setdefault(("curve", x_head, y_head), [])
+        for x, y in zip(curve["x"], curve["y"], strict=False):
+            rows.append([label, _num(x), _num(y)])
+    for header, rows in blocks.items():
+        if buffer.tell():
+            w.writerow([])
+        w.writerow(list(header))
+        w.writerows(rows)
+    for group in _category_groups(reply.get("curves", {})):
+        categories = group.get("regions") or group["keys"]
+        for metric in group.values():
+            if not (isinstance(metric, dict) and isinstance(metric.get("y"), list)):
+                continue
+            if buffer.tell():
+                w.writerow([])
+            unit = metric.get("unit", "")
+            header = ["category", _head(metric.get("label", "value"), unit)]
+            if isinstance(metric.get("per_hour"), list):
+                base = re.sub(r" in [^,]*$", "", str(metric.get("label", "value")))
+                header.append(_head(f"{base} per hour", f"{unit}/h" if unit else ""))
+            w.writerow(header)
+            for i, name in enumerate(categories):
+                row = [name, _num(metric["y"][i])]
+                if len(header) == 3:
+                    row.append(_num(metric["per_hour"][i]))
+                w.writerow(row)
+    if not buffer.tell():
+        w.writerow(["curve", "x", "y"])
+    return buffer.getvalue()
+
+
+def _head(label: str, unit: Any) -> str:
+    unit = _unit(unit)
+    return f"{label} [{unit}]" if unit else str(label)
+
+
+def _walk(node: Any, axes: dict[str, Any], name: str) -> Iterator[tuple[str, dict, dict]]:
+    if isinstance(node, list):
+        for i, item in enumerate(node):
+            yield from _walk(item, axes, f"{name} {i + 1}".strip())
         return
-    for key, value in curves.items():
-        if isinstance(value, dict):
+    if not isinstance(node, dict):
+        return
+    axes = {**axes, **{k: node[k] for k in _AXIS_KEYS if isinstance(node.get(k), str)}}
+    x, y = node.get("x"), node.get("y")
+    if isinstance(x, list) and isinstance(y, list) and len(x) == len(y):
+        yield str(node.get("label", name)), node, axes
+        return
+    for key, value in node.items():
+        if isinstance(value, dict | list) and key not in ("keys", "regions"):
             yield from _walk(value, axes, key)
+
+
+def _category_groups(node: Any) -> Iterator[dict[str, Any]]:
+    if isinstance(node, dict):
+        if isinstance(node.get("keys"), list):
+            yield node
+            return
+        for value in node.values():
+            yield from _category_groups(value)
 
 
 def results_csv_json(reply_json: str) -> str:

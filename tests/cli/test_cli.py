@@ -1092,16 +1092,18 @@ def test_main_table_shows_results_that_are_tables(capsys, tmp_path):
     assert checked >= 30
 
 
-def test_main_csv_leaves_out_tables_with_a_note(capsys):
-    code, out, err = run_main(capsys, "sampling", "--format", "csv")
+def test_main_csv_writes_tables_as_blocks_after_the_rows(capsys):
+    code, out, _err = run_main(capsys, "sampling", "--format", "csv")
     assert code == 0
     reply = api.handle({"kind": "sampling", "inputs": {}})
     row_keys = [k for k, v in reply["results"].items() if "value" in v or "text" in v]
+    tables = [v for v in reply["results"].values() if isinstance(v.get("rows"), list)]
     rows = list(csv.reader(io.StringIO(out)))
-    assert len(rows) == 1 + len(row_keys)
-    for key in reply["results"]:
-        if key not in row_keys:
-            assert key in err
+    assert rows[len(row_keys) + 1] == []  # the rows end with an empty line
+    assert len(rows) > 1 + len(row_keys)
+    for table in tables:
+        assert [table["label"]] in rows
+    assert out == export.results_csv(reply)
 
 
 # --- packaging -----------------------------------------------------------------------------

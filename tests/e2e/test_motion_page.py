@@ -31,7 +31,7 @@ def test_page_reaches_ready_and_shows_cautions(page, base_url):
     page.goto(base_url)
     wait_ready(page)
     _wait_updates(page, "motion", 1)
-    caution = page.get_by_label("Cautions").inner_text()
+    caution = page.locator("#panel-motion").get_by_label("Cautions").inner_text()
     assert "Screening estimates" in caution
     assert "professional judgment" in caution
     assert "local regulations" in caution
@@ -42,13 +42,13 @@ def test_numbers_shown_equal_core(page, base_url):
     page.goto(base_url)
     wait_ready(page)
     _wait_updates(page, "motion", 1)
-    page.get_by_label("Particle diameter", exact=True).fill("2.5")
-    page.get_by_label("Particle diameter unit").select_option("um")
-    page.get_by_label("Diameter type").select_option("aerodynamic")
-    page.get_by_label("Particle density", exact=True).fill("2.2")
-    page.get_by_label("Air temperature", exact=True).fill("35")
-    page.get_by_label("Time", exact=True).fill("10")
-    page.get_by_label("Time unit").select_option("min")
+    page.locator("#panel-motion").get_by_label("Particle diameter", exact=True).fill("2.5")
+    page.locator("#panel-motion").get_by_label("Particle diameter unit").select_option("um")
+    page.locator("#panel-motion").get_by_label("Diameter type").select_option("aerodynamic")
+    page.locator("#panel-motion").get_by_label("Particle density", exact=True).fill("2.2")
+    page.locator("#panel-motion").get_by_label("Air temperature", exact=True).fill("35")
+    page.locator("#panel-motion").get_by_label("Time", exact=True).fill("10")
+    page.locator("#panel-motion").get_by_label("Time unit").select_option("min")
     page.wait_for_function(
         "() => document.querySelector('#panel-motion tr[data-key=aerodynamic_diameter] td')"
         "?.textContent === '2.5'"
@@ -97,7 +97,7 @@ def test_bad_input_message_next_to_field_and_results_marked_stale(
     wait_ready(page)
     _wait_updates(page, "motion", 1)
     before = table_values(page, "motion")
-    field = page.get_by_label(label, exact=True)
+    field = page.locator("#panel-motion").get_by_label(label, exact=True)
     field.fill(value)
     error_id = field.get_attribute("aria-describedby").split()[1]
     error = page.locator(f"[id='{error_id}']")
@@ -137,7 +137,7 @@ def test_link_reproduces_inputs(page, base_url, browser):
     page.goto(base_url)
     wait_ready(page)
     _wait_updates(page, "motion", 1)
-    page.get_by_label("Particle density", exact=True).fill("7.8")
+    page.locator("#panel-motion").get_by_label("Particle density", exact=True).fill("7.8")
     page.wait_for_function("() => location.hash.includes('7.8')")
     _settled(page)
     url = page.url
@@ -148,7 +148,10 @@ def test_link_reproduces_inputs(page, base_url, browser):
         p2.goto(url)
         wait_ready(p2)
         _wait_updates(p2, "motion", 1)
-        assert p2.get_by_label("Particle density", exact=True).input_value() == "7.8"
+        assert (
+            p2.locator("#panel-motion").get_by_label("Particle density", exact=True).input_value()
+            == "7.8"
+        )
         assert table_values(p2, "motion") == shown
     finally:
         other.close()

@@ -32,10 +32,10 @@ def _settled(page) -> None:
 
 def test_save_and_load_inputs_json(page, base_url, tmp_path):
     _ready_with_results(page, base_url)
-    page.get_by_label("Particle diameter", exact=True).fill("3")
-    page.get_by_label("Particle diameter unit").select_option("um")
-    page.get_by_label("Air pressure", exact=True).fill("0.8")
-    page.get_by_label("Air pressure unit").select_option("atm")
+    page.locator("#panel-motion").get_by_label("Particle diameter", exact=True).fill("3")
+    page.locator("#panel-motion").get_by_label("Particle diameter unit").select_option("um")
+    page.locator("#panel-motion").get_by_label("Air pressure", exact=True).fill("0.8")
+    page.locator("#panel-motion").get_by_label("Air pressure unit").select_option("atm")
     _settled(page)
     shown = table_values(page, "motion")
     with page.expect_download() as info:
@@ -48,14 +48,17 @@ def test_save_and_load_inputs_json(page, base_url, tmp_path):
     page.goto(base_url + "#")
     page.reload()
     _ready_with_results(page, base_url)
-    assert page.get_by_label("Particle diameter", exact=True).input_value() == "100"
+    assert (
+        page.locator("#panel-motion").get_by_label("Particle diameter", exact=True).input_value()
+        == "100"
+    )
     page.locator("#load-inputs").set_input_files(str(path))
     page.wait_for_function(
         "() => document.querySelector('#panel-motion "
         "[data-key=volume_equivalent_diameter] td')?.textContent === '3'"
     )
     _settled(page)
-    assert page.get_by_label("Air pressure unit").input_value() == "atm"
+    assert page.locator("#panel-motion").get_by_label("Air pressure unit").input_value() == "atm"
     assert table_values(page, "motion") == shown
 
 
@@ -175,7 +178,7 @@ def test_offline_after_one_visit(browser, base_url):
         context.set_offline(True)
         page.reload()
         _ready_with_results(page, base_url)
-        page.get_by_label("Particle diameter", exact=True).fill("42")
+        page.locator("#panel-motion").get_by_label("Particle diameter", exact=True).fill("42")
         page.wait_for_function(
             "() => document.querySelector('#panel-motion "
             "[data-key=volume_equivalent_diameter] td')?.textContent === '42'"

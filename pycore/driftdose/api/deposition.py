@@ -703,7 +703,11 @@ def _curves(
         "y_label": "Deposition fraction",
         "y_unit": "–",
         "deposition": series,
-        "distribution": overlay,
+        "distribution": {
+            "y_label": "Your distribution, scaled to a peak of 1",
+            "y_unit": "–",
+            **overlay,
+        },
         "dose_bars": bars,
     }
 

@@ -129,7 +129,7 @@ export function mount(root, { engine, description }) {
         pointRadius: 0, borderWidth: curve.label.startsWith("Total") ? 3 : 2, borderDash: curve.label.startsWith("Total") ? [8, 4] : [], yAxisID: "y",
       });
     });
-    Object.values(curves.distribution).forEach((curve, i) => {
+    Object.values(curves.distribution).filter((c) => c && Array.isArray(c.x)).forEach((curve, i) => {
       sets.push({
         label: curve.label, data: toPoints(curve), yAxisID: "y2", pointRadius: 0, borderWidth: 1,
         borderColor: seriesColour(6 - i), backgroundColor: i === 0 ? "rgba(120,120,120,0.18)" : "rgba(120,120,120,0.08)", fill: "origin",
