@@ -72,7 +72,9 @@ export class CalcPanel {
     const rows = [];
     for (const field of this.opts.description.fields) {
       const raw = inputs ? inputs[field.name] : undefined;
-      if (raw === undefined) continue;
+      if (raw === undefined || raw === null || raw === "") continue;
+      if (typeof raw === "object" && "value" in raw && (raw.value === "" || raw.value === null)) continue;
+      if (this.fields.handles.get(field.name)?.wrap.hidden) continue; // not in use with these choices
       if (field.kind === "choice") {
         const choice = (field.choices || []).find((c) => c.value === raw);
         rows.push({ label: field.label, value: choice ? choice.label : String(raw), unit: "" });

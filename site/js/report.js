@@ -59,9 +59,9 @@ function panelRecord(controller) {
   section.append(el("h3", {}, "Results"));
   section.append(resultsTable(reply.results, "Results", controller.opts.tableKeys));
   for (const canvas of controller.root.querySelectorAll("canvas")) {
-    if (!canvas.width || !canvas.height) continue;
-    const img = el("img", { class: "report-chart", src: canvas.toDataURL("image/png"), alt: canvas.getAttribute("aria-label") || "Chart" });
-    section.append(img);
+    const src = chartImage(canvas);
+    if (!src) continue;
+    section.append(el("img", { class: "report-chart", src, alt: canvas.getAttribute("aria-label") || "Chart" }));
   }
   if (reply.warnings && reply.warnings.length) {
     section.append(el("h3", {}, "Warnings raised"));
@@ -79,4 +79,27 @@ function panelRecord(controller) {
     section.append(ul);
   }
   return section;
+}
+
+/**
+ * PNG data URL of the chart on `canvas`. A chart in a panel that was never shown has no size
+ * yet; it is drawn once more, off screen, at a fixed size from the same data and options.
+ */
+function chartImage(canvas) {
+  if (canvas.width && canvas.height) return canvas.toDataURL("image/png");
+  const Chart = window.Chart;
+  const chart = Chart && Chart.getChart(canvas);
+  if (!chart) return "";
+  const spare = document.createElement("canvas");
+  spare.width = 960;
+  spare.height = 480;
+  const copy = new Chart(spare, {
+    type: chart.config.type,
+    data: JSON.parse(JSON.stringify(chart.config.data)),
+    options: { ...chart.config.options, responsive: false, animation: false, devicePixelRatio: 1 },
+    plugins: chart.config.plugins,
+  });
+  const url = spare.toDataURL("image/png");
+  copy.destroy();
+  return url;
 }

@@ -62,6 +62,19 @@ export function mount(root, { engine, description }) {
     id, kind: "deposition", title: "Where it lands: respiratory deposition and dose",
     intro: "Of the particles a worker breathes, the share that deposits in each region of the respiratory tract, and the number, surface area and mass deposited over the exposure. Define the aerosol by lognormal modes or import a measured spectrum.",
     legend: "Aerosol, breathing and exposure",
+    describeData(name, raw) {
+      if (name === "csv_text") {
+        const lines = String(raw).split(/\r?\n/).filter((l) => l.trim()).length;
+        return `imported text, ${lines} non-empty lines (${String(raw).length} characters)`;
+      }
+      if (name === "modes" && Array.isArray(raw)) {
+        return raw.map((m, i) => {
+          const q = (x) => (x && typeof x === "object" ? `${x.value} ${x.unit}` : String(x));
+          return `Mode ${i + 1}: by ${m.basis}, median ${q(m.median)}, GSD ${q(m.gsd)}, concentration ${q(m.concentration)}`;
+        }).join("; ");
+      }
+      return JSON.stringify(raw);
+    },
     engine, description: { ...description, fields },
     render(reply) {
       lastReply = reply;
