@@ -6,7 +6,6 @@ import { CalcPanel, resultsTable } from "../panel.js";
 import { el, renderField } from "../forms.js";
 import { createChart, decadeTicks, exportChart, seriesColour, setDatasets } from "../charts.js";
 import { formatNumber, lengthTick } from "../format.js";
-import { download, stamp } from "../files.js";
 
 export const id = "sampling";
 export const title = "What the sampler sees";
@@ -265,7 +264,7 @@ export function mount(root, { engine, description }) {
   let penetrationChart = null;
   let spectrumChart = null;
 
-  const summaryBox = el("div", { class: "table-box" });
+  const summaryBox = el("div", { class: "table-box summary-box" });
   const stageBox = el("div", { class: "table-box", tabindex: "0", role: "region", "aria-label": "Penetration by stage (scrolls sideways on narrow screens)" });
   const detailBox = el("div", { class: "stage-details" });
   const penetrationFigure = chartFigure("sampling-penetration",
@@ -445,16 +444,6 @@ export function mount(root, { engine, description }) {
       `Log-log chart of measured and corrected concentration against diameter for ${curves.unreliable.length} bins; ${bad} flagged as unreliable. The table above gives every value.`);
   }
 
-  // exports: the core's exporter, fed with the stage and spectrum tables as plain rows and every
-  // penetration curve as its own named curve (the reply keeps them as lists)
-  panel.exportCsv = async (part) => {
-    const reply = panel.lastGood;
-    if (!reply) return;
-    const shaped = part === "curves" ? curvesForCsv(reply) : resultsForCsv(reply);
-    const out = await engine.exportCsv(shaped, part);
-    if (out && out.ok) download(`drift-dose-${id}-${part}-${stamp()}.csv`, out.text, "text/csv;charset=utf-8");
-  };
-
   // demos: one click loads an invented chain, labelled as such in the page, the link and the report
   if (demos.length) {
     const box = el("div", { class: "demos", role: "group", "aria-label": "Invented demo chains" });
@@ -527,49 +516,6 @@ export function mount(root, { engine, description }) {
 
   panel.body.append(summaryBox, stageBox, penetrationFigure.figure, spectrumSection, detailBox);
   return panel;
-}
-
-/** The reply's results with the stage and spectrum tables written out as plain rows. */
-function resultsForCsv(reply) {
-  const rows = {};
-  for (const [key, row] of Object.entries(reply.results)) {
-    if (row && ("value" in row || "text" in row)) rows[key] = row;
-  }
-  const stages = reply.results.stages_table;
-  for (const stage of stages ? stages.rows : []) {
-    const who = `Stage ${stage.index + 1} (${stageName(stage.index, stage.name)})`;
-    stage.penetration_at.forEach((p, j) => {
-      rows[`stage_${stage.index}_at_${j}`] = { ...p, label: `${who}: penetration at ${p.label}` };
-    });
-    stage.half_penetration_sizes.forEach((q, j) => {
-      rows[`stage_${stage.index}_half_${j}`] = { ...q, label: `${who}: 50 % penetration size` };
-    });
-    for (const q of stage.quantities) rows[`stage_${stage.index}_${q.key}`] = { ...q, label: `${who}: ${q.label}` };
-    if (stage.regime) rows[`stage_${stage.index}_regime`] = { label: `${who}: flow regime`, text: stage.regime, note: "" };
-  }
-  const spectrum = reply.results.spectrum_table;
-  for (const [i, bin] of (spectrum ? spectrum.rows : []).entries()) {
-    const where = `Spectrum bin ${i + 1} at ${bin.diameter} ${spectrum.diameter_unit}${spectrum.diameter_type === "aerodynamic" ? " (aerodynamic)" : ""}`;
-    const flag = bin.unreliable ? "unreliable: penetration below 50 %" : "";
-    rows[`bin_${i}_measured`] = { label: `${where}: measured`, symbol: "", value: bin.measured, unit: spectrum.concentration_unit, si: bin.measured, si_unit: spectrum.concentration_unit, note: "" };
-    rows[`bin_${i}_penetration`] = { label: `${where}: penetration`, symbol: "", value: bin.penetration * 100, unit: "%", si: bin.penetration, si_unit: "–", note: flag };
-    if (bin.corrected !== null) {
-      rows[`bin_${i}_corrected`] = { label: `${where}: corrected`, symbol: "", value: bin.corrected, unit: spectrum.concentration_unit, si: bin.corrected, si_unit: spectrum.concentration_unit, note: flag };
-    }
-  }
-  return { ...reply, results: rows };
-}
-
-/** The penetration curves (each stage, the whole chain, the target) as named curves. */
-function curvesForCsv(reply) {
-  const c = reply.curves;
-  const out = { x_label: c.x_label, x_unit: c.x_unit, y_label: c.y_label, y_unit: c.y_unit };
-  c.stages.forEach((curve, i) => {
-    out[`stage_${i + 1}`] = { ...curve, label: `Stage ${i + 1}: ${stageName(i, curve.label)}` };
-  });
-  out.overall = c.overall;
-  if (c.target) out.target = { ...c.target, label: `Target: ${c.target.label}` };
-  return { ...reply, curves: out };
 }
 
 function chartFigure(idBase, captionText, buttonText, filename, getChart) {
