@@ -14,8 +14,7 @@ export const PANELS = [motion, deposition, sampling];
 const STATE_FORMAT = "drift-and-dose-inputs";
 
 const root = document.documentElement;
-const workerFactory = globalThis.driftdoseWorkerFactory;
-export const engine = new Engine(workerFactory ? workerFactory() : new URL("./worker.js", import.meta.url));
+export const engine = new Engine(new URL("./worker.js", import.meta.url));
 export const controllers = new Map();
 let active = PANELS[0].id;
 let engineInfo = { version: "", pyodide: "" };

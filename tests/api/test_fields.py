@@ -228,7 +228,7 @@ def test_range_text_motion_fields(name: str, text: str) -> None:
 def test_format_si_significant_figures() -> None:
     assert format_si(1.23456e-6, "length", "um") == "1.23 \u00b5m"
     assert format_si(293.15, "temperature", "degC") == "20 \u00b0C"
-    assert format_si(2.5e-11, "length", "m") == "2.5\u00d710^-11 m"
+    assert format_si(2.5e-11, "length", "m") == "2.5\u00d710\u207b\u00b9\u00b9 m"
     assert format_si(2.0, "dimensionless", "1") == "2"
 
 

@@ -50,13 +50,28 @@ EDITS = [
 ]
 # heaviest request per calculation, for the CPython-vs-page comparison
 HEAVY = [
-    ("deposition", {"modes": [
-        {"basis": "count", "median": {"value": 40, "unit": "nm"}, "gsd": 1.8,
-         "concentration": {"value": 1e5, "unit": "1/cm3"}},
-        {"basis": "mass", "median": {"value": 5, "unit": "um"}, "gsd": 2.5,
-         "concentration": {"value": 1, "unit": "mg/m3"}}],
-        "particle_density": {"value": 3, "unit": "g/cm3"},
-        "shape_factor": {"value": 1.5, "unit": "1"}, "route": "mouth_breather"}),
+    (
+        "deposition",
+        {
+            "modes": [
+                {
+                    "basis": "count",
+                    "median": {"value": 40, "unit": "nm"},
+                    "gsd": 1.8,
+                    "concentration": {"value": 1e5, "unit": "1/cm3"},
+                },
+                {
+                    "basis": "mass",
+                    "median": {"value": 5, "unit": "um"},
+                    "gsd": 2.5,
+                    "concentration": {"value": 1, "unit": "mg/m3"},
+                },
+            ],
+            "particle_density": {"value": 3, "unit": "g/cm3"},
+            "shape_factor": {"value": 1.5, "unit": "1"},
+            "route": "mouth_breather",
+        },
+    ),
     (
         "motion",
         {
@@ -64,7 +79,7 @@ HEAVY = [
             "particle_density": {"value": 3, "unit": "g/cm3"},
             "shape_factor": {"value": 1.5, "unit": "1"},
         },
-    )
+    ),
 ]
 
 

@@ -31,7 +31,7 @@ def test_page_reaches_ready_and_shows_cautions(page, base_url):
     page.goto(base_url)
     wait_ready(page)
     _wait_updates(page, "motion", 1)
-    caution = page.locator("#panel-motion").get_by_label("Cautions").inner_text()
+    caution = page.get_by_label("Cautions").inner_text()
     assert "Screening estimates" in caution
     assert "professional judgment" in caution
     assert "local regulations" in caution

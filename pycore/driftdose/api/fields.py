@@ -210,13 +210,16 @@ def _number(f: Field, value: Any) -> float:
     return number
 
 
+_SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+
+
 def format_si(value: float, kind: str, unit: str, digits: int = 3) -> str:
     """Format an SI value in ``unit`` with ``digits`` significant figures and the unit label."""
     shown = from_si(value, kind, unit)
     text = f"{shown:.{digits}g}"
     if "e" in text:
         mant, exp = text.split("e")
-        text = f"{mant}×10^{int(exp)}"
+        text = f"{mant}×10{str(int(exp)).translate(_SUPERSCRIPT)}"
     label = unit_label(unit)
     return text if label == "–" else f"{text} {label}"
 
