@@ -20,6 +20,7 @@ from typing import Any
 
 from .. import particle
 from .._numerics import logspace
+from ..conventions import convention_fractions
 from ..deposition import Subject, activity, reference_worker
 from ..deposition.icrp66 import BreathingPattern
 from ..deposition.icrp66 import warnings_for as icrp66_warnings
@@ -624,6 +625,22 @@ def _results(
             "Airborne mass concentration", res.ambient["mass"], 1e-9, "µg/m³", "kg/m³"
         ),
     }
+    iso_labels = {
+        "inhalable": "inhalable",
+        "thoracic": "thoracic",
+        "respirable": "respirable",
+        "high_risk_respirable": "high-risk respirable",
+    }
+    for w in ("mass", "number"):
+        shares = convention_fractions(dist, w)
+        for key, label in iso_labels.items():
+            out[f"iso7708_{key}_{w}"] = _row(
+                f"Share of airborne {w} in the ISO 7708 {label} fraction",
+                shares[key],
+                1.0,
+                "–",
+                "–",
+            )
     if report is not None:
         out["csv_rows"] = text_result(
             "Spectrum imported",
