@@ -40,16 +40,72 @@ BARE_HTML = """<!doctype html><html data-engine="loading"><head><meta charset="u
 BARE_JS = """const w = new Worker(new URL("./bare-worker.js", import.meta.url), {type: "module"});
 w.onmessage = () => { document.documentElement.dataset.engine = "ready"; };"""
 BARE_WORKER = """import { loadPyodide } from "../pyodide/pyodide.mjs";
-await loadPyodide({ indexURL: new URL("../pyodide/", import.meta.url).href, packages: [] });
-postMessage("ready");"""
+const pyodide = await loadPyodide({
+  indexURL: new URL("../pyodide/", import.meta.url).href, packages: [] });
+postMessage("ready");
+self.onmessage = async (event) => {
+  // timing of the core's own functions in Pyodide (not part of the ready measurement)
+  const info = await (await fetch(new URL("../build-info.json", import.meta.url))).json();
+  await pyodide.loadPackage(new URL("../" + info.wheel, import.meta.url).href);
+  postMessage(pyodide.runPython(event.data));
+};"""
+BARE_BENCH_JS = """const url = new URL("./bare-worker.js", import.meta.url);
+const w = new Worker(url, {type: "module"});
+window.benchInPyodide = (code) => new Promise((resolve) => {
+  w.onmessage = (e) => { if (e.data !== "ready") resolve(e.data); };
+  w.postMessage(code);
+});
+w.addEventListener("message", (e) => {
+  if (e.data === "ready") document.documentElement.dataset.engine = "ready"; });"""
+ICRP66_CURVES_CODE = """
+import statistics, time
+from driftdose._numerics import logspace
+from driftdose.deposition import icrp66_curves, reference_worker
+sizes = logspace(1e-9, 100e-6, 200)
+subject = reference_worker("mouth_breather")
+times = []
+for _ in range(15):
+    t0 = time.perf_counter()
+    icrp66_curves(sizes, 3000.0, 1.5, subject)
+    times.append((time.perf_counter() - t0) * 1000)
+statistics.median(times)
+"""
 
 # (panel id, input label, values to cycle) for the recalculation timing
 EDITS = [
     ("motion", "Particle diameter", ["100", "150", "220", "330", "470", "680"]),
     ("deposition", "Particle density", ["1", "1.5", "2", "2.5", "3", "4"]),
+    ("sampling", "Sampling flow", ["1.5", "2", "2.5", "3", "4", "5"]),
 ]
 # heaviest request per calculation, for the CPython-vs-page comparison
 HEAVY = [
+    (
+        "sampling",
+        {
+            "stages": [
+                {
+                    "type": "tube",
+                    "length": {"value": 20, "unit": "m"},
+                    "tube_diameter": {"value": 4, "unit": "mm"},
+                },
+                {
+                    "type": "bend",
+                    "tube_diameter": {"value": 4, "unit": "mm"},
+                    "bend_angle": {"value": 90, "unit": "deg"},
+                    "curvature_radius": {"value": 5, "unit": "cm"},
+                },
+                {"type": "cyclone", "curve": "iso7708_respirable"},
+                {
+                    "type": "screens",
+                    "wire_diameter": {"value": 50, "unit": "um"},
+                    "solidity": 0.3,
+                    "thickness": {"value": 100, "unit": "um"},
+                    "n_screens": 10,
+                },
+            ],
+            "target": "respirable",
+        },
+    ),
     (
         "deposition",
         {
@@ -219,6 +275,8 @@ def main() -> int:
         (bare / "index.html").write_text(BARE_HTML)
         (bare / "bare.js").write_text(BARE_JS)
         (bare / "bare-worker.js").write_text(BARE_WORKER)
+        (bare / "bench.html").write_text(BARE_HTML.replace("bare.js", "bench.js"))
+        (bare / "bench.js").write_text(BARE_BENCH_JS)
         own = [
             p
             for p in dist.rglob("*")
@@ -278,6 +336,15 @@ def main() -> int:
                     "page_over_cpython": round(web / cpy, 2),
                 }
             figures["heaviest_calculations"] = heavy
+            ctx.close()
+            ctx = browser.new_context()
+            page = ctx.new_page()
+            page.goto(base + "bare/bench.html")
+            page.wait_for_selector("html[data-engine='ready']", timeout=120_000)
+            in_page = page.evaluate("code => window.benchInPyodide(code)", ICRP66_CURVES_CODE)
+            cpy = figures["icrp66_curves_200_sizes_cpython_ms"]
+            figures["icrp66_curves_200_sizes_page_ms"] = round(in_page, 2)
+            figures["icrp66_curves_page_over_cpython"] = round(in_page / cpy, 2)
             ctx.close()
             figures["single_file"] = _single_file_figures(build, browser, dist, base, args.runs)
             browser.close()
