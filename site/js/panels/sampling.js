@@ -277,7 +277,7 @@ export function mount(root, { engine, description }) {
   const spectrumFigure = chartFigure("sampling-spectrum",
     "Measured and corrected concentration per size bin. Bins the chain passes with less than 50 % are drawn as large triangles: their correction is unreliable.",
     "Save spectrum chart image", "drift-dose-sampling-spectrum.png", () => spectrumChart);
-  spectrumSection.append(spectrumTitle, spectrumSummary, spectrumTableBox, spectrumFigure.figure);
+  spectrumSection.append(spectrumTitle, spectrumSummary, spectrumTableBox);
 
   const panel = new CalcPanel(root, {
     id, kind: "sampling", title: "What the sampler sees: sampling lines and pre-separators",
@@ -373,7 +373,7 @@ export function mount(root, { engine, description }) {
     }
     const sets = curves.stages.map((curve, i) => ({
       label: `${i + 1}. ${stageName(i, curve.label)}`, data: toPoints(curve), borderColor: seriesColour(i + 1), backgroundColor: seriesColour(i + 1),
-      pointRadius: 0, borderWidth: 1.5, borderDash: [2, 2 + (i % 3)], order: 1,
+      pointRadius: 0, borderWidth: 2, borderDash: [5, 3 + 2 * (i % 3)], order: 1,
     }));
     sets.push({
       label: curves.overall.label, data: toPoints(curves.overall), borderColor: seriesColour(0), backgroundColor: seriesColour(0),
@@ -393,7 +393,14 @@ export function mount(root, { engine, description }) {
 
   function renderSpectrum(table, curves) {
     spectrumSection.hidden = !table;
-    if (!table) return;
+    if (!table) {
+      // no canvas left behind: the printed record draws every canvas of the panel
+      if (spectrumChart) spectrumChart.destroy();
+      spectrumChart = null;
+      spectrumFigure.figure.remove();
+      return;
+    }
+    if (!spectrumFigure.figure.isConnected) spectrumSection.append(spectrumFigure.figure);
     const aero = table.diameter_type === "aerodynamic";
     const bad = table.rows.filter((r) => r.unreliable).length;
     const how = "Each bin's concentration is divided by the chain's penetration at its diameter.";
