@@ -117,13 +117,20 @@ export class FieldSet {
     }
   }
 
-  /** Show errors from a reply; returns the messages that belong to no field here. */
+  /**
+   * Show errors from a reply; returns the messages that belong to no field here, and those of
+   * fields hidden for the current choices (e.g. from a link), which would otherwise go unseen.
+   */
   showErrors(errors) {
     const byField = new Map();
     const orphans = [];
     for (const e of errors || []) {
-      if (this.handles.has(e.field) && !byField.has(e.field)) byField.set(e.field, e.message);
-      else orphans.push(e.message);
+      if (this.handles.has(e.field) && !byField.has(e.field)) {
+        byField.set(e.field, e.message);
+        if (this.handles.get(e.field).wrap.hidden) orphans.push(e.message);
+      } else {
+        orphans.push(e.message);
+      }
     }
     for (const [name, handle] of this.handles) handle.showError(byField.get(name) || "");
     return orphans;
