@@ -20,7 +20,7 @@ from typing import Any
 
 from .. import particle
 from .._numerics import logspace
-from ..conventions import convention_fractions
+from ..conventions import convention_shares
 from ..deposition import Subject, activity, reference_worker
 from ..deposition.icrp66 import BreathingPattern
 from ..deposition.icrp66 import warnings_for as icrp66_warnings
@@ -631,8 +631,9 @@ def _results(
         "respirable": "respirable",
         "high_risk_respirable": "high-risk respirable",
     }
+    all_shares = convention_shares(dist, ("mass", "number"))
     for w in ("mass", "number"):
-        shares = convention_fractions(dist, w)
+        shares = all_shares[w]
         for key, label in iso_labels.items():
             out[f"iso7708_{key}_{w}"] = _row(
                 f"Share of airborne {w} in the ISO 7708 {label} fraction",
