@@ -118,7 +118,13 @@ function setupTools() {
     event.target.value = "";
     if (!file) return;
     try {
-      const data = JSON.parse(await readText(file, 1024 * 1024));
+      const text = await readText(file, 1024 * 1024);
+      let data;
+      try {
+        data = JSON.parse(text);
+      } catch (err) {
+        throw new Error(`it is not a valid JSON file (${err.message.slice(0, 120)})`);
+      }
       if (!data || data.format !== STATE_FORMAT || typeof data.panels !== "object") {
         throw new Error("it is not a Drift & Dose inputs file");
       }
@@ -126,7 +132,7 @@ function setupTools() {
       applyState(data, "The file");
       toolMessage(`Loaded inputs from ${file.name.slice(0, 80)}.`);
     } catch (err) {
-      toolMessage(`Could not load ${file.name.slice(0, 80)}: ${err.message}.`);
+      toolMessage(`Could not load ${file.name.slice(0, 80)}: ${err.message.replace(/\.$/, "")}.`);
     }
   });
   document.getElementById("print-report").addEventListener("click", () => {
@@ -194,15 +200,17 @@ async function start() {
   const state = decodeState(location.hash);
   if (state) applyState(state, "This link");
   showPanel(active);
-  if (!globalThis.driftdoseForms) {
-    fetch("build-info.json").then((r) => r.json()).then((info) => setupServiceWorker(info.build)).catch(() => {});
-  }
   try {
     await engine.ready;
   } catch {
     return;
   }
   for (const controller of controllers.values()) controller.schedule();
+  // precaching the build for offline use downloads everything once more: start it only when
+  // the page is ready, so it never competes with the first load
+  if (!globalThis.driftdoseForms) {
+    fetch("build-info.json").then((r) => r.json()).then((info) => setupServiceWorker(info.build)).catch(() => {});
+  }
 }
 
 start().catch((err) => {
