@@ -27,6 +27,8 @@ engine.onStatus((status) => {
     bar.value = status.value;
   } else if (status.type === "ready") {
     engineInfo = { version: status.version, pyodide: status.pyodide };
+    root.dataset.engineMs = String(Math.round(status.ms));
+    root.dataset.runtimeMs = String(Math.round(status.runtimeMs));
     root.dataset.engine = "ready";
     text.textContent = "Ready — results update as you type.";
     bar.value = 100;

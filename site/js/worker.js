@@ -16,6 +16,7 @@ async function start() {
   progress(10, "Loading the Python runtime…");
   const infoPromise = fetch(new URL("build-info.json", base)).then((r) => r.json());
   const pyodide = await loadPyodide({ indexURL: new URL("pyodide/", base).href, packages: [] });
+  const tRuntime = performance.now() - t0;
   progress(70, "Loading the aerosol models…");
   const info = await infoPromise;
   await pyodide.loadPackage(new URL(info.wheel, base).href, { messageCallback: () => {} });
@@ -24,7 +25,7 @@ async function start() {
   handleJson = api.handle_json;
   exporter = pyodide.pyimport("driftdose.export");
   const version = JSON.parse(handleJson(JSON.stringify({ kind: "describe" }))).version;
-  postMessage({ type: "ready", version, pyodide: pyodide.version, ms: performance.now() - t0 });
+  postMessage({ type: "ready", version, pyodide: pyodide.version, ms: performance.now() - t0, runtimeMs: tRuntime });
 }
 
 const started = start().catch((err) => {
