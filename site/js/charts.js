@@ -2,6 +2,7 @@
 // readouts, theme colours from CSS, and PNG export through Chart.js's own toBase64Image().
 import { formatNumber } from "./format.js";
 
+const TINY_SPAN = 1e-250;
 const SERIES_VARS = ["--series-1", "--series-2", "--series-3", "--series-4", "--series-5", "--series-6", "--series-7"];
 
 export function cssVar(name) {
@@ -36,6 +37,10 @@ export function createChart(canvas, axes, { legendLabel, readout, type = "line" 
     position: axis.position,
     title: { display: true, text: axis.title, color: text },
     min: axis.min, max: axis.max,
+    // Chart.js's linear ticks never finish for a data range below about 1e-300 (the step
+    // becomes subnormal and the page hangs); such values are zero to the eye, so the axis
+    // spans at least TINY_SPAN. Larger data override this suggestion.
+    ...((axis.type === "linear" && axis.max === undefined) ? { suggestedMax: TINY_SPAN } : {}),
     ticks: { color: text, autoSkip: !axis.tick, maxRotation: 0, ...(axis.tick ? { callback: axis.tick } : {}) },
     grid: axis.type && axis.type !== "logarithmic"
       ? { color: grid, drawOnChartArea: !axis.secondary }

@@ -17,6 +17,12 @@ function el(tag, attrs = {}, text = "") {
 
 export { el };
 
+/** A value from a link or file as the text of a field: structured values are shown as JSON. */
+function asText(value) {
+  if (value === undefined || value === null) return "";
+  return typeof value === "object" ? JSON.stringify(value) : String(value);
+}
+
 /**
  * Render one field description into `container`; returns a handle with get(), set(), showError().
  */
@@ -73,12 +79,12 @@ export function renderField(container, field, prefix) {
     },
     set(raw) {
       if (field.kind === "choice") {
-        input.value = String(raw);
-      } else if (raw && typeof raw === "object") {
-        input.value = raw.value === undefined || raw.value === null ? "" : String(raw.value);
-        if (unitSelect && raw.unit !== undefined) unitSelect.value = String(raw.unit);
+        input.value = asText(raw);
+      } else if (raw && typeof raw === "object" && !Array.isArray(raw)) {
+        input.value = asText(raw.value);
+        if (unitSelect && raw.unit !== undefined) unitSelect.value = asText(raw.unit);
       } else {
-        input.value = raw === undefined || raw === null ? "" : String(raw);
+        input.value = asText(raw);
       }
     },
     showError(message) {
@@ -173,27 +179,33 @@ function renderFile(container, field, prefix) {
   shell.wrap.append(label, input, status, el("p", { class: "help", id: `${shell.id}-help` }, field.help || ""), shell.error);
   let text = field.default ?? null;
   let name = "";
+  let refusal = ""; // why the last file chosen was not read; joins the engine's message
   const listeners = [];
   input.addEventListener("change", async () => {
     const file = input.files[0];
     if (!file) return;
     const limit = field.max_bytes || 5 * 1024 * 1024;
     if (file.size > limit) {
+      // the earlier file no longer stands: recalculate without one (its results go stale)
       text = null;
       name = "";
-      status.textContent = `${file.name.slice(0, 80)} is ${(file.size / 1e6).toFixed(1)} MB; the limit is ${(limit / 1e6).toFixed(0)} MB.`;
-      shell.showError(status.textContent);
+      refusal = `${file.name.slice(0, 80)} is ${(file.size / 1e6).toFixed(1)} MB; the limit is ${(limit / 1e6).toFixed(0)} MB.`;
+      status.textContent = refusal;
+      for (const cb of listeners) cb();
       return;
     }
+    refusal = "";
     text = await file.text();
     name = file.name;
     status.textContent = `Loaded ${name.slice(0, 80)} (${text.length.toLocaleString()} characters).`;
     for (const cb of listeners) cb();
   });
   return {
-    field, wrap: shell.wrap, input, unitSelect: null, showError: shell.showError,
+    field, wrap: shell.wrap, input, unitSelect: null,
+    showError(message) { shell.showError(message && refusal ? `${refusal} ${message}` : message); },
     get() { return text; },
     set(raw, label = "") {
+      refusal = "";
       text = raw === undefined ? null : raw;
       name = label;
       status.textContent = text ? `Loaded ${label || "text"} (${String(text).length.toLocaleString()} characters).` : "No file loaded.";

@@ -40,6 +40,8 @@ CURVE_RANGE = (1e-9, 100e-6)  # [m]
 D_RANGE = (1e-9, 100e-6)  # accepted mode medians [m]
 NUMBER_MAX = 1e15  # [1/m^3], 1e9 per cm^3: above it an input is taken as a mistake
 MASS_MAX = 1e-2  # [kg/m^3], 10 g/m^3
+NUMBER_MIN = 1.0  # [1/m^3]: below it doses fall under what a number can hold
+MASS_MIN = 1e-15  # [kg/m^3], 1e-6 ug/m^3
 BENCHMARK_NUMBER_MIN = 1.0  # [1/m^3]: smaller benchmarks make the ratio overflow
 BENCHMARK_MASS_MIN = 1e-12  # [kg/m^3], 1 ng/m^3
 
@@ -356,9 +358,8 @@ FIELDS: tuple[Field, ...] = (
         "time",
         (8.0, "h"),
         ("h", "min"),
-        minimum=0.0,
+        minimum=1.0,
         maximum=24 * 3600.0,
-        exclusive_min=True,
     ),
     Field(
         "benchmark_number",
@@ -464,6 +465,13 @@ def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
         conc = conc_q[0]
         if conc <= 0.0:
             raise FieldError(field, f"{where}: the concentration must be above 0.")
+        if conc < (NUMBER_MIN if basis == "count" else MASS_MIN):
+            raise FieldError(
+                field,
+                f"{where}: a concentration below "
+                f"{'10⁻⁶ per cm³' if basis == 'count' else '10⁻⁶ µg/m³'} is too small to "
+                "compute doses with; check the unit.",
+            )
         if basis == "count":
             if conc > NUMBER_MAX:
                 raise FieldError(
@@ -486,8 +494,14 @@ def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
 
 def _parse_csv(v: dict[str, Any], density: float, chi: float) -> tuple[Any, dict[str, Any]]:
     text = v.get("csv_text")
-    if text is None or (isinstance(text, str) and not text.strip()):
+    if text is None:
         raise FieldError("csv_text", "Choose a CSV file with the measured spectrum.")
+    if isinstance(text, str) and not text.strip():
+        raise FieldError(
+            "csv_text",
+            f"The file is {'empty' if not text else 'blank'}. Choose a CSV file with the "
+            "measured spectrum.",
+        )
     if not isinstance(text, str):
         raise FieldError("csv_text", "The spectrum must be sent as text.")
     d_scale = to_si(1.0, "length", v["csv_diameter_unit"])
@@ -512,6 +526,12 @@ def _parse_csv(v: dict[str, Any], density: float, chi: float) -> tuple[Any, dict
         )
     if sum(imported.numbers) <= 0.0:
         raise FieldError("csv_text", "All concentrations in the spectrum are zero.")
+    if sum(imported.numbers) < NUMBER_MIN:
+        raise FieldError(
+            "csv_text",
+            "The spectrum adds up to less than 10⁻⁶ particles per cm³ (1 per m³); check the "
+            "concentration unit and type.",
+        )
     if sum(imported.numbers) > NUMBER_MAX:
         raise FieldError(
             "csv_text",
