@@ -25,6 +25,7 @@ import csv
 import io
 import math
 import re
+from collections.abc import Iterator
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -44,6 +45,9 @@ MAX_BYTES = 5 * 1024 * 1024
 
 MAX_ROWS = 20000
 """Largest number of data rows accepted."""
+
+MAX_LINE = 100_000
+"""Longest line accepted, in characters (the csv module refuses cells above 131 072)."""
 
 CONCENTRATION_TYPES = ("per_bin", "dN/dlogDp", "dN/dDp")
 """How the concentration column is expressed: particles per bin, per unit log10 of the
@@ -110,9 +114,7 @@ def _decode(data: bytes | str) -> tuple[str, bool, str]:
         raise SpectrumError("The file is empty.")
     if raw is not None:
         if b"\x00" in raw:
-            raise SpectrumError(
-                "The file looks binary (it contains NUL bytes); export it as plain text CSV."
-            )
+            raise SpectrumError(_nul_message(raw[:4096:2].count(0), raw[1:4096:2].count(0)))
         try:
             text, encoding = raw.decode("utf-8"), "utf-8"
         except UnicodeDecodeError:
@@ -121,7 +123,7 @@ def _decode(data: bytes | str) -> tuple[str, bool, str]:
         text, encoding = data, "text"
         if "\x00" in text:
             raise SpectrumError(
-                "The file looks binary (it contains NUL characters); export it as plain text CSV."
+                _nul_message(text[:4096:2].count("\x00"), text[1:4096:2].count("\x00"))
             )
     bom = text.startswith("\ufeff")
     if bom:
@@ -136,6 +138,16 @@ def _decode(data: bytes | str) -> tuple[str, bool, str]:
     return text, bom, encoding
 
 
+def _nul_message(even: int, odd: int) -> str:
+    """Explain NUL characters: UTF-16 text without a byte-order mark, or a binary file."""
+    if max(even, odd) > 10 * (min(even, odd) + 1):  # one byte in two is NUL: UTF-16
+        return (
+            "The file looks like UTF-16 text without a byte-order mark; save it as UTF-8 "
+            "(or plain text) CSV."
+        )
+    return "The file looks binary (it contains NUL characters); export it as plain text CSV."
+
+
 def _to_number(cell: str, decimal_comma: bool) -> float | None:
     """Parse one cell, or return None if it is not a number."""
     s = cell.strip().strip('"').strip().replace("\u2212", "-").replace("\u00a0", "")
@@ -148,6 +160,20 @@ def _to_number(cell: str, decimal_comma: bool) -> float | None:
     except ValueError:
         return None
     return value
+
+
+def _guarded(reader: Any) -> Iterator[list[str]]:
+    """Rows of a csv reader, its own errors turned into messages with the line number."""
+    while True:
+        try:
+            cells = next(reader)
+        except StopIteration:
+            return
+        except csv.Error as exc:
+            raise SpectrumError(
+                f"the line cannot be read as CSV ({exc}).", reader.line_num
+            ) from None
+        yield cells
 
 
 def _is_skippable(line: str) -> bool:
@@ -269,6 +295,13 @@ def parse_spectrum_csv(
         raise SpectrumError("Unit factors must be positive.")
     text, bom, encoding = _decode(data)
     lines = text.splitlines()
+    for number, line_text in enumerate(lines, start=1):
+        if len(line_text) > MAX_LINE:
+            raise SpectrumError(
+                f"this line is {len(line_text):,} characters long; at most {MAX_LINE:,} can be "
+                "read. Each line should hold one size bin.",
+                number,
+            )
     delim, delim_name = _detect_delimiter(lines)
     decimal_comma_allowed = delim != ","
 
@@ -279,7 +312,7 @@ def parse_spectrum_csv(
     skipped = 0
     used_decimal_comma = False
     first_row = True
-    for cells in reader:
+    for cells in _guarded(reader):
         line = reader.line_num
         if not cells or all(not c.strip() for c in cells) or cells[0].lstrip().startswith("#"):
             skipped += 1
