@@ -2,6 +2,7 @@
 // print (the browser's "Save as PDF" makes the file). Everything is inserted as text.
 import { el } from "./forms.js";
 import { resultsTable } from "./panel.js";
+import { formatNumber } from "./format.js";
 
 const CAUTIONS = [
   "These are screening estimates from published models, each valid within the stated range.",
@@ -58,6 +59,9 @@ function panelRecord(controller) {
   section.append(inputs);
   section.append(el("h3", {}, "Results"));
   section.append(resultsTable(reply.results, "Results", controller.opts.tableKeys));
+  for (const table of Object.values(reply.results)) {
+    if (table && Array.isArray(table.rows)) section.append(tableResult(table));
+  }
   for (const canvas of controller.root.querySelectorAll("canvas")) {
     const src = chartImage(canvas);
     if (!src) continue;
@@ -79,6 +83,46 @@ function panelRecord(controller) {
     section.append(ul);
   }
   return section;
+}
+
+/** A result that is itself a table (a row per stage, per size bin): every column, as text. */
+function tableResult(table) {
+  const scalar = [];
+  const quantities = [];
+  for (const row of table.rows) {
+    for (const [key, value] of Object.entries(row)) {
+      if (key === "quantities" && Array.isArray(value)) {
+        for (const q of value) {
+          const head = q.unit && q.unit !== "–" ? `${q.label} (${q.unit})` : q.label;
+          if (!quantities.includes(head)) quantities.push(head);
+        }
+      } else if ((value === null || typeof value !== "object") && !scalar.includes(key)) {
+        scalar.push(key);
+      }
+    }
+  }
+  const unitOf = (key) => table[`${key}_unit`] || (["measured", "corrected"].includes(key) ? table.concentration_unit : "");
+  const out = el("table", { class: "results" });
+  out.append(el("caption", {}, table.label));
+  const head = el("tr");
+  for (const key of scalar) head.append(el("th", { scope: "col" }, unitOf(key) ? `${key.replace(/_/g, " ")} (${unitOf(key)})` : key.replace(/_/g, " ")));
+  for (const q of quantities) head.append(el("th", { scope: "col" }, q));
+  out.append(el("thead", {}, ""), el("tbody"));
+  out.querySelector("thead").append(head);
+  for (const row of table.rows) {
+    const tr = el("tr");
+    const byHead = new Map((row.quantities || []).map((q) => [q.unit && q.unit !== "–" ? `${q.label} (${q.unit})` : q.label, q.value ?? q.text]));
+    for (const key of scalar) tr.append(el("td", {}, cellText(row[key])));
+    for (const q of quantities) tr.append(el("td", {}, cellText(byHead.get(q))));
+    out.querySelector("tbody").append(tr);
+  }
+  return out;
+}
+
+function cellText(value) {
+  if (typeof value === "number") return formatNumber(value);
+  if (typeof value === "boolean") return value ? "yes" : "no";
+  return value === undefined || value === null ? "" : String(value);
 }
 
 /**

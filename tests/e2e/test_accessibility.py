@@ -56,6 +56,22 @@ def test_axe_reports_no_serious_violation_on_any_panel(axe_page, base_url, schem
         )
         if result:
             found[pid] = result
+        # results kept but marked out of date must stay readable (contrast) too
+        field = page.locator(f"#panel-{pid} input[inputmode=decimal]").first
+        good = field.input_value()
+        field.fill("not a number")
+        page.locator(f"#panel-{pid} .stale-note").wait_for(state="visible")
+        stale = page.evaluate(
+            """async () => {
+                 const r = await axe.run(document, {resultTypes: ['violations']});
+                 return r.violations.filter(v => ['serious', 'critical'].includes(v.impact))
+                   .map(v => ({id: v.id, impact: v.impact,
+                               nodes: v.nodes.slice(0, 3).map(n => n.target.join(' '))}));
+               }""")
+        if stale:
+            found[f"{pid} (out of date)"] = stale
+        field.fill(good)
+        page.locator(f"#panel-{pid} .stale-note").wait_for(state="hidden")
     assert not found, found
 
 
