@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import bisect
 import math
+from dataclasses import replace
 from typing import Any
 
 from .. import particle
@@ -29,6 +30,7 @@ from ..distribution import GSD_MAX, MAX_MODES, BinnedSpectrum, LognormalMode, Mu
 from ..dose import DoseResult, deposited_dose, deposition_curves
 from ..sources import cite
 from ..spectrum import MAX_BYTES, SpectrumError, parse_spectrum_csv
+from .common import PARTICLE_DENSITY, SHAPE_FACTOR
 from .fields import Field, FieldError
 from .reply import text_result
 from .units import canonical_unit, to_si, unit_label
@@ -260,26 +262,11 @@ FIELDS: tuple[Field, ...] = (
         choices=(("1/cm3", "particles per cm³"), ("1/m3", "particles per m³")),
         help="For dN/dDp, per diameter unit of the file (e.g. per cm³ per nm).",
     ),
-    Field(
-        "particle_density",
-        "Particle density",
-        "density",
-        (1.0, "g/cm3"),
-        ("g/cm3", "kg/m3"),
-        minimum=100.0,
-        maximum=25000.0,
+    replace(
+        PARTICLE_DENSITY,
         help="Material density of the particles (applies to every mode or bin).",
     ),
-    Field(
-        "shape_factor",
-        "Dynamic shape factor",
-        "dimensionless",
-        (1.0, "1"),
-        ("1",),
-        minimum=1.0,
-        maximum=5.0,
-        help="1 for spheres; ICRP's default worker aerosol uses 1.5.",
-    ),
+    replace(SHAPE_FACTOR, help="1 for spheres; ICRP's default worker aerosol uses 1.5."),
     Field(
         "model",
         "Deposition model",

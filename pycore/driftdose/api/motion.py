@@ -9,11 +9,13 @@ to cover a reference distance; curves of both displacements over 1 nm to 100 um.
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 from typing import Any
 
 from .. import gas, particle
 from .._numerics import logspace
 from ..sources import cite
+from .common import PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
 from .fields import Field, FieldError
 from .reply import quantity, text_result
 
@@ -44,44 +46,13 @@ FIELDS: tuple[Field, ...] = (
         ),
         help="Aerodynamic: the unit-density sphere that settles at the same speed.",
     ),
-    Field(
-        "particle_density",
-        "Particle density",
-        "density",
-        (1.0, "g/cm3"),
-        ("g/cm3", "kg/m3"),
-        minimum=100.0,
-        maximum=25000.0,
+    replace(
+        PARTICLE_DENSITY,
         help="Material density of the particle (1 g/cm³ for unit-density spheres).",
     ),
-    Field(
-        "shape_factor",
-        "Dynamic shape factor",
-        "dimensionless",
-        (1.0, "1"),
-        ("1",),
-        minimum=1.0,
-        maximum=5.0,
-        help="1 for spheres; about 1.1 to 2 for irregular dust.",
-    ),
-    Field(
-        "temperature",
-        "Air temperature",
-        "temperature",
-        (20.0, "degC"),
-        ("degC", "K"),
-        minimum=223.15,
-        maximum=773.15,
-    ),
-    Field(
-        "pressure",
-        "Air pressure",
-        "pressure",
-        (101.325, "kPa"),
-        ("kPa", "atm", "hPa", "Pa"),
-        minimum=10e3,
-        maximum=200e3,
-    ),
+    SHAPE_FACTOR,
+    TEMPERATURE,
+    PRESSURE,
     Field(
         "time",
         "Time",

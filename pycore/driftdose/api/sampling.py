@@ -37,6 +37,7 @@ published or commercial sampler) that the page can load; they are also offered t
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 from typing import Any
 
 from .. import particle
@@ -58,6 +59,7 @@ from ..transport.chain import UNRELIABLE_BELOW
 from ..transport.cyclone import ISO7708_MAX_DIAMETER
 from ..transport.impactor import DEFAULT_STEEPNESS
 from . import deposition as _deposition
+from .common import PARTICLE_DENSITY, PRESSURE, TEMPERATURE
 from .fields import Field, FieldError, parse_fields
 from .reply import quantity, text_result
 from .units import auto_unit, from_si, unit_label
@@ -554,33 +556,9 @@ FIELDS: tuple[Field, ...] = (
         maximum=0.1,
         help="Used by every stage that does not set its own flow.",
     ),
-    Field(
-        "particle_density",
-        "Particle density",
-        "density",
-        (1.0, "g/cm3"),
-        ("g/cm3", "kg/m3"),
-        minimum=100.0,
-        maximum=25000.0,
-    ),
-    Field(
-        "temperature",
-        "Air temperature",
-        "temperature",
-        (20.0, "degC"),
-        ("degC", "K"),
-        minimum=223.15,
-        maximum=773.15,
-    ),
-    Field(
-        "pressure",
-        "Air pressure",
-        "pressure",
-        (101.325, "kPa"),
-        ("kPa", "atm", "hPa", "Pa"),
-        minimum=10e3,
-        maximum=200e3,
-    ),
+    replace(PARTICLE_DENSITY, help=""),
+    TEMPERATURE,
+    PRESSURE,
     Field(
         "target",
         "Target curve",

@@ -1,0 +1,52 @@
+"""Input fields shared by several calculations, declared once (same label, units and range).
+
+A calculation that needs its own help text uses ``dataclasses.replace(FIELD, help=...)``.
+"""
+
+from __future__ import annotations
+
+from .fields import Field
+
+__all__ = ["PARTICLE_DENSITY", "PRESSURE", "SHAPE_FACTOR", "TEMPERATURE"]
+
+PARTICLE_DENSITY = Field(
+    "particle_density",
+    "Particle density",
+    "density",
+    (1.0, "g/cm3"),
+    ("g/cm3", "kg/m3"),
+    minimum=100.0,
+    maximum=25000.0,
+    help="Material density of the particles (1 g/cm³ for unit-density spheres).",
+)
+
+SHAPE_FACTOR = Field(
+    "shape_factor",
+    "Dynamic shape factor",
+    "dimensionless",
+    (1.0, "1"),
+    ("1",),
+    minimum=1.0,
+    maximum=5.0,
+    help="1 for spheres; about 1.1 to 2 for irregular dust.",
+)
+
+TEMPERATURE = Field(
+    "temperature",
+    "Air temperature",
+    "temperature",
+    (20.0, "degC"),
+    ("degC", "K"),
+    minimum=223.15,
+    maximum=773.15,
+)
+
+PRESSURE = Field(
+    "pressure",
+    "Air pressure",
+    "pressure",
+    (101.325, "kPa"),
+    ("kPa", "atm", "hPa", "Pa"),
+    minimum=10e3,
+    maximum=200e3,
+)
