@@ -17,6 +17,16 @@ function el(tag, attrs = {}, text = "") {
 
 export { el };
 
+/**
+ * Choose `value` in `select`, adding it as an option when the list lacks it: a unit or choice
+ * from a link or file that the page does not offer stays visible and reaches the engine, whose
+ * message then names it.
+ */
+function choose(select, value) {
+  if (![...select.options].some((o) => o.value === value)) select.append(el("option", { value }, value));
+  select.value = value;
+}
+
 /** A value from a link or file as the text of a field: structured values are shown as JSON. */
 function asText(value) {
   if (value === undefined || value === null) return "";
@@ -79,10 +89,10 @@ export function renderField(container, field, prefix) {
     },
     set(raw) {
       if (field.kind === "choice") {
-        input.value = asText(raw);
+        choose(input, asText(raw));
       } else if (raw && typeof raw === "object" && !Array.isArray(raw)) {
         input.value = asText(raw.value);
-        if (unitSelect && raw.unit !== undefined) unitSelect.value = asText(raw.unit);
+        if (unitSelect && raw.unit !== undefined) choose(unitSelect, asText(raw.unit));
       } else {
         input.value = asText(raw);
       }

@@ -96,6 +96,8 @@ class Field:
     def parse(self, raw: Any) -> Any:
         """Validate one raw input and return it in SI (or as the chosen value)."""
         if raw is None or (isinstance(raw, str) and not raw.strip()):
+            if self.required and self.kind == "choice":
+                raise FieldError(self.name, f"{self.label}: {self.expected()}.")
             if self.required:
                 raise FieldError(self.name, f"{self.label} is required: {self.expected()}.")
             return None
