@@ -124,8 +124,9 @@ function setupTools() {
       let data;
       try {
         data = JSON.parse(text);
-      } catch (err) {
-        throw new Error(`it is not a valid JSON file (${err.message.slice(0, 120)})`);
+      } catch {
+        // the parser's own message quotes the file's text; say plainly what is wrong instead
+        throw new Error("it is not a valid JSON file (a Drift & Dose inputs file is JSON text)");
       }
       if (!data || data.format !== STATE_FORMAT || typeof data.panels !== "object") {
         throw new Error("it is not a Drift & Dose inputs file");
