@@ -152,6 +152,26 @@ export class FieldSet {
     return orphans;
   }
 
+  /**
+   * Show a field only while another field has one of the given values (presentation only:
+   * Python validates every input). `rules`: {field: [otherField, [values...]]}. Returns the
+   * function that re-applies the rules (call it after setting values programmatically).
+   */
+  showWhen(rules) {
+    const apply = () => {
+      for (const [name, [other, values]] of Object.entries(rules)) {
+        const handle = this.handles.get(name);
+        const ruler = this.handles.get(other);
+        if (handle && ruler) handle.wrap.hidden = !values.includes(ruler.get());
+      }
+    };
+    for (const name of new Set(Object.values(rules).map(([o]) => o))) {
+      this.handles.get(name)?.input.addEventListener("change", apply);
+    }
+    apply();
+    return apply;
+  }
+
   onInput(callback) {
     for (const handle of this.handles.values()) {
       if (handle.listen) {

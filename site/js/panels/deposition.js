@@ -196,16 +196,7 @@ export function mount(root, { engine, description }) {
     if (!panel.demoLabel) demoNote.hidden = true;
   });
 
-  function applyVisibility() {
-    for (const [name, [other, values]] of Object.entries(VISIBLE_WHEN)) {
-      const handle = panel.fields.handles.get(name);
-      const ruler = panel.fields.handles.get(other);
-      if (handle && ruler) handle.wrap.hidden = !values.includes(ruler.get());
-    }
-  }
-  for (const name of new Set(Object.values(VISIBLE_WHEN).map(([o]) => o))) {
-    panel.fields.handles.get(name)?.input.addEventListener("change", applyVisibility);
-  }
+  const applyVisibility = panel.fields.showWhen(VISIBLE_WHEN);
   const baseSet = panel.setState.bind(panel);
   const baseGet = panel.getState.bind(panel);
   const baseKnows = panel.knows.bind(panel);
@@ -223,7 +214,6 @@ export function mount(root, { engine, description }) {
     baseSet(values);
     applyVisibility();
   };
-  applyVisibility();
 
   panel.body.append(summaryBox, regionBox, controls, doseFigure.figure, fractionFigure.figure);
   return panel;

@@ -471,16 +471,7 @@ export function mount(root, { engine, description }) {
     if (!panel.demoLabel) demoNote.hidden = true;
   });
 
-  function applyVisibility() {
-    for (const [name, [other, values]] of Object.entries(VISIBLE_WHEN)) {
-      const handle = panel.fields.handles.get(name);
-      const ruler = panel.fields.handles.get(other);
-      if (handle && ruler) handle.wrap.hidden = !values.includes(ruler.get());
-    }
-  }
-  for (const name of new Set(Object.values(VISIBLE_WHEN).map(([o]) => o))) {
-    panel.fields.handles.get(name)?.input.addEventListener("change", applyVisibility);
-  }
+  const applyVisibility = panel.fields.showWhen(VISIBLE_WHEN);
 
   const baseShowErrors = panel.fields.showErrors.bind(panel.fields);
   panel.fields.showErrors = (errors) => baseShowErrors(chain.showErrors(errors));
@@ -519,7 +510,6 @@ export function mount(root, { engine, description }) {
     if (shown.spectrum_source !== "csv") for (const name of SPECTRUM_FIELDS) delete shown[name];
     return [...chain.describe(inputs.stages), ...baseDescribe(shown)];
   };
-  applyVisibility();
 
   panel.body.append(summaryBox, stageBox, penetrationFigure.figure, spectrumSection, detailBox);
   return panel;
