@@ -234,8 +234,9 @@ def _column_index(spec: Any, header: list[str] | None, label: str) -> int:
             "name; give its number (1 for the first column)."
         )
     names = [h.strip().strip('"').strip().lower() for h in header]
-    if s.lower() in names:
-        return names.index(s.lower())
+    wanted = s.strip('"').strip().lower()  # the same trimming as the header's names
+    if wanted in names:
+        return names.index(wanted)
     shown = ", ".join(repr(h.strip()) for h in header[:12])
     raise SpectrumError(f"No column named {s!r} for {label}; the header has {shown}.")
 
