@@ -256,7 +256,13 @@ function renderList(container, field, prefix) {
   shell.wrap.append(group);
   const listeners = [];
   let rows = [];
-  const notify = () => { for (const cb of listeners) cb(); };
+  // a longer list than the form holds, from a link or file: sent as it came (the engine says
+  // how many are allowed) until the shown items are edited
+  let passThrough;
+  const notify = () => {
+    passThrough = undefined;
+    for (const cb of listeners) cb();
+  };
 
   function itemRow(values) {
     const box = el("fieldset", { class: "item" });
@@ -298,6 +304,7 @@ function renderList(container, field, prefix) {
   function setItems(list) {
     items.replaceChildren();
     rows = [];
+    passThrough = Array.isArray(list) && list.length > (field.max_items || 4) ? list : undefined;
     for (const values of Array.isArray(list) ? list.slice(0, field.max_items || 4) : []) {
       const row = itemRow(values || {});
       rows.push(row);
@@ -325,7 +332,7 @@ function renderList(container, field, prefix) {
   setItems(field.default || []);
   return {
     field, wrap: shell.wrap, input: add, unitSelect: null, showError: shell.showError,
-    get() { return rows.map(readRow); },
+    get() { return passThrough !== undefined ? passThrough : rows.map(readRow); },
     set(raw) { setItems(raw); },
     listen(cb) { listeners.push(cb); },
   };

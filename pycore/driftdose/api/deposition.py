@@ -411,7 +411,9 @@ def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
     if not isinstance(raw, list) or not raw:
         raise FieldError(field, "Give at least one lognormal mode.")
     if len(raw) > MAX_MODES:
-        raise FieldError(field, f"At most {MAX_MODES} modes can be combined.")
+        raise FieldError(
+            field, f"At most {MAX_MODES} modes can be combined; {len(raw)} were given."
+        )
     modes = []
     for i, m in enumerate(raw, start=1):
         where = f"Mode {i}"
