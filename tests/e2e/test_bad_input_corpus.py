@@ -112,8 +112,8 @@ class Session:
         assert not new, f"console errors: {new}"
 
     # -- steps ----------------------------------------------------------------------------
-    def run(self, pid: str, ops: list[dict], timeout: float = SLOW_MS) -> dict:
-        out = step(self.page, pid, ops, timeout)
+    def run(self, pid: str, ops: list[dict], timeout: float = SLOW_MS, text: bool = False) -> dict:
+        out = step(self.page, pid, ops, timeout, text)
         assert not out.get("timeout"), f"{pid}: no update within {timeout} ms"
         return out
 
@@ -227,6 +227,7 @@ class Session:
     def prepare(self, pid: str, paths: list[str]) -> tuple[list[str], dict]:
         """Show the panel and the fields at ``paths`` with valid inputs; return resolved paths."""
         info = self.page.evaluate("([p, f]) => window.__dd.prepare(p, f)", [pid, paths])
+        self.saved = info["values"]
         snap = info["snap"]
         ready = all(v["visible"] for v in info["fields"].values())
         if not ready or snap["state"] != "ok" or snap["stale"] or snap["busy"]:
@@ -236,6 +237,7 @@ class Session:
             for p in paths:
                 self.reveal(pid, p)
             snap = self.settle(pid)
+            self.saved = self.read(pid, paths)
         assert snap["state"] == "ok" and not snap["stale"], f"{pid}: not valid before: {snap}"
         return paths, snap
 
@@ -282,9 +284,8 @@ def _run_case(s: Session, case: corpus.Case) -> None:
     with s.case():
         paths, before = s.prepare(pid, [op["path"] for op in case.ops])
         ops = [{**op, "path": p} for op, p in zip(case.ops, paths, strict=True)]
-        saved = s.read(pid, paths)
-        s.run(pid, ops)
-        snap = s.snapshot(pid, [], text=True)
+        saved = s.saved
+        snap = s.run(pid, ops, text=True)["snap"]
         problems = [f"shown: …{t}…" for t in bad_text(s.page, snap["text"])]
         if snap["state"] == "ok" and not case.must_fail:
             reply = {"ok": True}
@@ -300,7 +301,7 @@ def _run_case(s: Session, case: corpus.Case) -> None:
             for r in saved
         ]
         back = s.run(pid, [*restore, {"path": restore[0]["path"], "cleanup": True}])
-        problems += _responsive(back, s.snapshot(pid), before)
+        problems += _responsive(back, back["snap"], before)
         assert not problems, "\n".join(problems)
 
 

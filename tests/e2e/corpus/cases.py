@@ -352,6 +352,9 @@ def csv_cases() -> list[FileCase]:
         FileCase("nan-and-inf-cells", "nan.csv", u("d,n\n10,nan\n20,inf\n"), "line"),
         FileCase("overflowing-number", "big.csv", u("d,n\n10,1e308\n20,1e308\n"), "error"),
         FileCase("hundred-thousand-rows", "rows.csv", u("d,n\n" + _rows(100_000)), "line"),
+        FileCase(
+            "twenty-thousand-rows-at-the-limit", "limit.csv", u("d,n\n" + _rows(20_000)), "ok"
+        ),
         FileCase("header-only", "header.csv", u("d,n\n"), "error"),
         FileCase("comments-only", "comments.csv", u("# size spectrum\n# nothing yet\n"), "error"),
         FileCase(
@@ -476,7 +479,14 @@ def json_cases() -> list[FileCase]:
         FileCase(
             "thousand-modes",
             "modes1000.json",
-            _state({"deposition": {"modes": [{"basis": "count"}] * 1000}}),
+            _state(
+                {
+                    "deposition": {
+                        "distribution_source": "lognormal",
+                        "modes": [{"basis": "count"}] * 1000,
+                    }
+                }
+            ),
             "fields",
         ),
         FileCase(

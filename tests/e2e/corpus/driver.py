@@ -110,9 +110,10 @@ HELPERS = r"""
      * next update lands in last[pid] ({ms, updates} or {timeout: true}); the test waits for it
      * from outside, so a page that hangs fails by Playwright's own timeout.
      */
-    start(pid, ops, timeout) {
+    start(pid, ops, timeout, withText) {
       this.last[pid] = null;
-      this.run(pid, ops, timeout).then((r) => { this.last[pid] = r; },
+      this.run(pid, ops, timeout).then(
+        (r) => { this.last[pid] = { ...r, snap: this.snapshot(pid, [], withText) }; },
         (err) => { this.last[pid] = { error: String(err) }; });
     },
     async run(pid, ops, timeout) {
@@ -166,7 +167,8 @@ HELPERS = r"""
     prepare(pid, paths) {
       this.showPanel(pid);
       const fields = Object.fromEntries(paths.map((p) => [p, this.exists(pid, p)]));
-      return { fields, snap: this.snapshot(pid, []) };
+      const ready = Object.values(fields).every((f) => f.exists);
+      return { fields, snap: this.snapshot(pid, []), values: ready ? this.read(pid, paths) : null };
     },
     snapshot(pid, paths, withText) {
       const panel = panelOf(pid);
@@ -209,15 +211,19 @@ HELPERS = r"""
 """
 
 
-def step(page, pid: str, ops: list[dict], timeout: float) -> dict:
-    """Apply ``ops`` to panel ``pid`` and wait for its update; return {ms, updates}.
+def step(page, pid: str, ops: list[dict], timeout: float, text: bool = False) -> dict:
+    """Apply ``ops`` to panel ``pid`` and wait for its update.
 
-    The wait is Playwright's (outside the page), so a page whose main thread hangs makes
-    this raise instead of waiting for ever.
+    Returns {ms, updates, snap}: the time from the input to the update, measured in the page,
+    and the panel's snapshot right after it (with the page's text if ``text``). The wait is
+    Playwright's (outside the page), so a page whose main thread hangs makes this raise
+    instead of waiting for ever.
     """
-    page.evaluate("([pid, ops, t]) => window.__dd.start(pid, ops, t)", [pid, ops, timeout])
-    page.wait_for_function("pid => window.__dd.last[pid]", arg=pid, timeout=timeout + 5000)
-    out = page.evaluate("pid => window.__dd.last[pid]", pid)
+    page.evaluate(
+        "([pid, ops, t, x]) => window.__dd.start(pid, ops, t, x)", [pid, ops, timeout, text]
+    )
+    handle = page.wait_for_function("pid => window.__dd.last[pid]", arg=pid, timeout=timeout + 5000)
+    out = handle.json_value()
     if "error" in out:
         raise AssertionError(out["error"])
     return out
