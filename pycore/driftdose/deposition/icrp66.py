@@ -53,8 +53,8 @@ sqrt(eta_ae^2 + eta_th^2), limited to 1.
 Where the constants come from
 -----------------------------
 The structure and constants above are those of ICRP 66 Annex D as recalled from
-the publication and cross-checked against independent transcriptions of Annex D in
-published scientific code; they were not fitted here. Points where transcriptions differ
+the publication and cross-checked against independent reimplementations of Annex D in
+published scientific code; they were not fitted here. Points where reimplementations differ
 and this module had to choose are marked ``# reading:`` in the code. The tests compare the
 model with the ICRP's own tabulated regional fractions for the reference worker (values
 recalled, see the test file); the comparison is reported in the project's README.
@@ -79,7 +79,7 @@ are recalled (not read from the publication here); the 1 um column is the less c
 (GSD 2.5 at 5 um and 2.47 at 1 um.) Everything agrees within 1.3 % except bb (-10 %) and
 AI (-5 %) at 1 um AMAD. Nothing was adjusted to close that gap. Possible causes: the
 recalled 1 um values, the diffusion coefficient (slip-correction set, temperature), or a
-detail of the bb and AI residence times that the transcriptions render differently.
+detail of the bb and AI residence times that the reimplementations render differently.
 
 Validity
 --------
@@ -377,7 +377,7 @@ def _constants(p: BreathingPattern) -> _Consts:
         t_bb_small=t_bb_small,
         t_ai=t_ai,
         bb_c=0.056 + t_bb_small**1.5,
-        # reading: exponent t_b^-0.25 (one transcription prints -0.29)
+        # reading: exponent t_b^-0.25 (one reimplementation prints -0.29)
         bb_e=t_bb_small**-0.25,
         a_th_bb_big=22.02 * p.scale_t**1.24,
         a_th_bb_small=-76.8 + 167.0 * p.scale_b**0.65,
