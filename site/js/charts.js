@@ -1,6 +1,7 @@
 // Thin layer over Chart.js (vendored UMD build, global `Chart`): log-log line charts with hover
 // readouts, theme colours from CSS, and PNG export through Chart.js's own toBase64Image().
 import { formatNumber } from "./format.js";
+import { el } from "./forms.js";
 
 const TINY_SPAN = 1e-250;
 const SERIES_VARS = ["--series-1", "--series-2", "--series-3", "--series-4", "--series-5", "--series-6", "--series-7"];
@@ -102,3 +103,15 @@ export const backgroundPlugin = {
     ctx.restore();
   },
 };
+
+/** A figure with a chart canvas, its caption and a button that saves the chart as PNG. */
+export function chartFigure(idBase, captionText, buttonText, filename, getChart) {
+  const figure = el("figure", { class: "chart-card" });
+  const box = el("div", { class: "chart-box" });
+  const canvas = el("canvas", { id: `${idBase}-canvas`, role: "img", "aria-label": captionText });
+  box.append(canvas);
+  const save = el("button", { type: "button", class: "secondary" }, buttonText);
+  save.addEventListener("click", () => getChart() && exportChart(getChart(), filename));
+  figure.append(box, el("figcaption", {}, captionText), save);
+  return { figure, canvas };
+}

@@ -60,7 +60,7 @@ export class CalcPanel {
 
   /** Whether `name` is an input of this panel (for reporting unknown link entries). */
   knows(name) {
-    return this.fields.handles.has(name);
+    return name === "demo" || this.fields.handles.has(name);
   }
 
   isStale() {
@@ -101,13 +101,44 @@ export class CalcPanel {
     this.listeners.add(listener);
   }
 
+  /** Inputs as they travel in links and files; an invented demo in use travels with them. */
   getState() {
-    return this.fields.values();
+    const values = this.fields.values();
+    return this.demoLabel ? { ...values, demo: this.demoId } : values;
   }
 
   setState(values) {
+    const demo = (this.demos || []).find((d) => d.id === values.demo);
+    if (demo) {
+      this.demoLabel = demo.label;
+      this.demoId = demo.id;
+      this.demoNote.textContent = `Showing: ${demo.label}. ${demo.note || demo.description || ""}`;
+      this.demoNote.hidden = false;
+    }
     this.fields.setValues(values);
     this.schedule();
+  }
+
+  /**
+   * Offer invented demo scenarios: one button each, loaded with one click and marked as
+   * invented in the page, the link and the report. Returns the group of buttons.
+   */
+  useDemos(demos, { groupLabel, prompt }) {
+    this.demos = demos;
+    this.demoNote = el("p", { class: "demo-note", role: "status", hidden: "" });
+    this.output.prepend(this.demoNote);
+    this.onChange(() => {
+      if (!this.demoLabel) this.demoNote.hidden = true;
+    });
+    const box = el("div", { class: "demos", role: "group", "aria-label": groupLabel });
+    box.append(el("p", { class: "help" }, prompt));
+    for (const demo of demos) {
+      const button = el("button", { type: "button", class: "secondary" }, demo.label);
+      button.addEventListener("click", () => this.setState({ ...demo.inputs, demo: demo.id }));
+      box.append(button);
+    }
+    this.fieldsBox.prepend(box);
+    return box;
   }
 
   /** Recalculate now, or right after the request in flight (coalescing bursts of input). */

@@ -1,7 +1,7 @@
 // Panel "Where it lands": regional deposition in the respiratory tract and dose per shift.
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el } from "../forms.js";
-import { createChart, decadeTicks, exportChart, seriesColour, setDatasets } from "../charts.js";
+import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
 import { formatNumber, lengthTick } from "../format.js";
 
 export const id = "deposition";
@@ -175,57 +175,23 @@ export function mount(root, { engine, description }) {
     renderDoseChart();
   });
 
-  // demos: one click loads an invented scenario, labelled as such in the page and the report
   if (demos.length) {
-    const box = el("div", { class: "demos", role: "group", "aria-label": "Invented demo scenarios" });
-    box.append(el("p", { class: "help" }, "Try an invented demo scenario (not measurements):"));
-    for (const demo of demos) {
-      const button = el("button", { type: "button", class: "secondary" }, demo.label);
-      button.addEventListener("click", () => {
-        const csv = panel.fields.handles.get("csv_text");
-        if (csv && demo.inputs.csv_text) csv.set(demo.inputs.csv_text, "invented demo spectrum");
-        panel.setState({ ...demo.inputs, demo: demo.id });
-      });
-      box.append(button);
-    }
-    panel.fieldsBox.prepend(box);
+    panel.useDemos(demos, {
+      groupLabel: "Invented demo scenarios",
+      prompt: "Try an invented demo scenario (not measurements):",
+    });
   }
-  const demoNote = el("p", { class: "demo-note", role: "status", hidden: "" });
-  panel.output.prepend(demoNote);
-  panel.onChange(() => {
-    if (!panel.demoLabel) demoNote.hidden = true;
-  });
 
   const applyVisibility = panel.fields.showWhen(VISIBLE_WHEN);
   const baseSet = panel.setState.bind(panel);
-  const baseGet = panel.getState.bind(panel);
-  const baseKnows = panel.knows.bind(panel);
-  // the demo in use travels with the inputs, so a shared link is still marked as invented data
-  panel.getState = () => (panel.demoLabel ? { ...baseGet(), demo: panel.demoId } : baseGet());
-  panel.knows = (name) => name === "demo" || baseKnows(name);
   panel.setState = (values) => {
+    const csv = panel.fields.handles.get("csv_text");
     const demo = demos.find((d) => d.id === values.demo);
-    if (demo) {
-      panel.demoLabel = demo.label;
-      panel.demoId = demo.id;
-      demoNote.textContent = `Showing: ${demo.label}. ${demo.note || ""}`;
-      demoNote.hidden = false;
-    }
     baseSet(values);
+    if (csv && demo && demo.inputs.csv_text) csv.set(demo.inputs.csv_text, "invented demo spectrum");
     applyVisibility();
   };
 
   panel.body.append(summaryBox, regionBox, controls, doseFigure.figure, fractionFigure.figure);
   return panel;
-}
-
-function chartFigure(idBase, captionText, buttonText, filename, getChart) {
-  const figure = el("figure", { class: "chart-card" });
-  const box = el("div", { class: "chart-box" });
-  const canvas = el("canvas", { id: `${idBase}-canvas`, role: "img", "aria-label": captionText });
-  box.append(canvas);
-  const save = el("button", { type: "button", class: "secondary" }, buttonText);
-  save.addEventListener("click", () => getChart() && exportChart(getChart(), filename));
-  figure.append(box, el("figcaption", {}, captionText), save);
-  return { figure, canvas };
 }

@@ -4,7 +4,7 @@
 // Presentation only: every number and every message comes from driftdose.api ("sampling").
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el, renderField } from "../forms.js";
-import { createChart, decadeTicks, exportChart, seriesColour, setDatasets } from "../charts.js";
+import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
 import { formatNumber, lengthTick } from "../format.js";
 
 export const id = "sampling";
@@ -451,25 +451,15 @@ export function mount(root, { engine, description }) {
       `Log-log chart of measured and corrected concentration against diameter for ${curves.unreliable.length} bins; ${bad} flagged as unreliable. The table above gives every value.`);
   }
 
-  // demos: one click loads an invented chain, labelled as such in the page, the link and the report
   if (demos.length) {
-    const box = el("div", { class: "demos", role: "group", "aria-label": "Invented demo chains" });
-    box.append(el("p", { class: "help" }, "Try an invented demo chain (not a real installation or instrument):"));
-    for (const demo of demos) {
-      const button = el("button", { type: "button", class: "secondary" }, demo.label);
-      button.addEventListener("click", () => panel.setState({ ...demo.inputs, demo: demo.id }));
-      box.append(button);
-    }
-    panel.fieldsBox.prepend(box);
+    const box = panel.useDemos(demos, {
+      groupLabel: "Invented demo chains",
+      prompt: "Try an invented demo chain (not a real installation or instrument):",
+    });
     box.after(chain.box);
   } else {
     panel.fieldsBox.querySelector("legend").after(chain.box);
   }
-  const demoNote = el("p", { class: "demo-note", role: "status", hidden: "" });
-  panel.output.prepend(demoNote);
-  panel.onChange(() => {
-    if (!panel.demoLabel) demoNote.hidden = true;
-  });
 
   const applyVisibility = panel.fields.showWhen(VISIBLE_WHEN);
 
@@ -480,21 +470,13 @@ export function mount(root, { engine, description }) {
   const baseKnows = panel.knows.bind(panel);
   const baseDescribe = panel.describeInputs.bind(panel);
   panel.inputs = () => ({ ...panel.fields.values(), stages: chain.get() });
-  // the demo in use travels with the inputs, so a shared link is still marked as invented data
   panel.getState = () => {
     const state = { ...baseGet(), stages: chain.get() };
     if (state.spectrum_source !== "csv") for (const name of SPECTRUM_FIELDS) delete state[name];
-    return panel.demoLabel ? { ...state, demo: panel.demoId } : state;
+    return state;
   };
-  panel.knows = (name) => name === "demo" || name === "stages" || baseKnows(name);
+  panel.knows = (name) => name === "stages" || baseKnows(name);
   panel.setState = (values) => {
-    const demo = demos.find((d) => d.id === values.demo);
-    if (demo) {
-      panel.demoLabel = demo.label;
-      panel.demoId = demo.id;
-      demoNote.textContent = `Showing: ${demo.label}. ${demo.description || ""}`;
-      demoNote.hidden = false;
-    }
     if (Object.hasOwn(values, "stages")) chain.set(values.stages);
     const csv = panel.fields.handles.get("csv_text");
     if (csv && Object.hasOwn(values, "csv_text")) csv.set(typeof values.csv_text === "string" ? values.csv_text : null, "spectrum from the link or file");
@@ -513,15 +495,4 @@ export function mount(root, { engine, description }) {
 
   panel.body.append(summaryBox, stageBox, penetrationFigure.figure, spectrumSection, detailBox);
   return panel;
-}
-
-function chartFigure(idBase, captionText, buttonText, filename, getChart) {
-  const figure = el("figure", { class: "chart-card" });
-  const box = el("div", { class: "chart-box" });
-  const canvas = el("canvas", { id: `${idBase}-canvas`, role: "img", "aria-label": captionText });
-  box.append(canvas);
-  const save = el("button", { type: "button", class: "secondary" }, buttonText);
-  save.addEventListener("click", () => getChart() && exportChart(getChart(), filename));
-  figure.append(box, el("figcaption", {}, captionText), save);
-  return { figure, canvas };
 }
