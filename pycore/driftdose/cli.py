@@ -694,15 +694,6 @@ def _groups(row: dict[str, Any]) -> dict[str, list[dict[str, Any]]]:
     }
 
 
-def _results_csv(reply: dict[str, Any], stderr: TextIO) -> str:
-    """The page's results CSV (:func:`driftdose.export.results_csv`) of the reply.
-
-    Results that are tables (a row per stage, per bin) follow the rows as their own blocks.
-    """
-    _ = stderr
-    return export.results_csv(reply)
-
-
 def _write(path: str | None, text: str, stdout: TextIO) -> None:
     if path in (None, "-"):
         stdout.write(text)
@@ -790,7 +781,7 @@ def _compute(
     if opts.format == "json":
         text = json.dumps(reply, indent=2, ensure_ascii=False) + "\n"
     elif opts.format == "csv":
-        text = _results_csv(reply, stderr)  # the page's "Download results (CSV)", byte for byte
+        text = export.results_csv(reply)  # the page's "Download results (CSV)", byte for byte
         for w in reply.get("warnings", []):
             stderr.write(f"warning: {w}\n")
     else:
