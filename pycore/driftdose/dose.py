@@ -25,9 +25,10 @@ from dataclasses import dataclass, field
 
 from .deposition import REGIONS as ICRP_REGIONS
 from .deposition import Subject, icrp66_curves, simplified_icrp
+from .deposition.icrp66 import THERMODYNAMIC_CONVENTIONS
 from .deposition.simplified import REGIONS as SIMPLE_REGIONS
 from .distribution import WEIGHTS, Distribution
-from .particle import aerodynamic_diameter
+from .particle import aerodynamic_diameter, mobility_diameter
 
 __all__ = [
     "DURATION_MAX",
@@ -42,10 +43,6 @@ MODELS = ("icrp66", "simplified")
 
 DURATION_MAX = 24 * 3600.0
 """Longest exposure duration accepted, one day. [s]"""
-
-SIMPLIFIED_AERODYNAMIC_FROM = 0.5e-6
-"""Size from which the simplified fits are entered with the aerodynamic diameter; below it
-with the physical diameter (Hinds 1999, chapter 11, as recalled). [m]"""
 
 
 def model_regions(model: str) -> tuple[str, ...]:
@@ -85,6 +82,8 @@ class DoseResult:
     benchmark : dict
         Ratios of the airborne concentration to the benchmarks entered (``number``,
         ``mass``), only for those given. [-]
+    thermodynamic : str
+        How the shape factor entered diffusion (``icrp66`` or ``mobility``).
 
     """
 
@@ -98,6 +97,7 @@ class DoseResult:
     rates: dict[str, dict[str, float]]
     doses: dict[str, dict[str, float]]
     benchmark: dict[str, float] = field(default_factory=dict)
+    thermodynamic: str = "icrp66"
 
 
 def _modes(distribution: Distribution) -> tuple:
@@ -105,13 +105,15 @@ def _modes(distribution: Distribution) -> tuple:
 
 
 def _simplified_curves(
-    diameters: list[float], density: float, shape_factor: float
+    diameters: list[float], density: float, shape_factor: float, thermodynamic: str
 ) -> dict[str, list[float]]:
+    """Simplified fits with diffusion terms on the thermodynamic diameter and inertial terms
+    on the aerodynamic one (see :func:`~driftdose.deposition.simplified_icrp`)."""
     out: dict[str, list[float]] = {k: [] for k in (*SIMPLE_REGIONS, "total")}
     for d in diameters:
         d_ae = aerodynamic_diameter(d, density, shape_factor)
-        x = d_ae if d_ae >= SIMPLIFIED_AERODYNAMIC_FROM else d
-        r = simplified_icrp(x)
+        d_th = d if thermodynamic == "icrp66" else mobility_diameter(d, shape_factor)
+        r = simplified_icrp(d_th, d_ae)
         for k in out:
             out[k].append(r[k])
     return out
@@ -123,12 +125,22 @@ def deposition_curves(
     density: float,
     shape_factor: float,
     subject: Subject,
+    thermodynamic: str = "icrp66",
 ) -> dict[str, list[float]]:
-    """Deposition fractions of a model at volume-equivalent ``diameters`` [m] (by region)."""
+    """Deposition fractions of a model at volume-equivalent ``diameters`` [m] (by region).
+
+    ``thermodynamic`` says how the shape factor enters diffusion: ``icrp66`` (published
+    convention, default) or ``mobility`` (see :mod:`driftdose.deposition.icrp66`).
+    """
+    if thermodynamic not in THERMODYNAMIC_CONVENTIONS:
+        raise ValueError(
+            f"unknown thermodynamic convention {thermodynamic!r}; valid: "
+            + ", ".join(THERMODYNAMIC_CONVENTIONS)
+        )
     if model == "icrp66":
-        return icrp66_curves(diameters, density, shape_factor, subject)
+        return icrp66_curves(diameters, density, shape_factor, subject, thermodynamic=thermodynamic)
     if model == "simplified":
-        return _simplified_curves(diameters, density, shape_factor)
+        return _simplified_curves(diameters, density, shape_factor, thermodynamic)
     raise ValueError(f"unknown model {model!r}; valid: {', '.join(MODELS)}")
 
 
@@ -140,6 +152,7 @@ def deposited_dose(
     benchmark_number: float | None = None,
     benchmark_mass: float | None = None,
     step: float | None = None,
+    thermodynamic: str = "icrp66",
 ) -> DoseResult:
     """Deposited number, surface area and mass per region over an exposure.
 
@@ -162,6 +175,8 @@ def deposited_dose(
     step : float, optional
         Integration grid step in ln d for lognormal modes (default: see
         :meth:`~driftdose.distribution.LognormalMode.grid`).
+    thermodynamic : str
+        How the shape factor enters diffusion: ``icrp66`` (default) or ``mobility``.
 
     Returns
     -------
@@ -186,7 +201,9 @@ def deposited_dose(
     sums = {r: dict.fromkeys(WEIGHTS, 0.0) for r in regions}
     for mode in _modes(distribution):
         sizes = mode.grid(step)
-        curves = deposition_curves(model, sizes, mode.density, mode.shape_factor, subject)
+        curves = deposition_curves(
+            model, sizes, mode.density, mode.shape_factor, subject, thermodynamic
+        )
         for w in WEIGHTS:
             quad = mode.quadrature(w, step)
             for r in regions:
@@ -208,5 +225,15 @@ def deposited_dose(
             raise ValueError("benchmark_mass must be positive")
         bench["mass"] = ambient["mass"] / benchmark_mass
     return DoseResult(
-        model, regions, duration, ventilation, volume, ambient, fractions, rates, doses, bench
+        model,
+        regions,
+        duration,
+        ventilation,
+        volume,
+        ambient,
+        fractions,
+        rates,
+        doses,
+        bench,
+        thermodynamic,
     )

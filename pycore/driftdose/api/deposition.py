@@ -278,6 +278,22 @@ FIELDS: tuple[Field, ...] = (
         ),
     ),
     Field(
+        "thermodynamic_convention",
+        "Shape factor in diffusion",
+        "choice",
+        "icrp66",
+        choices=(
+            ("icrp66", "As ICRP 66: diffusion of a sphere of the volume-equivalent diameter"),
+            ("mobility", "In the mobility too: diffusion of the mobility-equivalent sphere"),
+        ),
+        help=(
+            "The shape factor always enters the aerodynamic diameter. ICRP 66 computes "
+            "diffusion for a sphere of the volume-equivalent diameter, and its own tables "
+            "follow from that; the second choice also slows diffusion by the shape factor "
+            "(physically fuller, but it departs from the published model)."
+        ),
+    ),
+    Field(
         "breathing",
         "Breathing",
         "choice",
@@ -590,6 +606,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             model,
             benchmark_number=v.get("benchmark_number"),
             benchmark_mass=v.get("benchmark_mass"),
+            thermodynamic=v["thermodynamic_convention"],
         )
     except ValueError as exc:
         raise FieldError("", str(exc)) from None
@@ -695,7 +712,7 @@ def _curves(
     dist: Any, subject: Subject, model: str, rho: float, chi: float, res: DoseResult
 ) -> dict[str, Any]:
     xs = logspace(*CURVE_RANGE, CURVE_POINTS)
-    dep = deposition_curves(model, xs, rho, chi, subject)
+    dep = deposition_curves(model, xs, rho, chi, subject, res.thermodynamic)
     x_um = [x * 1e6 for x in xs]
     series = {
         r: {"label": REGION_LABELS[r], "x": x_um, "y": [min(1.0, max(0.0, y)) for y in dep[r]]}
@@ -769,9 +786,16 @@ def _warnings(
     if model == "simplified":
         out.append(
             "The simplified fits describe unit-density spheres averaged over breathing "
-            "conditions; they are entered with the aerodynamic diameter above 0.5 µm and the "
-            "physical diameter below, and ignore the breathing chosen except for the "
-            "ventilation."
+            "conditions; for other particles their diffusion terms are entered with the "
+            "volume-equivalent (thermodynamic) diameter and their impaction and settling "
+            "terms with the aerodynamic diameter, and they ignore the breathing chosen "
+            "except for the ventilation."
+        )
+    if v["thermodynamic_convention"] == "mobility" and v["shape_factor"] != 1.0:
+        out.append(
+            "Diffusion is computed with the shape factor in the mobility (mobility-equivalent "
+            "sphere); ICRP 66 and its tables use a sphere of the volume-equivalent diameter, "
+            "so results for fine particles are lower than the published model's."
         )
     labels = {"number": "number", "mass": "mass"}
     for metric, ratio in res.benchmark.items():
