@@ -34,6 +34,11 @@ SOURCES: dict[str, str] = {
         "Hinds, W. C. (1999). Aerosol Technology, 2nd ed. Wiley, New York (chapters 3, 5, 7: "
         "settling, relaxation time, stopping distance, aerodynamic diameter, diffusion)."
     ),
+    "clift_gauvin1970": (
+        "Clift, R., Gauvin, W. H. (1970). Proc. Chemeca '70, 1:14-28; as given by Clift, "
+        "Grace & Weber (1978), Bubbles, Drops and Particles, Table 5.2 (drag of a sphere to "
+        "Re 3e5, for settling and, integrated in the equation of motion, stopping distance)."
+    ),
     "schiller_naumann1933": (
         "Schiller, L., Naumann, A. (1933). Z. Ver. Dtsch. Ing. 77:318-320 (drag beyond the "
         "Stokes regime, Re < 800; see Clift, Grace & Weber 1978, Bubbles, Drops and Particles)."

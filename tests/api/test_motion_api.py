@@ -37,6 +37,9 @@ RESULT_KEYS = {
     "crossover_diameter",
     "brownian_time",
     "settling_time",
+    "settling_model",
+    "initial_reynolds_number",
+    "stopping_model",
 }
 
 CASES = {
@@ -256,9 +259,22 @@ def test_handle_motion_warnings_for_short_time_and_large_re() -> None:
     )
     assert reply["ok"] is True
     text = " ".join(reply["warnings"])
-    assert "800" in text  # beyond the Schiller & Naumann range
+    # Re ~ 1800: beyond Schiller & Naumann's 800 but inside Clift & Gauvin's range (Clift,
+    # Grace & Weber 1978 Table 5.2): the reply names the drag law, no extrapolation warning
+    assert "Clift & Gauvin" in text
+    assert "extrapolated" not in text
     assert "relaxation times" in text
     assert "100 \u00b5m" in text
+    assert "Clift & Gauvin" in reply["results"]["settling_model"]["text"]
+    assert "equation of motion" in reply["results"]["stopping_model"]["text"]
+
+
+def test_handle_motion_names_stokes_regime_for_small_particles() -> None:
+    # Hinds (1999) ch. 3: a 1 um unit-density sphere settles at Re ~ 2e-6, Stokes's regime
+    reply = handle({"kind": "motion", "inputs": {"particle_diameter": {"value": 1, "unit": "um"}}})
+    assert reply["ok"] is True
+    assert reply["results"]["settling_model"]["text"].startswith("Stokes")
+    assert reply["results"]["initial_reynolds_number"]["si"] < 0.1
 
 
 def test_handle_motion_aerodynamic_too_small_is_a_field_error() -> None:

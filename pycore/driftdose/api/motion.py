@@ -123,6 +123,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     t_b = particle.brownian_time(d, L, T, P, chi)
     t_s = particle.settling_time(d, L, rho, T, P, chi)
     stop = particle.stopping_distance(d, v["initial_velocity"], rho, T, P, chi)
+    re0 = particle.reynolds_number(d, v["initial_velocity"], T, P)
     ratio = x_b / x_s
 
     results = {
@@ -142,8 +143,13 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "reynolds_number": quantity(
             "Particle Reynolds number at settling", re, None, "–", symbol="Re"
         ),
+        "settling_model": text_result("Settling velocity from", particle.settling_regime(re)),
         "relaxation_time": quantity("Relaxation time", tau, None, "s", symbol="τ"),
         "stopping_distance": quantity("Stopping distance", stop, "length", symbol="S"),
+        "initial_reynolds_number": quantity(
+            "Particle Reynolds number at the initial velocity", re0, None, "–", symbol="Re₀"
+        ),
+        "stopping_model": text_result("Stopping distance from", particle.stopping_regime(re0)),
         "rms_displacement": quantity(
             "Brownian rms displacement (one direction)", x_b, "length", symbol="√(2Dt)"
         ),
@@ -166,14 +172,16 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     return {
         "results": results,
         "curves": _curves(v, d_ae if aerodynamic else d, d_cross, x_b, x_s),
-        "warnings": _warnings(d, re, tau, t, d_cross, cc),
+        "warnings": _warnings(d, re, tau, t, d_cross, cc)
+        + particle.settling_warnings(d, rho, T, P, chi)
+        + _stopping_warnings(re0),
         "sources": cite(
             "sutherland_ussa1976",
             "willeke1976",
             "kim2005",
             "einstein1905",
             "hinds1999",
-            "schiller_naumann1933",
+            "clift_gauvin1970",
         ),
     }
 
@@ -225,6 +233,15 @@ def _curves(
     return curves
 
 
+def _stopping_warnings(re0: float) -> list[str]:
+    if re0 <= particle.CLIFT_GAUVIN_RE_MAX:
+        return []
+    return [
+        f"Initial Reynolds number {re0:.3g} exceeds 3e5, the upper limit of the Clift & "
+        "Gauvin (1970) drag law; the stopping distance is extrapolated."
+    ]
+
+
 def _warnings(
     d: float, re: float, tau: float, t: float, d_cross: float | None, cc: float
 ) -> list[str]:
@@ -235,15 +252,10 @@ def _warnings(
             "extrapolated beyond the range of the Kim et al. (2005) fit, and molecular "
             "clusters may not behave as rigid spheres."
         )
-    if re > particle.SCHILLER_NAUMANN_RE_MAX:
-        out.append(
-            f"Particle Reynolds number {re:.3g} exceeds 800, the upper limit of the "
-            "Schiller & Naumann drag fit; the settling velocity is extrapolated."
-        )
-    elif re > 0.1:
+    if particle.STOKES_RE_MAX < re <= particle.CLIFT_GAUVIN_RE_MAX:
         out.append(
             f"Particle Reynolds number {re:.2g} is beyond the Stokes regime (0.1); the "
-            "settling velocity includes the Schiller & Naumann drag correction."
+            "settling velocity includes the Clift & Gauvin (1970) drag correction."
         )
     if t < 100.0 * tau:
         out.append(

@@ -10,8 +10,9 @@ export const title = "How it moves";
 const TABLE_KEYS = [
   "volume_equivalent_diameter", "aerodynamic_diameter", "dominant", "rms_displacement",
   "settling_distance", "displacement_ratio", "crossover_diameter", "brownian_time", "settling_time",
-  "diffusion_coefficient", "settling_velocity", "slip_correction", "knudsen_number", "mean_free_path",
-  "mobility", "relaxation_time", "stopping_distance", "reynolds_number", "air_viscosity",
+  "diffusion_coefficient", "settling_velocity", "settling_model", "slip_correction", "knudsen_number",
+  "mean_free_path", "mobility", "relaxation_time", "stopping_distance", "initial_reynolds_number",
+  "stopping_model", "reynolds_number", "air_viscosity",
 ];
 
 const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
