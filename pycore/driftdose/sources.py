@@ -118,6 +118,21 @@ SOURCES: dict[str, str] = {
         "fibrous filters. In Shaw, D. T. (ed.), Fundamentals of Aerosol Science. Wiley, "
         "New York (fan model hydrodynamic factor)."
     ),
+    "decarlo2004": (
+        "DeCarlo, P. F., Slowik, J. G., Worsnop, D. R., Davidovits, P., Jimenez, J. L. (2004). "
+        "Particle morphology and density characterization by combined mobility and "
+        "aerodynamic diameter measurements. Part 1: Theory. Aerosol Sci. Technol. "
+        "38:1185-1205 (mobility, volume-equivalent and aerodynamic diameters with slip and "
+        "the dynamic shape factor; effective density)."
+    ),
+    "ldsa_fissan2007": (
+        "Fissan, H., Neumann, S., Trampe, A., Pui, D. Y. H., Shin, W. G. (2007). Rationale "
+        "and principle of an instrument measuring lung deposited nanoparticle surface area. "
+        "J. Nanopart. Res. 9:53-59; Asbach, C. et al. (2009). Conceptual limitations and "
+        "extensions of lung-deposited Nanoparticle Surface Area Monitor (NSAM). J. Nanopart. "
+        "Res. 11:101-109 (LDSA: airborne surface area times the regional deposition "
+        "fraction of ICRP 66; cited from memory)."
+    ),
     "landahl_herrmann1949": (
         "Landahl, H. D., Herrmann, K. (1949). Sampling of liquid aerosols by wires, "
         "cylinders and slides, and the efficiency of impaction of the droplets. J. Colloid "

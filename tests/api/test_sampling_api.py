@@ -245,7 +245,7 @@ def test_sampling_spectrum_csv_equals_deposition_import() -> None:
     inputs = csv_spectrum(text, csv_diameter_column="size", csv_concentration_column="dNdlogDp")
     reply = handle(request([TUBE], **inputs))
     assert reply["ok"] is True, reply.get("errors")
-    binned, _ = deposition_api._parse_csv(
+    binned, _ = deposition_api._import_csv(
         {
             "csv_text": text,
             "csv_diameter_column": "size",
@@ -253,9 +253,7 @@ def test_sampling_spectrum_csv_equals_deposition_import() -> None:
             "csv_concentration_type": "dN/dlogDp",
             "csv_diameter_unit": "nm",
             "csv_concentration_unit": "1/cm3",
-        },
-        1000.0,
-        1.0,
+        }
     )
     rows = reply["results"]["spectrum_table"]["rows"]
     assert [r["measured"] for r in rows] == pytest.approx([n / 1e6 for n in binned.numbers])
@@ -383,7 +381,7 @@ def test_sampling_reports_several_faulty_stages_at_once() -> None:
             id="unknown-unit",
         ),
         pytest.param(
-            {"csv_text": "10;1\n20;3\n", "spectrum_diameter_type": "optical"},
+            {"csv_text": "10;1\n20;3\n", "spectrum_diameter_type": "stokes"},
             "spectrum_diameter_type",
             id="unknown-diameter-type",
         ),

@@ -50,7 +50,9 @@ def _assert_cells_match(page, reply: dict) -> int:
 def test_lognormal_mode_by_labels_matches_core(page, base_url):
     _open(page, base_url)
     panel = page.locator(PANEL)
-    panel.get_by_label("Median diameter (CMD, or MMAD for a mass mode)", exact=True).fill("80")
+    panel.get_by_label(
+        "Median diameter: count median (count mode) or mass median (mass mode)", exact=True
+    ).fill("80")
     panel.get_by_label("Geometric standard deviation", exact=True).fill("2")
     panel.get_by_label("Particle density", exact=True).fill("2.5")
     panel.get_by_label("Exposure duration", exact=True).fill("6")
@@ -85,8 +87,13 @@ def test_add_second_mode_and_mass_basis(page, base_url):
     panel.get_by_role("button", name="Add a mode").click()
     second = panel.locator("fieldset.item").nth(1)
     second.get_by_label("Mode given by").select_option("mass")
-    second.get_by_label("Median diameter (CMD, or MMAD for a mass mode)", exact=True).fill("5")
-    second.get_by_label("Median diameter (CMD, or MMAD for a mass mode) unit").select_option("um")
+    second.get_by_label("The median is a diameter of type").select_option("aerodynamic")
+    second.get_by_label(
+        "Median diameter: count median (count mode) or mass median (mass mode)", exact=True
+    ).fill("5")
+    second.get_by_label(
+        "Median diameter: count median (count mode) or mass median (mass mode) unit"
+    ).select_option("um")
     second.get_by_label(
         "Concentration (number for count modes, mass for mass modes)", exact=True
     ).fill("1")
@@ -109,6 +116,7 @@ def test_add_second_mode_and_mass_basis(page, base_url):
                     {
                         "basis": "mass",
                         "median": {"value": "5", "unit": "um"},
+                        "diameter_type": "aerodynamic",
                         "gsd": "1.8",
                         "concentration": {"value": "1", "unit": "mg/m3"},
                     },

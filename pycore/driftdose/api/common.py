@@ -7,7 +7,14 @@ from __future__ import annotations
 
 from .fields import Field
 
-__all__ = ["PARTICLE_DENSITY", "PRESSURE", "SHAPE_FACTOR", "TEMPERATURE"]
+__all__ = [
+    "DENSITY_BASIS",
+    "DIAMETER_TYPE_CHOICES",
+    "PARTICLE_DENSITY",
+    "PRESSURE",
+    "SHAPE_FACTOR",
+    "TEMPERATURE",
+]
 
 PARTICLE_DENSITY = Field(
     "particle_density",
@@ -19,6 +26,28 @@ PARTICLE_DENSITY = Field(
     maximum=25000.0,
     help="Material density of the particles (1 g/cm³ for unit-density spheres).",
 )
+
+DENSITY_BASIS = Field(
+    "density_basis",
+    "Density given as",
+    "choice",
+    "material",
+    choices=(
+        ("material", "Particle (material) density: compact particles"),
+        ("effective", "Effective density (mass ÷ volume of the mobility sphere): agglomerates"),
+    ),
+    help="Agglomerates (fume, soot, nanopowders): give the effective density measured with "
+    "mobility sizing (DeCarlo et al. 2004); the models then use the sphere with the "
+    "particle's mobility and mass.",
+)
+
+DIAMETER_TYPE_CHOICES: tuple[tuple[str, str], ...] = (
+    ("volume_equivalent", "volume-equivalent (geometric, e.g. microscopy)"),
+    ("optical", "optical, light scattering (taken as volume-equivalent)"),
+    ("mobility", "electrical mobility (differential mobility sizing)"),
+    ("aerodynamic", "aerodynamic (impactor, time-of-flight sizing)"),
+)
+"""Which equivalent diameter a measured size is (keys of ``diameters.DIAMETER_TYPES``)."""
 
 SHAPE_FACTOR = Field(
     "shape_factor",

@@ -19,18 +19,19 @@ import math
 from dataclasses import replace
 from typing import Any
 
-from .. import particle
 from .._numerics import logspace
 from ..conventions import convention_shares
 from ..deposition import Subject, activity, reference_worker
 from ..deposition.icrp66 import BreathingPattern
 from ..deposition.icrp66 import warnings_for as icrp66_warnings
 from ..deposition.simplified import validity_warnings as simplified_warnings
+from ..diameters import ParticleDescription
 from ..distribution import GSD_MAX, MAX_MODES, BinnedSpectrum, LognormalMode, Multimodal
 from ..dose import DoseResult, deposited_dose, deposition_curves
+from ..ldsa import lung_deposited_surface_area
 from ..sources import cite
 from ..spectrum import MAX_BYTES, SpectrumError, parse_spectrum_csv
-from .common import PARTICLE_DENSITY, SHAPE_FACTOR
+from .common import DENSITY_BASIS, DIAMETER_TYPE_CHOICES, PARTICLE_DENSITY, SHAPE_FACTOR
 from .fields import Field, FieldError
 from .reply import text_result
 from .units import canonical_unit, to_si, unit_label
@@ -83,12 +84,14 @@ DEMOS: tuple[dict[str, Any], ...] = (
                 {
                     "basis": "count",
                     "median": {"value": 40, "unit": "nm"},
+                    "diameter_type": "volume_equivalent",
                     "gsd": 1.7,
                     "concentration": {"value": 150000, "unit": "1/cm3"},
                 },
                 {
                     "basis": "count",
                     "median": {"value": 250, "unit": "nm"},
+                    "diameter_type": "volume_equivalent",
                     "gsd": 1.6,
                     "concentration": {"value": 8000, "unit": "1/cm3"},
                 },
@@ -111,6 +114,7 @@ DEMOS: tuple[dict[str, Any], ...] = (
                 {
                     "basis": "mass",
                     "median": {"value": 6, "unit": "um"},
+                    "diameter_type": "aerodynamic",
                     "gsd": 2.2,
                     "concentration": {"value": 2.0, "unit": "mg/m3"},
                 }
@@ -164,15 +168,24 @@ _MODE_SCHEMA = {
             "kind": "choice",
             "choices": [
                 {"value": "count", "label": "Count (CMD, number concentration)"},
-                {"value": "mass", "label": "Mass (MMAD, mass concentration)"},
+                {"value": "mass", "label": "Mass (mass median, mass concentration)"},
             ],
         },
         {
             "name": "median",
-            "label": "Median diameter (CMD, or MMAD for a mass mode)",
+            "label": "Median diameter: count median (count mode) or mass median (mass mode)",
             "kind": "length",
             "units": ["nm", "um"],
             "range": "from 1 nm to 100 µm",
+        },
+        {
+            "name": "diameter_type",
+            "label": "The median is a diameter of type",
+            "kind": "choice",
+            "choices": [{"value": v, "label": lab} for v, lab in DIAMETER_TYPE_CHOICES],
+            "help": "Mass mode: aerodynamic gives the MMAD, volume-equivalent the geometric "
+            "mass median. Left out: volume-equivalent for a count mode, aerodynamic for a "
+            "mass mode.",
         },
         {"name": "gsd", "label": "Geometric standard deviation", "kind": "dimensionless"},
         {
@@ -202,13 +215,14 @@ FIELDS: tuple[Field, ...] = (
             {
                 "basis": "count",
                 "median": {"value": 50, "unit": "nm"},
+                "diameter_type": "volume_equivalent",
                 "gsd": 1.8,
                 "concentration": {"value": 10000, "unit": "1/cm3"},
             }
         ],
         required=False,
-        help="Up to four modes, each by count (CMD, GSD, number concentration) or by mass "
-        "(MMAD, GSD, mass concentration).",
+        help="Up to four modes, each by count (count median, GSD, number concentration) or "
+        "by mass (mass median, GSD, mass concentration); say which diameter each median is.",
         extra=_MODE_SCHEMA,
     ),
     Field(
@@ -255,6 +269,16 @@ FIELDS: tuple[Field, ...] = (
         choices=(("nm", "nm"), ("um", "µm"), ("m", "m")),
     ),
     Field(
+        "spectrum_diameter_type",
+        "Diameters in the file are",
+        "choice",
+        "volume_equivalent",
+        choices=DIAMETER_TYPE_CHOICES,
+        help="The instrument's diameter: mobility for differential mobility sizers, "
+        "aerodynamic for impactors and time-of-flight sizers, optical for light-scattering "
+        "counters.",
+    ),
+    Field(
         "csv_concentration_unit",
         "Concentration unit in the file",
         "choice",
@@ -264,8 +288,10 @@ FIELDS: tuple[Field, ...] = (
     ),
     replace(
         PARTICLE_DENSITY,
-        help="Material density of the particles (applies to every mode or bin).",
+        help="Material density, or the effective density if chosen below (applies to every "
+        "mode or bin).",
     ),
+    DENSITY_BASIS,
     replace(SHAPE_FACTOR, help="1 for spheres; ICRP's default worker aerosol uses 1.5."),
     Field(
         "model",
@@ -422,7 +448,17 @@ def _quantity_in(
     raise FieldError(field, f"{where}: unknown unit {str(unit)[:20]!r}; use one of {offered}.")
 
 
-def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
+_TYPE_WORDS = {
+    "volume_equivalent": "volume-equivalent",
+    "optical": "optical",
+    "mobility": "mobility",
+    "aerodynamic": "aerodynamic",
+}
+_COORDINATE_WORDS = {"volume_equivalent": "volume-equivalent", "mobility": "mobility-equivalent"}
+
+
+def _parse_modes(raw: Any, desc: ParticleDescription) -> tuple[Multimodal, list[dict[str, Any]]]:
+    """The modes as the models see them, and per mode what was entered (basis, type)."""
     field = "modes"
     if not isinstance(raw, list) or not raw:
         raise FieldError(field, "Give at least one lognormal mode.")
@@ -431,6 +467,7 @@ def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
             field, f"At most {MAX_MODES} modes can be combined; {len(raw)} were given."
         )
     modes = []
+    entered: list[dict[str, Any]] = []
     for i, m in enumerate(raw, start=1):
         where = f"Mode {i}"
         if not isinstance(m, dict):
@@ -438,6 +475,14 @@ def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
         basis = m.get("basis", "count")
         if basis not in ("count", "mass"):
             raise FieldError(field, f"{where}: basis must be count or mass.")
+        d_type = m.get("diameter_type")
+        if d_type is None:  # links and files from before the choice existed
+            d_type = "volume_equivalent" if basis == "count" else "aerodynamic"
+        if not isinstance(d_type, str) or d_type not in _TYPE_WORDS:
+            raise FieldError(
+                field,
+                f"{where}: the diameter type must be one of {', '.join(_TYPE_WORDS)}.",
+            )
         med = _quantity_in(m.get("median"), ("length",), f"{where} median diameter", field)
         assert med is not None
         median = med[0]
@@ -484,7 +529,12 @@ def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
                     f"{where}: a number concentration above 10⁹ per cm³ is not plausible "
                     "for a workplace aerosol; check the unit.",
                 )
-            modes.append(LognormalMode.from_count(median, gsd, conc, density, chi))
+            d_model = desc.to_model(median, d_type)
+            modes.append(
+                LognormalMode.from_count(
+                    d_model, gsd, conc, desc.model_density, desc.model_shape_factor
+                )
+            )
         else:
             if conc > MASS_MAX:
                 raise FieldError(
@@ -492,12 +542,47 @@ def _parse_modes(raw: Any, density: float, chi: float) -> Multimodal:
                     f"{where}: a mass concentration above 10 g/m³ is not plausible; check "
                     "the unit.",
                 )
-            mmd = particle.volume_equivalent_diameter(median, density, chi)
-            modes.append(LognormalMode.from_mass(mmd, gsd, conc, density, chi))
-    return Multimodal(tuple(modes))
+            d_model = desc.to_model(median, d_type)
+            modes.append(
+                LognormalMode.from_mass(
+                    d_model, gsd, conc, desc.model_density, desc.model_shape_factor
+                )
+            )
+        entered.append({"basis": basis, "diameter_type": d_type, "median": median})
+    return Multimodal(tuple(modes)), entered
 
 
-def _parse_csv(v: dict[str, Any], density: float, chi: float) -> tuple[Any, dict[str, Any]]:
+def _parse_csv(
+    v: dict[str, Any], desc: ParticleDescription, T: float = 293.15, P: float = 101325.0
+) -> tuple[BinnedSpectrum, dict[str, Any]]:
+    """The imported spectrum with its diameters turned into the models' diameters.
+
+    Each bin keeps its particles; its mid-point is converted from the file's diameter type
+    (``spectrum_diameter_type``) by :meth:`ParticleDescription.to_model`, which is monotone,
+    so the bins stay in order.
+    """
+    imported, report = _import_csv(v)
+    d_type = v.get("spectrum_diameter_type") or "volume_equivalent"
+    diameters = imported.diameters
+    if d_type != desc.coordinate and not (
+        desc.coordinate == "volume_equivalent" and d_type == "optical"
+    ):
+        diameters = tuple(desc.to_model(d, d_type, T, P) for d in diameters)
+    try:
+        dist = BinnedSpectrum(
+            diameters, imported.numbers, desc.model_density, desc.model_shape_factor
+        )
+    except ValueError:
+        raise FieldError(
+            "csv_text",
+            "Two bins of the spectrum fall on the same size after conversion to the models' "
+            "diameter; merge them.",
+        ) from None
+    return dist, report
+
+
+def _import_csv(v: dict[str, Any]) -> tuple[Any, dict[str, Any]]:
+    """Read the spectrum CSV fields as given in the file (no diameter conversion)."""
     text = v.get("csv_text")
     if text is None:
         raise FieldError("csv_text", "Choose a CSV file with the measured spectrum.")
@@ -543,7 +628,7 @@ def _parse_csv(v: dict[str, Any], density: float, chi: float) -> tuple[Any, dict
             "The spectrum adds up to more than 10⁹ particles per cm³; check the "
             "concentration unit and type.",
         )
-    return imported.to_distribution(density, chi), imported.report
+    return imported, imported.report
 
 
 def _subject(v: dict[str, Any]) -> Subject:
@@ -589,12 +674,16 @@ _WEIGHT_LABEL = {"number": "number", "surface": "surface area", "mass": "mass"}
 
 def run(v: dict[str, Any]) -> dict[str, Any]:
     """Compute the deposition reply from validated SI inputs."""
-    rho, chi = v["particle_density"], v["shape_factor"]
+    desc = ParticleDescription(
+        v["particle_density"], v["shape_factor"], v.get("density_basis") or "material"
+    )
+    rho, chi = desc.model_density, desc.model_shape_factor
     report = None
+    entered: list[dict[str, Any]] = []
     if v["distribution_source"] == "lognormal":
-        dist = _parse_modes(v.get("modes"), rho, chi)
+        dist, entered = _parse_modes(v.get("modes"), desc)
     else:
-        dist, report = _parse_csv(v, rho, chi)
+        dist, report = _parse_csv(v, desc)
     subject = _subject(v)
     model = v["model"]
     duration = v["exposure_duration"]
@@ -610,17 +699,34 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         )
     except ValueError as exc:
         raise FieldError("", str(exc)) from None
-    warnings = _warnings(dist, subject, model, res, v)
+    warnings = _warnings(dist, subject, model, res, v) + _basis_warnings(dist, desc)
     if report is not None:
         warnings.extend(f"CSV import: {n}" for n in report["notes"])
-    sources = ["icrp66", "hatch_choate1929", "iso7708", "kim2005", "einstein1905"]
+    sources = [
+        "icrp66",
+        "hatch_choate1929",
+        "iso7708",
+        "kim2005",
+        "einstein1905",
+        "ldsa_fissan2007",
+    ]
+    if (
+        desc.basis == "effective"
+        or any(e["diameter_type"] == "mobility" for e in entered)
+        or (report is not None and v.get("spectrum_diameter_type") == "mobility")
+    ):
+        sources.append("decarlo2004")
     if model == "simplified":
         sources.insert(1, "hinds1999_ch11")
     if v["breathing"] == "reference_worker":
         sources.insert(1, "icrp68")
     return {
-        "results": _results(res, subject, dist, report),
-        "curves": _curves(dist, subject, model, rho, chi, res),
+        "results": {
+            **_results(res, subject, dist, report),
+            **_ldsa_rows(res),
+            **_mode_rows(dist, entered, desc),
+        },
+        "curves": _curves(dist, subject, model, rho, chi, res, desc),
         "warnings": warnings,
         "sources": cite(*sources),
     }
@@ -708,8 +814,84 @@ def _results(
     return out
 
 
+_LDSA_LABELS = {
+    "alveolar": "alveolar",
+    "tracheobronchial": "tracheobronchial",
+    "total": "total (all regions)",
+}
+
+
+def _ldsa_rows(res: DoseResult) -> dict[str, Any]:
+    """LDSA rows: deposited particle surface per volume of inhaled air, in um^2/cm^3."""
+    ldsa = lung_deposited_surface_area(res)
+    return {
+        f"ldsa_{key}": _row(
+            f"Lung-deposited surface area, {_LDSA_LABELS[key]}",
+            ldsa[key],
+            1e-6,
+            "µm²/cm³",
+            "m²/m³",
+            "LDSA",
+            "airborne surface area × deposition fraction, per cm³ of inhaled air",
+        )
+        for key in ("alveolar", "tracheobronchial", "total")
+    }
+
+
+def _mode_rows(
+    dist: Any, entered: list[dict[str, Any]], desc: ParticleDescription
+) -> dict[str, Any]:
+    """Per mode: the medians the models use, the MMAD and both concentrations."""
+    out: dict[str, Any] = {}
+    modes = getattr(dist, "modes", ())
+    coord = _COORDINATE_WORDS[desc.coordinate]
+    for i, (mode, e) in enumerate(zip(modes, entered, strict=True), start=1):
+        given = (
+            f"from the {'count' if e['basis'] == 'count' else 'mass'} median entered as "
+            f"{_TYPE_WORDS[e['diameter_type']]}"
+        )
+        converted = e["diameter_type"] != desc.coordinate and not (
+            desc.coordinate == "volume_equivalent" and e["diameter_type"] == "optical"
+        )
+        note = given + ("; converted at the median, GSD kept" if converted else "")
+        mmd = mode.median("mass")
+        out[f"mode{i}_count_median"] = _row(
+            f"Mode {i}: count median diameter ({coord})",
+            mode.cmd,
+            1e-9,
+            "nm",
+            "m",
+            "CMD",
+            note,
+        )
+        out[f"mode{i}_mass_median"] = _row(
+            f"Mode {i}: mass median diameter ({coord})", mmd, 1e-6, "µm", "m", "MMD"
+        )
+        out[f"mode{i}_mmad"] = _row(
+            f"Mode {i}: mass median aerodynamic diameter",
+            desc.from_model(mmd, "aerodynamic"),
+            1e-6,
+            "µm",
+            "m",
+            "MMAD",
+        )
+        out[f"mode{i}_number"] = _row(
+            f"Mode {i}: number concentration", mode.number_concentration, 1e6, "1/cm³", "1/m³"
+        )
+        out[f"mode{i}_mass"] = _row(
+            f"Mode {i}: mass concentration", mode.total("mass"), 1e-9, "µg/m³", "kg/m³"
+        )
+    return out
+
+
 def _curves(
-    dist: Any, subject: Subject, model: str, rho: float, chi: float, res: DoseResult
+    dist: Any,
+    subject: Subject,
+    model: str,
+    rho: float,
+    chi: float,
+    res: DoseResult,
+    desc: ParticleDescription,
 ) -> dict[str, Any]:
     xs = logspace(*CURVE_RANGE, CURVE_POINTS)
     dep = deposition_curves(model, xs, rho, chi, subject, res.thermodynamic)
@@ -742,7 +924,7 @@ def _curves(
             "per_hour": [res.rates[r][w] * 3600.0 / factor for r in res.regions],
         }
     return {
-        "x_label": "Particle diameter (volume-equivalent)",
+        "x_label": f"Particle diameter ({_COORDINATE_WORDS[desc.coordinate]})",
         "x_unit": "µm",
         "y_label": "Deposition fraction",
         "y_unit": "–",
@@ -770,6 +952,36 @@ def _overlay_density(dist: Any, xs: list[float], weight: str) -> list[float]:
     for x in xs:
         i = bisect.bisect_right(e, x) - 1
         out.append(per_ln_d[i] if 0 <= i < len(per_ln_d) else 0.0)
+    return out
+
+
+DENSEST_MATERIAL = 22.6e3
+"""Density of osmium, the densest element (common practice); an effective density and shape
+factor implying a denser material cannot describe one particle. [kg/m^3]"""
+
+
+def _basis_warnings(dist: Any, desc: ParticleDescription) -> list[str]:
+    """Notes on the effective-density description, and a check that it is possible."""
+    if desc.basis != "effective":
+        return []
+    modes = getattr(dist, "modes", None)
+    if modes is not None:
+        sizes = [d for m in modes for d in (m.cmd, m.median("mass"))]
+    else:
+        sizes = [dist.diameters[0], dist.diameters[-1]]
+    implied = max(desc.implied_material_density(d) for d in sizes)
+    out = [
+        "With an effective density the sizes are mobility diameters, and the models use the "
+        "sphere with the particles' mobility and mass (DeCarlo et al. 2004); surface areas, "
+        "and so the LDSA, are those of that sphere, less than the real surface of an "
+        "agglomerate of primary particles."
+    ]
+    if implied > DENSEST_MATERIAL:
+        out.append(
+            f"The effective density and shape factor do not fit together: with them a particle "
+            f"of this size would be made of a material of {implied / 1000.0:.3g} g/cm³, denser "
+            "than any element. Check both values."
+        )
     return out
 
 

@@ -40,9 +40,9 @@ import math
 from dataclasses import replace
 from typing import Any
 
-from .. import particle
 from .._numerics import logspace
 from ..deposition import REFERENCE_WORKER, icrp66_curves, simplified_icrp
+from ..diameters import ParticleDescription
 from ..sources import cite
 from ..transport import (
     Bend,
@@ -59,7 +59,7 @@ from ..transport.chain import UNRELIABLE_BELOW
 from ..transport.cyclone import ISO7708_MAX_DIAMETER
 from ..transport.impactor import DEFAULT_STEEPNESS
 from . import deposition as _deposition
-from .common import PARTICLE_DENSITY, PRESSURE, TEMPERATURE
+from .common import DENSITY_BASIS, PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
 from .fields import Field, FieldError, parse_fields
 from .reply import quantity, text_result
 from .units import auto_unit, from_si, unit_label
@@ -513,17 +513,7 @@ SPECTRUM_FIELDS: tuple[Field, ...] = (
         choices=(("none", "None"), ("csv", "Measured spectrum (CSV file)")),
         help="Correct a spectrum measured behind this chain for the chain's losses.",
     ),
-    *(_DEPOSITION_FIELDS[name] for name in _CSV_FIELD_NAMES),
-    Field(
-        "spectrum_diameter_type",
-        "Diameters in the file are",
-        "choice",
-        "volume_equivalent",
-        choices=(
-            ("volume_equivalent", "volume-equivalent (physical size of spheres)"),
-            ("aerodynamic", "aerodynamic"),
-        ),
-    ),
+    *(_DEPOSITION_FIELDS[name] for name in (*_CSV_FIELD_NAMES, "spectrum_diameter_type")),
 )
 
 FIELDS: tuple[Field, ...] = (
@@ -556,7 +546,21 @@ FIELDS: tuple[Field, ...] = (
         maximum=0.1,
         help="Used by every stage that does not set its own flow.",
     ),
-    replace(PARTICLE_DENSITY, help=""),
+    replace(
+        PARTICLE_DENSITY,
+        help="Density of the spheres, or the effective density of agglomerates if chosen below.",
+    ),
+    replace(
+        DENSITY_BASIS,
+        help="The stages treat particles as spheres. For agglomerates give the effective "
+        "density: the chain then acts on the sphere with the particle's mobility and mass "
+        "(DeCarlo et al. 2004), exact for diffusion, settling and impaction in Stokes flow.",
+    ),
+    replace(
+        SHAPE_FACTOR,
+        help="Used with an effective density only: turns volume-equivalent and optical "
+        "sizes of a spectrum into mobility sizes.",
+    ),
     TEMPERATURE,
     PRESSURE,
     Field(
@@ -660,27 +664,23 @@ def _make_stage(kind: str, v: dict[str, Any], q: float, name: str):
 
 
 def _parse_spectrum(
-    v: dict[str, Any], density: float, T: float, P: float
+    v: dict[str, Any], desc: ParticleDescription, T: float, P: float
 ) -> tuple[dict[str, Any], dict[str, Any]]:
     """Read the measured spectrum from the CSV fields; raise FieldError on a fault.
 
     The text goes through the deposition calculation's importer (same fields, checks and
     messages); the bins' concentrations become particles per bin, shown per cm^3.
     Aerodynamic diameters are turned into volume-equivalent ones for spheres of the
-    particle density at the air's T and P. Returns (bins, import report).
+    particle density at the air's T and P; mobility, volume-equivalent and optical ones into
+    the chain's diameter (:class:`~driftdose.diameters.ParticleDescription`). Returns (bins,
+    import report).
     """
-    imported, report = _deposition._parse_csv(v, 1000.0, 1.0)
+    imported, report = _deposition._import_csv(v)
     d_type = v["spectrum_diameter_type"]
     diameters = list(imported.diameters)
-    if d_type == "aerodynamic":
-        diameters_ve = [
-            particle.volume_equivalent_diameter(d, density, 1.0, T, P) for d in diameters
-        ]
-    else:
-        diameters_ve = diameters
     bins = {
         "diameters": diameters,
-        "diameters_ve": diameters_ve,
+        "diameters_model": [desc.to_model(d, d_type, T, P) for d in diameters],
         "values": [n / 1e6 for n in imported.numbers],  # per bin, shown per cm^3
         "unit": "particles/cm³ per bin",
         "diameter_type": d_type,
@@ -832,6 +832,10 @@ def _target_curve(target: str, xs_ae: list[float]) -> tuple[list[float | None], 
 def run(v: dict[str, Any]) -> dict[str, Any]:
     """Compute the sampling reply from validated SI inputs."""
     T, P, rho, flow = v["temperature"], v["pressure"], v["particle_density"], v["flow"]
+    basis = v.get("density_basis") or "material"
+    # the stages model spheres: with a material density the shape factor does not enter
+    desc = ParticleDescription(rho, v["shape_factor"] if basis == "effective" else 1.0, basis)
+    coord = "volume-equivalent" if basis == "material" else "mobility-equivalent"
     raw_stages = v["stages"]
     if not isinstance(raw_stages, list) or not raw_stages:
         raise FieldError("stages", "Add at least one stage to the sampling chain.")
@@ -845,7 +849,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     spectrum, csv_report = None, None
     if v["spectrum_source"] == "csv":
         try:
-            spectrum, csv_report = _parse_spectrum(v, rho, T, P)
+            spectrum, csv_report = _parse_spectrum(v, desc, T, P)
         except FieldError as exc:
             errors.append({"field": exc.field, "message": exc.message})
     if errors:
@@ -867,7 +871,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
 
     stage_rows = []
     curves: dict[str, Any] = {
-        "x_label": "Particle diameter (volume-equivalent)",
+        "x_label": f"Particle diameter ({coord})",
         "x_unit": "µm",
         "y_label": "Penetration",
         "y_unit": "–",
@@ -910,7 +914,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             f"Whole chain, {_length_text(d)}", chain.penetration(d, rho, T, P)
         )
     results["pass_band"] = text_result(
-        "Sizes passed with at least 50 %", _band_text(xs, result.overall), "volume-equivalent"
+        "Sizes passed with at least 50 %", _band_text(xs, result.overall), coord
     )
 
     target = v["target"]
@@ -958,7 +962,9 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         )
         warnings.extend(f"CSV import: {n}" for n in csv_report["notes"])
     if spectrum is not None:
-        corrected = correct_spectrum(chain, spectrum["diameters_ve"], spectrum["values"], rho, T, P)
+        corrected = correct_spectrum(
+            chain, spectrum["diameters_model"], spectrum["values"], rho, T, P
+        )
         shown = [s * 1e6 for s in spectrum["diameters"]]
         results["spectrum_table"] = {
             "label": "Measured spectrum corrected for the chain's losses",
@@ -992,7 +998,11 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             )
         curves["spectrum"] = {
             "x_label": "Diameter"
-            + (" (aerodynamic)" if spectrum["diameter_type"] == "aerodynamic" else ""),
+            + (
+                f" ({_deposition._TYPE_WORDS[spectrum['diameter_type']]})"
+                if spectrum["diameter_type"] != "volume_equivalent"
+                else ""
+            ),
             "x_unit": "µm",
             "y_label": "Concentration",
             "y_unit": spectrum["unit"],
@@ -1001,10 +1011,30 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             "unreliable": corrected.unreliable,
         }
 
-    if rho != 1000.0:
+    if basis == "effective":
+        warnings.append(
+            "Sizes on the chart are mobility diameters: the chain acts on spheres of the "
+            "mobility diameter and the effective density, which have the particles' mass, "
+            "mobility and aerodynamic diameter (DeCarlo et al. 2004); interception on screens "
+            "and drag beyond Stokes flow are those of that sphere."
+        )
+        if "decarlo2004" not in sources:
+            sources.append("decarlo2004")
+    elif rho != 1000.0:
         warnings.append(
             "Sizes on the chart are volume-equivalent diameters of spheres of the given "
             "density; cyclone curves and targets act on the aerodynamic diameter and are "
             "converted."
         )
+    if basis == "material" and v["shape_factor"] != 1.0:
+        warnings.append(
+            "The sampling stages treat particles as spheres: the shape factor is used only "
+            "with an effective density, and was not applied."
+        )
+    if (
+        spectrum is not None
+        and spectrum["diameter_type"] == "mobility"
+        and "decarlo2004" not in sources
+    ):
+        sources.append("decarlo2004")
     return {"results": results, "curves": curves, "warnings": warnings, "sources": cite(*sources)}

@@ -22,6 +22,7 @@ const VISIBLE_WHEN = {
   csv_concentration_type: ["distribution_source", ["csv"]],
   csv_diameter_unit: ["distribution_source", ["csv"]],
   csv_concentration_unit: ["distribution_source", ["csv"]],
+  spectrum_diameter_type: ["distribution_source", ["csv"]],
   activity: ["breathing", ["activity"]],
   route: ["breathing", ["reference_worker", "activity"]],
   tidal_volume: ["breathing", ["custom"]],
@@ -39,6 +40,8 @@ export function mount(root, { engine, description }) {
   let lastReply = null;
 
   const summaryBox = el("div", { class: "table-box" });
+  const modesBox = el("div", { class: "table-box", "data-part": "modes" });
+  const ldsaBox = el("div", { class: "table-box", "data-part": "ldsa" });
   const regionBox = el("div", { class: "table-box" });
   const metricSelect = el("select", { id: "deposition-metric" });
   for (const [value, label] of METRICS) metricSelect.append(el("option", { value }, label));
@@ -52,7 +55,7 @@ export function mount(root, { engine, description }) {
   );
 
   const fractionFigure = chartFigure("deposition-fraction",
-    "Deposition fraction in each region against particle size (ICRP region names), with your size distribution overlaid, scaled to a peak of 1.",
+    "Deposition fraction in each region against particle size (ICRP region names), with your size distribution overlaid, scaled to a peak of 1. The size axis is the diameter named on it (volume-equivalent; mobility with an effective density): an aerodynamic median of dense particles sits at a smaller size here. The table of modes gives each median in both.",
     "Save fraction chart image", "drift-dose-deposition-fractions.png", () => fractionChart);
   const doseFigure = chartFigure("deposition-dose",
     "Deposited dose per region for the chosen metric.",
@@ -70,7 +73,8 @@ export function mount(root, { engine, description }) {
       if (name === "modes" && Array.isArray(raw)) {
         return raw.map((m, i) => {
           const q = (x) => (x && typeof x === "object" ? `${x.value} ${x.unit}` : String(x));
-          return `Mode ${i + 1}: by ${m.basis}, median ${q(m.median)}, GSD ${q(m.gsd)}, concentration ${q(m.concentration)}`;
+          const type = m.diameter_type ? ` (${String(m.diameter_type).replace("_", "-")})` : "";
+          return `Mode ${i + 1}: by ${m.basis}, median ${q(m.median)}${type}, GSD ${q(m.gsd)}, concentration ${q(m.concentration)}`;
         }).join("; ");
       }
       return JSON.stringify(raw);
@@ -78,8 +82,16 @@ export function mount(root, { engine, description }) {
     engine, description: { ...description, fields },
     render(reply) {
       lastReply = reply;
-      const general = Object.keys(reply.results).filter((k) => !/^(fraction|rate|dose)_/.test(k));
+      const keys = Object.keys(reply.results);
+      const general = keys.filter((k) => !/^(fraction|rate|dose|ldsa|mode\d+)_/.test(k));
+      const modeKeys = keys.filter((k) => /^mode\d+_/.test(k));
       summaryBox.replaceChildren(resultsTable(reply.results, "Aerosol and breathing", general));
+      modesBox.replaceChildren(...(modeKeys.length
+        ? [resultsTable(reply.results, `Modes as the models use them (size axis: ${reply.curves.x_label.replace(/^Particle diameter \((.*)\)$/, "$1")} diameter)`, modeKeys)]
+        : []));
+      ldsaBox.replaceChildren(resultsTable(reply.results,
+        "Lung-deposited surface area (LDSA): deposited particle surface per cm³ of inhaled air",
+        keys.filter((k) => k.startsWith("ldsa_"))));
       renderRegions();
       renderFractionChart(reply.curves);
       renderDoseChart();
@@ -135,6 +147,7 @@ export function mount(root, { engine, description }) {
         y2: { title: "Your distribution (scaled)", type: "linear", min: 0, max: 1, position: "right", secondary: true },
       }, { readout: (ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 3)}` });
     }
+    fractionChart.options.scales.x.title.text = `${curves.x_label} (µm)`;
     const sets = [];
     Object.values(curves.deposition).forEach((curve, i) => {
       sets.push({
@@ -187,11 +200,16 @@ export function mount(root, { engine, description }) {
   panel.setState = (values) => {
     const csv = panel.fields.handles.get("csv_text");
     const demo = demos.find((d) => d.id === values.demo);
+    if (Array.isArray(values.modes)) {
+      // a mode from before the diameter type existed keeps its meaning (the engine's rule)
+      values = { ...values, modes: values.modes.map((m) => (m && typeof m === "object" && !Array.isArray(m) && m.diameter_type === undefined
+        ? { ...m, diameter_type: m.basis === "mass" ? "aerodynamic" : "volume_equivalent" } : m)) };
+    }
     baseSet(values);
     if (csv && demo && demo.inputs.csv_text) csv.set(demo.inputs.csv_text, "invented demo spectrum");
     applyVisibility();
   };
 
-  panel.body.append(summaryBox, regionBox, controls, doseFigure.figure, fractionFigure.figure);
+  panel.body.append(summaryBox, modesBox, ldsaBox, regionBox, controls, doseFigure.figure, fractionFigure.figure);
   return panel;
 }

@@ -15,7 +15,10 @@ const SPECTRUM_FIELDS = [
   "csv_diameter_unit", "csv_concentration_unit", "spectrum_diameter_type",
 ];
 // Which inputs apply, by the value of another input (presentation only; Python validates).
-const VISIBLE_WHEN = Object.fromEntries(SPECTRUM_FIELDS.map((name) => [name, ["spectrum_source", ["csv"]]]));
+const VISIBLE_WHEN = {
+  ...Object.fromEntries(SPECTRUM_FIELDS.map((name) => [name, ["spectrum_source", ["csv"]]])),
+  shape_factor: ["density_basis", ["effective"]],
+};
 const OVERALL_KEYS = ["overall_10nm", "overall_100nm", "overall_1um", "overall_10um"];
 const SHOWN_KEYS = ["pass_band", "departure_max", "departure_mean", "csv_rows"];
 const SUMMARY_KEYS = [...OVERALL_KEYS, ...SHOWN_KEYS]; // the printed record has no stage table
@@ -371,6 +374,7 @@ export function mount(root, { engine, description }) {
       // the whole chain is drawn under the stages (dataset order), but listed after them
       penetrationChart.options.plugins.legend.labels.sort = (a, b) => a.datasetIndex - b.datasetIndex;
     }
+    penetrationChart.options.scales.x.title.text = `${curves.x_label} (µm)`;
     const sets = curves.stages.map((curve, i) => ({
       label: `${i + 1}. ${stageName(i, curve.label)}`, data: toPoints(curve), borderColor: seriesColour(i + 1), backgroundColor: seriesColour(i + 1),
       pointRadius: 0, borderWidth: 2, borderDash: [5, 3 + 2 * (i % 3)], order: 1,
@@ -402,6 +406,7 @@ export function mount(root, { engine, description }) {
     }
     if (!spectrumFigure.figure.isConnected) spectrumSection.append(spectrumFigure.figure);
     const aero = table.diameter_type === "aerodynamic";
+    const typeWord = (curves?.x_label || "").match(/\(([^)]*)\)$/)?.[1] || "";
     const bad = table.rows.filter((r) => r.unreliable).length;
     const how = "Each bin's concentration is divided by the chain's penetration at its diameter.";
     spectrumSummary.textContent = bad
@@ -412,7 +417,7 @@ export function mount(root, { engine, description }) {
     t.append(el("caption", {}, `Corrected spectrum, ${table.concentration_unit}`));
     const head = el("thead");
     const hr = el("tr");
-    for (const h of [`Diameter${aero ? " (aerodynamic)" : ""}, ${table.diameter_unit}`, "Measured", "Penetration", "Corrected", "Correction"]) {
+    for (const h of [`Diameter${typeWord ? ` (${typeWord})` : ""}, ${table.diameter_unit}`, "Measured", "Penetration", "Corrected", "Correction"]) {
       hr.append(el("th", { scope: "col" }, h));
     }
     head.append(hr);

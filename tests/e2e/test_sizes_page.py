@@ -1,0 +1,112 @@
+"""Diameter types, effective density, per-mode rows and LDSA as the page shows them.
+
+Every number shown in the mode and LDSA tables must equal the core's reply for the same
+inputs, rounded as the page rounds (4 significant figures).
+"""
+
+from __future__ import annotations
+
+import json
+from urllib.parse import quote
+
+import pytest
+
+from driftdose import api
+
+from .conftest import screenshot, wait_ready
+from .helpers import parse_shown, round_sig, table_values
+
+pytestmark = pytest.mark.e2e
+
+PANEL = "#panel-deposition"
+
+
+def _settled(page, updates: int = 1) -> None:
+    page.wait_for_function(
+        "(n) => { const s = document.getElementById('panel-deposition');"
+        " return Number(s.dataset.updates || 0) >= n && !s.hasAttribute('aria-busy')"
+        " && s.dataset.state; }",
+        arg=updates,
+    )
+
+
+def _compare(page, reply: dict, prefix: str) -> int:
+    shown = table_values(page, "deposition")
+    keys = [k for k in reply["results"] if k.startswith(prefix)]
+    assert keys
+    for key in keys:
+        row = reply["results"][key]
+        value, unit = shown[key]
+        assert parse_shown(value) == pytest.approx(round_sig(row["value"]), rel=1e-12), key
+        assert unit == row["unit"], key
+    return len(keys)
+
+
+def test_mass_median_rows_and_ldsa_shown_equal_core(page, base_url):
+    modes = [
+        {
+            "basis": "mass",
+            "median": {"value": "0.3", "unit": "um"},
+            "diameter_type": "aerodynamic",
+            "gsd": "2",
+            "concentration": {"value": "1", "unit": "mg/m3"},
+        },
+        {
+            "basis": "count",
+            "median": {"value": "60", "unit": "nm"},
+            "diameter_type": "mobility",
+            "gsd": "1.7",
+            "concentration": {"value": "20000", "unit": "1/cm3"},
+        },
+    ]
+    fragment = (
+        "#v=1&panel=deposition&deposition.modes=j:"
+        + quote(json.dumps(modes))
+        + "&deposition.particle_density=5~g%2Fcm3&deposition.shape_factor=1.4~1"
+    )
+    page.goto(base_url + fragment)
+    wait_ready(page)
+    _settled(page)
+    inputs = {
+        "modes": modes,
+        "particle_density": {"value": "5", "unit": "g/cm3"},
+        "shape_factor": {"value": "1.4", "unit": "1"},
+    }
+    reply = api.handle({"kind": "deposition", "inputs": inputs})
+    assert reply["ok"], reply
+    assert _compare(page, reply, "mode") == 10
+    assert _compare(page, reply, "ldsa_") == 3
+    caption = page.locator(f"{PANEL} [data-part=modes] caption").inner_text()
+    assert "volume-equivalent" in caption
+    screenshot(page, "deposition-modes-ldsa")
+
+    # effective density: the size axis and the rows turn to mobility diameters
+    page.locator(PANEL).get_by_label("Density given as").select_option("effective")
+    _settled(page, 2)
+    page.wait_for_function(
+        "() => document.querySelector('#panel-deposition [data-part=modes] caption')"
+        ".textContent.includes('mobility')"
+    )
+    reply = api.handle({"kind": "deposition", "inputs": {**inputs, "density_basis": "effective"}})
+    assert _compare(page, reply, "mode") == 10
+    assert _compare(page, reply, "ldsa_") == 3
+
+
+def test_old_link_mass_mode_keeps_aerodynamic_meaning(page, base_url):
+    modes = [
+        {
+            "basis": "mass",
+            "median": {"value": "4", "unit": "um"},
+            "gsd": "2",
+            "concentration": {"value": "1", "unit": "mg/m3"},
+        }
+    ]
+    page.goto(base_url + "#v=1&panel=deposition&deposition.modes=j:" + quote(json.dumps(modes)))
+    wait_ready(page)
+    _settled(page)
+    shown = page.locator(f"{PANEL} fieldset.item").first.get_by_label(
+        "The median is a diameter of type"
+    )
+    assert shown.input_value() == "aerodynamic"
+    reply = api.handle({"kind": "deposition", "inputs": {"modes": modes}})
+    assert _compare(page, reply, "mode") == 5
