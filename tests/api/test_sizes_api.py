@@ -323,3 +323,19 @@ def test_sampling_shape_factor_ignored_for_spheres_with_a_warning():
     assert a["results"] == b["results"]
     assert any("shape factor" in w for w in a["warnings"])
     assert not any("shape factor" in w for w in b["warnings"])
+
+
+def test_effective_density_same_under_either_diffusion_convention():
+    """The mobility-equivalent sphere has shape factor 1, so whether the shape factor also
+    enters diffusion (ICRP 66 convention or mobility) changes nothing with an effective
+    density, and no warning about it is given."""
+    base = {
+        "modes": [_mode("count", (40, "nm"), 1.8, (5e4, "1/cm3"), "mobility")],
+        "particle_density": {"value": 0.8, "unit": "g/cm3"},
+        "density_basis": "effective",
+        "shape_factor": {"value": 2.2, "unit": "1"},
+    }
+    a = _run(**base, thermodynamic_convention="icrp66")
+    b = _run(**base, thermodynamic_convention="mobility")
+    assert _ok(a) == _ok(b)
+    assert not any("Diffusion is computed with the shape factor" in w for w in b["warnings"])

@@ -974,7 +974,8 @@ def _basis_warnings(dist: Any, desc: ParticleDescription) -> list[str]:
         "With an effective density the sizes are mobility diameters, and the models use the "
         "sphere with the particles' mobility and mass (DeCarlo et al. 2004); surface areas, "
         "and so the LDSA, are those of that sphere, less than the real surface of an "
-        "agglomerate of primary particles."
+        "agglomerate of primary particles. The choice of shape factor in diffusion makes no "
+        "difference here: that sphere already has the particles' mobility."
     ]
     if implied > DENSEST_MATERIAL:
         out.append(
@@ -1003,7 +1004,11 @@ def _warnings(
             "terms with the aerodynamic diameter, and they ignore the breathing chosen "
             "except for the ventilation."
         )
-    if v["thermodynamic_convention"] == "mobility" and v["shape_factor"] != 1.0:
+    if (
+        v["thermodynamic_convention"] == "mobility"
+        and v["shape_factor"] != 1.0
+        and v.get("density_basis", "material") == "material"
+    ):
         out.append(
             "Diffusion is computed with the shape factor in the mobility (mobility-equivalent "
             "sphere); ICRP 66 and its tables use a sphere of the volume-equivalent diameter, "
