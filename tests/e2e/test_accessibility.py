@@ -67,7 +67,8 @@ def test_axe_reports_no_serious_violation_on_any_panel(axe_page, base_url, schem
                  return r.violations.filter(v => ['serious', 'critical'].includes(v.impact))
                    .map(v => ({id: v.id, impact: v.impact,
                                nodes: v.nodes.slice(0, 3).map(n => n.target.join(' '))}));
-               }""")
+               }"""
+        )
         if stale:
             found[f"{pid} (out of date)"] = stale
         field.fill(good)
