@@ -118,8 +118,11 @@ def test_reports_warn_in_transition_and_outside_ranges() -> None:
     dt = 10e-3
     flow = 3000 * nu * math.pi * dt / 4  # Re about 3000
     report = Tube(1.0, dt, flow).report(293.15, 101325.0)
-    assert report.regime == "turbulent"
-    assert any("transition" in w for w in report.warnings)
+    assert report.regime == "transition"
+    text = " ".join(report.warnings)
+    assert "transition" in text and "interpolated" in text
+    assert "Gormley & Kennedy" in text and "Friedlander" in text
+    assert {"gormley_kennedy1949", "friedlander1977"} <= set(report.sources)
     slow = Impactor(3e-3, 0.5e-3 / 60).report(293.15, 101325.0)  # jet Re about 240
     assert any("500 to 3000" in w for w in slow.warnings)
 

@@ -32,6 +32,7 @@ from ._common import (
     RE_TURBULENT_MIN,
     flow_regime,
     mach_number,
+    transition_weight,
     tube_reynolds_number,
     tube_velocity,
 )
@@ -104,12 +105,14 @@ def _check_speed(parameter: str, velocity: float, T: float, what: str) -> list[s
     return []
 
 
-def _regime_warnings(re: float, what: str) -> list[str]:
-    if RE_LAMINAR_MAX <= re <= RE_TURBULENT_MIN:
-        form = "laminar" if flow_regime(re) == "laminar" else "turbulent"
+def _regime_warnings(re: float, what: str, models: str, regime: str) -> list[str]:
+    if regime == "auto" and RE_LAMINAR_MAX <= re <= RE_TURBULENT_MIN:
+        w = transition_weight(re)
         return [
-            f"{what}: Reynolds number {re:.0f} is in the transition range 2000 to 4000; the "
-            f"flow may be laminar or turbulent. The {form} form is used (switch at 2300)."
+            f"{what}: Reynolds number {re:.0f} is in the transition range 2000 to 4000, where "
+            f"the flow may be laminar or turbulent; the penetration is interpolated between "
+            f"{models} ({w * 100:.0f} % turbulent, linearly in ln P over 2000-4000; this "
+            "tool's interpolation, not a published model)."
         ]
     return []
 
@@ -149,7 +152,7 @@ class Tube:
 
     def penetration(self, d: float, density: float, T: float, P: float) -> float:
         """Penetration at diameter ``d`` [m]: product of the diffusion and settling parts."""
-        regime = self._regime(T, P)
+        regime = self.regime  # auto interpolates across the transition range
         p = 1.0
         if self.diffusion:
             p *= _tube.tube_diffusion_penetration_any(
@@ -167,7 +170,14 @@ class Tube:
         re = tube_reynolds_number(self.flow, self.tube_diameter, T, P)
         regime = self._regime(T, P)
         warnings = _check_speed("flow", u, T, "Mean air speed in the tube")
-        warnings += _regime_warnings(re, "Tube")
+        models = []
+        if self.diffusion:
+            models.append("Gormley & Kennedy (laminar) and Friedlander (turbulent) for diffusion")
+        if self.settling:
+            models.append(
+                "Heyder & Gebhart (laminar) and Schwendiman et al. (turbulent) for settling"
+            )
+        warnings += _regime_warnings(re, "Tube", "; ".join(models) or "the forms", self.regime)
         entrance = 0.05 * re * self.tube_diameter  # laminar entrance length, common practice
         if regime == "laminar" and self.diffusion and entrance > 0.1 * self.length:
             warnings.append(
@@ -175,24 +185,23 @@ class Tube:
                 f"develop, more than a tenth of the {self.length:.3g} m tube: diffusion "
                 "losses near the entrance are larger than the fully developed model gives."
             )
-        if regime == "turbulent":
+        if regime in ("turbulent", "transition"):
             warnings.append(
                 "Turbulent flow: inertial deposition to the tube wall (important for "
                 "particles of several micrometres) is not included."
             )
         sources: tuple[str, ...] = ()
         if self.diffusion:
-            sources += (
-                ("gormley_kennedy1949", "brockmann2001")
-                if regime == "laminar"
-                else ("friedlander1977", "brockmann2001")
-            )
+            if regime != "turbulent":
+                sources += ("gormley_kennedy1949",)
+            if regime != "laminar":
+                sources += ("friedlander1977",)
+            sources += ("brockmann2001",)
         if self.settling and math.cos(self.angle) > 1e-12:
-            sources += (
-                ("fuchs1964", "thomas1958", "heyder_gebhart1977")
-                if regime == "laminar"
-                else ("schwendiman1975",)
-            )
+            if regime != "turbulent":
+                sources += ("fuchs1964", "thomas1958", "heyder_gebhart1977")
+            if regime != "laminar":
+                sources += ("schwendiman1975",)
         return StageReport(
             name=self.name,
             kind=self.kind,
@@ -266,7 +275,9 @@ class Bend:
         regime = self.regime if self.regime != "auto" else flow_regime(re)
         ratio = self.curvature_radius / (self.tube_diameter / 2)
         warnings = _check_speed("flow", u, T, "Mean air speed in the bend")
-        warnings += _regime_warnings(re, "Bend")
+        warnings += _regime_warnings(
+            re, "Bend", "the laminar and turbulent fits of Pui et al. (1987)", self.regime
+        )
         lo, hi = _bend.PUI1987_RE_RANGE
         if not lo <= re <= hi:
             warnings.append(

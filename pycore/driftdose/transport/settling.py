@@ -17,7 +17,7 @@ import math
 
 from .. import particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from ._common import flow_regime, tube_reynolds_number, tube_velocity
+from ._common import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
 
 __all__ = [
     "penetration_heyder_gebhart1977",
@@ -224,7 +224,9 @@ def tube_settling_penetration(
     T, P : float
         Temperature [K], pressure [Pa].
     regime : str
-        ``auto`` (laminar below Re = 2300), ``laminar`` or ``turbulent``.
+        ``auto`` (laminar below Re = 2000, turbulent above 4000, interpolated between, see
+        :func:`~driftdose.transport._common.transition_weight`), ``laminar`` or
+        ``turbulent``.
 
     Returns
     -------
@@ -233,13 +235,25 @@ def tube_settling_penetration(
 
     """
     if regime == "auto":
-        regime = flow_regime(tube_reynolds_number(flow, tube_diameter, T, P))
-    if regime == "laminar":
-        return tube_settling_penetration_heyder_gebhart1977(
+        w = transition_weight(tube_reynolds_number(flow, tube_diameter, T, P))
+    elif regime == "laminar":
+        w = 0.0
+    elif regime == "turbulent":
+        w = 1.0
+    else:
+        raise ValueError(f"unknown regime {regime!r}; valid: auto, laminar, turbulent")
+    lam = (
+        tube_settling_penetration_heyder_gebhart1977(
             d, length, flow, tube_diameter, density, angle, T, P
         )
-    if regime == "turbulent":
-        return tube_settling_penetration_schwendiman1975(
+        if w < 1.0
+        else 1.0
+    )
+    turb = (
+        tube_settling_penetration_schwendiman1975(
             d, length, flow, tube_diameter, density, angle, T, P
         )
-    raise ValueError(f"unknown regime {regime!r}; valid: auto, laminar, turbulent")
+        if w > 0.0
+        else 1.0
+    )
+    return interpolate_regimes(lam, turb, w)

@@ -19,7 +19,7 @@ import math
 
 from .. import gas, particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from ._common import flow_regime, tube_reynolds_number, tube_velocity
+from ._common import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
 
 __all__ = [
     "LAMINAR_MODELS",
@@ -268,7 +268,9 @@ def tube_diffusion_penetration_any(
     T, P : float
         Temperature [K], pressure [Pa].
     regime : str
-        ``auto`` (laminar below Re = 2300, turbulent above), ``laminar`` or ``turbulent``.
+        ``auto`` (laminar below Re = 2000, turbulent above 4000, interpolated between, see
+        :func:`~driftdose.transport._common.transition_weight`), ``laminar`` or
+        ``turbulent``.
 
     Returns
     -------
@@ -277,9 +279,17 @@ def tube_diffusion_penetration_any(
 
     """
     if regime == "auto":
-        regime = flow_regime(tube_reynolds_number(flow, tube_diameter, T, P))
-    if regime == "laminar":
-        return tube_diffusion_penetration(d, length, flow, T, P)
-    if regime == "turbulent":
-        return tube_diffusion_penetration_friedlander1977(d, length, flow, tube_diameter, T, P)
-    raise ValueError(f"unknown regime {regime!r}; valid: auto, laminar, turbulent")
+        w = transition_weight(tube_reynolds_number(flow, tube_diameter, T, P))
+    elif regime == "laminar":
+        w = 0.0
+    elif regime == "turbulent":
+        w = 1.0
+    else:
+        raise ValueError(f"unknown regime {regime!r}; valid: auto, laminar, turbulent")
+    lam = tube_diffusion_penetration(d, length, flow, T, P) if w < 1.0 else 1.0
+    turb = (
+        tube_diffusion_penetration_friedlander1977(d, length, flow, tube_diameter, T, P)
+        if w > 0.0
+        else 1.0
+    )
+    return interpolate_regimes(lam, turb, w)
