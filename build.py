@@ -46,7 +46,10 @@ PYODIDE_FILES = (
     "python_stdlib.zip",
     "pyodide-lock.json",
 )
-VENDOR_FILES = {"chart.js/dist/chart.umd.min.js": "vendor/chart.umd.min.js"}
+VENDOR_FILES = {
+    "chart.js/dist/chart.umd.min.js": "vendor/chart.umd.min.js",
+    "qrcode-generator/dist/qrcode.js": "vendor/qrcode.js",
+}
 SITE_SKIP = {"node_modules", "package.json", "package-lock.json", "single"}  # single: see below
 MIME = {
     ".mjs": "text/javascript",
@@ -66,7 +69,7 @@ class BuildError(RuntimeError):
 def _check_node_modules() -> dict[str, str]:
     lock = json.loads((SITE / "package-lock.json").read_text())
     versions = {}
-    for name in ("pyodide", "chart.js"):
+    for name in ("pyodide", "chart.js", "qrcode-generator"):
         pkg = MODULES / name / "package.json"
         if not pkg.exists():
             raise BuildError(f"site/node_modules/{name} is missing: run `npm ci --prefix site`")

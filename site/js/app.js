@@ -4,7 +4,9 @@
 import { Engine } from "./engine.js";
 import { el } from "./forms.js";
 import { download, readText, stamp } from "./files.js";
-import { buildReport } from "./report.js";
+import { buildReport, footerText } from "./report.js";
+import { fingerprint } from "./digest.js";
+import { mountSurvey } from "./survey.js";
 import { STATE_VERSION, decodeState, encodeState } from "./state.js";
 import * as motion from "./panels/motion.js";
 import * as deposition from "./panels/deposition.js";
@@ -18,6 +20,7 @@ export const engine = new Engine(new URL("./worker.js", import.meta.url));
 export const controllers = new Map();
 let active = PANELS[0].id;
 let engineInfo = { version: "", pyodide: "" };
+let survey = null;
 
 engine.onStatus((status) => {
   const text = document.getElementById("engine-text");
@@ -60,8 +63,19 @@ function allInputs() {
   return panels;
 }
 
+/**
+ * Fingerprint of one calculation's inputs with the survey details: the first 12 hex digits of
+ * SHA-256 of the canonical JSON of {kind, inputs, survey}. The saved inputs file lists it for
+ * every panel, and the record prints the one of its panel.
+ */
+function panelFingerprint(pid, panels, surveyValues) {
+  return fingerprint({ kind: pid, inputs: panels[pid], survey: surveyValues });
+}
+
 function writeState() {
-  history.replaceState(null, "", `#${encodeState(active, allInputs())}`);
+  const survey_ = survey ? survey.get() : {};
+  const panels = Object.keys(survey_).length ? { ...allInputs(), survey: survey_ } : allInputs();
+  history.replaceState(null, "", `#${encodeState(active, panels)}`);
   const dropped = encodeState.dropped || [];
   document.getElementById("link-size-note").hidden = dropped.length === 0;
 }
@@ -79,7 +93,14 @@ function toolMessage(message) {
 /** Apply a decoded state {panel, panels}; unknown panels and fields are reported, not fatal. */
 function applyState(state, origin) {
   const ignored = [];
+  // survey details: "survey" beside "panels" in a saved file, survey.<name> entries in a link
+  const fromLink = state.panels && Object.hasOwn(state.panels, "survey") ? state.panels.survey : undefined;
+  const surveyRaw = Object.hasOwn(state, "survey") ? state.survey : fromLink;
+  if (surveyRaw !== undefined && survey) {
+    for (const name of survey.set(surveyRaw)) ignored.push(`survey.${name}`);
+  }
   for (const [pid, values] of Object.entries(state.panels || {})) {
+    if (pid === "survey") continue;
     const controller = controllers.get(pid);
     if (!controller || typeof values !== "object" || values === null) {
       ignored.push(pid);
@@ -110,8 +131,11 @@ function setupTools() {
     }
   });
   document.getElementById("save-inputs").addEventListener("click", () => {
+    const panels = allInputs();
+    const surveyValues = survey.get();
+    const fingerprints = Object.fromEntries(Object.keys(panels).map((pid) => [pid, panelFingerprint(pid, panels, surveyValues)]));
     const state = { format: STATE_FORMAT, version: Number(STATE_VERSION), tool_version: engineInfo.version,
-      saved: new Date().toISOString(), panel: active, panels: allInputs() };
+      saved: new Date().toISOString(), fingerprints, panel: active, panels, survey: surveyValues };
     download(`drift-dose-inputs-${stamp()}.json`, `${JSON.stringify(state, null, 1)}\n`, "application/json");
     toolMessage("Inputs saved as a JSON file.");
   });
@@ -145,9 +169,28 @@ function setupTools() {
   window.addEventListener("beforeprint", prepareReport);
 }
 
+let pageStyle = null;
+
 function prepareReport() {
   writeState();
-  buildReport(document.getElementById("report"), controllers, engineInfo);
+  const panels = allInputs();
+  const surveyValues = survey.get();
+  // the record's link carries this calculation's inputs and the survey details only
+  const linkState = { [active]: panels[active], ...(Object.keys(surveyValues).length ? { survey: surveyValues } : {}) };
+  const link = `${location.href.split("#")[0]}#${encodeState(active, linkState)}`;
+  const info = {
+    ...engineInfo, survey: surveyValues, fingerprint: panelFingerprint(active, panels, surveyValues), link,
+    linkDropped: (encodeState.dropped || []).length > 0,
+  };
+  buildReport(document.getElementById("report"), controllers.get(active), info);
+  // date, version and fingerprint in the page margin of every printed page (CSS paged media);
+  // a constructed style sheet, which the page's Content-Security-Policy allows
+  const text = footerText(info).replace(/["\\\n]/g, " ");
+  if (!pageStyle && "adoptedStyleSheets" in document) {
+    pageStyle = new CSSStyleSheet();
+    document.adoptedStyleSheets = [...document.adoptedStyleSheets, pageStyle];
+  }
+  if (pageStyle) pageStyle.replaceSync(`@page { @bottom-left { content: "${text}"; } }`);
 }
 
 function setupServiceWorker(build) {
@@ -199,6 +242,8 @@ async function start() {
     controller.onChange(() => writeState());
     controllers.set(p.id, controller);
   }
+  survey = mountSurvey(document.getElementById("survey"));
+  survey.onChange(() => writeState());
   setupTools();
   const state = decodeState(location.hash);
   if (state) applyState(state, "This link");

@@ -1,5 +1,6 @@
 // Build form fields from the field descriptions that driftdose.api publishes (forms.json), read
 // raw inputs back, and show per-field messages. No physical rule lives here: Python validates.
+import { sha256Hex } from "./digest.js";
 
 let counter = 0;
 
@@ -210,6 +211,7 @@ function renderFile(container, field, prefix) {
   let text = field.default ?? null;
   let name = "";
   let refusal = ""; // why the last file chosen was not read; joins the engine's message
+  let source = null; // {name, size, sha256, from} of the text in use, for the record
   const listeners = [];
   input.addEventListener("change", async () => {
     const file = input.files[0];
@@ -219,14 +221,17 @@ function renderFile(container, field, prefix) {
       // the earlier file no longer stands: recalculate without one (its results go stale)
       text = null;
       name = "";
+      source = null;
       refusal = `${file.name.slice(0, 80)} is ${(file.size / 1e6).toFixed(1)} MB; the limit is ${(limit / 1e6).toFixed(0)} MB.`;
       status.textContent = refusal;
       for (const cb of listeners) cb();
       return;
     }
     refusal = "";
-    text = await file.text();
+    const bytes = new Uint8Array(await file.arrayBuffer());
+    text = new TextDecoder().decode(bytes);
     name = file.name;
+    source = { name: name.slice(0, 200), size: bytes.length, sha256: sha256Hex(bytes), from: "file" };
     status.textContent = `Loaded ${name.slice(0, 80)} (${text.length.toLocaleString()} characters).`;
     for (const cb of listeners) cb();
   });
@@ -234,10 +239,14 @@ function renderFile(container, field, prefix) {
     field, wrap: shell.wrap, input, unitSelect: null,
     showError(message) { shell.showError(message && refusal ? `${refusal} ${message}` : message); },
     get() { return text; },
+    source() { return source; },
     set(raw, label = "") {
       refusal = "";
       text = raw === undefined ? null : raw;
       name = label;
+      source = typeof text === "string" && text
+        ? { name: label || "text from a link or file", size: new TextEncoder().encode(text).length, sha256: sha256Hex(text), from: "text" }
+        : null;
       status.textContent = text ? `Loaded ${label || "text"} (${String(text).length.toLocaleString()} characters).` : "No file loaded.";
     },
     listen(cb) { listeners.push(cb); },

@@ -81,14 +81,26 @@ export class CalcPanel {
       } else if (raw && typeof raw === "object" && "value" in raw) {
         const unit = (field.units || []).find((u) => u.unit === raw.unit);
         const label = unit ? unit.label : String(raw.unit ?? "");
-        rows.push({ label: field.label, value: String(raw.value), unit: label === "–" ? "" : label });
+        rows.push({ label: field.label, value: String(raw.value), unit: label === "–" ? "" : label, range: field.range || "" });
       } else if (field.kind === "data") {
         rows.push({ label: field.label, value: this.opts.describeData ? this.opts.describeData(field.name, raw) : JSON.stringify(raw), unit: "" });
       } else {
-        rows.push({ label: field.label, value: String(raw), unit: "" });
+        rows.push({ label: field.label, value: String(raw), unit: "", range: field.range || "" });
       }
     }
     return rows;
+  }
+
+  /** Files in use by the last valid inputs: [{name, size, sha256, from}]. */
+  importedFiles() {
+    const out = [];
+    for (const [name, handle] of this.fields.handles) {
+      if (!handle.source || handle.wrap.hidden) continue;
+      const raw = this.lastGoodInputs ? this.lastGoodInputs[name] : undefined;
+      const info = handle.source();
+      if (info && typeof raw === "string" && raw) out.push(info);
+    }
+    return out;
   }
 
   async exportCsv(part) {
