@@ -7,8 +7,8 @@ import { el } from "./forms.js";
 import { SURVEY_FIELDS } from "./survey.js";
 
 export const CAUTIONS = [
-  "Screening estimates from published models, each valid only within the stated ranges.",
-  "Not a substitute for measurement or for professional judgment.",
+  "These are screening estimates from published models, each valid only within the stated ranges.",
+  "They are not a substitute for measurement or for professional judgment.",
   "Local regulations, exposure limits and licensed practice take precedence.",
 ];
 export const LINK_PRINT_MAX = 4000; // longer links (an imported file inside) are not printed
@@ -46,7 +46,7 @@ export function buildReport(target, controller, info) {
   const now = new Date();
   const title = controller.opts.title;
   const parts = [
-    el("h1", {}, `Drift & Dose record — ${title}`),
+    el("h1", {}, `Drift & Dose screening record — ${title}`),
     el("p", { class: "report-meta" },
       `Printed ${isoMinutes(now)} UTC (${now.toLocaleString()}) with Drift & Dose ${info.version || "(version unknown)"}, calculation engine Pyodide ${info.pyodide || "(not loaded)"}. Inputs fingerprint ${info.fingerprint} (the same as in the saved inputs file).`),
   ];
@@ -136,9 +136,17 @@ function panelRecord(controller, reply) {
     const copy = table.cloneNode(true);
     copy.removeAttribute("id");
     for (const node of copy.querySelectorAll("[id]")) node.removeAttribute("id");
-    if (table.closest("details")) details.append(copy);
-    else if (copy.tBodies[0] && copy.tBodies[0].rows.length > SPLIT_ROWS) parts.push(splitTable(copy));
-    else parts.push(copy);
+    const inDetails = table.closest("details");
+    if (inDetails) {
+      // the summary line names the stage and its flow regime
+      const summary = inDetails.querySelector("summary");
+      if (copy.caption && summary) copy.caption.textContent = summary.textContent;
+      details.append(copy);
+    } else if (copy.tBodies[0] && copy.tBodies[0].rows.length > SPLIT_ROWS) parts.push(splitTable(copy));
+    else {
+      copy.classList.add("report-keep");
+      parts.push(copy);
+    }
   }
   if (details.childElementCount) parts.push(el("h3", {}, "Stage details"), details);
   for (const node of controller.body.querySelectorAll(".spectrum-summary")) {
