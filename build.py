@@ -5,11 +5,11 @@
     python build.py --serve    # writes dist/, then serves it at http://127.0.0.1:8000/
     python build.py --single-file [PATH]   # also the single-file edition (dist/drift-and-dose.html)
 
-The output holds the page and its scripts (site/), the vendored Pyodide core and chart library
-(from site/node_modules, installed from site/package-lock.json), the driftdose wheel built from
-pyproject.toml with the standard ``build`` tool, the form descriptions from ``driftdose.api``,
-and a precache list with content hashes for the service worker. The build is deterministic:
-the same sources give the same bytes.
+The output holds the page and its scripts (site/), the vendored Pyodide core, chart library and
+QR-code library (from site/node_modules, installed from site/package-lock.json), the driftdose
+wheel built from pyproject.toml with the standard ``build`` tool, the form descriptions from
+``driftdose.api``, and a precache list with content hashes for the service worker. The build is
+deterministic: the same sources give the same bytes.
 """
 
 from __future__ import annotations
