@@ -7,6 +7,8 @@ are printed to 0.1 %, so the tolerance is 0.05 percentage points).
 
 from __future__ import annotations
 
+import math
+
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
@@ -65,6 +67,28 @@ def test_respirable_iso7708_table(d_um, expected_pct):
 )
 def test_inhalable_iso7708_table(d_um, expected_pct):
     assert 100 * c.inhalable(d_um * 1e-6) == pytest.approx(expected_pct, abs=0.05)
+
+
+@pytest.mark.parametrize(
+    ("d_um", "expected_pct"),
+    # EN 481:1993 / ISO 7708:1995 Table 1, thoracic convention beyond 10 um, % of total
+    # airborne particles (from memory, to the whole per cent: tolerance half a unit)
+    [(12, 35), (14, 23), (16, 15), (20, 6), (25, 2), (30, 1), (40, 0)],
+    ids=lambda v: f"iso7708-table1-thoracic-{v}",
+)
+def test_thoracic_iso7708_table_beyond_10um(d_um, expected_pct):
+    assert 100 * c.thoracic(d_um * 1e-6) == pytest.approx(expected_pct, abs=0.5)
+
+
+@pytest.mark.parametrize("d_um", [10.5, 12, 15, 20, 30, 50, 80, 100])
+def test_thoracic_iso7708_definition_beyond_10um_scipy(d_um):
+    # ISO 7708 clause 6: E_T = E_I [1 - F(x)], x = ln(D / Gamma) / ln(Sigma), Gamma =
+    # 11.64 um, Sigma = 1.5, F the standard normal cumulative distribution (scipy here).
+    from scipy.stats import norm
+
+    e_i = 0.5 * (1 + math.exp(-0.06 * d_um))
+    expected = e_i * norm.sf(math.log(d_um / 11.64) / math.log(1.5))
+    assert c.thoracic(d_um * 1e-6) == pytest.approx(expected, rel=1e-9, abs=1e-15)
 
 
 @given(st.floats(min_value=0.0, max_value=100e-6))

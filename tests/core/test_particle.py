@@ -471,3 +471,68 @@ def test_relaxation_time_hinds_eq_5_3() -> None:
     d = 2e-6
     tau = 1500.0 * d**2 * particle.slip_correction(d) / (18 * gas.air_viscosity())
     assert particle.relaxation_time(d, 1500.0) == pytest.approx(tau, rel=1e-12)
+
+
+# ---------------------------------------------------------------------------------------------
+# Temperature and pressure scaling, diffusion at low pressure
+# ---------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize("p_kpa", [10.0, 30.0, 50.0])
+def test_diffusion_low_pressure_free_molecular_limit(p_kpa: float) -> None:
+    # Kinetic theory (Epstein 1924; Hinds 1999 section 2.5 and eq. 7.7, from memory): the
+    # mean free path goes as 1/P, and in the free-molecular regime Cc ~ Kn (alpha + beta),
+    # so D goes as 1/P. At 1 nm Kn is above 100 at 1 atm; the next slip term, -beta gamma /
+    # (alpha + beta) / Kn, keeps the ratio within 0.5 % of P0/P.
+    d, p = 1e-9, p_kpa * 1e3
+    ratio = particle.diffusion_coefficient(d, T20, p) / particle.diffusion_coefficient(d, T20)
+    assert ratio == pytest.approx(P_ATM / p, rel=0.005)
+
+
+def test_diffusion_low_pressure_continuum_limit() -> None:
+    # Stokes-Einstein (Einstein 1905): without slip D does not depend on pressure; at 100 um
+    # the slip term alpha Kn grows from 0.16 % to 1.6 % between 1 atm and 10 kPa.
+    d = 100e-6
+    ratio = particle.diffusion_coefficient(d, T20, 10e3) / particle.diffusion_coefficient(d)
+    assert 1.0 < ratio < 1.02
+
+
+def test_diffusion_low_pressure_10nm_between_limits() -> None:
+    # Between the limits (Kn ~ 13.5 at 1 atm for 10 nm) the pressure effect is strong but
+    # below P0/P (Kim et al. 2005 slip form): 10 kPa raises D by a factor of 9 to 10.1.
+    ratio = particle.diffusion_coefficient(10e-9, T20, 10e3) / particle.diffusion_coefficient(10e-9)
+    assert 9.0 < ratio < P_ATM / 10e3
+
+
+def test_diffusion_temperature_scaling_free_molecular() -> None:
+    # Epstein (1924) free-molecular diffusion, D ~ sqrt(T) / rho_g ~ T^1.5 / P (kinetic
+    # theory, from memory); at 1 nm the slip correction is within 0.5 % of its limit.
+    d, t1, t2 = 1e-9, 293.15, 373.15
+    ratio = particle.diffusion_coefficient(d, t2) / particle.diffusion_coefficient(d, t1)
+    assert ratio == pytest.approx((t2 / t1) ** 1.5, rel=0.005)
+
+
+def test_diffusion_temperature_scaling_continuum() -> None:
+    # Stokes-Einstein (Einstein 1905; Hinds 1999 eq. 7.7): D = k T / (3 pi mu d) without
+    # slip, so D ~ T / mu(T); at 100 um slip changes the ratio by under 0.1 %.
+    d, t1, t2 = 100e-6, 293.15, 373.15
+    ratio = particle.diffusion_coefficient(d, t2) / particle.diffusion_coefficient(d, t1)
+    expected = (t2 / gas.air_viscosity(t2)) / (t1 / gas.air_viscosity(t1))
+    assert ratio == pytest.approx(expected, rel=1e-3)
+
+
+@pytest.mark.parametrize(("t", "p"), [(373.15, P_ATM), (253.15, P_ATM), (293.15, 50e3)])
+def test_settling_velocity_temperature_pressure_scaling_stokes(t: float, p: float) -> None:
+    # Stokes's law with slip (Hinds 1999 eq. 3.21): v ~ Cc(T, P) / mu(T); pressure enters
+    # only through the slip correction (the viscosity of a gas does not depend on pressure,
+    # kinetic theory, Hinds 1999 section 2.3).
+    d = 5e-6
+    ratio = particle.settling_velocity(d, 1000.0, t, p, model="stokes") / (
+        particle.settling_velocity(d, 1000.0, model="stokes")
+    )
+    expected = (particle.slip_correction(d, t, p) / particle.slip_correction(d)) * (
+        gas.air_viscosity() / gas.air_viscosity(t)
+    )
+    assert ratio == pytest.approx(expected, rel=1e-12)
+    if p != P_ATM:
+        assert ratio > 1.0  # halving the pressure doubles the mean free path: more slip
