@@ -48,6 +48,15 @@ SOURCES: dict[str, str] = {
         "Publication 66, Ann. ICRP 24(1-3) (regional deposition model, Annex D; reference "
         "breathing parameters, Annex B)."
     ),
+    "icrp66_transport": (
+        "ICRP (1994). Human Respiratory Tract Model for Radiological Protection. ICRP "
+        "Publication 66, Ann. ICRP 24(1-3), chapter 5 (particle transport: compartments, "
+        "clearance rates of Table 17, size-dependent slow-cleared bronchial fraction)."
+    ),
+    "icrp130": (
+        "ICRP (2015). Occupational Intakes of Radionuclides: Part 1. ICRP Publication 130, "
+        "Ann. ICRP 44(2) (revised particle transport of the respiratory tract model)."
+    ),
     "icrp68": (
         "ICRP (1994). Dose Coefficients for Intakes of Radionuclides by Workers. ICRP "
         "Publication 68, Ann. ICRP 24(4) (reference worker aerosol: 5 um AMAD, density "

@@ -7,10 +7,11 @@ from __future__ import annotations
 
 from types import ModuleType
 
-from . import deposition, motion, sampling
+from . import burden, deposition, motion, sampling
 
 CALCULATIONS: dict[str, ModuleType] = {
     "motion": motion,
     "deposition": deposition,
     "sampling": sampling,
+    "burden": burden,
 }

@@ -30,9 +30,9 @@ rate (otherwise A is defective); :class:`Network` checks this and refuses such n
 from __future__ import annotations
 
 import math
+from bisect import bisect_right
 from collections.abc import Sequence
 from dataclasses import dataclass, field
-from functools import lru_cache
 
 __all__ = ["Network", "Off", "On", "Repeat", "Seq", "block_duration"]
 
@@ -69,42 +69,135 @@ class Repeat:
 Block = On | Off | Seq | Repeat
 
 
-@lru_cache(maxsize=512)
+class _Node:
+    """A schedule block compiled once: durations, child start times, per-rate memo."""
+
+    __slots__ = ("child", "children", "count", "dur", "exposed", "kind", "memo", "starts")
+
+    def __init__(self, b: Block) -> None:
+        self.memo: dict[float, tuple[float, float]] = {}
+        self.children: list[_Node] = []
+        self.starts: list[float] = []
+        self.child: _Node | None = None
+        self.count = 1
+        if isinstance(b, (On, Off)):
+            if not (b.duration >= 0.0 and math.isfinite(b.duration)):
+                raise ValueError("block durations must be finite and non-negative")
+            self.kind = "on" if isinstance(b, On) else "off"
+            self.dur = float(b.duration)
+            self.exposed = self.dur if self.kind == "on" else 0.0
+        elif isinstance(b, Seq):
+            self.kind = "seq"
+            self.children = [_compile(c) for c in b.blocks]
+            t = 0.0
+            for c in self.children:
+                self.starts.append(t)
+                t += c.dur
+            self.dur = t
+            self.exposed = math.fsum(c.exposed for c in self.children)
+        elif isinstance(b, Repeat):
+            if not (isinstance(b.count, int) and b.count >= 1):
+                raise ValueError("a repeat count must be a whole number >= 1")
+            self.kind = "rep"
+            self.child = _compile(b.block)
+            self.count = b.count
+            self.dur = self.child.dur * b.count
+            self.exposed = self.child.exposed * b.count
+        else:
+            raise TypeError(f"not a schedule block: {type(b).__name__}")
+
+    def full(self, lam: float) -> tuple[float, float]:
+        """(exp(lam T), response at the end of the block to unit input)."""
+        hit = self.memo.get(lam)
+        if hit is not None:
+            return hit
+        if self.kind == "on":
+            out = (math.exp(lam * self.dur), _phi(lam, self.dur))
+        elif self.kind == "off":
+            out = (math.exp(lam * self.dur), 0.0)
+        elif self.kind == "seq":
+            a, g = 1.0, 0.0
+            for c in self.children:
+                ac, gc = c.full(lam)
+                a, g = a * ac, g * ac + gc
+            out = (a, g)
+        else:
+            assert self.child is not None
+            _, g1 = self.child.full(lam)
+            d1 = self.child.dur
+            out = (math.exp(lam * self.dur), g1 * _geometric(lam, d1, self.count))
+        self.memo[lam] = out
+        return out
+
+    def partial(self, lam: float, t: float) -> float:
+        """Response at ``t`` (0 <= t <= duration) from the start of the block."""
+        if t <= 0.0:
+            return 0.0
+        if t >= self.dur:
+            return self.full(lam)[1] * (math.exp(lam * (t - self.dur)) if t > self.dur else 1.0)
+        if self.kind == "on":
+            return _phi(lam, t)
+        if self.kind == "off":
+            return 0.0
+        if self.kind == "seq":
+            i = bisect_right(self.starts, t) - 1
+            g = 0.0
+            for c in self.children[:i]:
+                ac, gc = c.full(lam)
+                g = g * ac + gc
+            start = self.starts[i]
+            return g * math.exp(lam * (t - start)) + self.children[i].partial(lam, t - start)
+        assert self.child is not None
+        d1 = self.child.dur
+        k = min(int(t // d1), self.count - 1)
+        rest = t - k * d1
+        g1 = self.child.full(lam)[1]
+        before = g1 * _geometric(lam, d1, k) if k > 0 else 0.0
+        return before * math.exp(lam * rest) + self.child.partial(lam, rest)
+
+    def exposure(self, t: float) -> float:
+        """Time exposed from the start of the block to ``t``. [s]"""
+        if t <= 0.0:
+            return 0.0
+        if t >= self.dur:
+            return self.exposed
+        if self.kind == "on":
+            return t
+        if self.kind == "off":
+            return 0.0
+        if self.kind == "seq":
+            i = bisect_right(self.starts, t) - 1
+            done = math.fsum(c.exposed for c in self.children[:i])
+            return done + self.children[i].exposure(t - self.starts[i])
+        assert self.child is not None
+        k = min(int(t // self.child.dur), self.count - 1)
+        return k * self.child.exposed + self.child.exposure(t - k * self.child.dur)
+
+
+_COMPILED: dict[int, tuple[Block, _Node]] = {}
+
+
+def _compile(b: Block) -> _Node:
+    """The compiled form of a block, kept for the blocks used most recently."""
+    hit = _COMPILED.get(id(b))
+    if hit is not None and hit[0] is b:
+        return hit[1]
+    node = _Node(b)
+    if len(_COMPILED) > 64:
+        _COMPILED.clear()
+    _COMPILED[id(b)] = (b, node)
+    return node
+
+
 def block_duration(b: Block) -> float:
     """Total duration of a block. [s]"""
-    if isinstance(b, (On, Off)):
-        return b.duration
-    if isinstance(b, Seq):
-        return math.fsum(block_duration(c) for c in b.blocks)
-    if isinstance(b, Repeat):
-        return b.count * block_duration(b.block)
-    raise TypeError(f"not a schedule block: {type(b).__name__}")
+    return _compile(b).dur
 
 
 def exposure_time(b: Block, t: float | None = None) -> float:
     """Time spent exposed in a block, over all of it or up to ``t`` [s] from its start. [s]"""
-    total = block_duration(b)
-    if t is None or t >= total:
-        t = total
-    if t <= 0.0:
-        return 0.0
-    if isinstance(b, On):
-        return t
-    if isinstance(b, Off):
-        return 0.0
-    if isinstance(b, Seq):
-        out, start = 0.0, 0.0
-        for c in b.blocks:
-            d = block_duration(c)
-            out += exposure_time(c, min(t - start, d))
-            start += d
-            if start >= t:
-                break
-        return out
-    d1 = block_duration(b.block)
-    k = min(int(t // d1), b.count)
-    rest = t - k * d1
-    return k * exposure_time(b.block) + (exposure_time(b.block, rest) if k < b.count else 0.0)
+    node = _compile(b)
+    return node.exposed if t is None else node.exposure(t)
 
 
 def _phi(lam: float, t: float) -> float:
@@ -121,60 +214,9 @@ def _geometric(lam: float, period: float, count: int) -> float:
     if x == 0.0:
         return float(count)
     den = math.expm1(x)
-    if den == -1.0:  # exp(lam period) underflows: only the last term counts
+    if den == -1.0:  # exp(lam period) underflows: only the first term counts
         return 1.0
     return math.expm1(x * count) / den
-
-
-@lru_cache(maxsize=4096)
-def _full(b: Block, lam: float) -> tuple[float, float]:
-    """(exp(lam T), response at the end of the block to unit input) of a whole block."""
-    if isinstance(b, On):
-        return math.exp(lam * b.duration), _phi(lam, b.duration)
-    if isinstance(b, Off):
-        return math.exp(lam * b.duration), 0.0
-    if isinstance(b, Seq):
-        a, g = 1.0, 0.0
-        for c in b.blocks:
-            ac, gc = _full(c, lam)
-            a, g = a * ac, g * ac + gc
-        return a, g
-    if isinstance(b, Repeat):
-        _, g1 = _full(b.block, lam)
-        d1 = block_duration(b.block)
-        return math.exp(lam * d1 * b.count), g1 * _geometric(lam, d1, b.count)
-    raise TypeError(f"not a schedule block: {type(b).__name__}")
-
-
-def _partial(b: Block, lam: float, t: float) -> float:
-    """Response at time ``t`` (0 <= t <= block duration) from the start of the block."""
-    if t <= 0.0:
-        return 0.0
-    if isinstance(b, On):
-        return _phi(lam, min(t, b.duration))
-    if isinstance(b, Off):
-        return 0.0
-    if isinstance(b, Seq):
-        g, start = 0.0, 0.0
-        for c in b.blocks:
-            d = block_duration(c)
-            if t <= start + d:
-                return g * math.exp(lam * (t - start)) + _partial(c, lam, t - start)
-            _, gc = _full(c, lam)
-            g = g * math.exp(lam * d) + gc
-            start += d
-        return g * math.exp(lam * (t - start))
-    if isinstance(b, Repeat):
-        d1 = block_duration(b.block)
-        k = min(int(t // d1), b.count - 1)
-        rest = t - k * d1
-        _, g1 = _full(b.block, lam)
-        before = g1 * _geometric(lam, d1, k) if k > 0 else 0.0
-        if rest > d1:  # past the end of the last repeat
-            end = before * math.exp(lam * d1) + g1
-            return end * math.exp(lam * (rest - d1))
-        return before * math.exp(lam * rest) + _partial(b.block, lam, rest)
-    raise TypeError(f"not a schedule block: {type(b).__name__}")
 
 
 def response(b: Block, lam: float, t: float) -> float:
@@ -183,11 +225,7 @@ def response(b: Block, lam: float, t: float) -> float:
     After the schedule ends (t beyond its duration) the exposure has stopped and the
     response decays as exp(lam (t - T)).
     """
-    total = block_duration(b)
-    if t <= total:
-        return _partial(b, lam, t)
-    _, g = _full(b, lam)
-    return g * math.exp(lam * (t - total))
+    return _compile(b).partial(lam, t)
 
 
 @dataclass
@@ -317,7 +355,8 @@ class Network:
         """g_k(t) for every mode k (see the module docstring). [s]"""
         if not (t >= 0.0 and math.isfinite(t)):
             raise ValueError("times must be finite and non-negative")
-        return [response(schedule, lam, t) for lam in self.eigenvalues]
+        node = _compile(schedule)
+        return [node.partial(lam, t) for lam in self.eigenvalues]
 
     def solve(
         self, rates: dict[str, float], schedule: Block, times: Sequence[float]
