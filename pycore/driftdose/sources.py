@@ -57,6 +57,19 @@ SOURCES: dict[str, str] = {
         "ICRP (2015). Occupational Intakes of Radionuclides: Part 1. ICRP Publication 130, "
         "Ann. ICRP 44(2) (revised particle transport of the respiratory tract model)."
     ),
+    "mckay1979": (
+        "McKay, M. D., Beckman, R. J. & Conover, W. J. (1979). A comparison of three methods "
+        "for selecting values of input variables in the analysis of output from a computer "
+        "code. Technometrics 21(2):239-245 (Latin hypercube sampling)."
+    ),
+    "spearman1904": (
+        "Spearman, C. (1904). The proof and measurement of association between two things. "
+        "Am. J. Psychol. 15(1):72-101 (rank correlation)."
+    ),
+    "hyndman_fan1996": (
+        "Hyndman, R. J. & Fan, Y. (1996). Sample quantiles in statistical packages. Am. Stat. "
+        "50(4):361-365 (definition 7, linear interpolation between order statistics)."
+    ),
     "icrp68": (
         "ICRP (1994). Dose Coefficients for Intakes of Radionuclides by Workers. ICRP "
         "Publication 68, Ann. ICRP 24(4) (reference worker aerosol: 5 um AMAD, density "

@@ -54,8 +54,9 @@ def _rates(rate_set: str, region: str, amount: float = 1.0) -> dict[str, float]:
     """Input rates putting ``amount`` per second into one region (f_s = 0.5)."""
     regional = dict.fromkeys(("ET1", "ET2", "BB", "bb", "AI"), 0.0)
     regional[region] = amount
-    slow = {"BB": 0.5 * regional["BB"], "bb": 0.5 * regional["bb"]}
-    return split_deposit(rate_set, regional, slow)
+    regional["BB_slow"] = 0.5 * regional["BB"]
+    regional["bb_slow"] = 0.5 * regional["bb"]
+    return split_deposit(rate_set, regional)
 
 
 def _matrix(rs_key: str) -> tuple[np.ndarray, list[str]]:

@@ -7,11 +7,12 @@ from __future__ import annotations
 
 from types import ModuleType
 
-from . import burden, deposition, motion, sampling
+from . import burden, deposition, motion, sampling, uncertainty
 
 CALCULATIONS: dict[str, ModuleType] = {
     "motion": motion,
     "deposition": deposition,
     "sampling": sampling,
     "burden": burden,
+    "uncertainty": uncertainty,
 }

@@ -338,7 +338,8 @@ class Network:
         """Amounts x = V (g * z) by compartment (in :attr:`order`) from modal responses.
 
         A negative amount no larger than the rounding bound of its sum (1e-12 of the sum of
-        the magnitudes of its terms) is rounding noise of a true zero and returned as 0.
+        the magnitudes of its terms, or below 1e-300) is rounding noise of a true zero and
+        returned as 0.
         """
         n = len(z)
         y = [g[k] * z[k] for k in range(n)]
@@ -346,7 +347,7 @@ class Network:
         for i in range(n):
             terms = [self.V[i][k] * y[k] for k in range(i + 1)]
             x = math.fsum(terms)
-            if x < 0.0 and -x <= 1e-12 * math.fsum(abs(t) for t in terms):
+            if x < 0.0 and -x <= 1e-12 * math.fsum(abs(t) for t in terms) + 1e-300:
                 x = 0.0
             out.append(x)
         return out

@@ -63,6 +63,7 @@ __all__ = [
     "BurdenResult",
     "RateSet",
     "compartment_inputs",
+    "deposition_rates",
     "retained_burden",
     "slow_fraction",
     "work_schedule",
@@ -248,6 +249,58 @@ def _modes(distribution: Distribution) -> tuple:
     return getattr(distribution, "modes", (distribution,))
 
 
+def deposition_rates(
+    distribution: Distribution, subject: Subject, step: float | None = None
+) -> dict[str, dict[str, float]]:
+    """Regional deposition rates and their slow-cleared bronchial parts, by weight.
+
+    Parameters
+    ----------
+    distribution : LognormalMode, Multimodal or BinnedSpectrum
+        Airborne particles.
+    subject : Subject
+        Breathing during exposure.
+    step : float, optional
+        Integration grid step in ln d (as :func:`driftdose.dose.deposited_dose`).
+
+    Returns
+    -------
+    dict
+        ``out[weight][key]`` for the keys ET1, ET2, BB, bb, AI, total (equal to the rates of
+        :func:`driftdose.dose.deposited_dose`) and BB_slow, bb_slow (the integral of f_s
+        times the BB and bb deposit): [1/s], [m^2/s], [kg/s].
+
+    Notes
+    -----
+    Regional deposition: ICRP 66 Annex D; f_s: :func:`slow_fraction` (ICRP 66, chapter 5),
+    evaluated per particle size.
+
+    """
+    ventilation = subject.mean_ventilation
+    regions = ("ET1", "ET2", "BB", "bb", "AI", "total")
+    sums = {w: dict.fromkeys(regions, 0.0) for w in WEIGHTS}
+    slow = {w: {"BB": 0.0, "bb": 0.0} for w in WEIGHTS}
+    for mode in _modes(distribution):
+        sizes = mode.grid(step)
+        curves = deposition_curves("icrp66", sizes, mode.density, mode.shape_factor, subject)
+        fs = [slow_fraction(d, mode.density, mode.shape_factor) for d in curves["d_ae"]]
+        for w in WEIGHTS:
+            quad = mode.quadrature(w, step)
+            for r in regions:
+                sums[w][r] += math.fsum(q * f for (_, q), f in zip(quad, curves[r], strict=True))
+            for r in ("BB", "bb"):
+                slow[w][r] += math.fsum(
+                    q * f * s for (_, q), f, s in zip(quad, curves[r], fs, strict=True)
+                )
+    out: dict[str, dict[str, float]] = {}
+    for w in WEIGHTS:
+        rates = {r: sums[w][r] * ventilation for r in regions}
+        rates["BB_slow"] = slow[w]["BB"] * ventilation
+        rates["bb_slow"] = slow[w]["bb"] * ventilation
+        out[w] = rates
+    return out
+
+
 def compartment_inputs(
     distribution: Distribution,
     subject: Subject,
@@ -281,36 +334,18 @@ def compartment_inputs(
     (ICRP 66, chapter 5).
 
     """
-    rs = RATE_SETS[rate_set]
-    ventilation = subject.mean_ventilation
-    regions = ("ET1", "ET2", "BB", "bb", "AI")
-    sums = {w: dict.fromkeys(regions, 0.0) for w in WEIGHTS}
-    slow = {w: {"BB": 0.0, "bb": 0.0} for w in WEIGHTS}
-    for mode in _modes(distribution):
-        sizes = mode.grid(step)
-        curves = deposition_curves("icrp66", sizes, mode.density, mode.shape_factor, subject)
-        fs = [slow_fraction(d, mode.density, mode.shape_factor) for d in curves["d_ae"]]
-        for w in WEIGHTS:
-            quad = mode.quadrature(w, step)
-            for r in regions:
-                sums[w][r] += math.fsum(q * f for (_, q), f in zip(quad, curves[r], strict=True))
-            if rs.uses_slow_fraction:
-                for r in ("BB", "bb"):
-                    slow[w][r] += math.fsum(
-                        q * f * s for (_, q), f, s in zip(quad, curves[r], fs, strict=True)
-                    )
+    if rate_set not in RATE_SETS:
+        raise ValueError(f"unknown rate set {rate_set!r}; valid: {', '.join(RATE_SETS)}")
+    rates = deposition_rates(distribution, subject, step)
     out: dict[str, dict[str, float]] = {}
     for w in WEIGHTS:
-        rates = {r: sums[w][r] * ventilation for r in regions}
-        comp = split_deposit(rate_set, rates, {r: slow[w][r] * ventilation for r in ("BB", "bb")})
-        comp.update({f"_region_{r}": rates[r] for r in regions})
+        comp = split_deposit(rate_set, rates[w])
+        comp.update({f"_region_{r}": rates[w][r] for r in ("ET1", "ET2", "BB", "bb", "AI")})
         out[w] = comp
     return out
 
 
-def split_deposit(
-    rate_set: str, regional: dict[str, float], slow: dict[str, float] | None = None
-) -> dict[str, float]:
+def split_deposit(rate_set: str, regional: dict[str, float]) -> dict[str, float]:
     """Split regional deposition rates among compartments.
 
     Parameters
@@ -318,10 +353,8 @@ def split_deposit(
     rate_set : str
         ``icrp66`` or ``icrp130``.
     regional : dict
-        Deposition rate per region ET1, ET2, BB, bb, AI. [unit/s]
-    slow : dict, optional
-        The slow-cleared part (integral of f_s times the deposit) of BB and bb [unit/s];
-        needed by ``icrp66``.
+        Deposition rate per region ET1, ET2, BB, bb, AI, and the slow-cleared parts BB_slow,
+        bb_slow (integral of f_s times the deposit; needed by ``icrp66``). [unit/s]
 
     Returns
     -------
@@ -335,9 +368,9 @@ def split_deposit(
         total = regional[region]
         for comp, share in shares.items():
             if share == "fs":
-                out[comp] = (slow or {})[region]
+                out[comp] = regional[f"{region}_slow"]
             elif share == "1-fs":
-                out[comp] = 0.993 * total - (slow or {})[region]
+                out[comp] = 0.993 * total - regional[f"{region}_slow"]
             else:
                 out[comp] = float(share) * total
     return out
