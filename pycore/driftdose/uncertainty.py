@@ -262,6 +262,8 @@ class DepositionTables:
         Breathing (fixed across samples: the breathing factor scales the ventilation only).
     densities, shape_factors : sequence of float
         Table nodes, increasing. [kg/m^3], [-]
+    thermodynamic : str
+        How the shape factor enters diffusion (see :func:`driftdose.dose.deposition_curves`).
 
     Notes
     -----
@@ -272,6 +274,7 @@ class DepositionTables:
     subject: Subject
     densities: Sequence[float]
     shape_factors: Sequence[float]
+    thermodynamic: str = "icrp66"
     ln_d: list[float] = field(init=False)
     tables: dict[tuple[int, int], list[tuple[float, ...]]] = field(init=False)
     rows: dict[tuple[int, int], list[tuple[tuple[float, ...], tuple[float, ...]]]] = field(
@@ -286,7 +289,7 @@ class DepositionTables:
         self.tables = {}
         for i, rho in enumerate(self.densities):
             for j, chi in enumerate(self.shape_factors):
-                c = deposition_curves("icrp66", sizes, rho, chi, self.subject)
+                c = deposition_curves("icrp66", sizes, rho, chi, self.subject, self.thermodynamic)
                 fs = [slow_fraction(d, rho, chi) for d in c["d_ae"]]
                 self.tables[(i, j)] = [
                     (
@@ -428,6 +431,7 @@ def propagate(
     method: str = "lhs",
     samples: range | None = None,
     tables: DepositionTables | None = None,
+    thermodynamic: str = "icrp66",
 ) -> Propagation:
     """Propagate input spreads through regional deposition to any linear outputs.
 
@@ -453,6 +457,8 @@ def propagate(
         Which samples to compute (default all): the propagation can run in blocks.
     tables : DepositionTables, optional
         Tables built by an earlier block of the same propagation.
+    thermodynamic : str
+        How the shape factor enters diffusion (for new tables).
 
     Returns
     -------
@@ -462,7 +468,7 @@ def propagate(
     """
     factors = design(spreads, n, seed, method)
     if tables is None:
-        tables = make_tables(spreads, factors, subject, nominal)
+        tables = make_tables(spreads, factors, subject, nominal, thermodynamic)
     ventilation = subject.mean_ventilation
     base = tables.integrals(build(dict.fromkeys(spreads, 1.0)))
     rng = samples if samples is not None else range(n)
@@ -491,6 +497,7 @@ def make_tables(
     factors: dict[str, list[float]],
     subject: Subject,
     nominal: dict[str, float],
+    thermodynamic: str = "icrp66",
 ) -> DepositionTables:
     """Tables whose nodes span the densities and shape factors drawn in ``factors``."""
 
@@ -504,4 +511,5 @@ def make_tables(
         subject,
         _axis(nominal["density"], *span("density")),
         _axis(nominal["shape_factor"], *span("shape_factor")),
+        thermodynamic,
     )

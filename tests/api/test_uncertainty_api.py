@@ -28,11 +28,13 @@ def _none():
     return {f"{name}_spread": "none" for name in INPUTS}
 
 
-def test_zero_width_ranges_equal_deposition_and_burden_exactly():
-    r = _run(**_none())
+@pytest.mark.parametrize("thermo", ["icrp66", "mobility"])
+def test_zero_width_ranges_equal_deposition_and_burden_exactly(thermo):
+    r = _run(**_none(), thermodynamic_convention=thermo)
     assert r["ok"], r
-    dose = handle({"kind": "deposition", "inputs": FUME})["results"]
-    burden = handle({"kind": "burden", "inputs": FUME})["results"]
+    inputs = {**FUME, "thermodynamic_convention": thermo}
+    dose = handle({"kind": "deposition", "inputs": inputs})["results"]
+    burden = handle({"kind": "burden", "inputs": inputs})["results"]
     res = r["results"]
     for g in REGIONS:
         for w in WEIGHTS:

@@ -43,6 +43,43 @@ UNITS = {  # weight -> (factor to SI, unit, SI unit)
 WEIGHT_WORDS = {"number": "number", "surface": "surface area", "mass": "mass"}
 SERIES_PER_DECADE = 48
 
+DEMOS: tuple[dict[str, Any], ...] = (
+    {
+        "id": "demo_working_life",
+        "label": "Invented demo: oxide fume over a working life",
+        "note": "Invented numbers for trying the tool: the metal-fume demo aerosol breathed "
+        "8 h a shift, 5 shifts a week, 46 weeks a year for 40 years, with invented ranges "
+        "for the uncertain inputs; not a measurement or a typical value.",
+        "deposition": {**dep.DEMOS[0]["inputs"], "demo": dep.DEMOS[0]["id"]},
+        "burden": {
+            "transport_rates": "icrp66",
+            "exposure_pattern": "work",
+            "shifts_per_week": 5,
+            "weeks_per_year": 46,
+            "working_years": 40,
+            "years_after": 10,
+        },
+        "ranges": {
+            "samples": 1000,
+            "seed": 2026,
+            "sampling_method": "lhs",
+            "median_spread": "triangular",
+            "median_percent": {"value": 25, "unit": "1"},
+            "gsd_spread": "triangular",
+            "gsd_percent": {"value": 10, "unit": "1"},
+            "density_spread": "uniform",
+            "density_percent": {"value": 15, "unit": "1"},
+            "shape_factor_spread": "uniform",
+            "shape_factor_percent": {"value": 10, "unit": "1"},
+            "breathing_spread": "triangular",
+            "breathing_percent": {"value": 25, "unit": "1"},
+            "concentration_spread": "lognormal",
+            "concentration_gsd": {"value": 1.6, "unit": "1"},
+        },
+    },
+)
+"""Invented demo (labelled as invented): inputs for the deposition, burden and ranges parts."""
+
 BURDEN_FIELDS: tuple[Field, ...] = (
     Field(
         "transport_rates",
@@ -54,6 +91,7 @@ BURDEN_FIELDS: tuple[Field, ...] = (
             ("icrp130", "ICRP 130 (2015): revised, slower alveolar clearance"),
         ),
         help="Published rate constants for insoluble particles; no absorption to blood.",
+        extra={"demos": [dict(d) for d in DEMOS]},
     ),
     Field(
         "exposure_pattern",
@@ -158,7 +196,9 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     dist, subject, report = aerosol_and_subject(v)
     rate_set = v["transport_rates"]
     try:
-        inputs = compartment_inputs(dist, subject, rate_set)
+        inputs = compartment_inputs(
+            dist, subject, rate_set, thermodynamic=v["thermodynamic_convention"]
+        )
         schedule = schedule_of(v)
     except ValueError as exc:
         raise FieldError("", str(exc)) from None

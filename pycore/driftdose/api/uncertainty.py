@@ -322,13 +322,14 @@ def _context(v: dict[str, Any]) -> dict[str, Any]:
     n, seed, method = v["samples"], v["seed"], v["sampling_method"]
     factors = design(spreads, n, seed, method)
     nominal = {"density": v["particle_density"], "shape_factor": v["shape_factor"]}
-    exact = deposition_rates(dist, subject)
+    thermo = v["thermodynamic_convention"]
+    exact = deposition_rates(dist, subject, thermodynamic=thermo)
     rows = _milestone_responses(v)
     ctx = {
         "dist": dist,
         "subject": subject,
         "spreads": spreads,
-        "tables": make_tables(spreads, factors, subject, nominal),
+        "tables": make_tables(spreads, factors, subject, nominal, thermo),
         "nominal": nominal,
         "exact": exact,
         "build": _builder(v, dist),

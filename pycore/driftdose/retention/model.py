@@ -250,7 +250,10 @@ def _modes(distribution: Distribution) -> tuple:
 
 
 def deposition_rates(
-    distribution: Distribution, subject: Subject, step: float | None = None
+    distribution: Distribution,
+    subject: Subject,
+    step: float | None = None,
+    thermodynamic: str = "icrp66",
 ) -> dict[str, dict[str, float]]:
     """Regional deposition rates and their slow-cleared bronchial parts, by weight.
 
@@ -262,6 +265,8 @@ def deposition_rates(
         Breathing during exposure.
     step : float, optional
         Integration grid step in ln d (as :func:`driftdose.dose.deposited_dose`).
+    thermodynamic : str
+        How the shape factor enters diffusion (as :func:`driftdose.dose.deposited_dose`).
 
     Returns
     -------
@@ -282,7 +287,9 @@ def deposition_rates(
     slow = {w: {"BB": 0.0, "bb": 0.0} for w in WEIGHTS}
     for mode in _modes(distribution):
         sizes = mode.grid(step)
-        curves = deposition_curves("icrp66", sizes, mode.density, mode.shape_factor, subject)
+        curves = deposition_curves(
+            "icrp66", sizes, mode.density, mode.shape_factor, subject, thermodynamic
+        )
         fs = [slow_fraction(d, mode.density, mode.shape_factor) for d in curves["d_ae"]]
         for w in WEIGHTS:
             quad = mode.quadrature(w, step)
@@ -306,6 +313,7 @@ def compartment_inputs(
     subject: Subject,
     rate_set: str = "icrp66",
     step: float | None = None,
+    thermodynamic: str = "icrp66",
 ) -> dict[str, dict[str, float]]:
     """Deposition rate into each compartment during exposure, by weight.
 
@@ -319,6 +327,8 @@ def compartment_inputs(
         ``icrp66`` or ``icrp130``.
     step : float, optional
         Integration grid step in ln d (as :func:`driftdose.dose.deposited_dose`).
+    thermodynamic : str
+        How the shape factor enters diffusion (as :func:`driftdose.dose.deposited_dose`).
 
     Returns
     -------
@@ -336,7 +346,7 @@ def compartment_inputs(
     """
     if rate_set not in RATE_SETS:
         raise ValueError(f"unknown rate set {rate_set!r}; valid: {', '.join(RATE_SETS)}")
-    rates = deposition_rates(distribution, subject, step)
+    rates = deposition_rates(distribution, subject, step, thermodynamic)
     out: dict[str, dict[str, float]] = {}
     for w in WEIGHTS:
         comp = split_deposit(rate_set, rates[w])
