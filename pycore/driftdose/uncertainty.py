@@ -243,7 +243,7 @@ def spearman(x: Sequence[float], y: Sequence[float]) -> float | None:
     return _pearson(_ranks(x), _ranks(y))
 
 
-def _axis(nominal: float, lo: float, hi: float) -> list[float]:
+def table_nodes(nominal: float, lo: float, hi: float) -> list[float]:
     """Table nodes in ln(value) spanning nominal * [lo, hi], at most NODE_SPACING apart."""
     if lo == hi == 1.0:
         return [nominal]
@@ -509,7 +509,7 @@ def make_tables(
 
     return DepositionTables(
         subject,
-        _axis(nominal["density"], *span("density")),
-        _axis(nominal["shape_factor"], *span("shape_factor")),
+        table_nodes(nominal["density"], *span("density")),
+        table_nodes(nominal["shape_factor"], *span("shape_factor")),
         thermodynamic,
     )

@@ -49,6 +49,16 @@ def test_zero_width_ranges_equal_deposition_and_burden_exactly(thermo):
     assert res["range_dose_AI_mass_leading"]["text"] == "none"
 
 
+def test_zero_width_with_effective_density_and_mobility_diameter_equals_deposition():
+    modes = [dict(FUME["modes"][0], diameter_type="mobility"), FUME["modes"][1]]
+    inputs = {**FUME, "modes": modes, "density_basis": "effective", "shape_factor": 1.6}
+    r = handle({"kind": "uncertainty", "inputs": {**inputs, **_none(), "samples": 20}})
+    assert r["ok"], r
+    dose = handle({"kind": "deposition", "inputs": inputs})["results"]
+    for g in REGIONS:
+        assert r["results"][f"range_dose_{g}_mass_p95"]["si"] == dose[f"dose_{g}_mass"]["si"]
+
+
 def test_percentiles_are_ordered_and_bracket_the_nominal_value():
     r = _run(samples=400)
     res = r["results"]

@@ -15,6 +15,7 @@ from __future__ import annotations
 import math
 from typing import Any
 
+from ..diameters import ParticleDescription
 from ..retention import DAY, YEAR, compartment_inputs, retained_burden
 from ..retention.model import RATE_SETS, exposure_end, single_exposure, work_schedule
 from ..sources import cite
@@ -129,15 +130,26 @@ BURDEN_FIELDS: tuple[Field, ...] = (
 FIELDS: tuple[Field, ...] = dep.FIELDS + BURDEN_FIELDS
 
 
-def aerosol_and_subject(v: dict[str, Any]) -> tuple[Any, Any, dict | None]:
-    """Distribution, breathing and CSV report from the deposition inputs (validated SI)."""
-    rho, chi = v["particle_density"], v["shape_factor"]
+def particle_description(v: dict[str, Any], f_density: float = 1.0, f_shape: float = 1.0) -> Any:
+    """The particle description of the deposition inputs, density and shape scaled."""
+    return ParticleDescription(
+        v["particle_density"] * f_density,
+        v["shape_factor"] * f_shape,
+        v.get("density_basis") or "material",
+    )
+
+
+def aerosol_and_subject(v: dict[str, Any]) -> tuple[Any, Any, dict | None, list]:
+    """Distribution, breathing, CSV report and the modes as entered, from the deposition
+    inputs (validated SI), read as the deposition calculation reads them."""
+    desc = particle_description(v)
     report = None
+    entered: list = []
     if v["distribution_source"] == "lognormal":
-        dist = dep._parse_modes(v.get("modes"), rho, chi)
+        dist, entered = dep._parse_modes(v.get("modes"), desc)
     else:
-        dist, report = dep._parse_csv(v, rho, chi)
-    return dist, dep._subject(v), report
+        dist, report = dep._parse_csv(v, desc)
+    return dist, dep._subject(v), report, entered
 
 
 def schedule_of(v: dict[str, Any]) -> Any:
@@ -193,7 +205,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             "The retained burden needs the regional deposition of the full ICRP 66 model "
             "(its ET, BB, bb and AI regions); choose that model.",
         )
-    dist, subject, report = aerosol_and_subject(v)
+    dist, subject, report, _ = aerosol_and_subject(v)
     rate_set = v["transport_rates"]
     try:
         inputs = compartment_inputs(

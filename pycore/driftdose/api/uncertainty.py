@@ -21,12 +21,19 @@ import json
 import math
 from typing import Any
 
-from .. import particle
 from ..distribution import WEIGHTS, LognormalMode, Multimodal
 from ..retention import deposition_rates, split_deposit
 from ..retention.model import RATE_SETS, network
 from ..sources import cite
-from ..uncertainty import INPUTS, Propagation, Spread, design, make_tables, propagate
+from ..uncertainty import (
+    INPUTS,
+    DepositionTables,
+    Propagation,
+    Spread,
+    design,
+    propagate,
+    table_nodes,
+)
 from . import burden
 from . import deposition as dep
 from .fields import Field, FieldError
@@ -174,39 +181,25 @@ def describe_spread(s: Spread) -> str:
     return "none (as entered)"
 
 
-def _mode_specs(v: dict[str, Any]) -> list[tuple[str, float, float]]:
-    """(basis, median [m], concentration [SI]) of each mode as entered (validated before)."""
+def _builder(v: dict[str, Any], nominal: Multimodal, entered: list[dict[str, Any]]) -> Any:
+    """Factors -> the sample's modes, converted to the models' diameters as the deposition
+    calculation converts what was entered (diameter type, density basis)."""
     specs = []
-    for i, m in enumerate(v["modes"], start=1):
-        basis = m.get("basis", "count")
-        kind = "number_concentration" if basis == "count" else "mass_concentration"
-        med = dep._quantity_in(m.get("median"), ("length",), f"Mode {i} median", "modes")
+    for i, (m, mode, e) in enumerate(zip(v["modes"], nominal.modes, entered, strict=True), 1):
+        kind = "number_concentration" if e["basis"] == "count" else "mass_concentration"
         conc = dep._quantity_in(m.get("concentration"), (kind,), f"Mode {i}", "modes")
-        assert med is not None and conc is not None
-        specs.append((basis, med[0], conc[0]))
-    return specs
-
-
-def _builder(v: dict[str, Any], nominal: Multimodal) -> Any:
-    specs = [
-        (basis, median, mode.gsd, conc)
-        for (basis, median, conc), mode in zip(_mode_specs(v), nominal.modes, strict=True)
-    ]
-    rho0, chi0 = v["particle_density"], v["shape_factor"]
+        assert conc is not None
+        specs.append((e["basis"], e["diameter_type"], e["median"], mode.gsd, conc[0]))
 
     def build(f: dict[str, float]) -> Multimodal:
-        rho = rho0 * f.get("density", 1.0)
-        chi = chi0 * f.get("shape_factor", 1.0)
+        desc = burden.particle_description(v, f.get("density", 1.0), f.get("shape_factor", 1.0))
         modes = []
-        for basis, median, gsd, conc in specs:
-            med = median * f.get("median", 1.0)
+        for basis, d_type, median, gsd, conc in specs:
+            d_model = desc.to_model(median * f.get("median", 1.0), d_type)
             g = gsd * f.get("gsd", 1.0)
             c = conc * f.get("concentration", 1.0)
-            if basis == "count":
-                modes.append(LognormalMode(med, g, c, rho, chi))
-            else:
-                mmd = particle.volume_equivalent_diameter(med, rho, chi)
-                modes.append(LognormalMode.from_mass(mmd, g, c, rho, chi))
+            make = LognormalMode.from_count if basis == "count" else LognormalMode.from_mass
+            modes.append(make(d_model, g, c, desc.model_density, desc.model_shape_factor))
         return Multimodal(tuple(modes))
 
     return build
@@ -302,6 +295,11 @@ def _outputs_fn(v: dict[str, Any], responses: dict[str, Any]) -> Any:
     return outputs
 
 
+def _nodes(nominal: float, lo: float, hi: float) -> list[float]:
+    """Table nodes from the smallest to the largest drawn value (nominal included)."""
+    return table_nodes(nominal, min(lo, nominal) / nominal, max(hi, nominal) / nominal)
+
+
 def _context(v: dict[str, Any]) -> dict[str, Any]:
     key = json.dumps({k: val for k, val in v.items() if k != "block"}, sort_keys=True, default=str)
     if _CACHE.get("key") == key:
@@ -316,12 +314,22 @@ def _context(v: dict[str, Any]) -> dict[str, Any]:
             "distribution_source",
             "The ranges are computed for lognormal modes; describe the aerosol by modes.",
         )
-    dist, subject, _ = burden.aerosol_and_subject(v)
+    dist, subject, _, entered = burden.aerosol_and_subject(v)
     spreads = spreads_of(v)
     _check_ranges(v, spreads, dist)
     n, seed, method = v["samples"], v["seed"], v["sampling_method"]
     factors = design(spreads, n, seed, method)
-    nominal = {"density": v["particle_density"], "shape_factor": v["shape_factor"]}
+    nominal = {"density": dist.modes[0].density, "shape_factor": dist.modes[0].shape_factor}
+    span = {}
+    for name, key in (("density", "model_density"), ("shape_factor", "model_shape_factor")):
+        fs = factors[name]
+        lo = burden.particle_description(
+            v, min(fs) if name == "density" else 1.0, min(fs) if name == "shape_factor" else 1.0
+        )
+        hi = burden.particle_description(
+            v, max(fs) if name == "density" else 1.0, max(fs) if name == "shape_factor" else 1.0
+        )
+        span[name] = (getattr(lo, key), getattr(hi, key))
     thermo = v["thermodynamic_convention"]
     exact = deposition_rates(dist, subject, thermodynamic=thermo)
     rows = _milestone_responses(v)
@@ -329,10 +337,15 @@ def _context(v: dict[str, Any]) -> dict[str, Any]:
         "dist": dist,
         "subject": subject,
         "spreads": spreads,
-        "tables": make_tables(spreads, factors, subject, nominal, thermo),
+        "tables": DepositionTables(
+            subject,
+            _nodes(nominal["density"], *span["density"]),
+            _nodes(nominal["shape_factor"], *span["shape_factor"]),
+            thermo,
+        ),
         "nominal": nominal,
         "exact": exact,
-        "build": _builder(v, dist),
+        "build": _builder(v, dist, entered),
         "outputs": _outputs_fn(v, rows),
         "rows": rows,
         "done": Propagation(n, seed, method, {k: [] for k in spreads}, {}),
