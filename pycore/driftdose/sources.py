@@ -150,10 +150,9 @@ SOURCES: dict[str, str] = {
     "ldsa_fissan2007": (
         "Fissan, H., Neumann, S., Trampe, A., Pui, D. Y. H., Shin, W. G. (2007). Rationale "
         "and principle of an instrument measuring lung deposited nanoparticle surface area. "
-        "J. Nanopart. Res. 9:53-59; Asbach, C. et al. (2009). Conceptual limitations and "
-        "extensions of lung-deposited Nanoparticle Surface Area Monitor (NSAM). J. Nanopart. "
-        "Res. 11:101-109 (LDSA: airborne surface area times the regional deposition "
-        "fraction of ICRP 66; cited from memory)."
+        "J. Nanopart. Res. 9:53-59; Asbach, C. et al. (2009). J. Nanopart. Res. 11:101-109 "
+        "(LDSA: airborne surface area times the regional deposition fraction of ICRP 66; "
+        "cited from memory)."
     ),
     "landahl_herrmann1949": (
         "Landahl, H. D., Herrmann, K. (1949). Sampling of liquid aerosols by wires, "

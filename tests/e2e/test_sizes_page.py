@@ -7,13 +7,15 @@ inputs, rounded as the page rounds (4 significant figures).
 from __future__ import annotations
 
 import json
+import shutil
+import subprocess
 from urllib.parse import quote
 
 import pytest
 
 from driftdose import api
 
-from .conftest import screenshot, wait_ready
+from .conftest import new_watched_page, screenshot, wait_ready
 from .helpers import parse_shown, round_sig, table_values
 
 pytestmark = pytest.mark.e2e
@@ -110,3 +112,87 @@ def test_old_link_mass_mode_keeps_aerodynamic_meaning(page, base_url):
     assert shown.input_value() == "aerodynamic"
     reply = api.handle({"kind": "deposition", "inputs": {"modes": modes}})
     assert _compare(page, reply, "mode") == 5
+
+
+def test_each_median_says_what_it_is(page, base_url):
+    page.goto(base_url + "#v=1&panel=deposition")
+    wait_ready(page)
+    _settled(page)
+    mode = page.locator(f"{PANEL} fieldset.item").first
+    says = mode.locator(".median-says")
+    assert says.inner_text() == "This median is the count median diameter, volume-equivalent (CMD)."
+    mode.get_by_label("Mode given by").select_option("mass")
+    mode.get_by_label("The median is a diameter of type").select_option("aerodynamic")
+    assert says.inner_text() == "This median is the mass median aerodynamic diameter (MMAD)."
+    mode.get_by_label("The median is a diameter of type").select_option("volume_equivalent")
+    assert says.inner_text() == "This median is the mass median diameter, geometric (MMD)."
+    described = mode.get_by_label(
+        "Median diameter: count median (count mode) or mass median (mass mode)", exact=True
+    ).get_attribute("aria-describedby")
+    assert says.get_attribute("id") in described.split()
+    page.locator(PANEL).get_by_role("button", name="Add a mode").click()
+    second = page.locator(f"{PANEL} fieldset.item").nth(1).locator(".median-says")
+    assert second.inner_text() == "This median is the mass median diameter, geometric (MMD)."
+
+
+@pytest.mark.parametrize("width", [320, 375, 768, 1280])
+def test_mode_and_ldsa_tables_fit_the_screen(browser, base_url, width):
+    modes = [
+        {
+            "basis": "mass",
+            "median": {"value": "0.3", "unit": "um"},
+            "diameter_type": "aerodynamic",
+            "gsd": "2",
+            "concentration": {"value": "1", "unit": "mg/m3"},
+        }
+    ]
+    context, page, watch = new_watched_page(
+        browser, base_url, viewport={"width": width, "height": 900}
+    )
+    try:
+        page.goto(
+            base_url
+            + "#v=1&panel=deposition&deposition.modes=j:"
+            + quote(json.dumps(modes))
+            + "&deposition.particle_density=5~g%2Fcm3"
+        )
+        wait_ready(page)
+        _settled(page)
+        for part in ("modes", "ldsa"):
+            box = page.locator(f"{PANEL} [data-part={part}]")
+            rect = box.bounding_box()
+            assert rect["x"] >= -0.5 and rect["x"] + rect["width"] <= width + 0.5, part
+            table = box.locator("table").bounding_box()
+            assert table["x"] + table["width"] <= width + 0.5, part
+        assert page.evaluate("() => document.documentElement.scrollWidth") <= width
+        page.locator(f"{PANEL} [data-part=modes]").scroll_into_view_if_needed()
+        page.screenshot(
+            path=str(screenshot(page, f"sizes-{width}").with_name(f"sizes-{width}-view.png"))
+        )
+    finally:
+        context.close()
+    assert not watch.errors and not watch.outside
+
+
+def test_printed_record_lists_ldsa_modes_and_source(page, base_url, tmp_path):
+    page.goto(base_url + "#v=1&panel=deposition")
+    wait_ready(page)
+    _settled(page)
+    page.evaluate("() => window.dispatchEvent(new Event('beforeprint'))")
+    page.emulate_media(media="print")
+    report = page.locator("#report")
+    assert report.is_visible()
+    text = report.inner_text()
+    reply = api.handle({"kind": "deposition", "inputs": {}})
+    for key in ("ldsa_alveolar", "ldsa_tracheobronchial", "ldsa_total", "mode1_count_median"):
+        row = reply["results"][key]
+        assert row["label"] in text, key
+        shown = report.locator(f"tr[data-key={key}] td").first.inner_text()
+        assert parse_shown(shown) == pytest.approx(round_sig(row["value"]), rel=1e-12), key
+    assert "Fissan" in text
+    pdf = tmp_path / "record.pdf"
+    pdf.write_bytes(page.pdf())
+    assert pdf.read_bytes()[:4] == b"%PDF"
+    if shutil.which("pdftoppm"):
+        out = screenshot(page, "sizes-record").with_name("sizes-record-pdf")
+        subprocess.run(["pdftoppm", "-png", "-r", "60", str(pdf), str(out)], check=True)

@@ -159,8 +159,25 @@ def demo_scenarios() -> list[dict[str, Any]]:
     return [dict(d) for d in DEMOS]
 
 
+MEDIAN_NAMES = {
+    "count": {
+        "volume_equivalent": "count median diameter, volume-equivalent (CMD)",
+        "optical": "count median optical diameter (taken as volume-equivalent)",
+        "mobility": "count median mobility diameter",
+        "aerodynamic": "count median aerodynamic diameter (CMAD)",
+    },
+    "mass": {
+        "volume_equivalent": "mass median diameter, geometric (MMD)",
+        "optical": "mass median optical diameter (taken as volume-equivalent)",
+        "mobility": "mass median mobility diameter",
+        "aerodynamic": "mass median aerodynamic diameter (MMAD)",
+    },
+}
+"""What a mode's median is, by basis and diameter type (shown beside the median field)."""
+
 _MODE_SCHEMA = {
     "max_items": MAX_MODES,
+    "median_names": MEDIAN_NAMES,
     "item_fields": [
         {
             "name": "basis",
@@ -832,7 +849,7 @@ def _ldsa_rows(res: DoseResult) -> dict[str, Any]:
             "µm²/cm³",
             "m²/m³",
             "LDSA",
-            "airborne surface area × deposition fraction, per cm³ of inhaled air",
+            "deposited particle surface per cm³ of inhaled air",
         )
         for key in ("alveolar", "tracheobronchial", "total")
     }
@@ -846,17 +863,14 @@ def _mode_rows(
     modes = getattr(dist, "modes", ())
     coord = _COORDINATE_WORDS[desc.coordinate]
     for i, (mode, e) in enumerate(zip(modes, entered, strict=True), start=1):
-        given = (
-            f"from the {'count' if e['basis'] == 'count' else 'mass'} median entered as "
-            f"{_TYPE_WORDS[e['diameter_type']]}"
-        )
+        given = f"entered: {e['basis']} median, {_TYPE_WORDS[e['diameter_type']]}"
         converted = e["diameter_type"] != desc.coordinate and not (
             desc.coordinate == "volume_equivalent" and e["diameter_type"] == "optical"
         )
-        note = given + ("; converted at the median, GSD kept" if converted else "")
+        note = given + ("; converted, GSD kept" if converted else "")
         mmd = mode.median("mass")
         out[f"mode{i}_count_median"] = _row(
-            f"Mode {i}: count median diameter ({coord})",
+            f"Mode {i}: count median ({coord})",
             mode.cmd,
             1e-9,
             "nm",
@@ -865,10 +879,10 @@ def _mode_rows(
             note,
         )
         out[f"mode{i}_mass_median"] = _row(
-            f"Mode {i}: mass median diameter ({coord})", mmd, 1e-6, "µm", "m", "MMD"
+            f"Mode {i}: mass median ({coord})", mmd, 1e-6, "µm", "m", "MMD"
         )
         out[f"mode{i}_mmad"] = _row(
-            f"Mode {i}: mass median aerodynamic diameter",
+            f"Mode {i}: mass median aerodynamic",
             desc.from_model(mmd, "aerodynamic"),
             1e-6,
             "µm",

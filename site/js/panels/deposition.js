@@ -210,6 +210,29 @@ export function mount(root, { engine, description }) {
     applyVisibility();
   };
 
+  // beside each mode's median, what it is (count or mass median of which diameter); the words
+  // come from the field description
+  const medianNames = (fields.find((f) => f.name === "modes") || {}).median_names || {};
+  function sayMedians() {
+    for (const box of root.querySelectorAll("fieldset.item")) {
+      const basis = box.querySelector('[data-field="basis"] select')?.value;
+      const type = box.querySelector('[data-field="diameter_type"] select')?.value;
+      const wrap = box.querySelector('[data-field="median"]');
+      const input = wrap?.querySelector("input");
+      if (!wrap || !input) continue;
+      let says = wrap.querySelector(".median-says");
+      if (!says) {
+        says = el("p", { class: "help median-says", id: `${input.id}-says` });
+        wrap.append(says);
+        input.setAttribute("aria-describedby", `${input.getAttribute("aria-describedby") || ""} ${says.id}`.trim());
+      }
+      const name = medianNames[basis]?.[type];
+      says.textContent = name ? `This median is the ${name}.` : "";
+    }
+  }
+  panel.onChange(sayMedians);
+  sayMedians();
+
   panel.body.append(summaryBox, modesBox, ldsaBox, regionBox, controls, doseFigure.figure, fractionFigure.figure);
   return panel;
 }
