@@ -542,11 +542,12 @@ def settling_regime(re: float, model: str = "clift_gauvin1970") -> str:
     """Name the drag law that set a settling velocity at particle Reynolds number ``re``.
 
     Returns ``"Stokes with slip (Re ≤ 0.1)"`` in the Stokes regime, else the correlation's
-    name with its range, e.g. ``"Clift & Gauvin (1970) drag (0.1 < Re ≤ 3e+05)"``.
+    name with its range, e.g. ``"Clift & Gauvin (1970) drag (valid to Re 3×10⁵)"``.
     """
     if model == "stokes" or re <= STOKES_RE_MAX:
         return "Stokes with slip (Re ≤ 0.1)" if re <= STOKES_RE_MAX else "Stokes with slip"
-    return f"{_DRAG_NAMES[model]} drag (0.1 < Re ≤ {_DRAG_RE_MAX[model]:g})"
+    limit = {"clift_gauvin1970": "3×10⁵", "schiller_naumann1933": "800"}[model]
+    return f"{_DRAG_NAMES[model]} drag (valid to Re {limit})"
 
 
 def settling_velocity(
@@ -732,10 +733,10 @@ def stopping_distance_klyachko(
 def stopping_regime(re0: float, model: str = "clift_gauvin1970") -> str:
     """Name how the stopping distance was found at initial Reynolds number ``re0``."""
     if model == "stokes":
-        return "Stokes: S = V0 τ"
+        return "Stokes: S = V₀τ"
     if re0 <= STOKES_RE_MAX:
-        return f"equation of motion with {_DRAG_NAMES[model]} drag (≈ V0 τ at Re0 ≤ 0.1)"
-    return f"equation of motion integrated with {_DRAG_NAMES[model]} drag"
+        return f"Equation of motion, {_DRAG_NAMES[model]} drag (≈ V₀τ at this Re₀)"
+    return f"Equation of motion, {_DRAG_NAMES[model]} drag"
 
 
 def aerodynamic_diameter(

@@ -266,7 +266,7 @@ def test_handle_motion_warnings_for_short_time_and_large_re() -> None:
     assert "relaxation times" in text
     assert "100 \u00b5m" in text
     assert "Clift & Gauvin" in reply["results"]["settling_model"]["text"]
-    assert "equation of motion" in reply["results"]["stopping_model"]["text"]
+    assert "equation of motion" in reply["results"]["stopping_model"]["text"].lower()
 
 
 def test_handle_motion_names_stokes_regime_for_small_particles() -> None:
