@@ -26,6 +26,7 @@ import os
 import posixpath
 import re
 import shutil
+import struct
 import subprocess
 import sys
 import tempfile
@@ -46,11 +47,49 @@ PYODIDE_FILES = (
     "python_stdlib.zip",
     "pyodide-lock.json",
 )
+STDLIB = "python_stdlib.zip"  # replaced in dist/ by its bytecode edition (see precompile())
+TOOLS = ROOT / "tools"
+ENGINE_RUNNER = TOOLS / "engine.mjs"  # runs the vendored Pyodide under Node at build time
+SNAPSHOT_DIR = "snapshot"  # dist/snapshot/<stamp>.bin: the started engine's memory, sparse
+SNAPSHOT_PAGE = 4096  # bytes per page of the sparse snapshot file (see write_sparse)
+SNAPSHOT_MAGIC = 1886286592  # first 32-bit word of an engine snapshot (pyodide.asm.mjs)
+SPARSE_MAGIC = b"DDSPARSE"
+# what the build relies on in the vendored engine, checked before every build. The snapshot
+# options are private to Pyodide (`_makeSnapshot`, `_loadSnapshot`, `makeMemorySnapshot`):
+# snapshot layout, 32-bit words: [magic, data offset, JSON length, 0, 8 words of build id]
+ENGINE_ASSUMPTIONS = {
+    "pyodide.mjs": (
+        '"python_stdlib.zip"',  # the standard library is fetched from indexURL under this name
+        "/lib/python${i}${s}.zip",  # ...and mounted there (the code objects carry this path)
+        "_loadSnapshot",  # option: restore this memory instead of starting Python
+        "INITIAL_MEMORY=i.length",  # ...sized from the snapshot
+        "restoreSnapshot(t)",
+        'BUILD_ID:"',  # the engine's build id, which a snapshot must carry
+        "thisProgram:e._sysExecutable",  # tools/engine.mjs sets sys.executable as in a browser
+    ),
+    "pyodide.asm.mjs": (
+        "_makeSnapshot",  # option needed to make a snapshot
+        "static makeMemorySnapshot(",
+        "Snapshot build id mismatch",  # the engine refuses a snapshot of another build
+        f"$r={SNAPSHOT_MAGIC},Ze=48",  # magic number and header size
+    ),
+    "pyodide.d.ts": (
+        "_makeSnapshot?: boolean;",
+        "_loadSnapshot?: Uint8Array | ArrayBuffer | PromiseLike<Uint8Array | ArrayBuffer>;",
+    ),
+}
+_BUILD_ID = re.compile(r'BUILD_ID:"([0-9a-f]{64})"')
 VENDOR_FILES = {
     "chart.js/dist/chart.umd.min.js": "vendor/chart.umd.min.js",
     "qrcode-generator/dist/qrcode.js": "vendor/qrcode.js",
 }
-SITE_SKIP = {"node_modules", "package.json", "package-lock.json", "single"}  # single: see below
+SITE_SKIP = {
+    "node_modules",
+    "package.json",
+    "package-lock.json",
+    ".installed-lock",
+    "single",
+}  # single: see below
 MIME = {
     ".mjs": "text/javascript",
     ".js": "text/javascript",
@@ -122,6 +161,173 @@ def build_wheel(out: Path) -> Path:
     return target
 
 
+def _check_engine() -> None:
+    """Stop the build when the vendored Pyodide loader changed what the build relies on."""
+    for name, needles in ENGINE_ASSUMPTIONS.items():
+        text = (MODULES / "pyodide" / name).read_text(encoding="utf-8")
+        for needle in needles:
+            if needle not in text:
+                raise BuildError(
+                    f"pyodide/{name} no longer contains {needle!r}; the Pyodide release changed "
+                    "something the bytecode or snapshot build relies on (see tools/)"
+                )
+
+
+def engine_build_id() -> str:
+    """The vendored engine's build id (a snapshot restores only into the same build)."""
+    found = _BUILD_ID.findall((MODULES / "pyodide" / "pyodide.mjs").read_text(encoding="utf-8"))
+    if len(found) != 1:
+        raise BuildError("pyodide.mjs: expected exactly one BUILD_ID; the loader changed")
+    return found[0]
+
+
+def run_engine(script: Path, files: dict[str, Path], outputs: dict[str, Path], **job) -> dict:
+    """Run a Python ``script`` in the vendored Pyodide under Node; return its JSON result.
+
+    ``files`` are copied into the engine's file system before the script runs and ``outputs``
+    copied back after it (engine path -> host path). Other keywords go into the job as they are
+    (``snapshot``: a host path for a memory snapshot; ``stdLibURL``: another standard library).
+    """
+    node = shutil.which("node")
+    if node is None:
+        raise BuildError("Node.js is needed to build (it runs Pyodide to compile the bytecode)")
+    with tempfile.TemporaryDirectory() as tmp:
+        spec = {
+            "indexURL": str(MODULES / "pyodide") + "/",
+            "env": {"PYTHONHASHSEED": "0", "SOURCE_DATE_EPOCH": SOURCE_DATE_EPOCH},
+            "clock": int(SOURCE_DATE_EPOCH),
+            "entropy": "driftdose build",
+            "files": {k: str(v) for k, v in files.items()},
+            "outputs": {k: str(v) for k, v in outputs.items()},
+            "script": str(script),
+            **job,
+        }
+        done = subprocess.run(
+            [node, str(ENGINE_RUNNER)],
+            input=json.dumps(spec),
+            capture_output=True,
+            text=True,
+            cwd=tmp,
+        )
+    if done.returncode:
+        tail = (done.stdout + "\n" + done.stderr)[-3000:]
+        raise BuildError(f"{script.name} failed in the engine:\n{tail}")
+    answer = json.loads(done.stdout.strip().splitlines()[-1])
+    answer["result"] = json.loads(answer["result"]) if answer["result"] else None
+    return answer
+
+
+def precompile(stdlib: Path, wheel: Path, stdlib_out: Path, wheel_out: Path) -> dict:
+    """Write the bytecode editions of the standard library and of the wheel.
+
+    Compiled by the engine's own Python (``tools/engine_precompile.py``), so the page's
+    interpreter imports them without compiling anything; see that script for the format.
+    """
+    config = {
+        "stdlib_in": "/job/stdlib.zip",
+        "stdlib_out": "/job/stdlib-out.zip",
+        "wheel_in": "/job/in.whl",
+        "wheel_out": "/job/out.whl",
+    }
+    with tempfile.TemporaryDirectory() as tmp:
+        (Path(tmp) / "config.json").write_text(json.dumps(config))
+        answer = run_engine(
+            TOOLS / "engine_precompile.py",
+            {
+                "/job/config.json": Path(tmp) / "config.json",
+                "/job/stdlib.zip": stdlib,
+                "/job/in.whl": wheel,
+            },
+            {"/job/stdlib-out.zip": stdlib_out, "/job/out.whl": wheel_out},
+        )
+    return {**answer["result"], "engine": answer["facts"]["version"]}
+
+
+def write_sparse(memory: bytes, out: Path) -> None:
+    """Write ``memory`` leaving out its all-zero pages (most of a fresh engine's memory).
+
+    Format (little-endian): ``DDSPARSE``, u32 total length, u32 page size, u32 number of pages
+    kept, a bitmap with one bit per page (1: kept), then the kept pages in order. The worker
+    expands it into a zeroed buffer (``expandSparse`` in site/js/worker.js).
+    """
+    pages = (len(memory) + SNAPSHOT_PAGE - 1) // SNAPSHOT_PAGE
+    zero = bytes(SNAPSHOT_PAGE)
+    bitmap = bytearray((pages + 7) // 8)
+    kept = []
+    for i in range(pages):
+        page = memory[i * SNAPSHOT_PAGE : (i + 1) * SNAPSHOT_PAGE]
+        if page != zero[: len(page)]:
+            bitmap[i // 8] |= 1 << (i % 8)
+            kept.append(page.ljust(SNAPSHOT_PAGE, b"\0"))
+    header = SPARSE_MAGIC + struct.pack("<III", len(memory), SNAPSHOT_PAGE, len(kept))
+    out.write_bytes(header + bytes(bitmap) + b"".join(kept))
+
+
+def read_sparse(data: bytes) -> bytes:
+    """Inverse of :func:`write_sparse` (used by the tests)."""
+    if data[:8] != SPARSE_MAGIC:
+        raise ValueError("not a sparse snapshot")
+    total, size, count = struct.unpack_from("<III", data, 8)
+    pages = (total + size - 1) // size
+    bitmap = data[20 : 20 + (pages + 7) // 8]
+    memory = bytearray(pages * size)
+    pos = 20 + len(bitmap)
+    for i in range(pages):
+        if bitmap[i // 8] >> (i % 8) & 1:
+            memory[i * size : (i + 1) * size] = data[pos : pos + size]
+            pos += size
+    if pos != len(data) or sum(bin(b).count("1") for b in bitmap) != count:
+        raise ValueError("sparse snapshot has the wrong length")
+    return bytes(memory[:total])
+
+
+def make_snapshot(stdlib: Path, wheel: Path, dist: Path) -> dict:
+    """Write the engine's memory with the package imported to ``dist/snapshot/``.
+
+    The engine runs on the bytecode standard library ``stdlib`` (the worker must load the very
+    same archive: the engine keeps its directory in memory). The file is named after its stamp,
+    a digest of the engine build id, the standard library and the wheel; the worker checks the
+    stamp inside the restored engine against ``build-info.json``.
+    """
+    build_id = engine_build_id()
+    stamp_of = hashlib.sha256(build_id.encode())
+    for part in (stdlib, wheel):
+        stamp_of.update(hashlib.sha256(part.read_bytes()).digest())
+    stamp = stamp_of.hexdigest()[:16]
+    with tempfile.TemporaryDirectory() as tmp:
+        (Path(tmp) / "config.json").write_text(
+            json.dumps({"wheel": "/job/package.whl", "stamp": stamp})
+        )
+        raw = Path(tmp) / "memory.bin"
+        answer = run_engine(
+            TOOLS / "engine_snapshot.py",
+            {"/job/config.json": Path(tmp) / "config.json", "/job/package.whl": wheel},
+            {},
+            snapshot=str(raw),
+            stdLibURL=str(stdlib),
+        )
+        memory = raw.read_bytes()
+    words = struct.unpack_from("<4I8I", memory)
+    found = "".join(f"{w:08x}" for w in words[4:])
+    if words[0] != SNAPSHOT_MAGIC or found != build_id:
+        raise BuildError(
+            "the engine's snapshot header changed (magic number or build id not where expected)"
+        )
+    if answer["result"]["stamp"] != stamp:
+        raise BuildError("the snapshot script did not record the stamp")
+    target = dist / SNAPSHOT_DIR / f"{stamp}.bin"
+    target.parent.mkdir(parents=True, exist_ok=True)
+    write_sparse(memory, target)
+    return {
+        "file": target.relative_to(dist).as_posix(),
+        "stamp": stamp,
+        "engine_build_id": build_id,
+        "memory_bytes": len(memory),
+        "file_bytes": target.stat().st_size,
+        "modules": answer["result"]["modules"],
+    }
+
+
 def describe_forms() -> dict:
     """Return ``driftdose.api.describe()`` from the source tree (the page's form data)."""
     sys.path.insert(0, str(ROOT / "pycore"))
@@ -137,9 +343,14 @@ def _sha256(path: Path) -> str:
     return hashlib.sha256(path.read_bytes()).hexdigest()
 
 
-def build(dist: Path = DIST) -> dict:
-    """Write the served edition into ``dist``; return the build info."""
+def build(dist: Path = DIST, *, bytecode: bool = True, snapshot: bool = True) -> dict:
+    """Write the served edition into ``dist``; return the build info.
+
+    ``bytecode=False`` ships the standard library and the wheel as sources and ``snapshot=False``
+    leaves the memory snapshot out: slower editions, kept for the benchmark's comparison.
+    """
     versions = _check_node_modules()
+    _check_engine()
     if dist.exists():
         shutil.rmtree(dist)
     shutil.copytree(SITE, dist, ignore=lambda d, names: [n for n in names if n in SITE_SKIP])
@@ -148,11 +359,22 @@ def build(dist: Path = DIST) -> dict:
         if not src.exists():
             raise BuildError(f"Pyodide file {name} not found; did the npm package change?")
         (dist / "pyodide").mkdir(exist_ok=True)
-        shutil.copyfile(src, dist / "pyodide" / name)
+        if name != STDLIB or not bytecode:
+            shutil.copyfile(src, dist / "pyodide" / name)
     for src, dst in VENDOR_FILES.items():
         (dist / dst).parent.mkdir(parents=True, exist_ok=True)
         shutil.copyfile(MODULES / src, dist / dst)
-    wheel = build_wheel(dist / "wheels")
+    with tempfile.TemporaryDirectory() as tmp:
+        source_wheel = build_wheel(Path(tmp))
+        wheel = dist / "wheels" / source_wheel.name
+        wheel.parent.mkdir()
+        if bytecode:
+            stdlib = dist / "pyodide" / STDLIB
+            precompile(MODULES / "pyodide" / STDLIB, source_wheel, stdlib, wheel)
+        else:
+            shutil.copyfile(source_wheel, wheel)
+    engine = {"version": versions["pyodide"], "build_id": engine_build_id()}
+    frozen = make_snapshot(stdlib, wheel, dist) if bytecode and snapshot else None
     forms = describe_forms()
     (dist / "forms.json").write_text(json.dumps(forms, ensure_ascii=False, indent=1) + "\n")
     files = sorted(p for p in dist.rglob("*") if p.is_file())
@@ -163,8 +385,13 @@ def build(dist: Path = DIST) -> dict:
         "pyodide": versions["pyodide"],
         "chartjs": versions["chart.js"],
         "wheel": f"wheels/{wheel.name}",
+        "wheel_sha256": _sha256(wheel),
+        "bytecode": bytecode,
+        "engine": engine,
         "build": digest,
     }
+    if frozen:
+        info["snapshot"] = frozen
     (dist / "build-info.json").write_text(json.dumps(info, indent=1) + "\n")
     precache.append({"url": "build-info.json", "sha256": _sha256(dist / "build-info.json")})
     (dist / "precache.json").write_text(
@@ -212,6 +439,9 @@ SINGLE_NAME = "drift-and-dose.html"
 SINGLE_MAX_BYTES = 12_000_000
 # served-only files: the page shell (rewritten, not embedded) and the offline/installable machinery
 SINGLE_SKIP = {"index.html", "precache.json", "sw.js", "manifest.webmanifest"}
+# the memory snapshot (13 MB) would not fit the size budget: the edition starts the engine from
+# its bytecode instead (build-info.json embedded without the "snapshot" entry)
+SINGLE_SKIP_DIRS = ("snapshot/",)
 SINGLE_RUNTIME = "single/runtime.js"
 SINGLE_WORKER = "js/worker.js"
 SINGLE_FORMS = "forms.json"
@@ -422,7 +652,8 @@ def build_single_file(target: Path | None = None, built: Path | None = None) -> 
     for p in sorted(built.rglob("*")):
         rel = p.relative_to(built).as_posix()
         earlier = p.name == SINGLE_NAME or p.resolve() == target.resolve()  # no nesting
-        if p.is_file() and rel not in SINGLE_SKIP and not earlier:
+        skip = rel in SINGLE_SKIP or rel.startswith(SINGLE_SKIP_DIRS) or earlier
+        if p.is_file() and not skip:
             files[rel] = p.read_bytes()
     for p in sorted(SINGLE_SRC.glob("*.js")):
         if p.name != "loader.js":
@@ -431,6 +662,8 @@ def build_single_file(target: Path | None = None, built: Path | None = None) -> 
         if need not in files:
             raise BuildError(f"single-file edition: {need} is missing from the build")
     info = json.loads(files["build-info.json"])
+    if info.pop("snapshot", None):
+        files["build-info.json"] = (json.dumps(info, indent=1) + "\n").encode()
     if info.get("wheel") not in files:
         raise BuildError(f"single-file edition: the wheel {info.get('wheel')!r} is missing")
 

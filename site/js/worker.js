@@ -1,31 +1,95 @@
 // Module worker that owns Pyodide and the driftdose package. Messages in: {id, kind, inputs};
 // out: {type: "progress"|"ready"|"failed"} or {type: "reply", id, reply}. A JSON string crosses
 // into Python and back, so no Python object leaks into JavaScript.
+//
+// Start-up: when build-info.json names a memory snapshot (the engine started at build time with
+// the package imported, see build.py), the engine restores it instead of starting Python. The
+// engine refuses a snapshot of another engine build; this worker refuses one whose stamp differs
+// from build-info.json. Either refusal, or any failure, falls back to the normal start: start
+// Python, install the wheel, import the package. The standard library and the wheel hold
+// bytecode compiled at build time, so the normal start compiles nothing either.
 import { loadPyodide } from "../pyodide/pyodide.mjs";
+import { expandSparse } from "./sparse.js";
 
 const base = new URL("../", import.meta.url);
+const indexURL = new URL("pyodide/", base).href;
 let handleJson = null;
 let exporter = null;
+// phase marks, in ms since the page's time origin's epoch (performance.timeOrigin + now())
+const marks = { workerStart: stamp() };
+
+function stamp() {
+  return performance.timeOrigin + performance.now();
+}
 
 function progress(value, text) {
   postMessage({ type: "progress", value, text });
 }
 
+async function fromSnapshot(info) {
+  const snapshot = fetch(new URL(info.snapshot.file, base))
+    .then((r) => {
+      if (!r.ok) throw new Error(`snapshot: HTTP ${r.status}`);
+      return r.arrayBuffer();
+    })
+    .then(expandSparse);
+  const pyodide = await loadPyodide({
+    indexURL,
+    packages: [],
+    _loadSnapshot: snapshot,
+    fsInit: async () => { marks.engineStarted = stamp(); },
+  });
+  marks.bootstrapped = stamp();
+  const found = pyodide.globals.get("DRIFTDOSE_SNAPSHOT");
+  if (found !== info.snapshot.stamp) {
+    throw new Error(`snapshot stamp ${found} does not match this build (${info.snapshot.stamp})`);
+  }
+  // the snapshot holds the build's random state: draw fresh seeds from the browser. (The hash
+  // secret of str and bytes cannot change once objects exist; it stays the build's fixed one.)
+  pyodide.runPython("import sys\nif 'random' in sys.modules: sys.modules['random'].seed()");
+  return pyodide;
+}
+
+async function normalStart(info) {
+  const pyodide = await loadPyodide({
+    indexURL,
+    packages: [],
+    fsInit: async () => { marks.engineStarted = stamp(); },
+  });
+  marks.bootstrapped = stamp();
+  progress(70, "Loading the aerosol models…");
+  await pyodide.loadPackage(new URL(info.wheel, base).href, { messageCallback: () => {} });
+  return pyodide;
+}
+
 async function start() {
   const t0 = performance.now();
   progress(10, "Loading the Python runtime…");
-  const infoPromise = fetch(new URL("build-info.json", base)).then((r) => r.json());
-  const pyodide = await loadPyodide({ indexURL: new URL("pyodide/", base).href, packages: [] });
+  const info = await fetch(new URL("build-info.json", base)).then((r) => r.json());
+  let pyodide = null;
+  let how = "normal";
+  let refused = "";
+  if (info.snapshot) {
+    try {
+      pyodide = await fromSnapshot(info);
+      how = "snapshot";
+    } catch (err) {
+      refused = String(err && err.message ? err.message : err);
+      console.warn(`Engine snapshot not used (${refused}); starting the engine normally.`);
+    }
+  }
+  if (!pyodide) pyodide = await normalStart(info);
   const tRuntime = performance.now() - t0;
-  progress(70, "Loading the aerosol models…");
-  const info = await infoPromise;
-  await pyodide.loadPackage(new URL(info.wheel, base).href, { messageCallback: () => {} });
   progress(90, "Preparing…");
   const api = pyodide.pyimport("driftdose.api");
   handleJson = api.handle_json;
   exporter = pyodide.pyimport("driftdose.export");
   const version = JSON.parse(handleJson(JSON.stringify({ kind: "describe" }))).version;
-  postMessage({ type: "ready", version, pyodide: pyodide.version, ms: performance.now() - t0, runtimeMs: tRuntime });
+  marks.packageImported = stamp();
+  postMessage({
+    type: "ready", version, pyodide: pyodide.version, ms: performance.now() - t0, runtimeMs: tRuntime,
+    start: how, refused, marks,
+  });
 }
 
 const started = start().catch((err) => {
