@@ -5,7 +5,8 @@
 // JOB = {indexURL, stdLibURL?, env, clock?, entropy?, files: {enginePath: hostPath},
 //        script: hostPath, outputs: {enginePath: hostPath}, snapshot?: hostPath}
 // `clock` (seconds since 1970) fixes Date.now(), which the engine's file system and clock read,
-// so that file times inside a snapshot do not depend on when the build ran. `entropy` (a text)
+// and turns performance.now() into a counter, so that file times and the allocator's clock-based
+// seeds inside a snapshot do not depend on when the build ran. `entropy` (a text)
 // replaces the random bytes the engine asks Node for (its allocator's keys, os.urandom) by a
 // SHA-256 counter stream from that text: a snapshot is then the same on every build. The job comes on
 // standard input so that no temporary path reaches the engine's memory.
@@ -22,6 +23,9 @@ try {
   if (job.clock !== undefined) {
     const fixed = job.clock * 1000;
     Date.now = () => fixed;
+    // the allocator also seeds itself from the monotonic clock: make that a counter
+    let ticks = 0;
+    performance.now = () => (ticks += 0.001);
   }
   if (job.entropy !== undefined) {
     let counter = 0;

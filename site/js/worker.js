@@ -33,6 +33,7 @@ async function fromSnapshot(info) {
       return r.arrayBuffer();
     })
     .then(expandSparse);
+  snapshot.catch(() => {}); // handled where loadPyodide awaits it; not an unhandled rejection
   const pyodide = await loadPyodide({
     indexURL,
     packages: [],
