@@ -20,6 +20,7 @@ import functools
 import gzip
 import hashlib
 import http.server
+import io
 import json
 import mimetypes
 import os
@@ -31,6 +32,7 @@ import subprocess
 import sys
 import tempfile
 import threading
+import zipfile
 from pathlib import Path
 from typing import ClassVar
 
@@ -635,6 +637,17 @@ def _single_shell(html: str, files: dict[str, bytes]) -> tuple[str, list[str], l
     return html, styles, scripts
 
 
+def _stored_zip(data: bytes) -> bytes:
+    """The same archive with every entry stored uncompressed (same names, times, order)."""
+    out = io.BytesIO()
+    with zipfile.ZipFile(io.BytesIO(data)) as zin, zipfile.ZipFile(out, "w") as zout:
+        for info in zin.infolist():
+            entry = zipfile.ZipInfo(info.filename, date_time=info.date_time)
+            entry.external_attr = info.external_attr
+            zout.writestr(entry, zin.read(info), compress_type=zipfile.ZIP_STORED)
+    return out.getvalue()
+
+
 def build_single_file(target: Path | None = None, built: Path | None = None) -> dict:
     """Write the single-file edition (default dist/drift-and-dose.html); return its figures.
 
@@ -661,6 +674,9 @@ def build_single_file(target: Path | None = None, built: Path | None = None) -> 
     for need in (SINGLE_RUNTIME, SINGLE_WORKER, SINGLE_FORMS, *SINGLE_ALIASES.values()):
         if need not in files:
             raise BuildError(f"single-file edition: {need} is missing from the build")
+    stdlib = f"pyodide/{STDLIB}"
+    if stdlib in files:  # stored, so that the edition's own gzip compresses across modules
+        files[stdlib] = _stored_zip(files[stdlib])
     info = json.loads(files["build-info.json"])
     if info.pop("snapshot", None):
         files["build-info.json"] = (json.dumps(info, indent=1) + "\n").encode()
