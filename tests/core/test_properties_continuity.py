@@ -130,8 +130,8 @@ def _flow_for(re: float, dt: float) -> float:
 def test_tube_continuous_in_flow_through_transition(re, d, dt, length):
     # Diffusion and settling losses vary smoothly with flow within each published form; the
     # interpolation over Re 2000-4000 removes the jump at 2300. Within a form a 0.1 % step
-    # in flow changes ln P by at most 0.1 % of |ln P| (loss ~ Q^-2/3 .. Q^-1), plus the
-    # interpolation weight's 0.1 % x 2000 / 2000 = 0.1 % of |ln P_lam - ln P_turb|.
+    # in flow changes P by at most about 0.1 % (loss ~ Q^-2/3 .. Q^-1), plus the
+    # interpolation weight's change, 0.1 % x Re / 2000 <= 0.2 % of |P_lam - P_turb|.
     from driftdose.transport import settling, tube
 
     flow = _flow_for(re, dt)

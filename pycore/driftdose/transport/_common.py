@@ -125,24 +125,24 @@ def transition_weight(reynolds: float) -> float:
     -----
     Pipe flow between Re 2000 and 4000 may be laminar or turbulent, intermittently
     (common practice); no published deposition model covers it. This tool interpolates:
-    P = P_laminar^(1 - w) P_turbulent^w, i.e. linearly in ln P (the loss rates, which add
-    along a tube), so the answer is continuous in the flow and lies between the two
-    published forms. The interpolation is this tool's choice, not a published method; the
-    reply names both forms and says that they were interpolated.
+    P = (1 - w) P_laminar + w P_turbulent, as if the flow were turbulent a fraction w of
+    the time, so the answer is continuous in the flow and lies between the two published
+    forms. (Interpolating ln P instead would let a laminar form that reaches exactly 0,
+    as laminar settling does, wipe out the turbulent answer.) The interpolation is this
+    tool's choice, not a published method; the reply names both forms and says that they
+    were interpolated.
 
     """
     return min(1.0, max(0.0, (reynolds - RE_LAMINAR_MAX) / (RE_TURBULENT_MIN - RE_LAMINAR_MAX)))
 
 
 def interpolate_regimes(laminar: float, turbulent: float, weight: float) -> float:
-    """Return laminar^(1 - weight) turbulent^weight (see :func:`transition_weight`). [-]"""
+    """Return (1 - weight) laminar + weight turbulent (see :func:`transition_weight`). [-]"""
     if weight <= 0.0:
         return laminar
     if weight >= 1.0:
         return turbulent
-    if laminar <= 0.0 or turbulent <= 0.0:
-        return 0.0
-    return math.exp((1.0 - weight) * math.log(laminar) + weight * math.log(turbulent))
+    return (1.0 - weight) * laminar + weight * turbulent
 
 
 def speed_of_sound(T: float = T_DEFAULT) -> float:

@@ -111,7 +111,7 @@ def _regime_warnings(re: float, what: str, models: str, regime: str) -> list[str
         return [
             f"{what}: Reynolds number {re:.0f} is in the transition range 2000 to 4000, where "
             f"the flow may be laminar or turbulent; the penetration is interpolated between "
-            f"{models} ({w * 100:.0f} % turbulent, linearly in ln P over 2000-4000; this "
+            f"{models} ({w * 100:.0f} % turbulent, linearly over 2000-4000; this "
             "tool's interpolation, not a published model)."
         ]
     return []
