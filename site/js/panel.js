@@ -22,6 +22,9 @@ export class CalcPanel {
 
     root.append(el("h2", { id: `${opts.id}-title` }, opts.title));
     if (opts.intro) root.append(el("p", { class: "intro" }, opts.intro));
+    // narrow screens stack the results under the inputs: a way to them at once
+    const jump = el("button", { type: "button", class: "secondary jump-results" }, "Jump to results");
+    root.append(jump);
     const grid = el("div", { class: "panel-grid" });
     const form = el("form", { class: "inputs", "aria-labelledby": `${opts.id}-title`, novalidate: "" });
     form.addEventListener("submit", (e) => e.preventDefault());
@@ -31,7 +34,11 @@ export class CalcPanel {
     this.formMessage = el("p", { class: "form-message", role: "alert", hidden: "" });
     form.append(this.formMessage);
     grid.append(form);
-    this.output = el("div", { class: "outputs", "aria-live": "polite" });
+    this.output = el("div", { class: "outputs", "aria-live": "polite", tabindex: "-1" });
+    jump.addEventListener("click", () => {
+      this.output.scrollIntoView({ block: "start" });
+      this.output.focus({ preventScroll: true });
+    });
     this.staleNote = el("p", { class: "stale-note", hidden: "" },
       "Out of date: the results below are from the last valid inputs. Correct the marked fields to update them.");
     this.output.append(this.staleNote);
