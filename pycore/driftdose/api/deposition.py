@@ -326,8 +326,8 @@ FIELDS: tuple[Field, ...] = (
         "choice",
         "icrp66",
         choices=(
-            ("icrp66", "As ICRP 66: diffusion of a sphere of the volume-equivalent diameter"),
-            ("mobility", "In the mobility too: diffusion of the mobility-equivalent sphere"),
+            ("icrp66", "As ICRP 66 (volume-equivalent sphere)"),
+            ("mobility", "Slows diffusion too (mobility-equivalent sphere)"),
         ),
         help=(
             "The shape factor always enters the aerodynamic diameter. ICRP 66 computes "
