@@ -43,19 +43,20 @@ sqrt(eta_ae^2 + eta_th^2), limited to 1.
   t_b = V_D(bb)(1 + V_T/(2 FRC))/Q, t_A = phi_AI V_T / Q.
 - Inhalability: IF = 1 - 0.5 [1 - 1/(1 + 7.6e-4 d_ae^2.8)] + 1e-5 U^2.75 exp(0.055 d_ae).
 - Shape factor: it enters the aerodynamic side only, through d_ae (Hinds 1999 eq. 3.30
-  with slip). On the thermodynamic side ICRP 66 uses the diffusion coefficient of a sphere
-  whose thermodynamic diameter equals the volume-equivalent diameter d_e (Annex D, from
-  memory: the thermodynamic diameter is the size entered for diffusion and it is related to
-  d_ae by density and shape factor only through the aerodynamic conversion). This is the
-  default, ``thermodynamic="icrp66"``. Evidence besides the recollection: with it the model
-  reproduces the recalled ICRP tables for the reference worker to the fourth digit at 1 um
-  AMAD (bb 0.0165, AI 0.1066), while the alternative leaves bb 10 % and AI 5 % low (see the
-  table below). ``thermodynamic="mobility"`` is the physically fuller alternative: a
-  non-spherical particle has the drag of chi times a sphere's, so its mobility and diffusion
-  coefficient are those of a sphere of about d_e chi (continuum); D = k T Cc(d_e) /
-  (3 pi mu d_e chi) and d_th = d_e chi in psi_th. It lowers AI and bb by 12-19 % for chi = 1.5
-  between 20 nm and 0.3 um; use it when the shape factor of the particles' diffusion is
-  known to matter, knowing that it departs from the published model.
+  with slip). On the thermodynamic side ICRP 66 computes the efficiencies from the
+  diffusion coefficient of a sphere of the particle's thermodynamic diameter, which for its
+  aerosols it takes equal to the volume-equivalent diameter d_e; the density and the shape
+  factor relate d_e to d_ae and nothing else (Annex D and the chapter on particle size,
+  recalled from memory, not read here). This is the default, ``thermodynamic="icrp66"``.
+  Evidence besides the recollection: with it the model reproduces the recalled ICRP table
+  for the reference worker to the fourth digit at 1 um AMAD (bb 0.0165, AI 0.1066), while
+  the alternative leaves bb 10 % and AI 5 % low (see the table below).
+  ``thermodynamic="mobility"`` is the physically fuller alternative: a non-spherical
+  particle has the drag of chi times a sphere's, so its mobility and diffusion coefficient
+  are those of a sphere of about d_e chi (continuum); D = k T Cc(d_e) / (3 pi mu d_e chi)
+  and d_th = d_e chi in psi_th. It lowers AI and bb by 12-19 % for chi = 1.5 between 20 nm
+  and 0.3 um; use it when the shape factor of the particles' diffusion is known to matter,
+  knowing that it departs from the published model.
 - Units inside the equations: d_ae and d_th in um, D in cm^2/s, Q (mean inspiratory flow
   2 V_T f) in cm^3/s, V in cm^3, t in s, U in m/s. D is computed at body temperature,
   37 degrees C, by the Stokes-Einstein relation with slip (Kim et al. 2005 slip
