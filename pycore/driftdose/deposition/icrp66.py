@@ -54,9 +54,9 @@ sqrt(eta_ae^2 + eta_th^2), limited to 1.
   ``thermodynamic="mobility"`` is the physically fuller alternative: a non-spherical
   particle has the drag of chi times a sphere's, so its mobility and diffusion coefficient
   are those of a sphere of about d_e chi (continuum); D = k T Cc(d_e) / (3 pi mu d_e chi)
-  and d_th = d_e chi in psi_th. It lowers AI and bb by 12-19 % for chi = 1.5 between 20 nm
-  and 0.3 um; use it when the shape factor of the particles' diffusion is known to matter,
-  knowing that it departs from the published model.
+  and d_th = d_e chi in psi_th. For chi = 1.5 (unit density) it lowers AI by 6-20 % and bb
+  by 12-20 % between 20 nm and 0.3 um; use it when the shape factor of the particles'
+  diffusion is known to matter, knowing that it departs from the published model.
 - Units inside the equations: d_ae and d_th in um, D in cm^2/s, Q (mean inspiratory flow
   2 V_T f) in cm^3/s, V in cm^3, t in s, U in m/s. D is computed at body temperature,
   37 degrees C, by the Stokes-Einstein relation with slip (Kim et al. 2005 slip
