@@ -491,3 +491,21 @@ def test_sampling_warns_in_transition_flow() -> None:
     reply = handle(request([stage], flow=q(21, "L/min")))
     assert reply["ok"] is True
     assert any("transition" in w for w in reply["warnings"])
+    # the regime is shown as transition and both published forms are named (common
+    # practice: pipe flow may be either between Re 2000 and 4000)
+    row = reply["results"]["stages_table"]["rows"][0]
+    assert row["regime"] == "transition"
+    text = " ".join(reply["warnings"])
+    assert "interpolated" in text and "Gormley & Kennedy" in text and "Friedlander" in text
+    keys = {s["key"] for s in reply["sources"]}
+    assert {"gormley_kennedy1949", "friedlander1977"} <= keys
+
+
+def test_sampling_regime_named_laminar_and_turbulent_outside_transition() -> None:
+    # 10 mm tube: 5 L/min is Re ~ 700 (laminar), 60 L/min Re ~ 8500 (turbulent)
+    stage = with_param(TUBE, tube_diameter=q(10, "mm"))
+    slow = handle(request([stage], flow=q(5, "L/min")))
+    fast = handle(request([stage], flow=q(60, "L/min")))
+    assert slow["results"]["stages_table"]["rows"][0]["regime"] == "laminar"
+    assert fast["results"]["stages_table"]["rows"][0]["regime"] == "turbulent"
+    assert not any("interpolated" in w for w in slow["warnings"] + fast["warnings"])
