@@ -6,8 +6,15 @@ import { el } from "./forms.js";
 const TINY_SPAN = 1e-250;
 const SERIES_VARS = ["--series-1", "--series-2", "--series-3", "--series-4", "--series-5", "--series-6", "--series-7"];
 
+// computed CSS variables, read once per colour scheme (getComputedStyle forces a style pass)
+const cssCache = new Map();
+globalThis.matchMedia?.("(prefers-color-scheme: dark)").addEventListener?.("change", () => cssCache.clear());
+
 export function cssVar(name) {
-  return getComputedStyle(document.documentElement).getPropertyValue(name).trim();
+  if (!cssCache.has(name)) {
+    cssCache.set(name, getComputedStyle(document.documentElement).getPropertyValue(name).trim());
+  }
+  return cssCache.get(name);
 }
 
 export function seriesColour(index) {
@@ -74,9 +81,21 @@ export function createChart(canvas, axes, { legendLabel, readout, type = "line" 
   });
 }
 
-/** Replace a chart's datasets and redraw without animation. */
+/**
+ * Replace a chart's datasets and redraw without animation. With as many datasets as before,
+ * the existing dataset objects are updated in place, so Chart.js keeps their controllers.
+ */
 export function setDatasets(chart, datasets) {
-  chart.data.datasets = datasets;
+  const current = chart.data.datasets;
+  if (current.length === datasets.length && current.length > 0) {
+    datasets.forEach((next, i) => {
+      const old = current[i];
+      for (const key of Object.keys(old)) if (!(key in next)) delete old[key];
+      Object.assign(old, next);
+    });
+  } else {
+    chart.data.datasets = datasets;
+  }
   chart.update("none");
 }
 

@@ -4,9 +4,16 @@
     .venv/bin/python tests/bench/benchmark.py [--runs 5] [--edits 40]
 
 Measures in one run, on one server, in the same Chromium:
-- page time to ready divided by a bare Pyodide page's load time (both load Pyodide in a module
-  worker; cold caches, fresh browser contexts, alternating runs, medians);
-- repeat visit (HTTP cache warm) time to ready divided by the cold time;
+- time to ready of three editions of the page, each divided by a bare Pyodide page's load time
+  (all load Pyodide in a module worker; cold caches, fresh browser contexts, alternating runs,
+  medians): `source` (standard library and package as sources: the engine compiles them on
+  every start), `bytecode` (both compiled at build time) and `snapshot` (the default build: the
+  engine's memory with the package imported, restored); with each, the phase marks the worker
+  reports (engine started, Python bootstrapped, package imported; ms after navigation) and the
+  first chart drawn, and the bytes a first visit downloads before ready (as sent, and gzip);
+- repeat visits in an on-disk browser profile (closed and reopened between visits): the second
+  visit's time to ready divided by the first's, with the service worker answering and with
+  service workers blocked (HTTP cache only);
 - input change to updated chart, per panel: median and 95th percentile over many edits;
 - the app's own assets (everything but Pyodide's core), gzip-compressed size;
 - the heaviest core calculations in CPython, and the same requests in the page, with ratios;
@@ -21,6 +28,7 @@ import argparse
 import gzip
 import importlib.util
 import json
+import os
 import statistics
 import sys
 import tempfile
@@ -39,14 +47,14 @@ BARE_HTML = """<!doctype html><html data-engine="loading"><head><meta charset="u
 <script type="module" src="bare.js"></script></head><body>bare</body></html>"""
 BARE_JS = """const w = new Worker(new URL("./bare-worker.js", import.meta.url), {type: "module"});
 w.onmessage = () => { document.documentElement.dataset.engine = "ready"; };"""
-BARE_WORKER = """import { loadPyodide } from "../pyodide/pyodide.mjs";
+BARE_WORKER = """import { loadPyodide } from "../source/pyodide/pyodide.mjs";
 const pyodide = await loadPyodide({
-  indexURL: new URL("../pyodide/", import.meta.url).href, packages: [] });
+  indexURL: new URL("../source/pyodide/", import.meta.url).href, packages: [] });
 postMessage("ready");
 self.onmessage = async (event) => {
   // timing of the core's own functions in Pyodide (not part of the ready measurement)
-  const info = await (await fetch(new URL("../build-info.json", import.meta.url))).json();
-  await pyodide.loadPackage(new URL("../" + info.wheel, import.meta.url).href);
+  const info = await (await fetch(new URL("../source/build-info.json", import.meta.url))).json();
+  await pyodide.loadPackage(new URL("../source/" + info.wheel, import.meta.url).href);
   postMessage(pyodide.runPython(event.data));
 };"""
 BARE_BENCH_JS = """const url = new URL("./bare-worker.js", import.meta.url);
@@ -167,14 +175,113 @@ def _pct(values: list[float], q: float) -> float:
     return ordered[lo] + (ordered[hi] - ordered[lo]) * (k - lo)
 
 
-def _time_to_ready(context, url: str) -> float:
+VARIANTS = {  # edition -> build() options
+    "source": {"bytecode": False, "snapshot": False},
+    "bytecode": {"bytecode": True, "snapshot": False},
+    "snapshot": {"bytecode": True, "snapshot": True},
+}
+FIRST_CHART = (
+    "() => Number(document.querySelector('.panel:not([hidden])')?.dataset.updates || 0) > 0"
+)
+
+
+class _Counter:
+    """Bytes the server sent, per path (reset before each page load)."""
+
+    def __init__(self) -> None:
+        self.sent: dict[str, int] = {}
+
+
+def _serve_counting(build, root: Path, counter: _Counter):
+    import functools
+    import http.server
+    import threading
+
+    class Handler(build._Handler):
+        def copyfile(self, source, outputfile) -> None:
+            start = source.tell()
+            super().copyfile(source, outputfile)
+            path = self.path.split("?")[0]
+            counter.sent[path] = counter.sent.get(path, 0) + source.tell() - start
+
+    handler = functools.partial(Handler, directory=str(root))
+    server = http.server.ThreadingHTTPServer(("127.0.0.1", 0), handler)
+    threading.Thread(target=server.serve_forever, daemon=True).start()
+    return server
+
+
+def _time_to_ready(context, url: str, phases: bool = False):
     page = context.new_page()
     t0 = time.perf_counter()
     page.goto(url)
-    page.wait_for_selector("html[data-engine='ready']", timeout=120_000)
+    page.wait_for_selector("html[data-engine='ready']", timeout=180_000)
     elapsed = time.perf_counter() - t0
+    if phases:
+        page.wait_for_function(FIRST_CHART, timeout=60_000)
+        marks = page.evaluate(
+            """() => {
+                 const root = document.documentElement;
+                 const m = JSON.parse(root.dataset.engineMarks || '{}');
+                 const rel = (v) => v === undefined ? null : v - performance.timeOrigin;
+                 const out = {};
+                 for (const [k, v] of Object.entries(m)) out[k] = rel(v);
+                 out.firstChart = performance.now();
+                 out.start = root.dataset.engineStart;
+                 return out;
+               }"""
+        )
+        page.close()
+        return elapsed, marks
     page.close()
     return elapsed
+
+
+def _median_marks(runs: list[dict]) -> dict:
+    keys = ["workerStart", "engineStarted", "bootstrapped", "packageImported", "firstChart"]
+    out = {k: round(statistics.median(r[k] for r in runs), 1) for k in keys if runs[0].get(k)}
+    out["start"] = sorted({r["start"] for r in runs})
+    return out
+
+
+def _gzip_bytes(root: Path, sent: dict[str, int]) -> int:
+    total = 0
+    for path in sent:
+        file = root / path.lstrip("/")
+        if file.is_dir():
+            file = file / "index.html"
+        if file.is_file():
+            total += len(gzip.compress(file.read_bytes(), 6))
+    return total
+
+
+def _profile_visits(pw, base: str, variant: str, runs: int, block_sw: bool) -> dict:
+    """First and second visit, each in a freshly started browser on the same on-disk profile."""
+    first, second = [], []
+    for _ in range(runs):
+        with tempfile.TemporaryDirectory() as profile:
+            for visit in (first, second):
+                ctx = pw.chromium.launch_persistent_context(
+                    profile,
+                    executable_path=find_chromium(),
+                    args=CHROMIUM_ARGS,
+                    service_workers="block" if block_sw else "allow",
+                )
+                visit.append(_time_to_ready(ctx, base + variant + "/"))
+                if visit is first and not block_sw:
+                    page = ctx.new_page()  # let the service worker finish precaching
+                    page.goto(base + variant + "/")
+                    page.wait_for_selector("html[data-engine='ready']", timeout=180_000)
+                    page.evaluate(
+                        "async () => { const r = await navigator.serviceWorker.ready;"
+                        " return r.active && r.active.state; }"
+                    )
+                    page.close()
+                ctx.close()
+    return {
+        "first_s": round(statistics.median(first), 3),
+        "second_s": round(statistics.median(second), 3),
+        "second_over_first": round(statistics.median(second) / statistics.median(first), 3),
+    }
 
 
 def _recalc_times(page, panel: str, label: str, values: list[str], edits: int) -> list[float]:
@@ -235,26 +342,28 @@ def _page_ms(page, kind: str, inputs: dict, repeats: int = 20) -> float:
     )
 
 
-def _single_file_figures(build, browser, dist: Path, base: str, runs: int) -> dict:
-    """Single-file edition: size, time to ready from file://, ratio to the served page."""
+def _single_file_figures(build, browser, root: Path, base: str, runs: int) -> dict:
+    """Single-file edition: size, time to ready from file://, ratios to the served pages."""
     with tempfile.TemporaryDirectory() as folder:
         target = Path(folder) / build.SINGLE_NAME
-        build.build_single_file(target, dist)
-        served, single = [], []
+        build.build_single_file(target, root / "snapshot")
+        served, bare, single = [], [], []
         for _ in range(runs):
-            ctx = browser.new_context()
-            served.append(_time_to_ready(ctx, base))
-            ctx.close()
+            for url, out in ((base + "bare/", bare), (base + "snapshot/", served)):
+                ctx = browser.new_context()
+                out.append(_time_to_ready(ctx, url))
+                ctx.close()
             ctx = browser.new_context()
             single.append(_time_to_ready(ctx, target.as_uri()))
             ctx.close()
+        med = {k: statistics.median(v) for k, v in (("s", single), ("p", served), ("b", bare))}
         return {
             "size_MB": round(target.stat().st_size / 1e6, 2),
-            "ready_s": round(statistics.median(single), 3),
-            "served_page_ready_s": round(statistics.median(served), 3),
-            "ready_ratio_single_over_served": round(
-                statistics.median(single) / statistics.median(served), 3
-            ),
+            "ready_s": round(med["s"], 3),
+            "served_page_ready_s": round(med["p"], 3),
+            "bare_page_ready_s": round(med["b"], 3),
+            "ready_ratio_single_over_served": round(med["s"] / med["p"], 3),
+            "ready_ratio_single_over_bare": round(med["s"] / med["b"], 3),
         }
 
 
@@ -262,59 +371,77 @@ def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--runs", type=int, default=5)
     parser.add_argument("--edits", type=int, default=40)
+    parser.add_argument("--profile-runs", type=int, default=3)
     args = parser.parse_args()
     from playwright.sync_api import sync_playwright
 
     build = _load_build()
-    figures: dict = {"icrp66_curves_200_sizes_cpython_ms": round(_icrp66_curves_ms(), 2)}
+    figures: dict = {"load_average_at_start": [round(x, 2) for x in os.getloadavg()]}
+    figures["icrp66_curves_200_sizes_cpython_ms"] = round(_icrp66_curves_ms(), 2)
     with tempfile.TemporaryDirectory() as tmp:
-        dist = Path(tmp) / "site"
-        build.build(dist)
-        bare = dist / "bare"
+        root = Path(tmp) / "site"
+        root.mkdir()
+        for name, options in VARIANTS.items():
+            build.build(root / name, **options)
+        dist = root / "snapshot"
+        bare = root / "bare"
         bare.mkdir()
         (bare / "index.html").write_text(BARE_HTML)
         (bare / "bare.js").write_text(BARE_JS)
         (bare / "bare-worker.js").write_text(BARE_WORKER)
         (bare / "bench.html").write_text(BARE_HTML.replace("bare.js", "bench.js"))
         (bare / "bench.js").write_text(BARE_BENCH_JS)
-        own = [
-            p
-            for p in dist.rglob("*")
-            if p.is_file() and "pyodide" not in p.parts and "bare" not in p.parts
-        ]
+        own = [p for p in dist.rglob("*") if p.is_file() and p.parts[-2] != "pyodide"]
+        own = [p for p in own if "snapshot" not in p.relative_to(dist).parts]
         figures["own_assets_gzip_MB"] = round(
             sum(len(gzip.compress(p.read_bytes(), 9)) for p in own) / 1e6, 3
         )
-        figures["pyodide_core_MB"] = round(
-            sum(p.stat().st_size for p in (dist / "pyodide").iterdir()) / 1e6, 2
-        )
-        server, _ = build.serve(dist, 0)
+        counter = _Counter()
+        server = _serve_counting(build, root, counter)
         host, port = server.server_address[:2]
         base = f"http://{host}:{port}/"
         with sync_playwright() as pw:
             browser = pw.chromium.launch(executable_path=find_chromium(), args=CHROMIUM_ARGS)
-            app_cold, bare_cold, app_warm = [], [], []
+            ready: dict[str, list] = {k: [] for k in ("bare", *VARIANTS)}
+            marks: dict[str, list] = {k: [] for k in VARIANTS}
+            sent: dict[str, dict] = {}
             for _ in range(args.runs):
-                ctx = browser.new_context()
-                bare_cold.append(_time_to_ready(ctx, base + "bare/"))
-                ctx.close()
-                ctx = browser.new_context()
-                app_cold.append(_time_to_ready(ctx, base))
-                app_warm.append(_time_to_ready(ctx, base))
-                ctx.close()
-            figures["bare_pyodide_ready_s"] = round(statistics.median(bare_cold), 3)
-            figures["page_ready_cold_s"] = round(statistics.median(app_cold), 3)
-            figures["page_ready_repeat_s"] = round(statistics.median(app_warm), 3)
-            figures["ready_ratio_page_over_bare"] = round(
-                statistics.median(app_cold) / statistics.median(bare_cold), 3
-            )
-            figures["repeat_over_cold_ratio"] = round(
-                statistics.median(app_warm) / statistics.median(app_cold), 3
-            )
+                for name in ready:
+                    ctx = browser.new_context()
+                    counter.sent.clear()
+                    if name == "bare":
+                        ready[name].append(_time_to_ready(ctx, base + "bare/"))
+                    else:
+                        elapsed, m = _time_to_ready(ctx, base + name + "/", phases=True)
+                        ready[name].append(elapsed)
+                        marks[name].append(m)
+                    sent[name] = {k: v for k, v in counter.sent.items() if not k.endswith("sw.js")}
+                    ctx.close()
+            bare_s = statistics.median(ready["bare"])
+            figures["bare_pyodide_ready_s"] = round(bare_s, 3)
+            editions = {}
+            for name in VARIANTS:
+                med = statistics.median(ready[name])
+                editions[name] = {
+                    "ready_s": round(med, 3),
+                    "ready_over_bare": round(med / bare_s, 3),
+                    "phases_ms_after_navigation": _median_marks(marks[name]),
+                    "first_visit_MB_until_ready": round(sum(sent[name].values()) / 1e6, 2),
+                    "first_visit_MB_gzip": round(_gzip_bytes(root, sent[name]) / 1e6, 2),
+                }
+            figures["editions"] = editions
+            figures["bare_first_visit_MB"] = round(sum(sent["bare"].values()) / 1e6, 2)
+            figures["repeat_visit_on_disk_profile"] = {
+                f"{name}{'' if sw == 'allow' else '_no_service_worker'}": _profile_visits(
+                    pw, base, name, args.profile_runs, sw == "block"
+                )
+                for name in ("snapshot", "bytecode")
+                for sw in ("allow", "block")
+            }
 
             ctx = browser.new_context(viewport={"width": 1280, "height": 900})
             page = ctx.new_page()
-            page.goto(base)
+            page.goto(base + "snapshot/")
             page.wait_for_selector("html[data-engine='ready']", timeout=120_000)
             page.wait_for_function("() => document.querySelector('table.results')")
             recalc = {}
@@ -346,9 +473,10 @@ def main() -> int:
             figures["icrp66_curves_200_sizes_page_ms"] = round(in_page, 2)
             figures["icrp66_curves_page_over_cpython"] = round(in_page / cpy, 2)
             ctx.close()
-            figures["single_file"] = _single_file_figures(build, browser, dist, base, args.runs)
+            figures["single_file"] = _single_file_figures(build, browser, root, base, args.runs)
             browser.close()
         server.shutdown()
+    figures["load_average_at_end"] = [round(x, 2) for x in os.getloadavg()]
     print(json.dumps(figures, indent=1))
     return 0
 

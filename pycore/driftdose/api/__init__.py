@@ -34,8 +34,12 @@ def describe() -> dict[str, Any]:
 
 def handle(request: Any) -> dict[str, Any]:
     """Answer one request; never raises."""
+    return _guarded(request, check=True)
+
+
+def _guarded(request: Any, check: bool) -> dict[str, Any]:
     try:
-        return _handle(request)
+        return _handle(request, check)
     except Exception as exc:  # the boundary: nothing escapes
         detail = traceback.format_exception_only(type(exc), exc)[-1].strip()
         return {
@@ -46,7 +50,7 @@ def handle(request: Any) -> dict[str, Any]:
         }
 
 
-def _handle(request: Any) -> dict[str, Any]:
+def _handle(request: Any, check: bool = True) -> dict[str, Any]:
     if not isinstance(request, dict):
         return _error("", "Request must be an object with 'kind' and 'inputs'.")
     kind = request.get("kind")
@@ -69,7 +73,8 @@ def _handle(request: Any) -> dict[str, Any]:
         return {"ok": False, "errors": out["errors"]}
     reply = {"ok": True, "results": {}, "curves": {}, "warnings": [], "sources": []}
     reply.update(out)
-    _check_finite(reply)
+    if check:
+        _check_finite(reply)
     return reply
 
 
@@ -102,6 +107,11 @@ def handle_json(text: str) -> str:
         request = json.loads(text)
     except (ValueError, TypeError, RecursionError):  # RecursionError: nesting too deep
         return json.dumps(_error("", "Request is not valid JSON."))
+    try:
+        # json.dumps refuses NaN and infinity itself: no separate walk over the reply first
+        return json.dumps(_guarded(request, check=False), allow_nan=False, ensure_ascii=False)
+    except (ValueError, TypeError, RecursionError):
+        pass  # answer again as handle() does, whose check names where the number is
     try:
         return json.dumps(handle(request), allow_nan=False, ensure_ascii=False)
     except (ValueError, TypeError, RecursionError) as exc:  # never expected; never escapes

@@ -37,6 +37,7 @@ export function mount(root, { engine, description }) {
   const demos = (fields.find((f) => f.name === "distribution_source") || {}).demos || [];
   let fractionChart = null;
   let doseChart = null;
+  let doseUnit = ""; // read by the dose chart's readout, which outlives one reply
   let lastReply = null;
 
   const summaryBox = el("div", { class: "table-box" });
@@ -171,11 +172,15 @@ export function mount(root, { engine, description }) {
     const data = bars[metric];
     const values = per === "dose" ? data.y : data.per_hour;
     const unit = per === "dose" ? data.unit : `${data.unit}/h`;
-    if (doseChart) doseChart.destroy();
-    doseChart = createChart(doseFigure.canvas, {
-      x: { title: "Region", type: "category" },
-      y: { title: `${per === "dose" ? data.label : data.label.replace(/ in .*$/, " per hour")} (${unit})`, type: "linear", min: 0 },
-    }, { type: "bar", readout: (ctx) => `${formatNumber(ctx.parsed.y, 4)} ${unit}` });
+    const yTitle = `${per === "dose" ? data.label : data.label.replace(/ in .*$/, " per hour")} (${unit})`;
+    doseUnit = unit;
+    if (!doseChart) {
+      doseChart = createChart(doseFigure.canvas, {
+        x: { title: "Region", type: "category" },
+        y: { title: yTitle, type: "linear", min: 0 },
+      }, { type: "bar", readout: (ctx) => `${formatNumber(ctx.parsed.y, 4)} ${doseUnit}` });
+    }
+    doseChart.options.scales.y.title.text = yTitle; // the chart is updated in place
     doseChart.data.labels = bars.keys.map((k) => (k === "total" ? "Total" : k));
     setDatasets(doseChart, [{ label: per === "dose" ? data.label : `${data.label} per hour`, data: values, backgroundColor: bars.keys.map((_, i) => seriesColour(i)) }]);
     doseFigure.canvas.setAttribute("aria-label", `Bar chart of ${data.label.toLowerCase()} by region: ${bars.keys.map((k, i) => `${k} ${formatNumber(values[i], 3)} ${unit}`).join(", ")}.`);
