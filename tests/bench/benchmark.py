@@ -190,6 +190,7 @@ class _Counter:
 
     def __init__(self) -> None:
         self.sent: dict[str, int] = {}
+        self.until_ready: dict[str, int] = {}
 
 
 def _serve_counting(build, root: Path, counter: _Counter):
@@ -210,12 +211,14 @@ def _serve_counting(build, root: Path, counter: _Counter):
     return server
 
 
-def _time_to_ready(context, url: str, phases: bool = False):
+def _time_to_ready(context, url: str, phases: bool = False, counter: _Counter | None = None):
     page = context.new_page()
     t0 = time.perf_counter()
     page.goto(url)
     page.wait_for_selector("html[data-engine='ready']", timeout=180_000)
     elapsed = time.perf_counter() - t0
+    if counter is not None:  # before the service worker's precaching starts
+        counter.until_ready = dict(counter.sent)
     if phases:
         page.wait_for_function(FIRST_CHART, timeout=60_000)
         marks = page.evaluate(
