@@ -24,12 +24,14 @@ from __future__ import annotations
 
 import argparse
 import csv
+import errno
 import fnmatch
 import io
 import json
 import math
 import os
 import re
+import stat
 import sys
 import textwrap
 import unicodedata
@@ -39,7 +41,7 @@ from decimal import ROUND_HALF_UP, Decimal
 from pathlib import Path
 from typing import Any, NoReturn, TextIO
 
-from . import __version__, api, export
+from . import __version__, api, export, textfile
 
 __all__ = ["UserError", "format_number", "main", "plain_number", "to_precision"]
 
@@ -49,10 +51,13 @@ SIG_FIGS = 4  # as SIG_FIGS in site/js/format.js
 COMMANDS = ("describe", "run", "batch")  # subcommands that are not calculations
 QUANTITY_KINDS_EXCLUDED = ("choice", "integer", "text", "data")
 MAX_FILE_BYTES = 64 * 1024 * 1024  # a guard against reading huge files; the api sets the limits
+MAX_DIGITS = 17  # enough to write any double exactly; more digits would only be noise
+MAX_JSON_DEPTH = 64  # nesting of a JSON input; saved inputs are about 5 levels deep
 _SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+_READ_PATHS: list[str] = []  # files read in this run: no output may overwrite one of them
 _KEY_VALUE = re.compile(r"^([A-Za-z_][A-Za-z0-9_]*)=(.*)$", re.S)
 _NUMBER_THEN_UNIT = re.compile(
-    r"^\s*([-+\u2212]?(?:\d[\d,]*(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$"
+    r"^\s*([-+\u2212]?(?:\d[\d,_]*(?:\.[\d_]*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$"
 )
 
 
@@ -402,8 +407,12 @@ def _data_value(args: list[str], name: str, origins: dict[str, str]) -> Any:
             continue
         try:
             obj[key] = json.loads(value)
-        except (ValueError, RecursionError):
+        except ValueError:
             obj[key] = value
+        except RecursionError:
+            obj[key] = None
+        if obj[key] is None or _json_depth_over(obj[key], MAX_JSON_DEPTH):
+            raise _too_deep(name, f"{key}= is ")
     return obj
 
 
@@ -427,27 +436,53 @@ def _unit_of(raw: Any) -> str | None:
 
 
 def _read_bytes(path: str, field: str) -> bytes:
-    try:
-        if path == "-":
-            return sys.stdin.buffer.read(MAX_FILE_BYTES + 1)
-        p = Path(path)
-        if p.is_dir():
-            raise UserError(field, f"{path!r} is a folder, not a file.")
-        with p.open("rb") as fh:
-            data = fh.read(MAX_FILE_BYTES + 1)
-    except OSError as exc:
-        raise UserError(field, f"cannot read {path!r}: {exc.strerror or exc}.") from None
+    """A file's bytes (``-`` for standard input), at most :data:`MAX_FILE_BYTES`.
+
+    Only regular files are read: a named pipe would block until something writes to it and a
+    device may never end, so both are refused at once (use ``-`` to read a pipe).
+    """
+    if path == "-":
+        try:
+            data = sys.stdin.buffer.read(MAX_FILE_BYTES + 1)
+        except OSError as exc:
+            raise UserError(field, f"cannot read standard input: {exc.strerror or exc}.") from None
+    else:
+        try:
+            # O_NONBLOCK: opening a named pipe must not wait for a writer
+            fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+        except IsADirectoryError:
+            raise UserError(field, f"{path!r} is a folder, not a file.") from None
+        except OSError as exc:
+            raise UserError(field, f"cannot read {path!r}: {exc.strerror or exc}.") from None
+        try:
+            mode = os.fstat(fd).st_mode
+            if stat.S_ISDIR(mode):
+                raise UserError(field, f"{path!r} is a folder, not a file.")
+            if not stat.S_ISREG(mode):
+                raise UserError(
+                    field,
+                    f"{path!r} is not a regular file (a pipe or a device); save it to a file, "
+                    "or give '-' to read standard input.",
+                )
+            os.set_blocking(fd, True)
+            with os.fdopen(fd, "rb", closefd=False) as fh:
+                data = fh.read(MAX_FILE_BYTES + 1)
+        except OSError as exc:
+            raise UserError(field, f"cannot read {path!r}: {exc.strerror or exc}.") from None
+        finally:
+            os.close(fd)
+        _READ_PATHS.append(path)
     if len(data) > MAX_FILE_BYTES:
         raise UserError(field, f"{path!r} is larger than {MAX_FILE_BYTES // 2**20} MB.")
     return data
 
 
 def _read_text_file(path: str, field: str, limit: int | None = None) -> str:
-    """Read a file's text as the page's file field does (``File.text()``).
+    """Read a file's text as the page reads a file you pick, with the core's decoder.
 
-    UTF-8 with undecodable bytes replaced and a leading byte-order mark dropped, so the api
-    sees the very text the page would send; a file over ``limit`` bytes (the field's
-    ``max_bytes``) is refused, as the page refuses it, before it is read.
+    UTF-8, UTF-8 or UTF-16 with a byte-order mark, or Latin-1 (see :mod:`driftdose.textfile`),
+    so the api sees the very text the page would send; a file over ``limit`` bytes (the
+    field's ``max_bytes``) is refused, as the page refuses it, before it is read.
     """
     if limit is not None and path != "-":
         try:
@@ -455,38 +490,65 @@ def _read_text_file(path: str, field: str, limit: int | None = None) -> str:
         except OSError:
             size = 0  # reading it reports the problem
         if size > limit:
-            raise UserError(
-                field, f"{path} is {size / 1e6:.1f} MB; the limit is {limit / 1e6:.0f} MB."
-            )
-    text = _read_bytes(path, field).decode("utf-8", errors="replace")
-    return text.removeprefix("\ufeff")
+            raise UserError(field, textfile.too_large(size, limit, path))
+    data = _read_bytes(path, field)
+    try:
+        return textfile.decode_text(data, MAX_FILE_BYTES if limit is None else limit).text
+    except textfile.TextFileError as exc:
+        name = "standard input" if path == "-" else repr(path)
+        raise UserError(field, f"{name}: {exc.message}") from None
+
+
+def _json_depth_over(value: Any, limit: int) -> bool:
+    """Tell whether lists and objects nest more than ``limit`` levels (no recursion)."""
+    stack = [(value, 1)]
+    while stack:
+        node, depth = stack.pop()
+        if isinstance(node, dict):
+            node = list(node.values())
+        if isinstance(node, list):
+            if depth > limit:
+                return True
+            stack.extend((item, depth + 1) for item in node if isinstance(item, dict | list))
+    return False
+
+
+def _json_value(text: str, field: str, what: str) -> Any:
+    """Parse JSON text from the user (``what`` names it in messages), nesting limited."""
+    try:
+        value = json.loads(text)
+    except RecursionError:
+        value = None
+        deep = True
+    except ValueError as exc:
+        where = f" (line {exc.lineno}, column {exc.colno})" if hasattr(exc, "lineno") else ""
+        raise UserError(field, f"{what}not valid JSON{where}.") from None
+    else:
+        deep = _json_depth_over(value, MAX_JSON_DEPTH)
+    if deep:
+        raise _too_deep(field, what)
+    return value
+
+
+def _too_deep(field: str, what: str) -> UserError:
+    return UserError(
+        field,
+        f"{what}nested too deeply: JSON lists and objects inside each other more than "
+        f"{MAX_JSON_DEPTH} levels deep are not read (saved inputs need about 5).",
+    )
 
 
 def _parse_json_text(raw: str, field: str) -> Any:
-    source = raw
     if raw.startswith("@"):
         path = raw[1:]
-        try:
-            source = _read_bytes(path, field).decode("utf-8-sig")
-        except UnicodeDecodeError:
-            raise UserError(field, f"{path!r} is not UTF-8 text.") from None
-    try:
-        return json.loads(source)
-    except (ValueError, RecursionError) as exc:
-        where = f" (line {exc.lineno}, column {exc.colno})" if hasattr(exc, "lineno") else ""
-        raise UserError(field, f"not valid JSON{where}.") from None
+        source = _read_text_file(path, field)
+        return _json_value(source, field, f"{path!r} is ")
+    return _json_value(raw, field, "")
 
 
 def _load_document(path: str) -> Any:
-    try:
-        text = _read_bytes(path, "input").decode("utf-8-sig")
-    except UnicodeDecodeError:
-        raise UserError("input", f"{path!r} is not UTF-8 text.") from None
-    try:
-        return json.loads(text)
-    except (ValueError, RecursionError) as exc:
-        where = f" (line {exc.lineno}, column {exc.colno})" if hasattr(exc, "lineno") else ""
-        raise UserError("input", f"{path!r} is not valid JSON{where}.") from None
+    text = _read_text_file(path, "input")
+    return _json_value(text, "input", f"{path!r} is ")
 
 
 def _document_kind(doc: Any) -> str | None:
@@ -695,14 +757,78 @@ def _groups(row: dict[str, Any]) -> dict[str, list[dict[str, Any]]]:
 
 
 def _write(path: str | None, text: str, stdout: TextIO) -> None:
+    """Write ``text`` to the file ``path`` or, for None or ``-``, to standard output.
+
+    A named pipe is opened without waiting: if nothing reads it, that is said at once. Any
+    failure (a full disk, a closed pipe) becomes one line naming where the writing failed.
+    """
     if path in (None, "-"):
-        stdout.write(text)
+        try:
+            stdout.write(text)
+            stdout.flush()
+        except BrokenPipeError:
+            raise
+        except OSError as exc:
+            _silence_stdout(stdout)
+            raise UserError(
+                "out", f"cannot write to standard output: {exc.strerror or exc}."
+            ) from None
         return
     try:
-        with open(path, "w", encoding="utf-8", newline="") as fh:
+        fd = os.open(
+            path, os.O_WRONLY | os.O_CREAT | os.O_TRUNC | getattr(os, "O_NONBLOCK", 0), 0o666
+        )
+    except OSError as exc:
+        reason = exc.strerror or str(exc)
+        if exc.errno == errno.ENXIO:
+            reason = "it is a named pipe that no program is reading"
+        raise UserError("out", f"cannot write {path!r}: {reason}.") from None
+    try:
+        os.set_blocking(fd, True)
+        with open(fd, "w", encoding="utf-8", newline="") as fh:
             fh.write(text)
     except OSError as exc:
         raise UserError("out", f"cannot write {path!r}: {exc.strerror or exc}.") from None
+
+
+def _silence_stdout(stdout: TextIO) -> None:
+    """After standard output failed: drop what is buffered, so exiting prints nothing more."""
+    if stdout is sys.__stdout__:
+        try:
+            devnull = os.open(os.devnull, os.O_WRONLY)
+            os.dup2(devnull, stdout.fileno())
+            os.close(devnull)
+        except OSError:
+            pass
+
+
+def _same_file(a: str, b: str) -> bool:
+    """Tell whether two paths name one file (hard links and ``./`` spellings included)."""
+    try:
+        return os.path.samefile(a, b)
+    except OSError:
+        return os.path.realpath(a) == os.path.realpath(b)
+
+
+def _check_outputs(opts: argparse.Namespace, reads: Sequence[str] = ()) -> None:
+    """Refuse outputs that would overwrite each other, a file this run has read or ``reads``."""
+    outs = [
+        (flag, p)
+        for flag, p in (("out", opts.out), ("curves", getattr(opts, "curves", None)))
+        if p not in (None, "-")
+    ]
+    if len(outs) == 2 and _same_file(outs[0][1], outs[1][1]):
+        raise UserError(
+            "curves",
+            f"--curves and --out name the same file ({outs[1][1]!r}); the curves would "
+            "overwrite the results. Give two different files.",
+        )
+    for flag, p in outs:
+        for read in [*_READ_PATHS, *reads]:
+            if read != "-" and _same_file(p, read):
+                raise UserError(
+                    flag, f"--{flag} names {p!r}, a file this run reads; it would be overwritten."
+                )
 
 
 def _input_summary(
@@ -773,6 +899,7 @@ def _compute(
 ) -> int:
     """Run one calculation and write its reply in the chosen format."""
     fields = description["fields"]
+    _check_outputs(opts)
     _warn_unknown(kind, fields, inputs, stderr)
     reply = _call(kind, inputs)
     if not reply.get("ok"):
@@ -813,6 +940,7 @@ def _batch(
     with the messages in the ``errors`` column; the exit status is then 2.
     """
     fields = description["fields"]
+    _check_outputs(opts, opts.files)
     _warn_unknown(kind, fields, base, stderr)
     name = file_field["name"]
     records: list[tuple[str, dict[str, Any]]] = []
@@ -917,6 +1045,24 @@ class _Parser(argparse.ArgumentParser):
             self.exit(EXIT_USAGE, f"{self.field_options[m.group(1)]}: {m.group(2)}\n")
         self.print_usage(sys.stderr)
         self.exit(EXIT_USAGE, f"{self.prog}: error: {message}\n")
+
+    def _print_message(self, message: str, file: Any = None) -> None:
+        """Print help or usage; unlike argparse, say so when standard output cannot take it."""
+        if not message:
+            return
+        file = sys.stdout if file is None else file
+        try:
+            file.write(message)
+            file.flush()
+        except BrokenPipeError:
+            raise
+        except OSError as exc:
+            if file is sys.stderr:
+                return
+            _silence_stdout(file)
+            raise UserError(
+                "out", f"cannot write to standard output: {exc.strerror or exc}."
+            ) from None
 
 
 def _output_options(parser: argparse.ArgumentParser, batch: bool = False) -> None:
@@ -1090,6 +1236,14 @@ def _run(argv: Sequence[str] | None, stdout: TextIO, stderr: TextIO) -> int:
     parser, info = _build_parser(description)
     opts = parser.parse_args(argv)
     calcs = description["calculations"]
+    _READ_PATHS.clear()
+    digits = getattr(opts, "digits", None)
+    if digits is not None and not 0 <= digits <= MAX_DIGITS:
+        raise UserError(
+            "digits",
+            f"--digits must be from 0 to {MAX_DIGITS} significant figures (0 for full "
+            f"precision), not {digits}.",
+        )
 
     if opts.command == "describe":
         unknown = [k for k in opts.kinds if k not in calcs]
@@ -1103,9 +1257,9 @@ def _run(argv: Sequence[str] | None, stdout: TextIO, stderr: TextIO) -> int:
                     **description,
                     "calculations": {k: v for k, v in calcs.items() if k in opts.kinds},
                 }
-            stdout.write(json.dumps(description, indent=2, ensure_ascii=False) + "\n")
+            _write(None, json.dumps(description, indent=2, ensure_ascii=False) + "\n", stdout)
         else:
-            stdout.write(_describe_text(description, opts.kinds))
+            _write(None, _describe_text(description, opts.kinds), stdout)
         return EXIT_OK
 
     if opts.command == "run":
@@ -1147,6 +1301,20 @@ def main(argv: Sequence[str] | None = None) -> int:
             "utf8",
         ):
             stream.reconfigure(errors="replace")
+    code = _main(argv, stdout, stderr)
+    try:  # what argparse printed (--help) is still buffered: fail here, not at exit
+        stdout.flush()
+    except BrokenPipeError:
+        _silence_stdout(stdout)
+        return EXIT_FAILURE
+    except OSError as exc:
+        _silence_stdout(stdout)
+        stderr.write(f"out: cannot write to standard output: {exc.strerror or exc}.\n")
+        return EXIT_USAGE
+    return code
+
+
+def _main(argv: Sequence[str] | None, stdout: TextIO, stderr: TextIO) -> int:
     try:
         return _run(argv, stdout, stderr)
     except UserError as exc:
@@ -1156,13 +1324,20 @@ def main(argv: Sequence[str] | None = None) -> int:
         code = exc.code
         return code if isinstance(code, int) else (EXIT_OK if code is None else EXIT_USAGE)
     except BrokenPipeError:  # e.g. piped into `head`
-        if stdout is sys.__stdout__:
-            devnull = os.open(os.devnull, os.O_WRONLY)
-            os.dup2(devnull, stdout.fileno())
+        _silence_stdout(stdout)
         return EXIT_FAILURE
     except KeyboardInterrupt:
         stderr.write("interrupted\n")
         return 130
+    except Exception as exc:  # a fault of this program, not of the input: one line, status 1
+        if os.environ.get("DRIFTDOSE_DEBUG"):
+            raise
+        what = " ".join(str(exc).split())[:200]
+        stderr.write(
+            f"internal error: {type(exc).__name__}{': ' + what if what else ''} (a fault in "
+            "driftdose, not in your input; set DRIFTDOSE_DEBUG=1 for the details)\n"
+        )
+        return EXIT_FAILURE
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -29,6 +29,7 @@ from collections.abc import Iterator
 from dataclasses import dataclass, field
 from typing import Any
 
+from . import textfile
 from .distribution import BinnedSpectrum, bin_edges
 
 __all__ = [
@@ -55,6 +56,10 @@ diameter, or per unit diameter."""
 
 _DELIMITERS = ((";", "semicolon"), ("\t", "tab"), (",", "comma"))
 _DECIMAL_COMMA = re.compile(r"^[+-]?\d*,\d+([eE][+-]?\d+)?$")
+_AMBIGUOUS = re.compile(r"^[+-]?[1-9]\d{0,2},\d{3}$")
+"""A number that reads as a thousands group or a decimal comma: ``1,000``."""
+_SEP_LINE = re.compile(r'^\s*"?sep=(.)"?\s*$', re.IGNORECASE)
+"""A spreadsheet's first line naming the separator: ``sep=;``."""
 
 
 class SpectrumError(ValueError):
@@ -95,39 +100,43 @@ class SpectrumImport:
         return BinnedSpectrum(self.diameters, self.numbers, density, shape_factor, self.edges)
 
 
-def _decode(data: bytes | str) -> tuple[str, bool, str]:
-    """Return (text, had_bom, encoding) or raise for empty, large or binary content."""
+def _decode(data: bytes | str) -> tuple[str, bool, str, list[str]]:
+    """Return (text, had_bom, encoding, notes) or raise for empty, large or binary content.
+
+    Bytes go through the shared decoder (:func:`driftdose.textfile.decode_text`); text (what
+    the page sends after that same decoder read the file) is limited to as many characters
+    as the file limit has bytes, which every file within the limit satisfies.
+    """
+    notes: list[str] = []
     if isinstance(data, str):
-        size = len(data.encode("utf-8", "surrogatepass"))
-        raw = None
+        if len(data) > MAX_BYTES:
+            raise SpectrumError(
+                f"The text is {len(data):,} characters long; at most {MAX_BYTES:,} (a 5 MB "
+                "file) can be imported. Export only the diameter and concentration columns, "
+                "or fewer rows."
+            )
+        if not data:
+            raise SpectrumError("The file is empty.")
+        if "\x00" in data:
+            head = data[:4096]
+            raise SpectrumError(
+                textfile.nul_message(head[::2].count("\x00"), head[1::2].count("\x00"))
+            )
+        text, bom, encoding = data, False, "text"
     elif isinstance(data, bytes | bytearray):
-        size = len(data)
-        raw = bytes(data)
+        try:
+            decoded = textfile.decode_text(data, MAX_BYTES)
+        except textfile.TextFileError as exc:
+            extra = ""
+            if len(data) > MAX_BYTES:
+                extra = " Export only the diameter and concentration columns, or fewer rows."
+            raise SpectrumError(exc.message + extra) from None
+        text, bom, encoding = decoded.text, decoded.bom, decoded.encoding
+        notes = [n for n in decoded.notes if "byte-order mark at the start" not in n]
     else:
         raise SpectrumError("The spectrum must be given as text.")
-    if size > MAX_BYTES:
-        raise SpectrumError(
-            f"The file is {size / 1048576:.1f} MB; at most 5 MB can be imported. Export only "
-            "the diameter and concentration columns, or fewer rows."
-        )
-    if size == 0:
-        raise SpectrumError("The file is empty.")
-    if raw is not None:
-        if b"\x00" in raw:
-            raise SpectrumError(_nul_message(raw[:4096:2].count(0), raw[1:4096:2].count(0)))
-        try:
-            text, encoding = raw.decode("utf-8"), "utf-8"
-        except UnicodeDecodeError:
-            text, encoding = raw.decode("cp1252", errors="replace"), "cp1252"
-    else:
-        text, encoding = data, "text"
-        if "\x00" in text:
-            raise SpectrumError(
-                _nul_message(text[:4096:2].count("\x00"), text[1:4096:2].count("\x00"))
-            )
-    bom = text.startswith("\ufeff")
-    if bom:
-        text = text[1:]
+    if text.startswith("\ufeff"):
+        text, bom = text[1:], True
     control = sum(1 for ch in text[:65536] if ord(ch) < 32 and ch not in "\t\r\n\f")
     if control > max(2, len(text[:65536]) // 100):
         raise SpectrumError(
@@ -135,23 +144,13 @@ def _decode(data: bytes | str) -> tuple[str, bool, str]:
         )
     if not text.strip():
         raise SpectrumError("The file contains no text.")
-    return text, bom, encoding
-
-
-def _nul_message(even: int, odd: int) -> str:
-    """Explain NUL characters: UTF-16 text without a byte-order mark, or a binary file."""
-    if max(even, odd) > 10 * (min(even, odd) + 1):  # one byte in two is NUL: UTF-16
-        return (
-            "The file looks like UTF-16 text without a byte-order mark; save it as UTF-8 "
-            "(or plain text) CSV."
-        )
-    return "The file looks binary (it contains NUL characters); export it as plain text CSV."
+    return text, bom, encoding, notes
 
 
 def _to_number(cell: str, decimal_comma: bool) -> float | None:
     """Parse one cell, or return None if it is not a number."""
     s = cell.strip().strip('"').strip().replace("\u2212", "-").replace("\u00a0", "")
-    if not s:
+    if not s or "_" in s:  # float() reads "1_000", a person's file never means that
         return None
     if _DECIMAL_COMMA.match(s) and (decimal_comma or "." not in s):
         s = s.replace(",", ".")
@@ -206,6 +205,65 @@ def _detect_delimiter(lines: list[str]) -> tuple[str, str]:
             "semicolons or tabs on every data line."
         )
     return best[2], best[3]
+
+
+def _find_columns(
+    table: list[tuple[int, list[str]]], d_spec: Any, c_spec: Any, decimal_comma: bool
+) -> tuple[list[str] | None, int, int, int]:
+    """Find the header row and the two columns; return (header, i_d, i_c, first data index).
+
+    Columns given by name: the header is the first row holding both names, and rows above
+    it are notes (an instrument's metadata). Given by number: rows before the first one with
+    a number in either chosen column are notes and the header (the last of them).
+    """
+    if not table:
+        raise SpectrumError("The file has no data rows (only a header, blank or comment lines).")
+    by_number = all(_is_number_spec(x) for x in (d_spec, c_spec))
+    if by_number:
+        idx = [_column_index(x, None, "column") for x in (d_spec, c_spec)]
+        start = 0
+        for start, (_, cells) in enumerate(table):  # noqa: B007 - start is used below
+            looked = [cells[i] for i in idx if i < len(cells)]
+            if any(_to_number(c, decimal_comma) is not None for c in looked):
+                break
+        else:
+            start = len(table)
+        header = table[start - 1][1] if start else None
+    else:
+        wanted = [str(x).strip().strip('"').strip().lower() for x in (d_spec, c_spec)]
+        start = 0
+        for i, (_, cells) in enumerate(table):
+            names = [h.strip().strip('"').strip().lower() for h in cells]
+            if all(w in names for w in wanted):
+                start = i + 1
+                break
+        if start:
+            header = table[start - 1][1]
+        else:  # no row names both: the first row's own message says what is there
+            cells = table[0][1]
+            numeric = all(_to_number(c, decimal_comma) is not None for c in cells)
+            header, start = (None, 0) if numeric else (cells, 1)
+    i_d = _column_index(d_spec, header, "diameter")
+    i_c = _column_index(c_spec, header, "concentration")
+    if i_d == i_c:
+        raise SpectrumError("The diameter and concentration columns are the same.")
+    return header, i_d, i_c, start
+
+
+def _shows_decimal_commas(data: list[tuple[int, list[str]]], columns: tuple[int, ...]) -> bool:
+    """Tell whether the file's numbers settle ``1,000`` as a decimal comma: some cell has a
+    decimal comma that cannot be a thousands group (``12,5``, ``0,125``) and none a point."""
+    comma = False
+    for _, cells in data:
+        for i in columns:
+            if i >= len(cells):
+                continue
+            plain = cells[i].strip().strip('"').strip()
+            if "." in plain:
+                return False
+            if _DECIMAL_COMMA.match(plain) and not _AMBIGUOUS.match(plain):
+                comma = True
+    return comma
 
 
 def _is_number_spec(spec: Any) -> bool:
@@ -294,7 +352,7 @@ def parse_spectrum_csv(
         )
     if not (diameter_scale > 0.0 and concentration_scale > 0.0):
         raise SpectrumError("Unit factors must be positive.")
-    text, bom, encoding = _decode(data)
+    text, bom, encoding, decode_notes = _decode(data)
     lines = text.splitlines()
     for number, line_text in enumerate(lines, start=1):
         if len(line_text) > MAX_LINE:
@@ -303,44 +361,45 @@ def parse_spectrum_csv(
                 "read. Each line should hold one size bin.",
                 number,
             )
-    delim, delim_name = _detect_delimiter(lines)
+    sep_line = _SEP_LINE.match(lines[0]) if lines else None
+    first_line = lines[0] if lines else ""
+    if sep_line:  # a spreadsheet's "sep=;" first line names the separator
+        delim = sep_line.group(1)
+        names = dict(_DELIMITERS)
+        if delim not in names:
+            raise SpectrumError(
+                f"the first line names the separator {delim!r}; only commas, semicolons and "
+                "tabs are read.",
+                1,
+            )
+        delim_name = names[delim]
+        text = text[len(lines[0]) :].lstrip("\r").removeprefix("\n")
+        text = "\n" + text  # keep the line numbers of the file
+        lines = ["", *lines[1:]]
+    else:
+        delim, delim_name = _detect_delimiter(lines)
     decimal_comma_allowed = delim != ","
 
     reader = csv.reader(io.StringIO(text, newline=""), delimiter=delim)
-    header: list[str] | None = None
-    i_d = i_c = -1
-    rows: list[tuple[int, float, float]] = []
-    skipped = 0
-    used_decimal_comma = False
-    first_row = True
+    table: list[tuple[int, list[str]]] = []
+    skipped = -1 if sep_line else 0
     for cells in _guarded(reader):
-        line = reader.line_num
         if not cells or all(not c.strip() for c in cells) or cells[0].lstrip().startswith("#"):
             skipped += 1
-            continue
-        if first_row:
-            first_row = False
-            by_number = all(_is_number_spec(x) for x in (diameter_column, concentration_column))
-            if by_number:
-                idx = [
-                    _column_index(x, None, "column")
-                    for x in (diameter_column, concentration_column)
-                ]
-                looked = [cells[i] for i in idx if i < len(cells)]
-            else:
-                looked = cells
-            numeric = [_to_number(c, decimal_comma_allowed) is not None for c in looked]
-            if not all(numeric):
-                header = cells
-                i_d = _column_index(diameter_column, header, "diameter")
-                i_c = _column_index(concentration_column, header, "concentration")
-                if i_d == i_c:
-                    raise SpectrumError("The diameter and concentration columns are the same.")
-                continue
-            i_d = _column_index(diameter_column, None, "diameter")
-            i_c = _column_index(concentration_column, None, "concentration")
-            if i_d == i_c:
-                raise SpectrumError("The diameter and concentration columns are the same.")
+        else:
+            table.append((reader.line_num, cells))
+        if len(table) > MAX_ROWS + 100:
+            break  # the row limit is reported below, with its line
+
+    header, i_d, i_c, start = _find_columns(
+        table, diameter_column, concentration_column, decimal_comma_allowed
+    )
+    metadata = start - (header is not None)  # lines of notes above the header
+    data = table[start:]
+    decimal_comma_file = _shows_decimal_commas(data, (i_d, i_c))
+    rows: list[tuple[int, float, float]] = []
+    used_decimal_comma = False
+    for line, cells in data:
         need = max(i_d, i_c) + 1
         if len(cells) < need:
             raise SpectrumError(
@@ -351,17 +410,37 @@ def parse_spectrum_csv(
         values = []
         for idx, what in ((i_d, "diameter"), (i_c, "concentration")):
             cell = cells[idx]
-            v = _to_number(cell, decimal_comma_allowed)
-            if v is None:
+            plain = cell.strip().strip('"').strip()
+            if _AMBIGUOUS.match(plain) and not decimal_comma_file:
                 raise SpectrumError(
-                    f"the {what} cell {cell.strip()[:30]!r} (column {idx + 1}) is not a number.",
+                    f"the {what} cell {plain!r} (column {idx + 1}) is ambiguous: one thousand "
+                    "with a thousands separator, or one with a decimal comma? Write numbers "
+                    "without a thousands separator, with a point or a comma for decimals.",
+                    line,
+                )
+            v = _to_number(cell, decimal_comma_allowed)
+            if v is None and not plain:
+                raise SpectrumError(
+                    f"the {what} cell (column {idx + 1}) is empty; fill the gap or remove the row.",
+                    line,
+                )
+            if v is None:
+                hint = ""
+                if not rows:
+                    hint = (
+                        " If lines above the header hold notes, choose the columns by their "
+                        "header names, or start those lines with #."
+                    )
+                raise SpectrumError(
+                    f"the {what} cell {cell.strip()[:30]!r} (column {idx + 1}) is not a "
+                    f"number.{hint}",
                     line,
                 )
             if not math.isfinite(v):
                 raise SpectrumError(
                     f"the {what} cell {cell.strip()[:30]!r} is not a finite number.", line
                 )
-            if "," in cell and _DECIMAL_COMMA.match(cell.strip().strip('"').strip()):
+            if "," in cell and _DECIMAL_COMMA.match(plain):
                 used_decimal_comma = True
             values.append(v)
         d, c = values
@@ -404,15 +483,17 @@ def parse_spectrum_csv(
         else:  # dN/dDp, per file diameter unit
             n = c * concentration_scale / diameter_scale * (edges[i + 1] - edges[i])
         numbers.append(n)
-    notes = []
+    notes = list(decode_notes)
     if bom:
         notes.append("A byte-order mark at the start was ignored.")
     if used_decimal_comma:
         notes.append("Decimal commas were read as decimal points.")
+    if sep_line:
+        notes.append(f"The first line {first_line.strip()!r} named the separator.")
+    if metadata:
+        notes.append(f"{metadata} line(s) of notes above the header were skipped.")
     if skipped:
         notes.append(f"{skipped} blank or comment line(s) were skipped.")
-    if encoding == "cp1252":
-        notes.append("The file is not UTF-8; it was read as Windows-1252.")
     report = {
         "delimiter": delim_name,
         "decimal_comma": used_decimal_comma,
@@ -422,7 +503,7 @@ def parse_spectrum_csv(
         "rows": len(rows),
         "first_line": rows[0][0],
         "last_line": rows[-1][0],
-        "skipped_lines": skipped,
+        "skipped_lines": skipped + metadata,
         "concentration_type": concentration_type,
         "notes": notes,
     }

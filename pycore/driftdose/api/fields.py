@@ -188,6 +188,8 @@ def _number(f: Field, value: Any) -> float:
             number = math.inf if value > 0 else -math.inf
     elif isinstance(value, str):
         text = value.strip().replace("\u2212", "-").replace(" ", "")
+        if "_" in text:  # float() reads "1_000"; a person never means that (nor does the CLI)
+            raise FieldError(f.name, f"{f.label} must be a number{_within(f)}, not {value[:20]!r}.")
         if text.count(",") == 1 and "." not in text:
             whole, frac = text.split(",")
             if len(frac) == 3 and whole.lstrip("+-") not in ("", "0"):
