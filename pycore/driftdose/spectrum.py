@@ -230,7 +230,11 @@ def _find_columns(
             start = len(table)
         header = table[start - 1][1] if start else None
     else:
-        wanted = [str(x).strip().strip('"').strip().lower() for x in (d_spec, c_spec)]
+        wanted = [
+            str(x).strip().strip('"').strip().lower()
+            for x in (d_spec, c_spec)
+            if not _is_number_spec(x)
+        ]
         start = 0
         for i, (_, cells) in enumerate(table):
             names = [h.strip().strip('"').strip().lower() for h in cells]
