@@ -23,7 +23,6 @@ Standard library only (argparse, csv, json, decimal), so the module also imports
 from __future__ import annotations
 
 import argparse
-import csv
 import errno
 import fnmatch
 import io
@@ -969,7 +968,7 @@ def _batch(
         )
     else:
         buf = io.StringIO()
-        csv.writer(buf, lineterminator="\r\n").writerows(table)  # as the page's CSV exports
+        export.csv_writer(buf).writerows(table)  # as the page's CSV exports
         text = buf.getvalue()
     _write(opts.out, text, stdout)
     return status

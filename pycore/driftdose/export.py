@@ -4,6 +4,12 @@ The page (through the worker) and the command line both use these, so a CSV file
 whichever front end wrote it. Header rows name each quantity and its unit. Where a reply holds
 several kinds of result or curve (a table of stages, curves on other axes), each kind is
 written as its own block with its own header row, blocks separated by an empty line.
+
+Every text cell that a spreadsheet would take for a formula (one beginning with ``=``, ``+``,
+``-``, ``@``, a tab or a carriage return: a stage named ``=1+1``, a file named
+``+HYPERLINK(...)``) is written with a leading apostrophe, which spreadsheets show as text;
+numbers, negative ones included, are written as they are. This is the common practice for CSV
+sent to spreadsheets (OWASP, "CSV Injection").
 """
 
 from __future__ import annotations
@@ -15,13 +21,61 @@ import re
 from collections.abc import Iterator
 from typing import Any
 
-__all__ = ["curves_csv", "curves_csv_json", "results_csv", "results_csv_json"]
+__all__ = [
+    "csv_writer",
+    "curves_csv",
+    "curves_csv_json",
+    "results_csv",
+    "results_csv_json",
+    "safe_cell",
+]
 
 _AXIS_KEYS = ("x_label", "x_unit", "y_label", "y_unit")
 
 
+_FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+_PLAIN_NUMBER = re.compile(r"^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$")
+
+
+def safe_cell(value: Any) -> Any:
+    """Return a CSV cell a spreadsheet will not run as a formula.
+
+    Text beginning with ``= + - @``, a tab or a carriage return gets a leading apostrophe;
+    a plain number (``-2.5e-09``) and anything that is not text are returned unchanged.
+
+    Examples
+    --------
+    >>> safe_cell("=1+1"), safe_cell("-2.5e-09"), safe_cell("@SUM(A1)"), safe_cell("tube")
+    ("'=1+1", '-2.5e-09', "'@SUM(A1)", 'tube')
+
+    """
+    if isinstance(value, str) and value.startswith(_FORMULA_START):
+        if not _PLAIN_NUMBER.match(value):
+            return "'" + value
+    return value
+
+
+class _SafeWriter:
+    """A ``csv.writer`` that passes every cell through :func:`safe_cell`."""
+
+    def __init__(self, buffer: Any) -> None:
+        self._writer = csv.writer(buffer, lineterminator="\r\n")
+
+    def writerow(self, row: Any) -> Any:
+        return self._writer.writerow([safe_cell(c) for c in row])
+
+    def writerows(self, rows: Any) -> None:
+        for row in rows:
+            self.writerow(row)
+
+
+def csv_writer(buffer: Any) -> _SafeWriter:
+    """A CSV writer as every export uses: CRLF line ends, formula-like cells neutralised."""
+    return _SafeWriter(buffer)
+
+
 def _writer(buffer: io.StringIO) -> Any:
-    return csv.writer(buffer, lineterminator="\r\n")
+    return csv_writer(buffer)
 
 
 def _num(x: Any) -> str:
