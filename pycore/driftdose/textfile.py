@@ -186,13 +186,28 @@ def decode_text(data: bytes | bytearray | memoryview, limit: int = MAX_BYTES) ->
 _LATIN1_TABLE_MAP = {i: ch for i, ch in enumerate(_LATIN1_TABLE) if ord(ch) != i}
 
 
-def decode_text_json(data: Any, limit: int = MAX_BYTES) -> str:
+def decode_text_json(
+    data: Any, limit: int = MAX_BYTES, name: str | None = None, size: int | None = None
+) -> str:
     """:func:`decode_text` for the page's worker: bytes in, JSON text out.
 
-    The reply is ``{"ok": true, "text", "encoding", "bom", "size", "size_text", "notes"}`` or
-    ``{"ok": false, "message", "size"}``; it never raises for any content.
+    ``data`` may be a JavaScript ``Uint8Array`` as Pyodide passes it (read with its
+    ``to_bytes``), or None with the file's ``size`` and ``name`` for a file too large to read
+    at all. The reply is ``{"ok": true, "text", "encoding", "bom", "size", "size_text",
+    "replaced", "notes"}`` or ``{"ok": false, "message", "size"}``; it never raises.
     """
+    if data is None:
+        size = int(size or 0)
+        return json.dumps(
+            {"ok": False, "message": too_large(size, limit, name or "The file"), "size": size}
+        )
+    if not isinstance(data, bytes | bytearray | memoryview):
+        data = data.to_bytes()  # a JavaScript Uint8Array in the page's worker
     raw = bytes(data)
+    if raw and len(raw) > limit and name:
+        return json.dumps(
+            {"ok": False, "message": too_large(len(raw), limit, name), "size": len(raw)}
+        )
     try:
         d = decode_text(raw, limit)
     except TextFileError as exc:

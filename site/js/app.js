@@ -3,7 +3,7 @@
 // tools (copy link, save/load inputs, printable report) and the offline service worker.
 import { Engine } from "./engine.js";
 import { el } from "./forms.js";
-import { download, readText, stamp } from "./files.js";
+import { download, readText, stamp, useDecoder } from "./files.js";
 import { buildReport, footerText } from "./report.js";
 import { fingerprint } from "./digest.js";
 import { mountSurvey } from "./survey.js";
@@ -17,6 +17,7 @@ const STATE_FORMAT = "drift-and-dose-inputs";
 
 const root = document.documentElement;
 export const engine = new Engine(new URL("./worker.js", import.meta.url));
+useDecoder((bytes, limit, name, size) => engine.decodeFile(bytes, limit, name, size));
 export const controllers = new Map();
 let active = PANELS[0].id;
 let engineInfo = { version: "", pyodide: "" };

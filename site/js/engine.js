@@ -63,6 +63,19 @@ export class Engine {
   }
 
   /**
+   * Decode a picked file's bytes with the core's decoder; resolves with {ok, text, size,
+   * size_text, encoding, notes} or {ok: false, message}. With `bytes` null (a file over
+   * `limit`, never read) the reply is the refusal that names the file's size.
+   */
+  decodeFile(bytes, limit, name, size) {
+    const id = this.nextId++;
+    return new Promise((resolve) => {
+      this.pending.set(id, { resolve });
+      this.worker.postMessage({ id, op: "decode", bytes, limit, name, size });
+    });
+  }
+
+  /**
    * Send a request on a named channel; resolves with the reply, or with null when a newer
    * request on the same channel was sent meanwhile (the page keeps only the newest answer).
    */

@@ -21,6 +21,26 @@ export async function readText(file, maxBytes = 5 * 1024 * 1024) {
   return file.text();
 }
 
+let decoder = null;
+
+/** Route the reading of picked files through `fn(bytes, limit, name, size)`: the engine's
+ * core decoder (UTF-8, byte-order marks, UTF-16, Latin-1), shared with the command line. */
+export function useDecoder(fn) {
+  decoder = fn;
+}
+
+/**
+ * Read a picked file with the core's decoder. Resolves with {ok, text, size_text, notes,
+ * bytes} or {ok: false, message}; a file over `maxBytes` is refused without being read.
+ */
+export async function decodeFile(file, maxBytes = 5 * 1024 * 1024) {
+  const name = file.name.slice(0, 80);
+  if (!decoder) return { ok: false, message: "The calculation engine is not available." };
+  if (file.size > maxBytes) return decoder(null, maxBytes, name, file.size);
+  const bytes = new Uint8Array(await file.arrayBuffer());
+  return { ...(await decoder(bytes, maxBytes, name, file.size)), bytes };
+}
+
 /** Today's date as YYYY-MM-DD, for file names. */
 export function stamp() {
   return new Date().toISOString().slice(0, 10);

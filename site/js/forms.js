@@ -1,6 +1,7 @@
 // Build form fields from the field descriptions that driftdose.api publishes (forms.json), read
 // raw inputs back, and show per-field messages. No physical rule lives here: Python validates.
 import { sha256Hex } from "./digest.js";
+import { decodeFile } from "./files.js";
 
 let counter = 0;
 
@@ -217,22 +218,22 @@ function renderFile(container, field, prefix) {
     const file = input.files[0];
     if (!file) return;
     const limit = field.max_bytes || 5 * 1024 * 1024;
-    if (file.size > limit) {
+    const got = await decodeFile(file, limit); // the core's decoder, as the command line's
+    if (!got.ok) {
       // the earlier file no longer stands: recalculate without one (its results go stale)
       text = null;
       name = "";
       source = null;
-      refusal = `${file.name.slice(0, 80)} is ${(file.size / 1e6).toFixed(1)} MB; the limit is ${(limit / 1e6).toFixed(0)} MB.`;
+      refusal = got.message.startsWith(file.name.slice(0, 80)) ? got.message : `${file.name.slice(0, 80)}: ${got.message}`;
       status.textContent = refusal;
       for (const cb of listeners) cb();
       return;
     }
     refusal = "";
-    const bytes = new Uint8Array(await file.arrayBuffer());
-    text = new TextDecoder().decode(bytes);
+    text = got.text;
     name = file.name;
-    source = { name: name.slice(0, 200), size: bytes.length, sha256: sha256Hex(bytes), from: "file" };
-    status.textContent = `Loaded ${name.slice(0, 80)} (${text.length.toLocaleString()} characters).`;
+    source = { name: name.slice(0, 200), size: got.bytes.length, sha256: sha256Hex(got.bytes), from: "file" };
+    status.textContent = [`Loaded ${name.slice(0, 80)} (${got.size_text}).`, ...got.notes].join(" ");
     for (const cb of listeners) cb();
   });
   return {

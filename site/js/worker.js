@@ -15,6 +15,7 @@ const base = new URL("../", import.meta.url);
 const indexURL = new URL("pyodide/", base).href;
 let handleJson = null;
 let exporter = null;
+let textfile = null;
 // phase marks, in ms since the page's time origin's epoch (performance.timeOrigin + now())
 const marks = { workerStart: stamp() };
 
@@ -85,6 +86,7 @@ async function start() {
   const api = pyodide.pyimport("driftdose.api");
   handleJson = api.handle_json;
   exporter = pyodide.pyimport("driftdose.export");
+  textfile = pyodide.pyimport("driftdose.textfile");
   const version = JSON.parse(handleJson(JSON.stringify({ kind: "describe" }))).version;
   marks.packageImported = stamp();
   postMessage({
@@ -103,14 +105,21 @@ function exportCsv(reply, part) {
   return { ok: true, text: fn(JSON.stringify(reply)) };
 }
 
+// A file the user picked, as bytes: decoded by the core's one decoder (driftdose.textfile),
+// the same the command line uses, so a file reads alike in both.
+function decodeFile({ bytes, limit, name, size }) {
+  // undefined, not null: Pyodide turns undefined into None (null becomes its own jsnull)
+  return JSON.parse(textfile.decode_text_json(bytes ?? undefined, limit, name, size));
+}
+
 self.addEventListener("message", async (event) => {
   const { id, kind, inputs, op } = event.data;
   let reply;
   try {
     await started;
-    reply = op === "export"
-      ? exportCsv(event.data.reply, event.data.part)
-      : JSON.parse(handleJson(JSON.stringify({ kind, inputs })));
+    if (op === "export") reply = exportCsv(event.data.reply, event.data.part);
+    else if (op === "decode") reply = decodeFile(event.data);
+    else reply = JSON.parse(handleJson(JSON.stringify({ kind, inputs })));
   } catch (err) {
     reply = { ok: false, errors: [{ field: "", message: "The calculation engine is not available." }] };
   }
