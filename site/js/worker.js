@@ -8,6 +8,7 @@
 // from build-info.json. Either refusal, or any failure, falls back to the normal start: start
 // Python, install the wheel, import the package. The standard library and the wheel hold
 // bytecode compiled at build time, so the normal start compiles nothing either.
+import "./worker-shim.js"; // first: before Pyodide's module code runs
 import { loadPyodide } from "../pyodide/pyodide.mjs";
 import { expandSparse } from "./sparse.js";
 
