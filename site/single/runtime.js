@@ -67,17 +67,19 @@ class Embedded {
     return (await this.response(path)).text();
   }
 
-  /** blob: URL of the module at `path`, its dependencies made first (the build forbids cycles). */
-  moduleUrl(path) {
-    if (!this.modules.has(path)) this.modules.set(path, this._makeModule(path));
-    return this.modules.get(path);
+  /** blob: URL of the module at `path`, its dependencies made first (the build forbids cycles).
+   * With a `prologue` (source put before the module's own), a separate copy is made. */
+  moduleUrl(path, prologue = "") {
+    const key = prologue ? `${path}\n${prologue}` : path;
+    if (!this.modules.has(key)) this.modules.set(key, this._makeModule(path, prologue));
+    return this.modules.get(key);
   }
 
-  async _makeModule(path) {
+  async _makeModule(path, prologue = "") {
     const info = this.files[path];
     if (!info) throw new Error(`module ${path} ${NOT_EMBEDDED}`);
-    if (!info.tokens) return URL.createObjectURL(await this.blob(path, "text/javascript"));
-    const source = await this.text(path);
+    if (!info.tokens && !prologue) return URL.createObjectURL(await this.blob(path, "text/javascript"));
+    const source = prologue + (await this.text(path));
     const urls = new Map();
     for (const [, kind, target] of source.matchAll(TOKEN)) {
       if (kind === "module" && !urls.has(target)) urls.set(target, this.moduleUrl(target));
@@ -135,9 +137,9 @@ function workerEntry() {
     };
     import(URL.createObjectURL(new Blob([init.runtime], { type: "text/javascript" })))
       .then((runtime) => runtime.startWorker(init))
-      .catch((err) => setTimeout(() => {
-        throw err;
-      }))
+      .then(() => postMessage({ ddWorker: "started" }))
+      // WebKit refuses module scripts in a worker of a file:// page: the page runs it instead
+      .catch((err) => postMessage({ ddWorker: "refused", message: String(err) }))
       .finally(release);
   };
   self.addEventListener("message", hold);
@@ -148,6 +150,77 @@ export async function startWorker(init) {
   const embedded = new Embedded(init.base, init.files, async (path) => init.files[path].text);
   globalThis.fetch = embedded.fetchFunction(globalThis.fetch.bind(globalThis), init.base);
   await import(await embedded.moduleUrl(init.entry));
+}
+
+/**
+ * What the page sees as the calculation worker: the real worker, or (where the browser refuses
+ * the worker's modules, as WebKit does for a file:// page) the same module run in the page
+ * with a worker-like scope. Messages sent before the worker says which are held and replayed.
+ */
+class WorkerOrPage extends EventTarget {
+  constructor(worker, startPage) {
+    super();
+    this.worker = worker;
+    this.mode = "waiting";
+    this.held = [];
+    worker.addEventListener("error", (event) => {
+      this.dispatchEvent(new ErrorEvent("error", { message: event.message, error: event.error }));
+    });
+    worker.addEventListener("message", (event) => {
+      const data = event.data;
+      if (data && data.ddWorker === "refused") {
+        worker.terminate();
+        console.warn(`The calculation runs in the page: ${data.message}`);
+        this.mode = "page";
+        startPage(this).then((scope) => {
+          this.scope = scope;
+          for (const held of this.held.splice(0)) scope.receive(held);
+        }).catch((err) => {
+          this.dispatchEvent(new MessageEvent("message", { data: { type: "failed", message: String(err && err.message ? err.message : err) } }));
+        });
+        return;
+      }
+      if (data && data.ddWorker === "started") {
+        this.mode = "worker";
+        this.held.length = 0;
+        return;
+      }
+      this.dispatchEvent(new MessageEvent("message", { data }));
+    });
+  }
+
+  postMessage(data) {
+    if (this.mode === "page") {
+      if (this.scope) this.scope.receive(data);
+      else this.held.push(data);
+      return;
+    }
+    if (this.mode === "waiting") this.held.push(data); // replayed in the page if need be
+    this.worker.postMessage(data);
+  }
+
+  terminate() {
+    this.worker.terminate();
+  }
+}
+
+/** The worker module run in the page: its `self` and `postMessage` are a worker-like scope. */
+async function startInPage(embedded, path, front) {
+  const scope = new EventTarget();
+  scope.front = front;
+  scope.receive = (data) => {
+    const copy = structuredClone(data);
+    setTimeout(() => scope.dispatchEvent(new MessageEvent("message", { data: copy })));
+  };
+  scope.postMessage = (data) => {
+    const copy = structuredClone(data);
+    setTimeout(() => scope.front.dispatchEvent(new MessageEvent("message", { data: copy })));
+  };
+  globalThis.__ddWorkerScope = scope;
+  const prologue = "const self = globalThis.__ddWorkerScope;\n"
+    + "const postMessage = (data) => self.postMessage(data);\n";
+  await import(await embedded.moduleUrl(path, prologue));
+  return scope;
 }
 
 /**
@@ -178,7 +251,8 @@ export async function startPage(manifest) {
         for (const [name, info] of Object.entries(files)) {
           sent[name] = { ...info, text: element(name).textContent };
         }
-        this.postMessage({ runtime, base, entry: path, files: sent });
+        super.postMessage({ runtime, base, entry: path, files: sent });
+        return new WorkerOrPage(this, (front) => startInPage(embedded, path, front));
       }
     };
     for (const script of manifest.scripts) {

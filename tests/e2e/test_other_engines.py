@@ -67,17 +67,13 @@ def test_single_file_in_firefox(single_file: Path):
     assert not outside, outside
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="open defect: in WebKitGTK the calculation worker of a file:// page cannot import "
-    "its blob: modules ('Cross-origin script load denied by Cross-Origin Resource Sharing "
-    "policy'), so the engine fails to start",
-)
 def test_single_file_in_webkit(single_file: Path):
     reason = engines.webkit_available()
     if reason:
         pytest.skip(reason)
     report = engines.run_webkit(single_file.as_uri(), READY_S)
+    # WebKit refuses module scripts in a worker of a file:// page; the runtime then runs the
+    # calculation module in the page (site/single/runtime.js, WorkerOrPage)
     assert report["engine"] == "ready", report
     assert report["state"] == "ok" and report["cells"] >= 5, report
     assert not report["console_errors"], report["console_errors"]
