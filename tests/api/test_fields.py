@@ -264,3 +264,28 @@ def test_text_field_length_limit() -> None:
         f.parse("x" * 11)
     with pytest.raises(FieldError):
         f.parse(5)
+
+
+def test_range_failure_in_one_unit_hints_at_the_unit_where_it_fits():
+    """A number valid in another offered unit names that unit; one valid in none does not."""
+
+    def message(kind, name, value, unit):
+        reply = handle({"kind": kind, "inputs": {name: {"value": value, "unit": unit}}})
+        assert not reply["ok"]
+        return reply["errors"][0]["message"]
+
+    assert message("motion", "particle_diameter", "0,3", "nm").endswith("0.3 nm — did you mean µm?")
+    assert message("motion", "particle_diameter", "5000", "um").endswith(
+        "5000 µm — did you mean nm?"
+    )
+    assert message("motion", "particle_density", "2650", "g/cm3").endswith(
+        "2650 g/cm³ — did you mean kg/m³?"
+    )
+    # out of range in every offered unit: the range only
+    assert message("motion", "particle_diameter", "5e9", "nm") == (
+        "Particle diameter must be from 0.5 nm to 1 mm."
+    )
+    # the hint never appears for a valid value
+    assert handle(
+        {"kind": "motion", "inputs": {"particle_diameter": {"value": "0.3", "unit": "um"}}}
+    )["ok"]

@@ -169,7 +169,24 @@ class Field:
         )
         if bad:
             rng = self.range_text() or "a finite number"
-            raise FieldError(self.name, f"{self.label} must be {rng}.")
+            raise FieldError(
+                self.name, f"{self.label} must be {rng}.{self._unit_hint(shown, unit)}"
+            )
+
+    def _unit_hint(self, shown: float, unit: str | None) -> str:
+        """Name another offered unit in which the number typed would be valid ("did you mean")."""
+        if unit is None or len(self.units) < 2 or not math.isfinite(shown):
+            return ""
+        lo, hi = self.minimum, self.maximum
+        for other in self.units:
+            if canonical_unit(self.kind, other) == unit:
+                continue
+            si = to_si(shown, self.kind, other)
+            if (lo is None or (si > lo if self.exclusive_min else si >= lo)) and (
+                hi is None or si <= hi
+            ):
+                return f" {shown:g} {unit_label(unit)} — did you mean {unit_label(other)}?"
+        return ""
 
 
 def _within(f: Field) -> str:
