@@ -367,7 +367,7 @@ def _flag_inputs(
             if choice and f"field:{choice}" not in given:
                 inputs[choice] = value  # a file given means: use it (as choosing it on the page)
         elif fd.get("kind") == "data":
-            inputs[name] = _data_value(raw, name, origins)
+            inputs[name] = _data_value(raw, name, origins, fd)
         elif fd.get("kind") == "text" and raw.startswith("@"):
             inputs[name] = _read_text_file(raw[1:], name)
             origins[name] = raw[1:]
@@ -384,22 +384,29 @@ def _flag_inputs(
     return inputs
 
 
-def _data_value(args: list[str], name: str, origins: dict[str, str]) -> Any:
+def _data_value(
+    args: list[str], name: str, origins: dict[str, str], fd: dict[str, Any] | None = None
+) -> Any:
     """A data field's value: one JSON text or ``@file.json``, or ``KEY=VALUE`` pairs.
 
     Pairs make an object; a value ``@path`` is that file's text (a CSV file, say), any other
-    value is read as JSON when it is JSON (numbers, lists) and kept as text otherwise.
+    value is read as JSON when it is JSON (numbers, lists) and kept as text otherwise. For a
+    list of items (lognormal modes), pairs make the items instead: see :func:`_item_list`.
     """
     if len(args) == 1 and not _KEY_VALUE.match(args[0]):
         return _parse_json_text(args[0], name)
-    obj: dict[str, Any] = {}
+    pairs = []
     for arg in args:
         m = _KEY_VALUE.match(arg)
         if not m:
             raise UserError(
                 name, f"give one JSON text, @FILE or KEY=VALUE pairs, not {arg[:30]!r}."
             )
-        key, value = m.groups()
+        pairs.append(m.groups())
+    if fd is not None and fd.get("item_fields"):
+        return _item_list(pairs, fd)
+    obj: dict[str, Any] = {}
+    for key, value in pairs:
         if value.startswith("@"):
             obj[key] = _read_text_file(value[1:], name)
             origins[name] = f"{key} from {value[1:]}"
@@ -413,6 +420,34 @@ def _data_value(args: list[str], name: str, origins: dict[str, str]) -> Any:
         if obj[key] is None or _json_depth_over(obj[key], MAX_JSON_DEPTH):
             raise _too_deep(name, f"{key}= is ")
     return obj
+
+
+def _item_list(pairs: list[tuple[str, str]], fd: dict[str, Any]) -> list[dict[str, Any]]:
+    """Items of a list field from ``KEY=VALUE`` pairs, as the page's item forms send them.
+
+    A key given again starts the next item (``basis=count median=30nm ... basis=mass ...``). A
+    quantity takes its unit after the number (``30nm``) or, without one, the unit of the
+    field's default item; keys left out take the default item's values.
+    """
+    fields = {f["name"]: f for f in fd["item_fields"]}
+    template = (fd.get("default") or [{}])[0]
+    items: list[dict[str, Any]] = []
+    current: dict[str, Any] = {}
+    for key, value in pairs:
+        if key in current:
+            items.append(current)
+            current = {}
+        f = fields.get(key)
+        if f is not None and f.get("units"):
+            number, unit = _split_quantity(value)
+            default = template.get(key)
+            if unit is None:
+                unit = default.get("unit") if isinstance(default, dict) else f["units"][0]
+            current[key] = {"value": number, "unit": unit}
+        else:
+            current[key] = value  # choices and plain numbers travel as text, as from the form
+    items.append(current)
+    return [{**template, **item} for item in items]
 
 
 def _js_string(value: Any) -> str:
