@@ -41,6 +41,7 @@ from pathlib import Path
 from typing import Any, NoReturn, TextIO
 
 from . import __version__, api, export, textfile
+from .api.units import unit_label
 
 __all__ = ["UserError", "format_number", "main", "plain_number", "to_precision"]
 
@@ -868,13 +869,24 @@ def _check_outputs(opts: argparse.Namespace, reads: Sequence[str] = ()) -> None:
 def _input_summary(
     fields: list[dict[str, Any]], inputs: dict[str, Any], origins: dict[str, str]
 ) -> list[tuple[str, str]]:
-    """(label, value as given) for every field, defaults filled in, for the table's record."""
-    out = []
+    """(label, value as given) for every field that applies, defaults filled in, for the table's
+    record. Lists of items (modes, stages) get a row per item with its values and units.
+    """
+    out: list[tuple[str, str]] = []
+    current = {fd["name"]: inputs.get(fd["name"], fd.get("default")) for fd in fields}
     for fd in fields:
         name = fd["name"]
-        raw = inputs.get(name)
-        if raw is None:
-            raw = fd.get("default")
+        rule = fd.get("applies_when")
+        if rule and current.get(rule["field"]) not in rule["values"]:
+            continue  # does not apply to these choices (the page hides it)
+        raw = current[name]
+        if (
+            isinstance(raw, list)
+            and name not in origins
+            and (fd.get("item_fields") or fd.get("stage_types"))
+        ):
+            out.extend(_item_rows(fd, raw))
+            continue
         if raw is None or (_is_quantity(fd) and isinstance(raw, dict) and raw.get("value") is None):
             shown = "—"
         elif name in origins:
@@ -898,6 +910,48 @@ def _input_summary(
             shown = text if len(text) <= 60 else f"({many})"
         out.append((fd.get("label", name), shown))
     return out
+
+
+def _item_rows(fd: dict[str, Any], items: list[Any]) -> list[tuple[str, str]]:
+    """A row per item of a list input: "Mode 1" / "by count, median 30 nm, GSD 1.6, ..."."""
+    rows = []
+    noun = "Stage" if fd.get("stage_types") else "Mode" if fd["name"] == "modes" else "Item"
+    for i, item in enumerate(items, start=1):
+        if not isinstance(item, dict):
+            rows.append((f"{noun} {i}", json.dumps(item, ensure_ascii=False)[:60]))
+            continue
+        spec = (fd.get("stage_types") or {}).get(item.get("type"))
+        item_fields = spec["fields"] if spec else fd.get("item_fields") or []
+        parts = []
+        for f in item_fields:
+            value = item.get(f["name"])
+            if value is None or value == "":
+                continue
+            # stage fields have short labels; mode fields are named by their key ("gsd: 1.6")
+            label = f.get("label", f["name"]) if spec else f["name"].replace("_", " ")
+            if isinstance(value, dict):
+                unit = _unit_text(_item_unit_label(f, value.get("unit")))
+                if value.get("value") in (None, ""):
+                    continue
+                parts.append(f"{label}: {_js_string(value.get('value'))} {unit}".strip())
+            elif f.get("kind") == "choice":
+                choices = f.get("choices", [])
+                choice = next((c["label"] for c in choices if c["value"] == value), value)
+                choice = choice if spec else str(value).replace("_", "-")
+                parts.append(f"{label}: {choice}")
+            else:
+                parts.append(f"{label}: {_js_string(value)}")
+        title = f"{noun} {i}" + (f" ({spec['label']})" if spec else "")
+        rows.append((title, "; ".join(parts)))
+    return rows
+
+
+def _item_unit_label(f: dict[str, Any], unit: Any) -> str:
+    for u in f.get("units", []):
+        code, label = (u, unit_label(u)) if isinstance(u, str) else (u["unit"], u["label"])
+        if code == unit:
+            return label
+    return str(unit or "")
 
 
 # --- running ----------------------------------------------------------------------------------

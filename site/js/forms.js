@@ -155,6 +155,17 @@ export class FieldSet {
   }
 
   /**
+   * Show each field that declares `applies_when` ({field, values}, from the published field
+   * descriptions) only while that other field has one of the values. Returns the re-apply
+   * function, as showWhen does.
+   */
+  showDeclared(fields) {
+    const rules = {};
+    for (const f of fields) if (f.applies_when) rules[f.name] = [f.applies_when.field, f.applies_when.values];
+    return this.showWhen(rules);
+  }
+
+  /**
    * Show a field only while another field has one of the given values (presentation only:
    * Python validates every input). `rules`: {field: [otherField, [values...]]}. Returns the
    * function that re-applies the rules (call it after setting values programmatically).

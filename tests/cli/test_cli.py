@@ -1135,3 +1135,71 @@ def test_console_script_when_installed():
     assert math.isclose(
         json.loads(done.stdout)["results"]["volume_equivalent_diameter"]["si"], 100e-9
     )
+
+
+def test_modes_as_key_value_pairs_work_as_the_readme_says(capsys):
+    """``--modes basis=count median=30nm gsd=1.6 concentration=1e5`` is one count mode, the
+    same request as its JSON form; a repeated key starts a second mode."""
+    code, out, err = run_main(
+        capsys,
+        "deposition",
+        "--format",
+        "json",
+        "--modes",
+        "basis=count",
+        "median=30nm",
+        "gsd=1.6",
+        "concentration=1e5",
+    )
+    assert code == 0, err
+    pairs = json.loads(out)
+    code, out, err = run_main(
+        capsys,
+        "deposition",
+        "--format",
+        "json",
+        "--modes",
+        '[{"basis": "count", "median": {"value": "30", "unit": "nm"}, "gsd": "1.6",'
+        ' "concentration": {"value": "1e5", "unit": "1/cm3"},'
+        ' "diameter_type": "volume_equivalent"}]',
+    )
+    assert code == 0, err
+    assert pairs["results"] == json.loads(out)["results"]
+    # 1e5 in the default mode's unit (1/cm3): 1e5 per cm3, by definition of the input
+    number = pairs["results"]["number_concentration"]
+    assert number["si"] == pytest.approx(1e11, rel=1e-12)
+
+    code, out, err = run_main(
+        capsys,
+        "deposition",
+        "--modes",
+        "basis=count",
+        "median=30nm",
+        "gsd=1.6",
+        "concentration=1e5",
+        "basis=mass",
+        "median=5um",
+        "gsd=2",
+        "concentration=1mg/m3",
+    )
+    assert code == 0, err
+    assert re.search(
+        r"Mode 1\s+basis: count; median: 30 nm;.*gsd: 1\.6; concentration: 1e5 1/cm³", out
+    )
+    assert re.search(r"Mode 2\s+basis: mass; median: 5 µm;.*concentration: 1 mg/m³", out)
+
+
+def test_table_leaves_out_inputs_that_do_not_apply(capsys):
+    """Lognormal modes: no spectrum columns; reference worker: no custom breathing inputs.
+    A spectrum: its columns, and no modes."""
+    code, out, err = run_main(capsys, "deposition")
+    assert code == 0, err
+    inputs = out.split("Results")[0]
+    for absent in ("Spectrum CSV file", "Diameter column", "Tidal volume", "Activity level"):
+        assert absent not in inputs, absent
+    assert re.search(r"Mode 1\s+basis: count; median: 50 nm", inputs)
+    assert "Breathing route" in inputs
+    code, out, err = run_main(capsys, "deposition", "--breathing", "custom")
+    assert code == 0, err
+    inputs = out.split("Results")[0]
+    assert "Tidal volume" in inputs and "Breathing route" not in inputs

@@ -13,23 +13,6 @@ const METRICS = [
   ["mass", "Mass"],
 ];
 
-// Which inputs apply, by the value of another input (presentation only; Python validates).
-const VISIBLE_WHEN = {
-  modes: ["distribution_source", ["lognormal"]],
-  csv_text: ["distribution_source", ["csv"]],
-  csv_diameter_column: ["distribution_source", ["csv"]],
-  csv_concentration_column: ["distribution_source", ["csv"]],
-  csv_concentration_type: ["distribution_source", ["csv"]],
-  csv_diameter_unit: ["distribution_source", ["csv"]],
-  csv_concentration_unit: ["distribution_source", ["csv"]],
-  spectrum_diameter_type: ["distribution_source", ["csv"]],
-  activity: ["breathing", ["activity"]],
-  route: ["breathing", ["reference_worker", "activity"]],
-  tidal_volume: ["breathing", ["custom"]],
-  breathing_frequency: ["breathing", ["custom"]],
-  nasal_fraction: ["breathing", ["custom"]],
-};
-
 const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
 
 export function mount(root, { engine, description }) {
@@ -200,7 +183,7 @@ export function mount(root, { engine, description }) {
     });
   }
 
-  const applyVisibility = panel.fields.showWhen(VISIBLE_WHEN);
+  const applyVisibility = panel.fields.showDeclared(fields);
   const baseSet = panel.setState.bind(panel);
   panel.setState = (values) => {
     const csv = panel.fields.handles.get("csv_text");

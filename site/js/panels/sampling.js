@@ -14,11 +14,6 @@ const SPECTRUM_FIELDS = [
   "csv_text", "csv_diameter_column", "csv_concentration_column", "csv_concentration_type",
   "csv_diameter_unit", "csv_concentration_unit", "spectrum_diameter_type",
 ];
-// Which inputs apply, by the value of another input (presentation only; Python validates).
-const VISIBLE_WHEN = {
-  ...Object.fromEntries(SPECTRUM_FIELDS.map((name) => [name, ["spectrum_source", ["csv"]]])),
-  shape_factor: ["density_basis", ["effective"]],
-};
 const OVERALL_KEYS = ["overall_10nm", "overall_100nm", "overall_1um", "overall_10um"];
 const SHOWN_KEYS = ["pass_band", "departure_max", "departure_mean", "csv_rows"];
 const SUMMARY_KEYS = [...OVERALL_KEYS, ...SHOWN_KEYS]; // the printed record has no stage table
@@ -466,7 +461,7 @@ export function mount(root, { engine, description }) {
     panel.fieldsBox.querySelector("legend").after(chain.box);
   }
 
-  const applyVisibility = panel.fields.showWhen(VISIBLE_WHEN);
+  const applyVisibility = panel.fields.showDeclared(fields);
 
   const baseShowErrors = panel.fields.showErrors.bind(panel.fields);
   panel.fields.showErrors = (errors) => baseShowErrors(chain.showErrors(errors));
