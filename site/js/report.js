@@ -54,7 +54,7 @@ export function buildReport(target, controller, info) {
   const reply = controller.lastGood;
   if (controller.demoLabel) {
     parts.push(el("p", { class: "report-demo" },
-      `INVENTED DEMO DATA: ${controller.demoLabel}. These inputs are not a measurement.`));
+      `Invented demo data: ${controller.demoLabel}. These inputs are not a measurement.`));
   }
   const cautions = el("section", { class: "report-cautions", "aria-label": "Cautions" });
   cautions.append(el("h2", {}, "Cautions"));

@@ -214,7 +214,7 @@ def test_motion_record_fits_carries_survey_qr_and_fingerprint(page, base_url, tm
         assert re.search(r"Air temperature\s+20\s+°C", text)
         assert re.search(r"Diffusion coefficient D\s+[\d.]+ × 10⁻[⁰¹²³⁴⁵⁶⁷⁸⁹]+\s+m²/s", text)
         assert "Kim, J. H." in text
-        assert "INVENTED DEMO DATA" not in text
+        assert "Invented demo data" not in text
     link = _qr_text(pdf, len(pages))
     assert link == _printed_link(pdf)
     assert link.startswith(base_url + "#v=1&panel=motion")
@@ -257,7 +257,7 @@ def test_deposition_record_of_invented_spectrum_is_compact_and_marked(page, base
         _check_every_page(pages, fingerprint)
         text = "\n".join(pages)
         _check_common(text)
-        assert "INVENTED DEMO DATA" in text
+        assert "Invented demo data" in text
         assert sha in re.sub(r"\s+", "", text)  # may wrap at the line end
         # the region table as on screen: one row per region, not a row per quantity
         assert text.count("Deposition by region") == 1
@@ -319,4 +319,4 @@ def test_sampling_record_with_spectrum_file_fits_and_names_the_file(page, base_u
         assert "Corrected spectrum" in text
         bins = re.findall(r"\d[\d.]*\s+[\d.]+(?: × 10⁻?[⁰¹²³⁴⁵⁶⁷⁸⁹]+)?\s+[\d.]+\s*%", text)
         assert len(bins) == SPECTRUM_BINS, len(bins)
-        assert "INVENTED DEMO DATA" not in text
+        assert "Invented demo data" not in text
