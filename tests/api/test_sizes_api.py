@@ -51,7 +51,14 @@ def test_declarations_offer_the_diameter_types_and_density_basis():
     assert "count median" in item["median"]["label"] and "mass median" in item["median"]["label"]
     assert [c["value"] for c in dep["density_basis"]["choices"]] == ["material", "effective"]
     samp = {f["name"]: f for f in describe()["calculations"]["sampling"]["fields"]}
-    assert samp["spectrum_diameter_type"] == dep["spectrum_diameter_type"]
+
+    # the same declaration; when it applies depends on each calculation's own source choice
+    def declared(f):
+        return {k: v for k, v in f.items() if k != "applies_when"}
+
+    assert declared(samp["spectrum_diameter_type"]) == declared(dep["spectrum_diameter_type"])
+    assert samp["spectrum_diameter_type"]["applies_when"]["field"] == "spectrum_source"
+    assert dep["spectrum_diameter_type"]["applies_when"]["field"] == "distribution_source"
     assert samp["density_basis"]["choices"] == dep["density_basis"]["choices"]
     assert "shape_factor" in samp
 
