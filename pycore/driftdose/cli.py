@@ -405,7 +405,7 @@ def _data_value(
             )
         pairs.append(m.groups())
     if fd is not None and fd.get("item_fields"):
-        return _item_list(pairs, fd)
+        return _item_list(pairs, fd, name)
     obj: dict[str, Any] = {}
     for key, value in pairs:
         if value.startswith("@"):
@@ -423,7 +423,7 @@ def _data_value(
     return obj
 
 
-def _item_list(pairs: list[tuple[str, str]], fd: dict[str, Any]) -> list[dict[str, Any]]:
+def _item_list(pairs: list[tuple[str, str]], fd: dict[str, Any], name: str) -> list[dict[str, Any]]:
     """Items of a list field from ``KEY=VALUE`` pairs, as the page's item forms send them.
 
     A key given again starts the next item (``basis=count median=30nm ... basis=mass ...``). A
@@ -445,8 +445,17 @@ def _item_list(pairs: list[tuple[str, str]], fd: dict[str, Any]) -> list[dict[st
             if unit is None:
                 unit = default.get("unit") if isinstance(default, dict) else f["units"][0]
             current[key] = {"value": number, "unit": unit}
-        else:
+        elif f is not None:
             current[key] = value  # choices and plain numbers travel as text, as from the form
+        else:  # not an item field: read as JSON when it is JSON (the api names the key)
+            try:
+                current[key] = json.loads(value)
+            except ValueError:
+                current[key] = value
+            except RecursionError:
+                raise _too_deep(name, f"{key}= is ") from None
+            if _json_depth_over(current[key], MAX_JSON_DEPTH):
+                raise _too_deep(name, f"{key}= is ")
     items.append(current)
     return [{**template, **item} for item in items]
 
