@@ -135,3 +135,14 @@ def test_layout_at_width(browser, base_url, panel, width):
         context.close()
     assert not watch.outside, watch.outside
     assert not watch.errors, watch.errors
+
+
+def test_default_chain_is_labelled_as_an_example_until_edited(page, base_url):
+    page.goto(base_url + "#v=1&panel=sampling")
+    wait_ready(page)
+    note = page.locator("#panel-sampling .chain-example")
+    assert note.is_visible() and note.inner_text().startswith("Example chain")
+    page.locator("#panel-sampling fieldset.stage").first.get_by_label(
+        "Tube length", exact=True
+    ).fill("3")
+    assert not note.is_visible()

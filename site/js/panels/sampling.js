@@ -51,12 +51,16 @@ function chainEditor(field, onChange) {
   typeRow.append(typeSelect, addButton);
   typeField.append(typeRow, fullNote);
   adder.append(typeField);
-  box.append(list, chainError, adder, status);
+  // the chain shown at first is an example, and says so until it is edited or replaced
+  const exampleNote = el("p", { class: "chain-example", hidden: "" },
+    "Example chain, shown to start from: replace it with the stages of your own sampling line.");
+  box.append(exampleNote, list, chainError, adder, status);
 
   let stages = [];
   let passThrough; // a non-list value from a link or file, sent as is until the chain is edited
   const changed = () => {
     passThrough = undefined;
+    exampleNote.hidden = true;
     onChange();
   };
 
@@ -188,7 +192,9 @@ function chainEditor(field, onChange) {
     get() {
       return passThrough !== undefined ? passThrough : stages.map(readStage);
     },
-    set(raw) {
+    /** Set the stages; `example` marks the page's initial example chain as such. */
+    set(raw, example = false) {
+      exampleNote.hidden = !example;
       passThrough = Array.isArray(raw) ? undefined : raw;
       stages = (Array.isArray(raw) ? raw.slice(0, RENDER_LIMIT) : []).map(makeStage);
       list.replaceChildren(...stages.map((s) => s.li));
@@ -298,7 +304,7 @@ export function mount(root, { engine, description }) {
     panel.demoLabel = "";
     panel.schedule();
   });
-  chain.set(stagesField.default || []);
+  chain.set(stagesField.default || [], true);
 
   function describeData(name, raw) {
     if (name === "csv_text") {
