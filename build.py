@@ -50,7 +50,7 @@ PYODIDE_FILES = (
     "pyodide-lock.json",
 )
 STDLIB = "python_stdlib.zip"  # replaced in dist/ by its bytecode edition (see precompile())
-TOOLS = ROOT / "tools"
+TOOLS = SITE / "engine-build"  # build-time only: not copied into dist/ (SITE_SKIP)
 ENGINE_RUNNER = TOOLS / "engine.mjs"  # runs the vendored Pyodide under Node at build time
 SNAPSHOT_DIR = "snapshot"  # dist/snapshot/<stamp>.bin: the started engine's memory, sparse
 SNAPSHOT_PAGE = 4096  # bytes per page of the sparse snapshot file (see write_sparse)
@@ -67,7 +67,7 @@ ENGINE_ASSUMPTIONS = {
         "INITIAL_MEMORY=i.length",  # ...sized from the snapshot
         "restoreSnapshot(t)",
         'BUILD_ID:"',  # the engine's build id, which a snapshot must carry
-        "thisProgram:e._sysExecutable",  # tools/engine.mjs sets sys.executable as in a browser
+        "thisProgram:e._sysExecutable",  # the build-time runner sets it as a browser does
     ),
     "pyodide.asm.mjs": (
         "_makeSnapshot",  # option needed to make a snapshot
@@ -90,6 +90,7 @@ SITE_SKIP = {
     "package.json",
     "package-lock.json",
     ".installed-lock",
+    "engine-build",
     "single",
 }  # single: see below
 MIME = {
@@ -171,7 +172,7 @@ def _check_engine() -> None:
             if needle not in text:
                 raise BuildError(
                     f"pyodide/{name} no longer contains {needle!r}; the Pyodide release changed "
-                    "something the bytecode or snapshot build relies on (see tools/)"
+                    "something the bytecode or snapshot build relies on (see site/engine-build/)"
                 )
 
 
@@ -222,7 +223,7 @@ def run_engine(script: Path, files: dict[str, Path], outputs: dict[str, Path], *
 def precompile(stdlib: Path, wheel: Path, stdlib_out: Path, wheel_out: Path) -> dict:
     """Write the bytecode editions of the standard library and of the wheel.
 
-    Compiled by the engine's own Python (``tools/engine_precompile.py``), so the page's
+    Compiled by the engine's own Python (``site/engine-build/engine_precompile.py``), so the page's
     interpreter imports them without compiling anything; see that script for the format.
     """
     config = {

@@ -1,6 +1,6 @@
 // Build-time runner of the vendored Pyodide under Node (called by build.py, not shipped).
 //
-//   node tools/engine.mjs < JOB.json
+//   node site/engine-build/engine.mjs < JOB.json
 //
 // JOB = {indexURL, stdLibURL?, env, clock?, entropy?, files: {enginePath: hostPath},
 //        script: hostPath, outputs: {enginePath: hostPath}, snapshot?: hostPath}
@@ -16,7 +16,7 @@
 // (the value of its last expression, a JSON string) and the engine's facts.
 import nodeCrypto from "node:crypto";
 import { readFileSync, writeFileSync } from "node:fs";
-import { loadPyodide } from "../site/node_modules/pyodide/pyodide.mjs";
+import { loadPyodide } from "../node_modules/pyodide/pyodide.mjs";
 
 try {
   const job = JSON.parse(readFileSync(0, "utf8"));
@@ -51,7 +51,7 @@ try {
     pyodide.FS.mkdirTree(enginePath.slice(0, enginePath.lastIndexOf("/")) || "/");
     pyodide.FS.writeFile(enginePath, readFileSync(hostPath));
   }
-  const filename = `tools/${job.script.split("/").pop()}`; // no checkout path in the memory
+  const filename = `engine-build/${job.script.split("/").pop()}`; // no checkout path in the memory
   const result = pyodide.runPython(readFileSync(job.script, "utf8"), { filename });
   for (const [enginePath, hostPath] of Object.entries(job.outputs || {})) {
     writeFileSync(hostPath, pyodide.FS.readFile(enginePath));

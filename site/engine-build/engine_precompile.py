@@ -1,8 +1,8 @@
 """Compile the standard library and the driftdose wheel to bytecode, inside the engine.
 
-Run by ``tools/engine.mjs`` under Node in the vendored Pyodide, so the bytecode comes from the
-very interpreter that will run it in the page (same magic number, same cache tag). Reads
-``/job/config.json`` (paths in the engine's file system); writes the compiled archives.
+Run by ``site/engine-build/engine.mjs`` under Node in the vendored Pyodide, so the bytecode
+comes from the very interpreter that will run it in the page (same magic number, same cache
+tag). Reads ``/job/config.json`` (paths in the engine's file system); writes the compiled archives.
 
 The ``.pyc`` files are *unchecked hash-based* (PEP 552): they carry a hash of their source but
 the import system does not check it, and no timestamp. The same inputs give the same bytes.

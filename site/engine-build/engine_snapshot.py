@@ -1,9 +1,10 @@
 """Start the engine with the driftdose package imported, for a memory snapshot.
 
-Run by ``tools/engine.mjs`` under Node in the vendored Pyodide (with ``_makeSnapshot``) on the
-bytecode standard library; the runner then writes the engine's memory to a file that the page's
-worker restores instead of starting Python (see ``site/js/worker.js``). Reads
-``/job/config.json``: the wheel to unpack and the stamp the worker checks after a restore.
+Run by ``site/engine-build/engine.mjs`` under Node in the vendored Pyodide (with
+``_makeSnapshot``) on the bytecode standard library; the runner then writes the engine's memory
+to a file that the page's worker restores instead of starting Python (see
+``site/js/worker.js``). Reads ``/job/config.json``: the wheel to unpack and the stamp the
+worker checks after a restore.
 
 The wheel is unpacked with ``zipfile`` rather than installed with the engine's package loader,
 whose state cannot be snapshotted. Every module of the package the worker can reach is imported
