@@ -1,11 +1,12 @@
 // Input state in the URL fragment, so that a link reproduces a calculation exactly.
 // Format (version 1): #v=1&panel=<id>&<panel>.<field>=<value>[~<unit>]; structured inputs
 // (lists of modes or stages, imported file text) as <panel>.<field>=j:<JSON>.
-// Values are raw strings: they go through the same Python validation as typed input.
+// Values are raw strings: they go through the same Python validation as typed input. Links are
+// read back by intake.js (declared keys only, bounded, without prototypes).
+
+import { STATE_VERSION } from "./intake.js";
 
 export const MAX_LINK_CHARS = 60000;
-
-export const STATE_VERSION = "1";
 
 export function encodeState(activePanel, panels) {
   const params = new URLSearchParams();
@@ -28,31 +29,4 @@ export function encodeState(activePanel, panels) {
   }
   encodeState.dropped = dropped;
   return params.toString();
-}
-
-/** Decode a fragment; returns {version, panel, panels: {id: {field: raw}}} or null. */
-export function decodeState(hash) {
-  const text = (hash || "").replace(/^#/, "");
-  if (!text) return null;
-  const params = new URLSearchParams(text);
-  const out = { version: params.get("v"), panel: params.get("panel"), panels: {} };
-  for (const [key, value] of params) {
-    const dot = key.indexOf(".");
-    if (dot < 1) continue;
-    const pid = key.slice(0, dot);
-    const name = key.slice(dot + 1);
-    let raw;
-    if (value.startsWith("j:")) {
-      try {
-        raw = JSON.parse(value.slice(2));
-      } catch {
-        raw = value;
-      }
-    } else {
-      const tilde = value.lastIndexOf("~");
-      raw = tilde >= 0 ? { value: value.slice(0, tilde), unit: value.slice(tilde + 1) } : value;
-    }
-    (out.panels[pid] ||= {})[name] = raw;
-  }
-  return out;
 }
