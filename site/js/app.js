@@ -6,29 +6,45 @@ import { el } from "./forms.js";
 import { download, readText, stamp, useDecoder } from "./files.js";
 import { buildReport, footerText } from "./report.js";
 import { fingerprint } from "./digest.js";
-import { mountSurvey } from "./survey.js";
-import { STATE_VERSION, decodeState, encodeState } from "./state.js";
+import { STATE_FORMAT, STATE_VERSION, acceptedNotice, decodeFragment, readInputsFile, refusedNotice, schemaFrom } from "./intake.js";
+import { SURVEY_FIELDS, mountSurvey } from "./survey.js";
+import { encodeState } from "./state.js";
 import * as motion from "./panels/motion.js";
 import * as deposition from "./panels/deposition.js";
 import * as sampling from "./panels/sampling.js";
 
 export const PANELS = [motion, deposition, sampling];
-const STATE_FORMAT = "drift-and-dose-inputs";
+// an inputs file holds at most two imported spectra at their own limit (5 MB each) and the rest
+const INPUTS_FILE_BYTES = 12 * 1024 * 1024;
 
 const root = document.documentElement;
-export const engine = new Engine(new URL("./worker.js", import.meta.url));
+// the field descriptions and the name of this build's engine (the single-file edition embeds them)
+const formsLoaded = globalThis.driftdoseForms
+  ? Promise.resolve(globalThis.driftdoseForms)
+  : fetch("forms.json").then((r) => r.json());
+export const engine = new Engine(new URL("./worker.js", import.meta.url), {
+  wheel: formsLoaded.then((forms) => forms.wheel, () => undefined),
+});
 useDecoder((bytes, limit, name, size) => engine.decodeFile(bytes, limit, name, size));
 export const controllers = new Map();
 let active = PANELS[0].id;
 let engineInfo = { version: "", pyodide: "" };
 let survey = null;
+let schema = null; // the declared fields of every panel and the survey (intake.js)
+let loadGeneration = 0; // the last inputs file chosen wins over one still being read
+let pageFailed = false; // the page itself could not start: a later engine status must not hide it
 
 engine.onStatus((status) => {
   const text = document.getElementById("engine-text");
   const bar = document.getElementById("engine-progress");
+  const restart = document.getElementById("engine-restart");
+  if (pageFailed) return;
   if (status.type === "progress") {
+    root.dataset.engine = "loading";
     text.textContent = status.text;
     bar.value = status.value;
+    bar.hidden = false;
+    restart.hidden = true;
   } else if (status.type === "ready") {
     engineInfo = { version: status.version, pyodide: status.pyodide };
     root.dataset.engineMs = String(Math.round(status.ms));
@@ -44,8 +60,34 @@ engine.onStatus((status) => {
     root.dataset.engine = "failed";
     text.textContent = `The calculation engine could not start: ${status.message}`;
     bar.hidden = true;
+    if (/another version/.test(status.message)) offerReload(null);
+  } else if (status.type === "dead") {
+    // the worker died or stopped answering: say so, keep the inputs, offer a fresh engine
+    root.dataset.engine = "stopped";
+    text.textContent = `${status.message} Your inputs are kept.`;
+    bar.hidden = true;
+    restart.hidden = false;
   }
 });
+
+async function restartEngine() {
+  document.getElementById("engine-restart").hidden = true;
+  try {
+    await engine.restart();
+  } catch {
+    return; // the status says why
+  }
+  for (const controller of controllers.values()) controller.schedule();
+}
+
+/** Show the update banner; its button activates `worker` (a waiting service worker) or reloads. */
+function offerReload(worker) {
+  document.getElementById("update-banner").hidden = false;
+  document.getElementById("update-reload").onclick = () => {
+    if (worker) worker.postMessage("skip-waiting");
+    else location.reload();
+  };
+}
 
 function showPanel(pid, focus = false) {
   active = pid;
@@ -83,6 +125,7 @@ function writeState() {
   document.getElementById("link-size-note").hidden = dropped.length === 0;
 }
 
+/** The notice at the top of the page about the last link or file read ("" hides it). */
 function notice(message) {
   const box = document.getElementById("link-notice");
   box.textContent = message;
@@ -93,34 +136,52 @@ function toolMessage(message) {
   document.getElementById("tool-message").textContent = message;
 }
 
-/** Apply a decoded state {panel, panels}; unknown panels and fields are reported, not fatal. */
-function applyState(state, origin) {
-  const ignored = [];
-  // survey details: "survey" beside "panels" in a saved file, survey.<name> entries in a link
-  const fromLink = state.panels && Object.hasOwn(state.panels, "survey") ? state.panels.survey : undefined;
-  const surveyRaw = Object.hasOwn(state, "survey") ? state.survey : fromLink;
-  if (surveyRaw !== undefined && survey) {
-    for (const name of survey.set(surveyRaw)) ignored.push(`survey.${name}`);
-  }
-  for (const [pid, values] of Object.entries(state.panels || {})) {
-    if (pid === "survey") continue;
-    const controller = controllers.get(pid);
-    if (!controller || typeof values !== "object" || values === null) {
-      ignored.push(pid);
-      continue;
+/**
+ * Apply a link or file read by intake.js (its keys are those the panels and the survey declare;
+ * `decoded.ok` is true). Every panel's inputs and the survey are kept first: should applying
+ * fail, they are put back, so a link or file is applied whole or not at all. Returns "" or the
+ * reason it was not applied.
+ */
+function applyState(decoded) {
+  const before = new Map();
+  for (const [pid, controller] of controllers) before.set(pid, controller.getState());
+  const surveyBefore = survey.get();
+  const shown = active;
+  try {
+    if (Object.hasOwn(decoded.panels, "survey")) survey.set(decoded.panels.survey);
+    for (const pid of Object.keys(decoded.panels)) {
+      if (pid !== "survey") controllers.get(pid).setState(decoded.panels[pid]);
     }
-    for (const name of Object.keys(values)) {
-      if (!controller.knows(name)) ignored.push(`${pid}.${name}`);
+    if (decoded.panel && controllers.has(decoded.panel)) showPanel(decoded.panel);
+    return "";
+  } catch (err) {
+    for (const [pid, values] of before) {
+      try {
+        controllers.get(pid).setState(values);
+      } catch {
+        // the panel keeps what it shows; the notice says why
+      }
     }
-    controller.setState(values);
+    try {
+      survey.set(surveyBefore);
+    } catch {
+      // as above
+    }
+    showPanel(shown);
+    return `it could not be applied (${String(err && err.message ? err.message : "unknown error").slice(0, 120)})`;
   }
-  if (state.panel && controllers.has(state.panel)) showPanel(state.panel);
-  const problems = [];
-  if (state.version !== undefined && String(state.version) !== STATE_VERSION) {
-    problems.push(`${origin} was made by another version of the tool (format ${String(state.version).slice(0, 12)}); its inputs were loaded as far as they still apply.`);
+}
+
+/** Read and apply the link in the address bar, with a notice when anything was refused. */
+function applyLink() {
+  const decoded = decodeFragment(location.hash, schema);
+  if (!decoded) return;
+  if (!decoded.ok) {
+    notice(refusedNotice(decoded, "This link"));
+    return;
   }
-  if (ignored.length) problems.push(`Ignored unknown entries: ${ignored.slice(0, 6).join(", ").slice(0, 200)}.`);
-  if (problems.length) notice(`${problems.join(" ")} Check the inputs before relying on the results.`);
+  const failure = applyState(decoded);
+  notice(failure ? refusedNotice({ error: failure }, "This link") : acceptedNotice(decoded, "This link"));
 }
 
 function setupTools() {
@@ -146,24 +207,32 @@ function setupTools() {
     const file = event.target.files[0];
     event.target.value = "";
     if (!file) return;
+    const generation = ++loadGeneration;
+    const name = file.name.slice(0, 80);
+    const refuse = (why) => {
+      toolMessage(`Could not load ${name}: ${why.replace(/\.$/, "")}.`);
+      notice(`The file ${name} was refused: ${why.replace(/\.$/, "")}. Nothing was changed; the page works with the inputs it had.`);
+    };
+    let text;
     try {
-      const text = await readText(file, 1024 * 1024);
-      let data;
-      try {
-        data = JSON.parse(text);
-      } catch {
-        // the parser's own message quotes the file's text; say plainly what is wrong instead
-        throw new Error("it is not a valid JSON file (a Drift & Dose inputs file is JSON text)");
-      }
-      if (!data || data.format !== STATE_FORMAT || typeof data.panels !== "object") {
-        throw new Error("it is not a Drift & Dose inputs file");
-      }
-      notice("");
-      applyState(data, "The file");
-      toolMessage(`Loaded inputs from ${file.name.slice(0, 80)}.`);
+      text = await readText(file, INPUTS_FILE_BYTES);
     } catch (err) {
-      toolMessage(`Could not load ${file.name.slice(0, 80)}: ${err.message.replace(/\.$/, "")}.`);
+      if (generation === loadGeneration) refuse(err.message);
+      return;
     }
+    if (generation !== loadGeneration) return; // a later choice is being read
+    const decoded = readInputsFile(text, schema);
+    if (!decoded.ok) {
+      refuse(decoded.error);
+      return;
+    }
+    const failure = applyState(decoded);
+    if (failure) {
+      refuse(failure);
+      return;
+    }
+    notice(acceptedNotice(decoded, "The file"));
+    toolMessage(`Loaded inputs from ${name}.`);
   });
   document.getElementById("print-report").addEventListener("click", () => {
     prepareReport();
@@ -198,13 +267,10 @@ function prepareReport() {
 
 function setupServiceWorker(build) {
   if (!("serviceWorker" in navigator) || location.protocol !== "http:" && location.protocol !== "https:") return;
-  const banner = document.getElementById("update-banner");
   const hadController = Boolean(navigator.serviceWorker.controller);
   navigator.serviceWorker.register(`sw.js?build=${encodeURIComponent(build)}`).then((reg) => {
     const offer = (worker) => {
-      if (!worker || !hadController) return;
-      banner.hidden = false;
-      document.getElementById("update-reload").onclick = () => worker.postMessage("skip-waiting");
+      if (worker && hadController) offerReload(worker);
     };
     if (reg.waiting) offer(reg.waiting);
     reg.addEventListener("updatefound", () => {
@@ -224,7 +290,7 @@ function setupServiceWorker(build) {
 }
 
 async function start() {
-  const forms = globalThis.driftdoseForms || await (await fetch("forms.json")).json();
+  const forms = await formsLoaded;
   document.getElementById("app-version").textContent = forms.version;
   const tabs = document.getElementById("panel-tabs");
   const panels = document.getElementById("panels");
@@ -247,9 +313,9 @@ async function start() {
   }
   survey = mountSurvey(document.getElementById("survey"));
   survey.onChange(() => writeState());
+  schema = schemaFrom(forms, PANELS, { survey: SURVEY_FIELDS.map(([name]) => name) });
   setupTools();
-  const state = decodeState(location.hash);
-  if (state) applyState(state, "This link");
+  applyLink();
   showPanel(active);
   try {
     await engine.ready;
@@ -259,12 +325,20 @@ async function start() {
   for (const controller of controllers.values()) controller.schedule();
   // precaching the build for offline use downloads everything once more: start it only when
   // the page is ready, so it never competes with the first load
+  // the deployed build is asked for past every cache (HTTP cache, service worker, proxies), or a
+  // new deployment on a host without cache headers would go unnoticed
   if (!globalThis.driftdoseForms) {
-    fetch("build-info.json").then((r) => r.json()).then((info) => setupServiceWorker(info.build)).catch(() => {});
+    fetch(`build-info.json?at=${Date.now()}`, { cache: "no-store" })
+      .then((r) => r.json())
+      .then((info) => setupServiceWorker(info.build))
+      .catch(() => {});
   }
 }
 
+document.getElementById("engine-restart").addEventListener("click", restartEngine);
+
 start().catch((err) => {
+  pageFailed = true;
   root.dataset.engine = "failed";
   document.getElementById("engine-text").textContent = `The page could not start: ${err.message}`;
 });

@@ -1,21 +1,62 @@
 // Client side of the calculation worker: one promise per request, newest-only channels.
 // The page never calls postMessage directly; replies are plain JSON objects from driftdose.api.
+//
+// Nothing here may leave a panel waiting for good: inputs too deep or too big are not posted,
+// a failure to post answers at once, and a worker that dies (an error event, or no sign of life
+// while requests wait) answers every waiting request with a failure, reports "dead" to the
+// status listeners and can be restarted (restart()) with the page's inputs untouched.
+import { postRefusal } from "./intake.js";
+
+/** A reply that says why there is no result (shown like an engine message). */
+export function failureReply(message) {
+  return { ok: false, errors: [{ field: "", message }], failure: true, message };
+}
 
 export class Engine {
-  constructor(workerUrl) {
-    this.worker = new Worker(workerUrl, { type: "module" });
+  /**
+   * @param {URL} workerUrl the module worker
+   * @param {object} options {wheel}: the wheel of this build (from forms.json; a value or a
+   *   promise), so the worker never loads another build's engine into this page
+   */
+  constructor(workerUrl, options = {}) {
+    this.workerUrl = workerUrl;
+    this.options = options;
     this.nextId = 1;
     this.pending = new Map();
     this.latest = new Map();
     this.listeners = new Set();
+    this.watchdogMs = 90_000; // no sign of life from the worker for this long while a request waits: dead
+    this.state = "loading";
+    this._start();
+  }
+
+  _start() {
+    this.state = "loading";
     this.ready = new Promise((resolve, reject) => {
       this._resolveReady = resolve;
       this._rejectReady = reject;
     });
-    this.worker.addEventListener("message", (event) => this._onMessage(event.data));
-    this.worker.addEventListener("error", (event) => {
-      this._emit({ type: "failed", message: event.message || "The calculation engine failed to start." });
-      this._rejectReady(new Error(event.message));
+    this.ready.catch(() => {}); // failures are reported through the status listeners
+    const worker = new Worker(this.workerUrl, { type: "module" });
+    this.worker = worker;
+    this.lastSign = performance.now();
+    worker.addEventListener("message", (event) => {
+      if (this.worker !== worker) return;
+      this.lastSign = performance.now();
+      this._onMessage(event.data);
+    });
+    worker.addEventListener("error", (event) => {
+      if (this.worker !== worker) return;
+      if (event.preventDefault) event.preventDefault();
+      const message = event.message || "the worker stopped with an error";
+      if (this.state === "loading") this._failStart(message);
+      else this._died(`The calculation engine stopped (${message}).`);
+    });
+    worker.addEventListener("messageerror", () => {
+      if (this.worker === worker) this._died("The calculation engine sent a reply the page could not read.");
+    });
+    Promise.resolve(this.options.wheel).then((wheel) => {
+      if (this.worker === worker) worker.postMessage({ op: "init", wheel });
     });
   }
 
@@ -27,15 +68,24 @@ export class Engine {
     for (const listener of this.listeners) listener(status);
   }
 
+  _failStart(message) {
+    if (this.state !== "loading") return;
+    this.state = "failed";
+    this._emit({ type: "failed", message });
+    this._rejectReady(new Error(message));
+    this._answerAll("The calculation engine could not start.");
+  }
+
   _onMessage(msg) {
+    if (!msg || typeof msg !== "object") return;
     if (msg.type === "progress") {
       this._emit(msg);
     } else if (msg.type === "ready") {
+      this.state = "ready";
       this._emit(msg);
       this._resolveReady(msg);
     } else if (msg.type === "failed") {
-      this._emit(msg);
-      this._rejectReady(new Error(msg.message));
+      this._failStart(msg.message);
     } else if (msg.type === "reply") {
       const entry = this.pending.get(msg.id);
       if (!entry) return;
@@ -44,22 +94,97 @@ export class Engine {
     }
   }
 
-  /** Send one request; resolves with the reply object. */
-  request(kind, inputs) {
+  /** Answer every waiting request with a failure. */
+  _answerAll(message) {
+    const waiting = [...this.pending.values()];
+    this.pending.clear();
+    for (const entry of waiting) entry.resolve(failureReply(message));
+  }
+
+  /** The worker is gone: say so, answer everything waiting, and wait for restart(). */
+  _died(message) {
+    if (this.state === "dead") return;
+    this.state = "dead";
+    clearInterval(this._watch);
+    this._watch = null;
+    try {
+      this.worker.terminate();
+    } catch {
+      // already gone
+    }
+    this._rejectReady(new Error(message));
+    this._emit({ type: "dead", message });
+    this._answerAll(`${message} Restart it to update the results.`);
+  }
+
+  /** Start a fresh worker; the inputs live in the page, so nothing else is lost. */
+  restart() {
+    clearInterval(this._watch);
+    this._watch = null;
+    const old = this.worker;
+    this.worker = null;
+    try {
+      old.terminate();
+    } catch {
+      // already gone
+    }
+    this._answerAll("The calculation engine was restarted.");
+    this._emit({ type: "progress", value: 5, text: "Restarting the calculation engine…" });
+    this._start();
+    return this.ready;
+  }
+
+  /** Check, while requests wait, that the worker still shows signs of life. */
+  _watchdog() {
+    if (this._watch) return;
+    this._watch = setInterval(() => {
+      if (!this.pending.size) {
+        clearInterval(this._watch);
+        this._watch = null;
+        return;
+      }
+      if (this.state === "ready" && performance.now() - this.lastSign > this.watchdogMs) {
+        this._died(`The calculation engine stopped responding (no answer for ${Math.round(this.watchdogMs / 1000)} s).`);
+      }
+    }, Math.min(1000, this.watchdogMs / 4));
+  }
+
+  _post(message) {
     const id = this.nextId++;
+    message.id = id;
     return new Promise((resolve) => {
+      if (this.state === "dead" || this.state === "failed") {
+        resolve(failureReply(this.state === "dead"
+          ? "The calculation engine has stopped. Restart it to update the results."
+          : "The calculation engine could not start."));
+        return;
+      }
+      const refusal = postRefusal(message);
+      if (refusal) {
+        resolve(failureReply(`Not sent to the calculation engine: ${refusal}.`));
+        return;
+      }
+      if (!this.pending.size) this.lastSign = performance.now();
       this.pending.set(id, { resolve });
-      this.worker.postMessage({ id, kind, inputs });
+      try {
+        this.worker.postMessage(message);
+      } catch (err) {
+        this.pending.delete(id);
+        resolve(failureReply(`The inputs could not be sent to the calculation engine (${String(err && err.name ? err.name : err).slice(0, 60)}).`));
+        return;
+      }
+      this._watchdog();
     });
+  }
+
+  /** Send one request; resolves with the reply object (a failure reply when it cannot run). */
+  request(kind, inputs) {
+    return this._post({ kind, inputs });
   }
 
   /** Turn a reply into CSV text ("results" or "curves") with the core's exporter. */
   exportCsv(reply, part) {
-    const id = this.nextId++;
-    return new Promise((resolve) => {
-      this.pending.set(id, { resolve });
-      this.worker.postMessage({ id, op: "export", reply, part });
-    });
+    return this._post({ op: "export", reply, part });
   }
 
   /**
@@ -68,11 +193,7 @@ export class Engine {
    * `limit`, never read) the reply is the refusal that names the file's size.
    */
   decodeFile(bytes, limit, name, size) {
-    const id = this.nextId++;
-    return new Promise((resolve) => {
-      this.pending.set(id, { resolve });
-      this.worker.postMessage({ id, op: "decode", bytes, limit, name, size });
-    });
+    return this._post({ op: "decode", bytes, limit, name, size });
   }
 
   /**

@@ -224,12 +224,21 @@ function renderFile(container, field, prefix) {
   let name = "";
   let refusal = ""; // why the last file chosen was not read; joins the engine's message
   let source = null; // {name, size, sha256, from} of the text in use, for the record
+  let generation = 0; // the last file chosen wins: a file still being read when another is chosen is dropped
   const listeners = [];
   input.addEventListener("change", async () => {
     const file = input.files[0];
+    const mine = ++generation;
     if (!file) return;
     const limit = field.max_bytes || 5 * 1024 * 1024;
-    const got = await decodeFile(file, limit); // the core's decoder, as the command line's
+    status.textContent = `Reading ${file.name.slice(0, 80)}…`;
+    let got;
+    try {
+      got = await decodeFile(file, limit); // the core's decoder, as the command line's
+    } catch (err) {
+      got = { ok: false, message: `could not be read (${String(err && err.name ? err.name : err).slice(0, 60)})` };
+    }
+    if (mine !== generation) return; // another file was chosen meanwhile
     if (!got.ok) {
       // the earlier file no longer stands: recalculate without one (its results go stale)
       text = null;
@@ -253,6 +262,7 @@ function renderFile(container, field, prefix) {
     get() { return text; },
     source() { return source; },
     set(raw, label = "") {
+      generation += 1; // a file still being read no longer applies
       refusal = "";
       text = raw === undefined ? null : raw;
       name = label;

@@ -43,11 +43,13 @@ export function showKey(key) {
 
 /**
  * The declared shape of every panel, from the forms.json description of each calculation:
- * {panelId: {fieldName: field}} (maps without prototypes).
+ * {panelId: {fieldName: field}} (maps without prototypes). The survey details of the record
+ * (`options.survey`: their names) travel as one more group, "survey", of text entries.
  * @param {object} forms forms.json content
  * @param {Array<{id: string, kind?: string}>} panels
+ * @param {{survey?: string[]}} options
  */
-export function schemaFrom(forms, panels) {
+export function schemaFrom(forms, panels, options = {}) {
   const schema = bare();
   for (const p of panels) {
     const description = forms && forms.calculations && Object.hasOwn(forms.calculations, p.kind || p.id)
@@ -55,6 +57,11 @@ export function schemaFrom(forms, panels) {
     const fields = bare();
     for (const f of (description && description.fields) || []) fields[f.name] = f;
     schema[p.id] = fields;
+  }
+  if (options.survey) {
+    const fields = bare();
+    for (const name of options.survey) fields[name] = { name, kind: "text" };
+    schema.survey = fields;
   }
   return schema;
 }
@@ -74,6 +81,9 @@ export function measure(value, limits = LIMITS) {
     if (d > depth) depth = d;
     if (depth > limits.depth) return { depth, nodes, chars, over: "depth" };
     if (nodes > limits.nodes) return { depth, nodes, chars, over: "nodes" };
+    if (typeof v === "object" && v !== null && (ArrayBuffer.isView(v) || v instanceof ArrayBuffer)) {
+      continue; // bytes (a file for the decoder) travel as one block
+    }
     if (typeof v === "string") {
       chars += v.length;
       if (chars > limits.chars) return { depth, nodes, chars, over: "chars" };
@@ -308,12 +318,16 @@ export function readInputsFile(text, schema, limits = LIMITS) {
     result.error = "its format version is neither a number nor text";
     return result;
   }
-  const error = boundsError(data.panels, { ...limits, depth: limits.depth + 2 });
+  const error = boundsError([data.panels, data.survey], { ...limits, depth: limits.depth + 3 });
   if (error) {
     result.error = error;
     return result;
   }
-  const clean = cleanPanels(data.panels, schema);
+  // the survey details stand beside the panels in a saved file
+  const groups = bare();
+  for (const pid of data.panels === null ? [] : Object.keys(data.panels)) groups[pid] = data.panels[pid];
+  if (Object.hasOwn(data, "survey") && data.survey !== null) groups.survey = data.survey;
+  const clean = cleanPanels(groups, schema);
   result.panels = clean.panels;
   result.refused = clean.refused;
   result.version = version === null ? null : wellFormed(String(version));

@@ -4,6 +4,9 @@
 import { FieldSet, el } from "./forms.js";
 import { formatNumber } from "./format.js";
 import { download, stamp } from "./files.js";
+import { failureReply } from "./engine.js";
+
+const describeError = (err) => String(err && err.message ? err.message : err).slice(0, 120);
 
 export class CalcPanel {
   /**
@@ -170,21 +173,36 @@ export class CalcPanel {
     this.recalc();
   }
 
+  /**
+   * One round trip to the engine. Whatever fails (reading the inputs, posting them, the engine,
+   * showing the reply) ends the busy state, marks the earlier results out of date and says why.
+   */
   async recalc() {
     this.busy = true;
     this.queued = false;
     this.root.setAttribute("aria-busy", "true");
     const started = performance.now();
-    const inputs = this.inputs();
-    const reply = await this.engine.latestOn(this.opts.id, this.opts.kind, inputs);
-    this.busy = false;
+    let inputs = null;
+    let reply;
+    try {
+      inputs = this.inputs();
+      reply = await this.engine.latestOn(this.opts.id, this.opts.kind, inputs);
+    } catch (err) {
+      reply = failureReply(`The inputs could not be sent to the calculation engine (${describeError(err)}).`);
+    } finally {
+      this.busy = false;
+    }
     if (this.queued) {
       this.recalc();
       return;
     }
     this.root.removeAttribute("aria-busy");
     if (!reply) return;
-    this.apply(reply, inputs);
+    try {
+      this.apply(reply, inputs);
+    } catch (err) {
+      this.apply(failureReply(`The results could not be shown (${describeError(err)}).`), inputs);
+    }
     this.root.dataset.updatedMs = String(performance.now() - started);
     this.root.dataset.updates = String(Number(this.root.dataset.updates || 0) + 1);
   }
@@ -195,11 +213,20 @@ export class CalcPanel {
   }
 
   apply(reply, inputs) {
-    const orphans = this.fields.showErrors(reply.ok ? [] : reply.errors);
+    if (!reply || typeof reply !== "object") reply = failureReply("The calculation engine gave no usable reply.");
+    let orphans;
+    try {
+      orphans = this.fields.showErrors(reply.ok ? [] : reply.errors);
+    } catch (err) {
+      orphans = [...(reply.errors || []).map((e) => String(e && e.message)), `(${describeError(err)})`];
+    }
     if (!reply.ok) {
       this.formMessage.textContent = orphans.join(" ");
       this.formMessage.hidden = orphans.length === 0;
       this.output.classList.toggle("stale", this.lastGood !== null);
+      this.staleNote.textContent = reply.failure
+        ? "Out of date: the results below are from earlier inputs; the current ones could not be computed (the message by the inputs says why)."
+        : "Out of date: the results below are from the last valid inputs. Correct the marked fields to update them.";
       this.staleNote.hidden = this.lastGood === null;
       this.root.dataset.state = "invalid";
       return;

@@ -26,7 +26,7 @@ const PROTO_KEYS = ["__proto__", "constructor", "prototype", "__proto__.__proto_
   "toString", "valueOf", "hasOwnProperty", "__defineGetter__", "__lookupSetter__", "isPrototypeOf", "then", "toJSON"];
 const ENCODED = ["%5F%5Fproto%5F%5F", "__proto%5F%5F", "%5f%5fproto%5f%5f", "constructor%2Eprototype", "%C0%AE", "%", "%zz", "%E0%A4%A", "%00", "%ED%A0%80", "+", "%2B", "%26", "%3D", "%23"];
 const ODD_TEXT = ["", " ", "\u0000", "\uFEFF", "\u202Eevil", "\uD800", "\uDFFF\uD800", "𝟘𝟙", "1e309", "-0", "NaN", "Infinity", "0x10", "1_000", "١٢٣", "<img src=x onerror=alert(1)>", "${x}", "'\"`", "\\", "~", "~~", "j:", "j:{", "j:null", "j:[]", "j:{}", "j:\"x\"", "a".repeat(300)];
-const PANEL_IDS = ["motion", "deposition", "sampling"];
+const PANEL_IDS = ["motion", "deposition", "sampling", "survey"];
 
 // a snapshot of everything a pollution could reach
 const SHARED = [Object.prototype, Array.prototype, Function.prototype, String.prototype, Number.prototype,

@@ -155,3 +155,15 @@ test("an inputs file whose format version is a structure is refused whole", () =
   assert.match(d.error, /format version/);
   assert.equal(Object.keys(d.panels).length, 0);
 });
+
+test("survey details: survey.<name> in a link, survey beside panels in a file, unknown names refused", () => {
+  const d = decodeFragment("#v=1&survey.site=Plant%204&survey.__proto__=x&survey.nobody=1&motion.time=1~s", SCHEMA);
+  assert.equal(d.ok, true);
+  assert.equal(d.panels.survey.site, "Plant 4");
+  assert.deepEqual(d.refused, ["survey.__proto__", "survey.nobody"]);
+  const f = readInputsFile(file({ motion: {} }, { survey: { site: "Hall B", date: "2026-01-02", constructor: "x" } }), SCHEMA);
+  assert.equal(f.ok, true);
+  assert.equal(f.panels.survey.site, "Hall B");
+  assert.deepEqual(f.refused, ["survey.constructor"]);
+  assert.equal(readInputsFile(file({ motion: {} }, { survey: "x" }), SCHEMA).refused[0], "survey");
+});

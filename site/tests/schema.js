@@ -23,4 +23,9 @@ function loadForms() {
 
 export const FORMS = loadForms();
 export const PANELS = [{ id: "motion" }, { id: "deposition" }, { id: "sampling" }];
-export const SCHEMA = schemaFrom(FORMS, PANELS);
+// the survey entries of the record, read from site/js/survey.js (a DOM module, not imported here)
+const surveySource = readFileSync(join(root, "site", "js", "survey.js"), "utf8");
+const surveyBlock = surveySource.slice(surveySource.indexOf("SURVEY_FIELDS = ["), surveySource.indexOf("];", surveySource.indexOf("SURVEY_FIELDS = [")));
+export const SURVEY = [...surveyBlock.matchAll(/\["([a-z_]+)",/g)].map((m) => m[1]);
+if (SURVEY.length < 5) throw new Error("survey entries not found in site/js/survey.js");
+export const SCHEMA = schemaFrom(FORMS, PANELS, { survey: SURVEY });
