@@ -92,7 +92,8 @@ SITE_SKIP = {
     ".installed-lock",
     "engine-build",
     "single",
-}  # single: see below
+    "tests",
+}  # single: see below; tests: the page modules' Node tests
 MIME = {
     ".mjs": "text/javascript",
     ".js": "text/javascript",
@@ -376,9 +377,16 @@ def build(dist: Path = DIST, *, bytecode: bool = True, snapshot: bool = True) ->
             precompile(MODULES / "pyodide" / STDLIB, source_wheel, stdlib, wheel)
         else:
             shutil.copyfile(source_wheel, wheel)
+    # each build's wheel in a folder named by its content: a page of one build never loads the
+    # engine of another (on a server that holds only the new build, the old page's wheel is
+    # missing and the page says so); the page reads the wheel's path from its forms.json
+    named = dist / "wheels" / _sha256(wheel)[:16] / wheel.name
+    named.parent.mkdir()
+    wheel = wheel.rename(named)
     engine = {"version": versions["pyodide"], "build_id": engine_build_id()}
     frozen = make_snapshot(stdlib, wheel, dist) if bytecode and snapshot else None
     forms = describe_forms()
+    forms["wheel"] = wheel.relative_to(dist).as_posix()
     (dist / "forms.json").write_text(json.dumps(forms, ensure_ascii=False, indent=1) + "\n")
     files = sorted(p for p in dist.rglob("*") if p.is_file())
     precache = [{"url": p.relative_to(dist).as_posix(), "sha256": _sha256(p)} for p in files]
@@ -387,7 +395,7 @@ def build(dist: Path = DIST, *, bytecode: bool = True, snapshot: bool = True) ->
         "version": forms["version"],
         "pyodide": versions["pyodide"],
         "chartjs": versions["chart.js"],
-        "wheel": f"wheels/{wheel.name}",
+        "wheel": forms["wheel"],
         "wheel_sha256": _sha256(wheel),
         "bytecode": bytecode,
         "engine": engine,

@@ -10,7 +10,8 @@ self.addEventListener("install", (event) => {
   event.waitUntil((async () => {
     const list = await (await fetch("precache.json", { cache: "no-store" })).json();
     const cache = await caches.open(CACHE);
-    await cache.addAll(["./", ...list.files.map((f) => f.url)]);
+    // past the HTTP cache: a host without cache headers must not mix an older build's files in
+    await cache.addAll(["./", ...list.files.map((f) => f.url)].map((url) => new Request(url, { cache: "reload" })));
   })());
 });
 

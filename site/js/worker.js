@@ -1,6 +1,12 @@
-// Module worker that owns Pyodide and the driftdose package. Messages in: {id, kind, inputs};
-// out: {type: "progress"|"ready"|"failed"} or {type: "reply", id, reply}. A JSON string crosses
-// into Python and back, so no Python object leaks into JavaScript.
+// Module worker that owns Pyodide and the driftdose package. Messages in: first {op: "init",
+// wheel} (the wheel of the page's own build, named in its forms.json), then {id, kind, inputs}
+// or {id, op: "export", reply, part}; out: {type: "progress"|"ready"|"failed"} or {type:
+// "reply", id, reply}. A JSON string crosses into Python and back, so no Python object leaks
+// into JavaScript.
+//
+// Versions never mix: the engine is the page's own wheel. build-info.json (which may already
+// describe a newer deployment) is used for the snapshot only when it names that same wheel;
+// a wheel missing from the server means the server holds another build, and the worker says so.
 //
 // Start-up: when build-info.json names a memory snapshot (the engine started at build time with
 // the package imported, see build.py), the engine restores it instead of starting Python. The
@@ -26,6 +32,26 @@ function stamp() {
 
 function progress(value, text) {
   postMessage({ type: "progress", value, text });
+}
+
+let init;
+const initialised = new Promise((resolve) => {
+  init = resolve;
+});
+
+/** The page's own wheel, checked to be on the server. */
+async function ownWheel(path) {
+  if (typeof path !== "string" || !/^wheels\/[\w.+-]+\/[\w.+-]+\.whl$/.test(path) || path.includes("..")) {
+    throw new Error("this page does not name its engine; reload the page");
+  }
+  const response = await fetch(new URL(path, base));
+  if (!response.ok) {
+    throw new Error(response.status === 404
+      ? "the server now holds another version of Drift & Dose than this page; reload the page to use it"
+      : `the engine could not be loaded (HTTP ${response.status})`);
+  }
+  await response.arrayBuffer();
+  return path;
 }
 
 async function fromSnapshot(info) {
@@ -61,14 +87,19 @@ async function normalStart(info) {
   });
   marks.bootstrapped = stamp();
   progress(70, "Loading the aerosol models…");
-  await pyodide.loadPackage(new URL(info.wheel, base).href, { messageCallback: () => {} });
+  const problems = [];
+  await pyodide.loadPackage(new URL(info.wheel, base).href, { messageCallback: () => {}, errorCallback: (m) => problems.push(m) });
+  if (problems.length) throw new Error(`the engine could not be installed: ${String(problems[0]).slice(0, 200)}`);
   return pyodide;
 }
 
 async function start() {
   const t0 = performance.now();
   progress(10, "Loading the Python runtime…");
-  const info = await fetch(new URL("build-info.json", base)).then((r) => r.json());
+  const wheel = await ownWheel((await initialised).wheel);
+  const served = await fetch(new URL("build-info.json", base)).then((r) => r.json()).catch(() => ({}));
+  // the snapshot only when build-info.json describes this page's build (same wheel)
+  const info = served.wheel === wheel ? served : { wheel };
   let pyodide = null;
   let how = "normal";
   let refused = "";
@@ -114,7 +145,12 @@ function decodeFile({ bytes, limit, name, size }) {
 }
 
 self.addEventListener("message", async (event) => {
+  if (!event.data || typeof event.data !== "object") return;
   const { id, kind, inputs, op } = event.data;
+  if (op === "init") {
+    init(event.data);
+    return;
+  }
   let reply;
   try {
     await started;
@@ -122,7 +158,8 @@ self.addEventListener("message", async (event) => {
     else if (op === "decode") reply = decodeFile(event.data);
     else reply = JSON.parse(handleJson(JSON.stringify({ kind, inputs })));
   } catch (err) {
-    reply = { ok: false, errors: [{ field: "", message: "The calculation engine is not available." }] };
+    const message = "The calculation engine is not available.";
+    reply = { ok: false, errors: [{ field: "", message }], message };
   }
   postMessage({ type: "reply", id, reply });
 });
