@@ -354,7 +354,7 @@ export function acceptedNotice(decoded, origin) {
   if (decoded.refused.length) {
     const shown = decoded.refused.slice(0, REFUSED_SHOWN).join(", ");
     const more = decoded.refused.length > REFUSED_SHOWN ? ` and ${decoded.refused.length - REFUSED_SHOWN} more` : "";
-    problems.push(`Refused entries that no panel declares: ${shown}${more}.`);
+    problems.push(`${origin} had entries that no panel declares; they were refused: ${shown}${more}.`);
   }
   if (!problems.length) return "";
   return `${problems.join(" ")} Check the inputs before relying on the results.`;

@@ -19,7 +19,34 @@ const SHOWN_KEYS = ["pass_band", "departure_max", "departure_mean", "csv_rows"];
 const SUMMARY_KEYS = [...OVERALL_KEYS, ...SHOWN_KEYS]; // the printed record has no stage table
 const RENDER_LIMIT = 40; // stages drawn from a tampered link at most (the API refuses above its own limit)
 
+const ROW_SLICE = 400; // table rows added per task
+const CHART_POINTS = 2000; // points drawn per series at most
+
 const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
+
+/**
+ * At most CHART_POINTS points of a series for drawing: the lowest and the highest point of each
+ * run of neighbouring points, in order (so peaks and dips stay visible). Presentation only.
+ */
+function thin(points) {
+  if (points.length <= CHART_POINTS) return points;
+  const step = Math.ceil(points.length / (CHART_POINTS / 2));
+  const out = [];
+  for (let i = 0; i < points.length; i += step) {
+    let lo = null;
+    let hi = null;
+    for (let j = i; j < Math.min(points.length, i + step); j++) {
+      const p = points[j];
+      if (p.y === null) continue;
+      if (!lo || p.y < lo.y) lo = p;
+      if (!hi || p.y > hi.y) hi = p;
+    }
+    if (!lo) out.push(points[i]);
+    else if (lo === hi) out.push(lo);
+    else out.push(...(points.indexOf(lo, i) < points.indexOf(hi, i) ? [lo, hi] : [hi, lo]));
+  }
+  return out;
+}
 const isObject = (v) => v !== null && typeof v === "object" && !Array.isArray(v);
 const percent = (row) => (row ? `${formatNumber(row.value)} %` : "—");
 // the API names an unnamed stage "<n>. <type>"; show each stage's number once
@@ -424,18 +451,41 @@ export function mount(root, { engine, description }) {
     head.append(hr);
     t.append(head);
     const body = el("tbody");
-    table.rows.forEach((r, i) => {
+    const row = (r, i) => {
       const tr = el("tr", { "data-bin": String(i), class: r.unreliable ? "unreliable" : "" });
       tr.append(el("th", { scope: "row", class: "value" }, formatNumber(r.diameter)));
       tr.append(el("td", { class: "value", "data-col": "measured" }, formatNumber(r.measured)));
       tr.append(el("td", { class: "value", "data-col": "penetration" }, `${formatNumber(r.penetration * 100)} %`));
       tr.append(el("td", { class: "value", "data-col": "corrected" }, r.corrected === null ? "not given" : formatNumber(r.corrected)));
       tr.append(el("td", { "data-col": "flag" }, r.unreliable ? "⚠ unreliable: under 50 % gets through" : "reliable"));
-      body.append(tr);
-    });
+      return tr;
+    };
     t.append(body);
     spectrumTableBox.replaceChildren(t);
+    fillRows(body, table.rows, row);
     renderSpectrumChart(curves, aero);
+  }
+
+  // A long table (a spectrum of thousands of bins) is filled a slice per task, so the page
+  // never stops answering while it grows; a newer reply stops an older fill.
+  let filling = 0;
+  function fillRows(body, rows, row) {
+    const mine = ++filling;
+    let next = 0;
+    const slice = () => {
+      if (mine !== filling) return;
+      const end = Math.min(rows.length, next + ROW_SLICE);
+      const part = document.createDocumentFragment();
+      for (; next < end; next++) part.append(row(rows[next], next));
+      body.append(part);
+      if (next < rows.length) {
+        spectrumTableBox.setAttribute("aria-busy", "true");
+        setTimeout(slice, 0);
+      } else {
+        spectrumTableBox.removeAttribute("aria-busy");
+      }
+    };
+    slice();
   }
 
   function renderSpectrumChart(curves, aero) {
@@ -445,16 +495,18 @@ export function mount(root, { engine, description }) {
       x: { title: `${curves.x_label} (µm)`, tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => `${lengthTick(x * 1e-6)}${aero ? " aerodynamic" : ""}` },
       y: { title: `${curves.y_label} (${curves.y_unit})`, tick: decadeTicks((v) => formatNumber(v, 2)) },
     }, { readout: (ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 4)}` });
-    const corrected = positive(curves.corrected);
-    const flagged = corrected.map((p, i) => ({ x: p.x, y: curves.unreliable[i] ? p.y : null }));
+    const all = positive(curves.corrected);
+    const flagged = thin(all.map((p, i) => ({ x: p.x, y: curves.unreliable[i] ? p.y : null })));
+    const corrected = thin(all);
     setDatasets(spectrumChart, [
-      { label: curves.measured.label, data: positive(curves.measured), borderColor: seriesColour(3), backgroundColor: seriesColour(3), pointRadius: 2.5, pointStyle: "circle", borderWidth: 1.5 },
+      { label: curves.measured.label, data: thin(positive(curves.measured)), borderColor: seriesColour(3), backgroundColor: seriesColour(3), pointRadius: 2.5, pointStyle: "circle", borderWidth: 1.5 },
       { label: curves.corrected.label, data: corrected, borderColor: seriesColour(1), backgroundColor: seriesColour(1), pointRadius: 2.5, pointStyle: "rect", borderWidth: 2, borderDash: [6, 3] },
       { label: "Unreliable bins (under 50 % penetration)", data: flagged, showLine: false, pointStyle: "triangle", pointRadius: 7, pointHoverRadius: 9, borderColor: seriesColour(5), backgroundColor: "transparent", borderWidth: 2 },
     ]);
     const bad = curves.unreliable.filter(Boolean).length;
+    const drawn = corrected.length < all.length ? ` (drawn with the lowest and highest of each run of ${Math.ceil(all.length / (CHART_POINTS / 2))} neighbouring bins)` : "";
     spectrumFigure.canvas.setAttribute("aria-label",
-      `Log-log chart of measured and corrected concentration against diameter for ${curves.unreliable.length} bins; ${bad} flagged as unreliable. The table above gives every value.`);
+      `Log-log chart of measured and corrected concentration against diameter for ${curves.unreliable.length} bins${drawn}; ${bad} flagged as unreliable. The table above gives every value.`);
   }
 
   if (demos.length) {
