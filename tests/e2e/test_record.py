@@ -140,7 +140,7 @@ def test_tampered_link_gives_notice_not_broken_page(page, base_url):
     notice = page.locator("#link-notice")
     notice.wait_for(state="visible")
     assert "another version" in notice.inner_text()
-    assert "Ignored unknown entries" in notice.inner_text()
+    assert "they were refused: bogus.x, motion.nope" in notice.inner_text()
     error = page.locator("#panel-motion .field[data-field=particle_diameter] .error")
     error.wait_for(state="visible")
     assert "must be a number" in error.inner_text()
