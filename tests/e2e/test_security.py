@@ -50,9 +50,13 @@ INERT_CHECK = r"""
   const all = [...document.querySelectorAll("*")];
   return {
     pwned: window.__pwned === undefined ? null : String(window.__pwned),
+    // the record's own images: charts (PNG drawn from a canvas) and the link's QR code (GIF
+    // drawn by the vendored QR library); anything else is payload markup
     imgs: [...document.querySelectorAll("img")]
       .filter((i) => !(i.classList.contains("report-chart")
         && i.getAttribute("src").startsWith("data:image/png")))
+      .filter((i) => !(i.classList.contains("report-qr")
+        && i.getAttribute("src").startsWith("data:image/gif;base64,")))
       .map((i) => i.outerHTML.slice(0, 80)),
     foreign: [...document.querySelectorAll(
       "svg, iframe, frame, object, embed, b, base, meta[http-equiv=refresh]")]
