@@ -124,7 +124,10 @@ def drag_factor_clift_gauvin1970(re: float) -> float:
     """
     if re <= 0.0:
         return 1.0
-    return 1.0 + 0.15 * re**0.687 + 0.0175 * re / (1.0 + 42500.0 * re**-1.16)
+    # 0.0175 Re / (1 + 42500 Re^-1.16) written with Re^1.16 in the numerator, so that a
+    # Reynolds number near the smallest float (Re^-1.16 overflows) gives the Stokes limit
+    re_116 = re**1.16
+    return 1.0 + 0.15 * re**0.687 + 0.0175 * re * re_116 / (re_116 + 42500.0)
 
 
 def drag_factor_schiller_naumann1933(re: float) -> float:

@@ -247,6 +247,21 @@ def test_drag_clift_gauvin1970_newton_regime(re: float) -> None:
     assert 0.38 < c_d < 0.52
 
 
+@pytest.mark.parametrize("re", [5e-324, 1e-308, 1e-300, 1e-30, 1e-8])
+def test_drag_clift_gauvin1970_stokes_limit_at_the_smallest_floats(re: float) -> None:
+    # Stokes's law (C_D = 24/Re, f = 1) is the limit of every drag law as Re -> 0 (common
+    # practice); the printed form's Re^-1.16 must not overflow on the way there.
+    assert particle.drag_factor_clift_gauvin1970(re) == pytest.approx(1.0, abs=1e-5)
+
+
+@pytest.mark.parametrize("v0", [5e-324, 1e-308, 1e-200])
+def test_stopping_distance_tiny_velocity_is_v0_tau(v0: float) -> None:
+    # Hinds (1999) eq. 5.19: S = V0 tau in the Stokes regime; a velocity near the smallest
+    # float must give that, not an overflow (a link or the command line can send 1e-308).
+    tau = particle.relaxation_time(1e-6, 1000.0)
+    assert particle.stopping_distance(1e-6, v0, 1000.0) == pytest.approx(v0 * tau, rel=1e-9)
+
+
 def test_drag_clift_gauvin1970_hand_value() -> None:
     # Hand evaluation of the printed form at Re = 1000: 0.024 (1 + 0.15 * 115.06) +
     # 0.42 / (1 + 42500 * 3.311e-4) = 0.43823 + 0.02793 = 0.46616.
