@@ -12,8 +12,11 @@ import { encodeState } from "./state.js";
 import * as motion from "./panels/motion.js";
 import * as deposition from "./panels/deposition.js";
 import * as sampling from "./panels/sampling.js";
+import { mountSections } from "./panels/burden.js";
 
 export const PANELS = [motion, deposition, sampling];
+// sections shown with the deposition tab, with their own inputs in links and files
+const SECTIONS = [{ id: "burden", kind: "burden" }, { id: "ranges", kind: "uncertainty" }];
 // an inputs file holds at most two imported spectra at their own limit (5 MB each) and the rest
 const INPUTS_FILE_BYTES = 12 * 1024 * 1024;
 
@@ -313,7 +316,16 @@ async function start() {
   }
   survey = mountSurvey(document.getElementById("survey"));
   survey.onChange(() => writeState());
-  schema = schemaFrom(forms, PANELS, { survey: SURVEY_FIELDS.map(([name]) => name) });
+  // retained burden and dose ranges: sections of the deposition tab, fed by its inputs
+  if (controllers.has("deposition") && forms.calculations.burden && forms.calculations.uncertainty) {
+    const sections = mountSections(document.getElementById("panel-deposition"),
+      { engine, forms, deposition: controllers.get("deposition") });
+    for (const controller of sections) {
+      controller.onChange(() => writeState());
+      controllers.set(controller.opts.id, controller);
+    }
+  }
+  schema = schemaFrom(forms, [...PANELS, ...SECTIONS], { survey: SURVEY_FIELDS.map(([name]) => name) });
   setupTools();
   applyLink();
   showPanel(active);

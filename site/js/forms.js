@@ -86,7 +86,7 @@ export function renderField(container, field, prefix) {
   return {
     field, input, unitSelect, wrap,
     get() {
-      if (field.kind === "choice" || field.kind === "text" || field.kind === "plain") return input.value;
+      if (field.kind === "choice" || field.kind === "text" || field.kind === "plain" || field.kind === "integer") return input.value;
       return { value: input.value, unit: unitSelect ? unitSelect.value : defaultUnit };
     },
     set(raw) {

@@ -244,7 +244,8 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     life_index = nm - 2 if marks[-1][0] == "after" else nm - 1
     results["compartments"] = _compartment_table(res, rs, life_index, marks[life_index][1])
     curves: dict[str, Any] = {
-        "milestones": [{"key": k, "label": lab, "t_days": t / DAY} for k, lab, t in marks]
+        "region_labels": dict(REGION_LABELS),
+        "milestones": [{"key": k, "label": lab, "t_days": t / DAY} for k, lab, t in marks],
     }
     for w in ("mass", "number", "surface"):
         factor, unit, _ = UNITS[w]
