@@ -17,6 +17,8 @@ Measures in one run, on one server, in the same Chromium:
 - input change to updated chart, per panel: median and 95th percentile over many edits;
 - the app's own assets (everything but Pyodide's core), gzip-compressed size;
 - the heaviest core calculations in CPython, and the same requests in the page, with ratios;
+- the retained burden over 40 working years, and a 1000-sample propagation of the dose of a
+  two-mode aerosol, in CPython and in the page;
 - the single-file edition: its size, and its time to ready from file:// divided by the served
   page's (cold, fresh contexts, alternating runs, medians).
 Targets are recorded in the README; this script only reports.
@@ -345,6 +347,40 @@ def _page_ms(page, kind: str, inputs: dict, repeats: int = 20) -> float:
     )
 
 
+# retained burden (40 years of a 5-day week, every shift resolved) and the 1000-sample
+# propagation of a two-mode aerosol: each run gets a fresh seed, so no cached block is reused
+BURDEN_INPUTS = {**HEAVY[1][1], "route": "mixed", "working_years": 40, "years_after": 10}
+RANGES_INPUTS = {**BURDEN_INPUTS, "samples": 1000}
+
+
+def _ranges_cpython_ms(repeats: int = 3) -> float:
+    times = []
+    for seed in range(repeats):
+        t0 = time.perf_counter()
+        reply = api.handle({"kind": "uncertainty", "inputs": {**RANGES_INPUTS, "seed": 100 + seed}})
+        times.append((time.perf_counter() - t0) * 1000)
+        assert reply["ok"], reply
+    return statistics.median(times)
+
+
+def _ranges_page_ms(page, repeats: int = 3) -> float:
+    return page.evaluate(
+        """async ([inputs, repeats]) => {
+             const mod = await import('./js/app.js');
+             const times = [];
+             for (let i = 0; i < repeats; i++) {
+               const t0 = performance.now();
+               const reply = await mod.engine.request('uncertainty', { ...inputs, seed: 200 + i });
+               times.push(performance.now() - t0);
+               if (!reply.ok) throw new Error(JSON.stringify(reply.errors));
+             }
+             times.sort((a, b) => a - b);
+             return times[Math.floor(times.length / 2)];
+           }""",
+        [RANGES_INPUTS, repeats],
+    )
+
+
 def _single_file_figures(build, browser, root: Path, base: str, runs: int) -> dict:
     """Single-file edition: size, time to ready from file://, ratios to the served pages."""
     with tempfile.TemporaryDirectory() as folder:
@@ -466,6 +502,20 @@ def main() -> int:
                     "page_over_cpython": round(web / cpy, 2),
                 }
             figures["heaviest_calculations"] = heavy
+            cpy = _cpython_ms("burden", BURDEN_INPUTS, 5)
+            web = _page_ms(page, "burden", BURDEN_INPUTS, 5)
+            figures["burden_40_years"] = {
+                "cpython_ms": round(cpy, 2),
+                "page_ms": round(web, 2),
+                "page_over_cpython": round(web / cpy, 2),
+            }
+            cpy = _ranges_cpython_ms()
+            web = _ranges_page_ms(page)
+            figures["ranges_1000_samples_two_modes"] = {
+                "cpython_ms": round(cpy, 1),
+                "page_ms": round(web, 1),
+                "page_over_cpython": round(web / cpy, 2),
+            }
             ctx.close()
             ctx = browser.new_context()
             page = ctx.new_page()

@@ -27,7 +27,7 @@ def _done(page, section: str, updates: int = 1) -> None:
         " return s && !s.hasAttribute('aria-busy') && s.dataset.state === 'ok'"
         " && Number(s.dataset.updates || 0) >= n; }",
         arg=[section, updates],
-        timeout=120_000,
+        timeout=300_000,  # a 1000-sample propagation on a loaded machine
     )
 
 
@@ -42,10 +42,17 @@ def _cells(page, selector: str) -> dict[str, str]:
 def _load_demo(page, base_url: str) -> None:
     page.goto(base_url + "#v=1&panel=deposition")
     wait_ready(page)
+    # the sections compute once they are on screen
+    assert page.locator("#section-ranges").get_attribute("data-updates") is None
+    page.locator("#section-burden").scroll_into_view_if_needed()
+    _done(page, "section-burden")
+    page.locator("#section-ranges").scroll_into_view_if_needed()
     _done(page, "section-ranges")
+    page.locator("#section-burden").scroll_into_view_if_needed()
     page.locator("#load-demo_working_life").click()
     page.wait_for_function("() => location.hash.includes('ranges.seed=2026')")
     _done(page, "section-burden", 2)
+    page.locator("#section-ranges").scroll_into_view_if_needed()
     _done(page, "section-ranges", 2)
 
 
@@ -122,6 +129,8 @@ def test_time_axis_switch_and_link_round_trip(page, base_url, browser):
     other = browser.new_page()
     try:
         other.goto(link)
+        wait_ready(other)
+        other.locator("#section-ranges").scroll_into_view_if_needed()
         other.wait_for_function(
             "() => { const s = document.getElementById('section-ranges');"
             " return s && s.dataset.state === 'ok' && !s.hasAttribute('aria-busy'); }",

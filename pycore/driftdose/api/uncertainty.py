@@ -40,7 +40,7 @@ from .fields import Field, FieldError
 
 TITLE = "Ranges of dose and retained burden (uncertainty)"
 
-BLOCK = 100
+BLOCK = 50
 """Samples per block when the page runs a propagation in steps."""
 
 INPUT_LABELS = {
@@ -144,7 +144,7 @@ RANGE_FIELDS: tuple[Field, ...] = (
         "integer",
         0,
         minimum=0,
-        maximum=50,
+        maximum=5000 // BLOCK,
         help=f"The page computes {BLOCK} samples per step to show progress; the result is "
         "the same.",
     ),

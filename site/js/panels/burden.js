@@ -11,6 +11,7 @@ import { formatNumber } from "../format.js";
 export const id = "burden";
 const WEIGHTS = [["mass", "Mass"], ["number", "Number"], ["surface", "Surface area"]];
 const SHOW_AFTER_MS = 150; // a propagation shows its progress bar once it takes longer
+const QUIET_MS = 250; // the propagation starts once the inputs have been still this long
 const CHART_REGIONS = ["AI", "lungs", "LN", "BB", "bb", "ET"];
 const TABLE_REGIONS = ["ET", "BB", "bb", "AI", "LN", "lungs", "GI", "environment", "deposited"];
 const DOSE_REGIONS = ["ET1", "ET2", "BB", "bb", "AI", "total"];
@@ -353,5 +354,40 @@ export function mountSections(root, { engine, forms, deposition }) {
     baseRangesSet(values);
     applyRanges();
   };
+  // Both sections compute only while they are on screen (the propagation takes seconds,
+  // the burden series a few hundred milliseconds in the page): a change made elsewhere waits
+  // until they are scrolled to, and the propagation waits for a pause in typing, so neither
+  // delays the deposition panel's own answers.
+  const gate = (panel, root, quietMs) => {
+    const base = panel.schedule.bind(panel);
+    let visible = false;
+    let pending = true;
+    let timer = 0;
+    const run = () => {
+      pending = false;
+      base();
+    };
+    panel.schedule = function schedule() {
+      for (const listener of this.listeners) listener(this);
+      if (!visible) {
+        pending = true;
+        return;
+      }
+      if (this.busy) {
+        this.queued = true;
+        return;
+      }
+      clearTimeout(timer);
+      if (quietMs) timer = setTimeout(run, quietMs);
+      else run();
+    };
+    const observer = new IntersectionObserver((entries) => {
+      visible = entries.some((e) => e.isIntersecting);
+      if (visible && pending) run();
+    });
+    observer.observe(root);
+  };
+  gate(burden, burdenRoot, 0);
+  gate(ranges, rangesRoot, QUIET_MS);
   return [burden, ranges];
 }
