@@ -101,6 +101,8 @@ function showPanel(pid, focus = false) {
     tab.tabIndex = selected ? 0 : -1;
     document.getElementById(`panel-${p.id}`).hidden = !selected;
   }
+  // sections that belong to a tab but live outside its panel element (their own controllers)
+  for (const more of document.querySelectorAll("[data-follows]")) more.hidden = more.dataset.follows !== pid;
   if (focus) document.getElementById(`tab-${pid}`).focus();
   writeState();
 }
@@ -318,7 +320,9 @@ async function start() {
   survey.onChange(() => writeState());
   // retained burden and dose ranges: sections of the deposition tab, fed by its inputs
   if (controllers.has("deposition") && forms.calculations.burden && forms.calculations.uncertainty) {
-    const sections = mountSections(document.getElementById("panel-deposition"),
+    const more = el("div", { id: "panel-deposition-more", class: "panel-more", "data-follows": "deposition", hidden: "" });
+    document.getElementById("panel-deposition").after(more);
+    const sections = mountSections(more,
       { engine, forms, deposition: controllers.get("deposition") });
     for (const controller of sections) {
       controller.onChange(() => writeState());
