@@ -92,8 +92,7 @@ SITE_SKIP = {
     ".installed-lock",
     "engine-build",
     "single",
-    "tests",
-}  # single: see below; tests: the page modules' Node tests
+}  # single: see below
 MIME = {
     ".mjs": "text/javascript",
     ".js": "text/javascript",

@@ -3,8 +3,8 @@ panel or half-apply; a dead engine is reported and restarted with the inputs kep
 chosen wins; the notice about a link or file stands at the top of the page.
 
 Every case checks what a person sees (the notice, the status line, the results) and that the
-page still computes afterwards. The page-side reading itself is unit-tested in site/tests/
-(``tests/page/test_page_modules.py`` runs those tests).
+page still computes afterwards. The page-side reading itself is unit-tested in tests/js/
+(``tests/js/test_node.py`` runs those tests).
 """
 
 from __future__ import annotations

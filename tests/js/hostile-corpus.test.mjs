@@ -5,8 +5,8 @@
 // within the bounds the page posts, and the input itself is left as it was.
 import assert from "node:assert/strict";
 import { test } from "node:test";
-import { LIMITS, STATE_FORMAT, acceptedNotice, decodeFragment, postRefusal, readInputsFile, refusedNotice } from "../js/intake.js";
-import { SCHEMA } from "./schema.js";
+import { LIMITS, STATE_FORMAT, acceptedNotice, decodeFragment, postRefusal, readInputsFile, refusedNotice } from "../../site/js/intake.js";
+import { SCHEMA } from "./schema.mjs";
 
 const CASES = 12_000;
 

@@ -4,7 +4,7 @@ import { execFileSync } from "node:child_process";
 import { readFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
-import { schemaFrom } from "../js/intake.js";
+import { schemaFrom } from "../../site/js/intake.js";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..", "..");
 

@@ -4,8 +4,8 @@ import { test } from "node:test";
 import {
   LIMITS, STATE_FORMAT, acceptedNotice, decodeFragment, measure, postRefusal, readInputsFile,
   refusedNotice,
-} from "../js/intake.js";
-import { SCHEMA } from "./schema.js";
+} from "../../site/js/intake.js";
+import { SCHEMA } from "./schema.mjs";
 
 const file = (panels, extra = {}) => JSON.stringify({ format: STATE_FORMAT, version: 1, panels, ...extra });
 
