@@ -410,14 +410,32 @@ def build(dist: Path = DIST, *, bytecode: bool = True, snapshot: bool = True) ->
     return info
 
 
+def served_policy(directory: Path = SITE) -> str:
+    """The Content-Security-Policy to send as a header with every file of the served edition.
+
+    The page's own meta policy (``index.html``, one element) plus what a meta element cannot
+    say: ``frame-ancestors 'none'`` (no other site may frame the page). Sent as a header, the
+    policy also governs the calculation worker, which a meta element in the page does not.
+    """
+    metas = _CSP_META.findall((directory / "index.html").read_text(encoding="utf-8"))
+    if len(metas) != 1:
+        raise BuildError("index.html must hold exactly one Content-Security-Policy meta element")
+    policy = metas[0].split('content="', 1)[1].rsplit('"', 1)[0]
+    return f"{policy}; frame-ancestors 'none'"
+
+
 class _Handler(http.server.SimpleHTTPRequestHandler):
     extensions_map: ClassVar[dict[str, str]] = {
         **http.server.SimpleHTTPRequestHandler.extensions_map,
         **MIME,
     }
+    policy = ""  # set per server by serve()
 
     def end_headers(self) -> None:
         self.send_header("Cache-Control", "no-cache")
+        if self.policy:
+            self.send_header("Content-Security-Policy", self.policy)
+        self.send_header("X-Content-Type-Options", "nosniff")
         super().end_headers()
 
     def log_message(self, format: str, *args: object) -> None:
@@ -429,7 +447,8 @@ def serve(
     directory: Path = DIST, port: int = 8000
 ) -> tuple[http.server.ThreadingHTTPServer, threading.Thread]:
     """Serve ``directory`` on 127.0.0.1:``port`` (0 picks a free port) in a daemon thread."""
-    handler = functools.partial(_Handler, directory=str(directory))
+    handler_class = type("_PolicyHandler", (_Handler,), {"policy": served_policy(directory)})
+    handler = functools.partial(handler_class, directory=str(directory))
     server = http.server.ThreadingHTTPServer(("127.0.0.1", port), handler)
     thread = threading.Thread(target=server.serve_forever, daemon=True)
     thread.start()

@@ -14,8 +14,13 @@ here also no request for a payload's relative address such as ``x``).
 
 from __future__ import annotations
 
+import functools
+import http.server
 import json
 import re
+import shutil
+import threading
+import urllib.request
 from html.parser import HTMLParser
 from pathlib import Path
 from urllib.parse import quote, urlencode, urlsplit
@@ -247,6 +252,85 @@ def test_csp_blocks_an_injected_inline_script(browser, base_url):
         assert not watch.outside
     finally:
         context.close()
+
+
+def _header_policy(url: str) -> str | None:
+    with urllib.request.urlopen(url, timeout=30) as reply:  # the local test server only
+        return reply.headers.get("Content-Security-Policy")
+
+
+def test_served_policy_header_on_page_and_worker(dist_dir, base_url):
+    """The server sends the page's policy as a header with every file (the worker included,
+    which a meta element does not govern), plus frame-ancestors, which a meta element cannot
+    carry."""
+    _, meta = _policy(dist_dir)
+    for path in ("", "index.html", "js/worker.js", "js/app.js", "forms.json"):
+        header = _header_policy(base_url + path)
+        assert header is not None, f"no policy header on /{path}"
+        directives = {}
+        for part in header.split(";"):
+            words = part.split()
+            if words:
+                directives[words[0].lower()] = words[1:]
+        assert directives.pop("frame-ancestors") == ["'none'"], path
+        assert directives == meta, f"/{path}: header policy differs from the page's meta policy"
+    assert "blob:" not in json.dumps(meta), "the served page uses no blob: workers or images"
+
+
+def test_worker_is_governed_by_the_header_policy(browser, build_module, dist_dir, tmp_path):
+    """A worker script served by the same server cannot evaluate strings (script-src has no
+    'unsafe-eval'): the header policy reaches workers."""
+    copy = tmp_path / "dist"
+    shutil.copytree(dist_dir, copy)
+    (copy / "probe-worker.js").write_text(
+        "let out; try { out = String(eval('6*7')); } catch (e) { out = e.name; }"
+        " postMessage(out);\n",
+        encoding="utf-8",
+    )
+    server, _ = build_module.serve(copy, 0)
+    host, port = server.server_address[:2]
+    url = f"http://{host}:{port}/"
+    context, page, watch = new_watched_page(browser, url)
+    try:
+        page.goto(url)
+        answer = page.evaluate(
+            """() => new Promise((resolve) => {
+              const w = new Worker("probe-worker.js");
+              w.onmessage = (e) => resolve(e.data);
+              w.onerror = (e) => resolve("error: " + e.message);
+            })"""
+        )
+        assert answer == "EvalError", answer
+        assert not watch.outside
+    finally:
+        context.close()
+        server.shutdown()
+
+
+def test_other_sites_cannot_frame_the_page(browser, base_url, tmp_path):
+    """frame-ancestors 'none': a page of another origin (another port) that frames the tool
+    gets an empty frame."""
+    (tmp_path / "framer.html").write_text(
+        f'<!doctype html><iframe id="f" src="{base_url}"></iframe>', encoding="utf-8"
+    )
+    handler = functools.partial(http.server.SimpleHTTPRequestHandler, directory=str(tmp_path))
+    other = http.server.ThreadingHTTPServer(("127.0.0.1", 0), handler)
+    threading.Thread(target=other.serve_forever, daemon=True).start()
+    context = browser.new_context()
+    try:
+        page = context.new_page()
+        page.goto(f"http://127.0.0.1:{other.server_address[1]}/framer.html")
+        page.wait_for_timeout(1500)
+        child = [f for f in page.frames if f is not page.main_frame]
+        assert child, "no frame"
+        assert (
+            not child[0].url.startswith(base_url)
+            or child[0].evaluate("() => document.documentElement.hasAttribute('data-engine')")
+            is False
+        ), "the tool loaded inside another site's frame"
+    finally:
+        context.close()
+        other.shutdown()
 
 
 # --- links ------------------------------------------------------------------------------------
