@@ -105,17 +105,8 @@ def mobility_diameter(
     100.0
 
     """
-    if shape_factor == 1.0:
-        return d_ve
-    target = shape_factor * d_ve / particle.slip_correction(d_ve, T, P)
-
-    def f(ln_dm: float) -> float:
-        dm = math.exp(ln_dm)
-        return math.log(dm / particle.slip_correction(dm, T, P) / target)
-
-    lo = min(1.0, math.sqrt(shape_factor))
-    hi = max(shape_factor, math.sqrt(shape_factor), 1.0)
-    return _solve_ln(f, d_ve, lo * 0.5, hi * 2.0)
+    # the same equation (equal mechanical mobility) is solved once, in particle
+    return particle.mobility_diameter(d_ve, shape_factor, T, P)
 
 
 def volume_equivalent_from_mobility(
