@@ -30,9 +30,15 @@ def _prepare() -> dict:
     import driftdose
 
     skip = {"driftdose.cli", "driftdose.__main__"}  # the command line is not used in the page
-    for module in pkgutil.walk_packages(driftdose.__path__, "driftdose."):
-        if module.name not in skip:
-            importlib.import_module(module.name)
+
+    def import_all(path: list[str], prefix: str) -> None:  # skipped packages are not entered
+        for module in pkgutil.iter_modules(path, prefix):
+            if module.name not in skip:
+                imported = importlib.import_module(module.name)
+                if module.ispkg:
+                    import_all(imported.__path__, module.name + ".")
+
+    import_all(driftdose.__path__, "driftdose.")
     archive = next(p for p in sys.path if p.endswith(".zip"))
     compiled, from_source = 0, []
     for name, module in sorted(sys.modules.items()):

@@ -306,7 +306,7 @@ def test_internal_fault_is_one_line_with_status_1(monkeypatch, capsys):
     def broken(*_args, **_kwargs):
         raise ZeroDivisionError("float division by zero")
 
-    monkeypatch.setattr(cli, "_call", broken)
+    monkeypatch.setattr(cli.commands, "call_api", broken)
     monkeypatch.delenv("DRIFTDOSE_DEBUG", raising=False)
     code = cli.main(["motion"])
     out, err = capsys.readouterr()
@@ -316,7 +316,7 @@ def test_internal_fault_is_one_line_with_status_1(monkeypatch, capsys):
 
 
 def test_internal_fault_traceback_on_request(monkeypatch):
-    monkeypatch.setattr(cli, "_call", lambda *_a: 1 / 0)
+    monkeypatch.setattr(cli.commands, "call_api", lambda *_a: 1 / 0)
     monkeypatch.setenv("DRIFTDOSE_DEBUG", "1")
     with pytest.raises(ZeroDivisionError):
         cli.main(["motion"])
