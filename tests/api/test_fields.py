@@ -11,8 +11,8 @@ import math
 
 import pytest
 
-from driftdose.api import handle
-from driftdose.api.fields import Field, FieldError, format_si, parse_fields
+from driftdose.api import describe, handle
+from driftdose.api.fields import Field, FieldError, applies, format_si, parse_fields
 from driftdose.api.motion import FIELDS
 from driftdose.api.units import SI_UNIT, UNITS, from_si
 
@@ -289,3 +289,43 @@ def test_range_failure_in_one_unit_hints_at_the_unit_where_it_fits():
     assert handle(
         {"kind": "motion", "inputs": {"particle_diameter": {"value": "0.3", "unit": "um"}}}
     )["ok"]
+
+
+def test_applies_declared_on_the_field_is_published_and_read_back():
+    f = Field(
+        "tidal_volume",
+        "Tidal volume",
+        "volume",
+        (1.0, "L"),
+        ("L",),
+        applies=("breathing", ("custom",)),
+    )
+    described = f.describe()
+    assert described["applies_when"] == {"field": "breathing", "values": ["custom"]}
+    assert applies(described, {"breathing": "custom"}) is True
+    assert applies(described, {"breathing": "reference_worker"}) is False
+    assert applies(described, {}) is False  # the field it depends on missing: does not apply
+    plain = Field("x", "X", "text", "a")
+    assert "applies_when" not in plain.describe()
+    assert applies(plain.describe(), {}) is True
+
+
+def test_every_applies_when_names_a_choice_of_its_own_calculation():
+    """Each declared rule depends on a choice field of the same calculation, by values it
+    offers (a rule that can never hold, or names a field the form lacks, would hide a field
+    for good)."""
+    seen = 0
+    for kind, calc in describe()["calculations"].items():
+        by_name = {fd["name"]: fd for fd in calc["fields"]}
+        for fd in calc["fields"]:
+            rule = fd.get("applies_when")
+            if rule is None:
+                continue
+            seen += 1
+            other = by_name.get(rule["field"])
+            assert other is not None and other["kind"] == "choice", (kind, fd["name"])
+            offered = {c["value"] for c in other["choices"]}
+            assert rule["values"] and set(rule["values"]) <= offered, (kind, fd["name"])
+            # shown by default or not, the default of the field it depends on is offered
+            assert other["default"] in offered
+    assert seen >= 20

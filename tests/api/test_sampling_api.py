@@ -10,6 +10,7 @@ from __future__ import annotations
 import copy
 import json
 import math
+from dataclasses import replace
 
 import pytest
 
@@ -18,6 +19,7 @@ from driftdose.api import deposition as deposition_api
 from driftdose.api import describe, handle, handle_json
 from driftdose.api import sampling as sampling_api
 from driftdose.api.sampling import CURVE_POINTS, DEMOS, STAGE_FIELDS, TARGETS
+from driftdose.api.spectrum_fields import import_spectrum
 from driftdose.deposition import REFERENCE_WORKER, icrp66_curves, simplified_icrp
 from driftdose.sources import SOURCES
 from driftdose.transport import Bend, Chain, Cyclone, Impactor, ScreenStack, Tube, iso7708_fraction
@@ -223,7 +225,8 @@ def test_sampling_spectrum_ignored_unless_chosen() -> None:
 
 
 def test_sampling_spectrum_fields_are_the_deposition_fields() -> None:
-    """One declaration for both calculations: the same Field objects, in the same order."""
+    """One declaration for both calculations: the same fields, in the same order; each applies
+    by its own calculation's source choice."""
     names = [
         "csv_text",
         "csv_diameter_column",
@@ -235,7 +238,9 @@ def test_sampling_spectrum_fields_are_the_deposition_fields() -> None:
     ours = {f.name: f for f in sampling_api.FIELDS}
     theirs = {f.name: f for f in deposition_api.FIELDS}
     for name in names:
-        assert ours[name] is theirs[name], name
+        assert replace(ours[name], applies=None) == replace(theirs[name], applies=None), name
+        assert ours[name].applies == ("spectrum_source", ("csv",)), name
+        assert theirs[name].applies == ("distribution_source", ("csv",)), name
     assert [f.name for f in sampling_api.FIELDS if f.name in names] == names
 
 
@@ -245,7 +250,7 @@ def test_sampling_spectrum_csv_equals_deposition_import() -> None:
     inputs = csv_spectrum(text, csv_diameter_column="size", csv_concentration_column="dNdlogDp")
     reply = handle(request([TUBE], **inputs))
     assert reply["ok"] is True, reply.get("errors")
-    binned, _ = deposition_api._import_csv(
+    binned, _ = import_spectrum(
         {
             "csv_text": text,
             "csv_diameter_column": "size",

@@ -14,7 +14,6 @@ import traceback
 from typing import Any
 
 from .. import __version__
-from .applies import applies_when
 from .fields import FieldError, parse_fields
 from .registry import CALCULATIONS
 
@@ -27,18 +26,10 @@ def describe() -> dict[str, Any]:
         "ok": True,
         "version": __version__,
         "calculations": {
-            name: {"title": calc.TITLE, "fields": [_field(name, f) for f in calc.FIELDS]}
+            name: {"title": calc.TITLE, "fields": [f.describe() for f in calc.FIELDS]}
             for name, calc in CALCULATIONS.items()
         },
     }
-
-
-def _field(kind: str, field: Any) -> dict[str, Any]:
-    out = field.describe()
-    rule = applies_when(kind, field.name)
-    if rule:
-        out["applies_when"] = rule
-    return out
 
 
 def handle(request: Any) -> dict[str, Any]:

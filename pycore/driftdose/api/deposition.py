@@ -30,35 +30,21 @@ from ..distribution import GSD_MAX, MAX_MODES, BinnedSpectrum, LognormalMode, Mu
 from ..dose import DoseResult, deposited_dose, deposition_curves
 from ..ldsa import lung_deposited_surface_area
 from ..sources import cite
-from ..spectrum import MAX_BYTES, SpectrumError, parse_spectrum_csv
 from .common import DENSITY_BASIS, DIAMETER_TYPE_CHOICES, PARTICLE_DENSITY, SHAPE_FACTOR
 from .fields import Field, FieldError
+from .labels import COORDINATE_WORDS, DIAMETER_TYPE_WORDS, REGION_LABELS
 from .reply import text_result
+from .spectrum_fields import D_RANGE, NUMBER_MAX, NUMBER_MIN, import_spectrum, spectrum_fields
 from .units import canonical_unit, to_si, unit_label
 
 TITLE = "Respiratory deposition and dose per shift"
 
 CURVE_POINTS = 241
 CURVE_RANGE = (1e-9, 100e-6)  # [m]
-D_RANGE = (1e-9, 100e-6)  # accepted mode medians [m]
-NUMBER_MAX = 1e15  # [1/m^3], 1e9 per cm^3: above it an input is taken as a mistake
 MASS_MAX = 1e-2  # [kg/m^3], 10 g/m^3
-NUMBER_MIN = 1.0  # [1/m^3]: below it doses fall under what a number can hold
 MASS_MIN = 1e-15  # [kg/m^3], 1e-6 ug/m^3
 BENCHMARK_NUMBER_MIN = 1.0  # [1/m^3]: smaller benchmarks make the ratio overflow
 BENCHMARK_MASS_MIN = 1e-12  # [kg/m^3], 1 ng/m^3
-
-REGION_LABELS = {
-    "ET1": "ET1 (front of the nose)",
-    "ET2": "ET2 (back of nose, mouth, pharynx, larynx)",
-    "BB": "BB (bronchi)",
-    "bb": "bb (bronchioles)",
-    "AI": "AI (alveolar-interstitial)",
-    "head_airways": "Head airways",
-    "tracheobronchial": "Tracheobronchial",
-    "alveolar": "Alveolar",
-    "total": "Total",
-}
 
 _MODE_UNITS = {
     "length": ("nm", "um"),
@@ -238,71 +224,12 @@ FIELDS: tuple[Field, ...] = (
             }
         ],
         required=False,
+        applies=("distribution_source", ("lognormal",)),
         help="Up to four modes, each by count (count median, GSD, number concentration) or "
         "by mass (mass median, GSD, mass concentration); say which diameter each median is.",
         extra=_MODE_SCHEMA,
     ),
-    Field(
-        "csv_text",
-        "Spectrum CSV file",
-        "data",
-        None,
-        required=False,
-        help="Plain text table, one row per size; commas, semicolons or tabs; at most 5 MB.",
-        extra={"max_bytes": MAX_BYTES, "accept": ".csv,.txt,.tsv"},
-    ),
-    Field(
-        "csv_diameter_column",
-        "Diameter column (header name or number)",
-        "text",
-        "1",
-        required=False,
-        extra={"max_length": 80},
-    ),
-    Field(
-        "csv_concentration_column",
-        "Concentration column (header name or number)",
-        "text",
-        "2",
-        required=False,
-        extra={"max_length": 80},
-    ),
-    Field(
-        "csv_concentration_type",
-        "Concentration is given",
-        "choice",
-        "dN/dlogDp",
-        choices=(
-            ("per_bin", "per size bin (dN)"),
-            ("dN/dlogDp", "per log10 of diameter (dN/dlogDp)"),
-            ("dN/dDp", "per unit diameter (dN/dDp)"),
-        ),
-    ),
-    Field(
-        "csv_diameter_unit",
-        "Diameter unit in the file",
-        "choice",
-        "nm",
-        choices=(("nm", "nm"), ("um", "µm"), ("m", "m")),
-    ),
-    Field(
-        "spectrum_diameter_type",
-        "Diameters in the file are",
-        "choice",
-        "volume_equivalent",
-        choices=DIAMETER_TYPE_CHOICES,
-        help="The instrument's diameter: mobility for differential mobility sizers, "
-        "aerodynamic for impactors and time-of-flight sizers, optical for light-scattering "
-        "counters.",
-    ),
-    Field(
-        "csv_concentration_unit",
-        "Concentration unit in the file",
-        "choice",
-        "1/cm3",
-        choices=(("1/cm3", "particles per cm³"), ("1/m3", "particles per m³")),
-        help="For dN/dDp, per diameter unit of the file (e.g. per cm³ per nm).",
-    ),
+    *spectrum_fields("distribution_source"),
     replace(
         PARTICLE_DENSITY,
         help="Material density, or the effective density if chosen below (applies to every "
@@ -358,6 +285,7 @@ FIELDS: tuple[Field, ...] = (
             ("light_exercise", "Light exercise"),
             ("heavy_exercise", "Heavy exercise"),
         ),
+        applies=("breathing", ("activity",)),
     ),
     Field(
         "route",
@@ -370,6 +298,7 @@ FIELDS: tuple[Field, ...] = (
             ("mouth", "Mouth only"),
             ("mouth_breather", "Habitual mouth breather (ICRP)"),
         ),
+        applies=("breathing", ("reference_worker", "activity")),
     ),
     Field(
         "tidal_volume",
@@ -379,6 +308,7 @@ FIELDS: tuple[Field, ...] = (
         ("L", "m3"),
         minimum=0.1e-3,
         maximum=4e-3,
+        applies=("breathing", ("custom",)),
     ),
     Field(
         "breathing_frequency",
@@ -388,6 +318,7 @@ FIELDS: tuple[Field, ...] = (
         ("1",),
         minimum=4.0,
         maximum=60.0,
+        applies=("breathing", ("custom",)),
     ),
     Field(
         "nasal_fraction",
@@ -397,6 +328,7 @@ FIELDS: tuple[Field, ...] = (
         ("1",),
         minimum=0.0,
         maximum=1.0,
+        applies=("breathing", ("custom",)),
     ),
     Field(
         "exposure_duration",
@@ -465,15 +397,6 @@ def _quantity_in(
     raise FieldError(field, f"{where}: unknown unit {str(unit)[:20]!r}; use one of {offered}.")
 
 
-_TYPE_WORDS = {
-    "volume_equivalent": "volume-equivalent",
-    "optical": "optical",
-    "mobility": "mobility",
-    "aerodynamic": "aerodynamic",
-}
-_COORDINATE_WORDS = {"volume_equivalent": "volume-equivalent", "mobility": "mobility-equivalent"}
-
-
 def _parse_modes(raw: Any, desc: ParticleDescription) -> tuple[Multimodal, list[dict[str, Any]]]:
     """The modes as the models see them, and per mode what was entered (basis, type)."""
     field = "modes"
@@ -495,10 +418,10 @@ def _parse_modes(raw: Any, desc: ParticleDescription) -> tuple[Multimodal, list[
         d_type = m.get("diameter_type")
         if d_type is None:  # links and files from before the choice existed
             d_type = "volume_equivalent" if basis == "count" else "aerodynamic"
-        if not isinstance(d_type, str) or d_type not in _TYPE_WORDS:
+        if not isinstance(d_type, str) or d_type not in DIAMETER_TYPE_WORDS:
             raise FieldError(
                 field,
-                f"{where}: the diameter type must be one of {', '.join(_TYPE_WORDS)}.",
+                f"{where}: the diameter type must be one of {', '.join(DIAMETER_TYPE_WORDS)}.",
             )
         med = _quantity_in(m.get("median"), ("length",), f"{where} median diameter", field)
         assert med is not None
@@ -578,7 +501,7 @@ def _parse_csv(
     (``spectrum_diameter_type``) by :meth:`ParticleDescription.to_model`, which is monotone,
     so the bins stay in order.
     """
-    imported, report = _import_csv(v)
+    imported, report = import_spectrum(v)
     d_type = v.get("spectrum_diameter_type") or "volume_equivalent"
     diameters = imported.diameters
     if d_type != desc.coordinate and not (
@@ -596,56 +519,6 @@ def _parse_csv(
             "diameter; merge them.",
         ) from None
     return dist, report
-
-
-def _import_csv(v: dict[str, Any]) -> tuple[Any, dict[str, Any]]:
-    """Read the spectrum CSV fields as given in the file (no diameter conversion)."""
-    text = v.get("csv_text")
-    if text is None:
-        raise FieldError("csv_text", "Choose a CSV file with the measured spectrum.")
-    if isinstance(text, str) and not text.strip():
-        raise FieldError(
-            "csv_text",
-            f"The file is {'empty' if not text else 'blank'}. Choose a CSV file with the "
-            "measured spectrum.",
-        )
-    if not isinstance(text, str):
-        raise FieldError("csv_text", "The spectrum must be sent as text.")
-    d_scale = to_si(1.0, "length", v["csv_diameter_unit"])
-    c_scale = to_si(1.0, "number_concentration", v["csv_concentration_unit"])
-    try:
-        imported = parse_spectrum_csv(
-            text,
-            v.get("csv_diameter_column") or "1",
-            v.get("csv_concentration_column") or "2",
-            v["csv_concentration_type"],
-            d_scale,
-            c_scale,
-        )
-    except SpectrumError as exc:
-        raise FieldError("csv_text", str(exc)) from None
-    if imported.diameters[0] < D_RANGE[0] * 0.999 or imported.diameters[-1] > D_RANGE[1] * 1.001:
-        raise FieldError(
-            "csv_text",
-            f"Diameters run from {imported.diameters[0] * 1e9:.3g} nm to "
-            f"{imported.diameters[-1] * 1e6:.3g} µm; the models cover 1 nm to 100 µm. Check "
-            "the diameter unit.",
-        )
-    if sum(imported.numbers) <= 0.0:
-        raise FieldError("csv_text", "All concentrations in the spectrum are zero.")
-    if sum(imported.numbers) < NUMBER_MIN:
-        raise FieldError(
-            "csv_text",
-            "The spectrum adds up to less than 10⁻⁶ particles per cm³ (1 per m³); check the "
-            "concentration unit and type.",
-        )
-    if sum(imported.numbers) > NUMBER_MAX:
-        raise FieldError(
-            "csv_text",
-            "The spectrum adds up to more than 10⁹ particles per cm³; check the "
-            "concentration unit and type.",
-        )
-    return imported, imported.report
 
 
 def _subject(v: dict[str, Any]) -> Subject:
@@ -861,9 +734,9 @@ def _mode_rows(
     """Per mode: the medians the models use, the MMAD and both concentrations."""
     out: dict[str, Any] = {}
     modes = getattr(dist, "modes", ())
-    coord = _COORDINATE_WORDS[desc.coordinate]
+    coord = COORDINATE_WORDS[desc.coordinate]
     for i, (mode, e) in enumerate(zip(modes, entered, strict=True), start=1):
-        given = f"entered: {e['basis']} median, {_TYPE_WORDS[e['diameter_type']]}"
+        given = f"entered: {e['basis']} median, {DIAMETER_TYPE_WORDS[e['diameter_type']]}"
         converted = e["diameter_type"] != desc.coordinate and not (
             desc.coordinate == "volume_equivalent" and e["diameter_type"] == "optical"
         )
@@ -938,7 +811,7 @@ def _curves(
             "per_hour": [res.rates[r][w] * 3600.0 / factor for r in res.regions],
         }
     return {
-        "x_label": f"Particle diameter ({_COORDINATE_WORDS[desc.coordinate]})",
+        "x_label": f"Particle diameter ({COORDINATE_WORDS[desc.coordinate]})",
         "x_unit": "µm",
         "y_label": "Deposition fraction",
         "y_unit": "–",

@@ -13,7 +13,7 @@ from typing import Any
 
 from .units import SI_UNIT, UNITS, auto_unit, canonical_unit, from_si, to_si, unit_label
 
-__all__ = ["Field", "FieldError", "format_si", "parse_fields"]
+__all__ = ["Field", "FieldError", "applies", "format_si", "parse_fields"]
 
 
 class FieldError(Exception):
@@ -34,6 +34,9 @@ class Field:
     ``data`` for structured JSON data checked by the calculation itself. Bounds
     ``minimum``/``maximum`` are in SI; ``exclusive_min`` makes the lower bound strict.
     ``default`` is ``(value, unit)`` for a quantity, else a plain value.
+    ``applies`` is ``(other field, values of it)``: the field applies (the page shows it, the
+    command line prints it) only while that other field has one of those values; ``None``
+    means always. It is published by :meth:`describe` as ``applies_when``.
     """
 
     name: str
@@ -47,6 +50,7 @@ class Field:
     choices: tuple[tuple[str, str], ...] = ()
     help: str = ""
     required: bool = True
+    applies: tuple[str, tuple[str, ...]] | None = None
     extra: dict[str, Any] = field(default_factory=dict)
 
     def describe(self) -> dict[str, Any]:
@@ -69,6 +73,9 @@ class Field:
             out["choices"] = [{"value": v, "label": lab} for v, lab in self.choices]
         if self.kind == "integer":
             out["range"] = self.range_text()
+        if self.applies is not None:
+            other, values = self.applies
+            out["applies_when"] = {"field": other, "values": list(values)}
         out.update(self.extra)
         return out
 
@@ -187,6 +194,26 @@ class Field:
             ):
                 return f" {shown:g} {unit_label(unit)} — did you mean {unit_label(other)}?"
         return ""
+
+
+def applies(described: dict[str, Any], current: dict[str, Any]) -> bool:
+    """Whether a field applies to the current inputs, read from its description.
+
+    Parameters
+    ----------
+    described : dict
+        The field as :meth:`Field.describe` publishes it (``applies_when`` optional).
+    current : dict
+        Input name -> value as given (choices as their plain value), defaults filled in.
+
+    Returns
+    -------
+    bool
+        False only when the field declares ``applies_when`` and the field it depends on has
+        none of the listed values.
+    """
+    rule = described.get("applies_when")
+    return rule is None or current.get(rule["field"]) in rule["values"]
 
 
 def _within(f: Field) -> str:

@@ -58,10 +58,11 @@ from ..transport import (
 from ..transport.chain import UNRELIABLE_BELOW
 from ..transport.cyclone import ISO7708_MAX_DIAMETER
 from ..transport.impactor import DEFAULT_STEEPNESS
-from . import deposition as _deposition
 from .common import DENSITY_BASIS, PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
 from .fields import Field, FieldError, parse_fields
+from .labels import DIAMETER_TYPE_WORDS, REGION_LABELS
 from .reply import quantity, text_result
+from .spectrum_fields import import_spectrum, spectrum_fields
 from .units import auto_unit, from_si, unit_label
 
 TITLE = "Sampling line and pre-separator penetration"
@@ -475,14 +476,14 @@ TARGETS: tuple[tuple[str, str], ...] = (
             f"icrp66_{r}",
             "ICRP 66 total deposition, reference worker"
             if r == "total"
-            else f"ICRP 66 deposition in {_deposition.REGION_LABELS[r]}, reference worker",
+            else f"ICRP 66 deposition in {REGION_LABELS[r]}, reference worker",
         )
         for r in ICRP66_TARGET_REGIONS
     ),
     *(
         (
             f"simplified_{r}",
-            f"Simplified ICRP fit: {_deposition.REGION_LABELS[r].lower()} deposition",
+            f"Simplified ICRP fit: {REGION_LABELS[r].lower()} deposition",
         )
         for r in SIMPLIFIED_TARGET_REGIONS
     ),
@@ -492,17 +493,9 @@ spheres of each aerodynamic diameter, from the full ICRP 66 model for the ICRP r
 worker (ICRP 66 with ICRP 68's breathing) or from the simplified fits (Hinds 1999, which
 average over their own breathing conditions)."""
 
-# The spectrum import: the same fields, declarations and importer as the deposition
-# calculation (one declaration, so page, command line and messages agree).
-_CSV_FIELD_NAMES = (
-    "csv_text",
-    "csv_diameter_column",
-    "csv_concentration_column",
-    "csv_concentration_type",
-    "csv_diameter_unit",
-    "csv_concentration_unit",
-)
-_DEPOSITION_FIELDS = {f.name: f for f in _deposition.FIELDS}
+# The spectrum import: the shared declarations and importer (one declaration, so page,
+# command line and messages agree), applying while the spectrum source is a CSV file.
+_SPECTRUM_FIELDS = {f.name: f for f in spectrum_fields("spectrum_source")}
 
 SPECTRUM_FIELDS: tuple[Field, ...] = (
     Field(
@@ -513,7 +506,18 @@ SPECTRUM_FIELDS: tuple[Field, ...] = (
         choices=(("none", "None"), ("csv", "Measured spectrum (CSV file)")),
         help="Correct a spectrum measured behind this chain for the chain's losses.",
     ),
-    *(_DEPOSITION_FIELDS[name] for name in (*_CSV_FIELD_NAMES, "spectrum_diameter_type")),
+    *(
+        _SPECTRUM_FIELDS[name]
+        for name in (
+            "csv_text",
+            "csv_diameter_column",
+            "csv_concentration_column",
+            "csv_concentration_type",
+            "csv_diameter_unit",
+            "csv_concentration_unit",
+            "spectrum_diameter_type",
+        )
+    ),
 )
 
 FIELDS: tuple[Field, ...] = (
@@ -558,6 +562,7 @@ FIELDS: tuple[Field, ...] = (
     ),
     replace(
         SHAPE_FACTOR,
+        applies=("density_basis", ("effective",)),
         help="Used with an effective density only: turns volume-equivalent and optical "
         "sizes of a spectrum into mobility sizes.",
     ),
@@ -668,14 +673,14 @@ def _parse_spectrum(
 ) -> tuple[dict[str, Any], dict[str, Any]]:
     """Read the measured spectrum from the CSV fields; raise FieldError on a fault.
 
-    The text goes through the deposition calculation's importer (same fields, checks and
+    The text goes through the shared spectrum importer (same fields, checks and
     messages); the bins' concentrations become particles per bin, shown per cm^3.
     Aerodynamic diameters are turned into volume-equivalent ones for spheres of the
     particle density at the air's T and P; mobility, volume-equivalent and optical ones into
     the chain's diameter (:class:`~driftdose.diameters.ParticleDescription`). Returns (bins,
     import report).
     """
-    imported, report = _deposition._import_csv(v)
+    imported, report = import_spectrum(v)
     d_type = v["spectrum_diameter_type"]
     diameters = list(imported.diameters)
     bins = {
@@ -999,7 +1004,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         curves["spectrum"] = {
             "x_label": "Diameter"
             + (
-                f" ({_deposition._TYPE_WORDS[spectrum['diameter_type']]})"
+                f" ({DIAMETER_TYPE_WORDS[spectrum['diameter_type']]})"
                 if spectrum["diameter_type"] != "volume_equivalent"
                 else ""
             ),

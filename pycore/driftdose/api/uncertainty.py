@@ -93,6 +93,7 @@ def _spread_fields() -> tuple[Field, ...]:
                 ("1",),
                 minimum=0.0,
                 maximum=90.0,
+                applies=(f"{name}_spread", ("uniform", "triangular")),
                 help="Half-width of a uniform or triangular range, in per cent.",
             )
         )
@@ -105,6 +106,7 @@ def _spread_fields() -> tuple[Field, ...]:
                 ("1",),
                 minimum=1.0,
                 maximum=5.0,
+                applies=(f"{name}_spread", ("lognormal",)),
                 help="1 means no spread; 1.5 puts 90 % of the factors between 0.51 and 1.95.",
             )
         )

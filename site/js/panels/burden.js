@@ -294,20 +294,9 @@ export function mountSections(root, { engine, forms, deposition }) {
   rangeWeight.addEventListener("change", () => rangesReply && renderRanges());
   ranges.body.append(progressBox, headline, rangeControls, doseBox, bandFigure.figure, burdenRangeBox);
 
-  // field visibility: ± % for uniform/triangular, GSD for lognormal
-  const rules = {};
-  for (const f of rangesDesc.fields) {
-    const m = f.name.match(/^(.*)_spread$/);
-    if (!m) continue;
-    rules[`${m[1]}_percent`] = [f.name, ["uniform", "triangular"]];
-    rules[`${m[1]}_gsd`] = [f.name, ["lognormal"]];
-  }
-  const applyRanges = ranges.fields.showWhen(rules);
-  const applyBurden = burden.fields.showWhen({
-    shifts_per_week: ["exposure_pattern", ["work"]],
-    weeks_per_year: ["exposure_pattern", ["work"]],
-    working_years: ["exposure_pattern", ["work"]],
-  });
+  // field visibility: declared on the fields (applies_when in forms.json)
+  const applyRanges = ranges.fields.showDeclared(rangesDesc.fields);
+  const applyBurden = burden.fields.showDeclared(burdenDesc.fields);
 
   // the deposition inputs feed both sections; a burden input feeds the ranges too
   // (deferred, so that the deposition panel's own request goes to the engine first)

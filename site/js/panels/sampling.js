@@ -10,10 +10,6 @@ import { formatNumber, lengthTick } from "../format.js";
 export const id = "sampling";
 export const title = "What the sampler sees";
 
-const SPECTRUM_FIELDS = [
-  "csv_text", "csv_diameter_column", "csv_concentration_column", "csv_concentration_type",
-  "csv_diameter_unit", "csv_concentration_unit", "spectrum_diameter_type",
-];
 const OVERALL_KEYS = ["overall_10nm", "overall_100nm", "overall_1um", "overall_10um"];
 const SHOWN_KEYS = ["pass_band", "departure_max", "departure_mean", "csv_rows"];
 const SUMMARY_KEYS = [...OVERALL_KEYS, ...SHOWN_KEYS]; // the printed record has no stage table
@@ -520,6 +516,15 @@ export function mount(root, { engine, description }) {
   }
 
   const applyVisibility = panel.fields.showDeclared(fields);
+  // the spectrum inputs are those that apply by the choice the file input applies by
+  // (applies_when in forms.json); they leave links and files while the choice is off
+  const spectrumRule = (fields.find((f) => f.name === "csv_text") || {}).applies_when;
+  const spectrumNames = spectrumRule
+    ? fields.filter((f) => f.applies_when && f.applies_when.field === spectrumRule.field).map((f) => f.name)
+    : [];
+  const dropSpectrum = (state) => {
+    if (spectrumRule && !spectrumRule.values.includes(state[spectrumRule.field])) for (const name of spectrumNames) delete state[name];
+  };
 
   const baseShowErrors = panel.fields.showErrors.bind(panel.fields);
   panel.fields.showErrors = (errors) => baseShowErrors(chain.showErrors(errors));
@@ -530,7 +535,7 @@ export function mount(root, { engine, description }) {
   panel.inputs = () => ({ ...panel.fields.values(), stages: chain.get() });
   panel.getState = () => {
     const state = { ...baseGet(), stages: chain.get() };
-    if (state.spectrum_source !== "csv") for (const name of SPECTRUM_FIELDS) delete state[name];
+    dropSpectrum(state);
     return state;
   };
   panel.knows = (name) => name === "stages" || baseKnows(name);
@@ -547,7 +552,7 @@ export function mount(root, { engine, description }) {
     if (!inputs) return [];
     const shown = { ...inputs };
     delete shown.stages;
-    if (shown.spectrum_source !== "csv") for (const name of SPECTRUM_FIELDS) delete shown[name];
+    dropSpectrum(shown);
     return [...chain.describe(inputs.stages), ...baseDescribe(shown)];
   };
 
