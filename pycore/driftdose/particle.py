@@ -21,7 +21,7 @@ from __future__ import annotations
 import math
 
 from . import gas
-from ._numerics import brent_root
+from ._numerics import brent_root, newton_bracketed
 from .constants import BOLTZMANN, P_DEFAULT, STANDARD_GRAVITY, T_DEFAULT, WATER_DENSITY
 
 __all__ = [
@@ -768,7 +768,8 @@ def aerodynamic_diameter(
     Notes
     -----
     Solves d_ae^2 Cc(d_ae) rho_0 = d^2 Cc(d) rho_p / chi with rho_0 = 1000 kg/m^3
-    (Hinds 1999, eq. 3.30 with slip) by Brent's method in ln d_ae.
+    (Hinds 1999, eq. 3.30 with slip) by Newton's method in ln d_ae, kept inside the bracket
+    between the continuum and free-molecular limits (:func:`driftdose._numerics.newton_bracketed`).
 
     Examples
     --------
@@ -781,15 +782,8 @@ def aerodynamic_diameter(
     """
     if density == WATER_DENSITY and shape_factor == 1.0:
         return d
-    target = d * d * slip_correction(d, T, P) * density / shape_factor
-
-    def f(log_dae: float) -> float:
-        dae = math.exp(log_dae)
-        return math.log(dae * dae * slip_correction(dae, T, P) * WATER_DENSITY / target)
-
-    return math.exp(
-        brent_root(f, *_ratio_bracket(d, density / (WATER_DENSITY * shape_factor)), xtol=1e-13)
-    )
+    ratio = density / (WATER_DENSITY * shape_factor)
+    return _solve_equal_settling(d, ratio, T, P)
 
 
 def volume_equivalent_diameter(
@@ -822,19 +816,13 @@ def volume_equivalent_diameter(
     Notes
     -----
     Inverse of :func:`aerodynamic_diameter`, the same relation (Hinds 1999, eq. 3.30)
-    solved for d.
+    solved for d, by the same safeguarded Newton iteration.
 
     """
     if density == WATER_DENSITY and shape_factor == 1.0:
         return d_ae
-    target = d_ae * d_ae * slip_correction(d_ae, T, P) * WATER_DENSITY
-
-    def f(log_d: float) -> float:
-        de = math.exp(log_d)
-        return math.log(de * de * slip_correction(de, T, P) * density / shape_factor / target)
-
     ratio = WATER_DENSITY * shape_factor / density
-    return math.exp(brent_root(f, *_ratio_bracket(d_ae, ratio), xtol=1e-13))
+    return _solve_equal_settling(d_ae, ratio, T, P)
 
 
 def mobility_diameter(
@@ -881,6 +869,42 @@ def mobility_diameter(
     lo = min(r, math.sqrt(r), 1.0)
     hi = max(r, math.sqrt(r), 1.0)
     return math.exp(brent_root(f, math.log(d * lo * 0.5), math.log(d * hi * 2.0), xtol=1e-13))
+
+
+def _slip_and_log_slope(d: float, two_lambda: float) -> tuple[float, float]:
+    """Slip correction Cc(d) [-] and its logarithmic slope d ln Cc / d ln d [-].
+
+    ``d`` [m]; ``two_lambda`` [m] twice the mean free path of the Kim et al. (2005) set.
+    Cc = 1 + Kn [alpha + beta exp(-gamma / Kn)] with Kn = 2 lambda / d (the default set of
+    :func:`slip_correction`, Kim et al. 2005, eq. 9); since d Kn / d ln d = -Kn,
+    d Cc / d ln d = -Kn [alpha + beta exp(-gamma / Kn)] - beta gamma exp(-gamma / Kn).
+    """
+    alpha, beta, gamma = SLIP_MODELS["kim2005"]
+    kn = two_lambda / d
+    e = beta * math.exp(-gamma / kn)
+    cc = 1.0 + kn * (alpha + e)
+    return cc, (-kn * (alpha + e) - gamma * e) / cc
+
+
+def _solve_equal_settling(d: float, r: float, T: float, P: float) -> float:
+    """Diameter d_x [m] with d_x^2 Cc(d_x) = r d^2 Cc(d), ``d`` [m], ``r`` [-].
+
+    Newton's method in u = ln d_x on g(u) = ln(d_x^2 Cc(d_x)) - ln(r d^2 Cc(d)), whose slope
+    2 + d ln Cc / d ln d lies between 1 (free-molecular) and 2 (continuum), so g is
+    increasing; the iterates stay inside :func:`_ratio_bracket`. Starts from the continuum
+    solution d sqrt(r). The slip correction is that of :func:`slip_correction` (default set).
+    """
+    two_lambda = 2.0 * gas.mean_free_path(T, P, reference="kim2005")
+    cc_d, _ = _slip_and_log_slope(d, two_lambda)
+    log_target = math.log(r * d * d * cc_d)
+
+    def g(u: float) -> tuple[float, float]:
+        x = math.exp(u)
+        cc, slope = _slip_and_log_slope(x, two_lambda)
+        return math.log(x * x * cc) - log_target, 2.0 + slope
+
+    lo, hi = _ratio_bracket(d, r)
+    return math.exp(newton_bracketed(g, lo, hi, math.log(d) + 0.5 * math.log(r)))
 
 
 def _ratio_bracket(d: float, r: float) -> tuple[float, float]:
