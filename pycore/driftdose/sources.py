@@ -159,6 +159,17 @@ SOURCES: dict[str, str] = {
         "cylinders and slides, and the efficiency of impaction of the droplets. J. Colloid "
         "Sci. 4:103-136 (impaction on an isolated cylinder)."
     ),
+    "en689_2018": (
+        "EN 689:2018+AC:2019. Workplace exposure - Measurement of exposure by inhalation to "
+        "chemical agents - Strategy for testing compliance with occupational exposure limit "
+        "values (8-h time-weighted average over the 8-h reference period; 15-min short-term "
+        "reference period; cited from memory)."
+    ),
+    "en529_2005": (
+        "EN 529:2005. Respiratory protective devices - Recommendations for selection, use, "
+        "care and maintenance (assigned protection factor: ambient over inhaled "
+        "concentration; cited from memory)."
+    ),
 }
 
 

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 from types import ModuleType
 
-from . import burden, deposition, motion, sampling, uncertainty
+from . import burden, deposition, motion, sampling, shift, uncertainty
 
 CALCULATIONS: dict[str, ModuleType] = {
     "motion": motion,
@@ -15,4 +15,5 @@ CALCULATIONS: dict[str, ModuleType] = {
     "sampling": sampling,
     "burden": burden,
     "uncertainty": uncertainty,
+    "shift": shift,
 }

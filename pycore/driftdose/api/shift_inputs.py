@@ -1,0 +1,300 @@
+"""Reading the shift calculation's structured inputs: column records, periods, benchmark.
+
+Every list and record is checked as a hostile sender could shape it: lists bounded, records
+plain objects with only the declared keys (``__proto__`` and other unknown keys are refused
+and named), values of the declared types. Errors name the path of the sub-field at fault,
+e.g. ``periods.2.end`` or ``quantity_columns.0.column`` (indices from 0), and the message
+says the place in words (period 3).
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+from ..shift.clock import DAY, ClockError, parse_clock_time, parse_iso
+from ..shift.periods import MAX_PERIODS, PERIOD_KINDS, Period
+from .fields import FieldError
+from .units import canonical_unit, to_si, unit_label
+
+__all__ = [
+    "COLUMN_QUANTITIES",
+    "MAX_COLUMNS",
+    "QUANTITY_UNITS",
+    "column_records",
+    "parse_benchmark",
+    "parse_periods",
+    "quantity_scale",
+]
+
+MAX_COLUMNS = 128
+"""Most column records (value columns and size channels)."""
+
+COLUMN_QUANTITIES = ("number", "ldsa", "mass", "channel")
+"""What a value column holds."""
+
+QUANTITY_UNITS: dict[str, dict[str, float]] = {
+    "number": {"1/cm3": 1e6, "1/m3": 1.0},
+    "channel": {"1/cm3": 1e6, "1/m3": 1.0},
+    "ldsa": {"um2/cm3": 1e-6, "m2/m3": 1.0},
+    "mass": {"ug/m3": 1e-9, "mg/m3": 1e-6, "kg/m3": 1.0},
+}
+"""Accepted units per quantity, factor to SI (1/m³, m²/m³, kg/m³)."""
+
+_UNIT_ALIASES = {
+    "#/cm3": "1/cm3",
+    "#/cm³": "1/cm3",
+    "1/cm³": "1/cm3",
+    "cm-3": "1/cm3",
+    "cm^-3": "1/cm3",
+    "pt/cc": "1/cm3",
+    "p/cc": "1/cm3",
+    "1/cc": "1/cm3",
+    "#/cc": "1/cm3",
+    "µm²/cm³": "um2/cm3",
+    "μm²/cm³": "um2/cm3",
+    "µm2/cm3": "um2/cm3",
+    "um²/cm³": "um2/cm3",
+    "um^2/cm^3": "um2/cm3",
+    "m²/m³": "m2/m3",
+    "µg/m³": "ug/m3",
+    "µg/m3": "ug/m3",
+    "μg/m3": "ug/m3",
+    "μg/m³": "ug/m3",
+    "ug/m³": "ug/m3",
+    "mg/m³": "mg/m3",
+    "1/m³": "1/m3",
+    "m-3": "1/m3",
+}
+
+DEFAULT_UNIT = {"number": "1/cm3", "channel": "1/cm3", "ldsa": "um2/cm3", "mass": "ug/m3"}
+
+UNIT_LABELS = {"um2/cm3": "µm²/cm³", "m2/m3": "m²/m³"}
+
+SI_UNITS = {"number": "1/m³", "channel": "1/m³", "ldsa": "m²/m³", "mass": "kg/m³"}
+
+
+def unit_text(unit: str) -> str:
+    """Label of a unit of :data:`QUANTITY_UNITS`."""
+    return UNIT_LABELS.get(unit, unit_label(unit))
+
+
+def canonical(quantity: str, unit: Any) -> str | None:
+    """Canonical spelling of ``unit`` for ``quantity``, or None when it is not one of its."""
+    if not isinstance(unit, str):
+        return None
+    u = unit.strip()
+    u = _UNIT_ALIASES.get(u, u)
+    return u if u in QUANTITY_UNITS[quantity] else None
+
+
+def quantity_scale(quantity: str, unit: str) -> float:
+    """Factor from ``unit`` to SI for ``quantity``."""
+    return QUANTITY_UNITS[quantity][unit]
+
+
+def _record(raw: Any, path: str, where: str, keys: tuple[str, ...]) -> dict[str, Any]:
+    if not isinstance(raw, dict):
+        raise FieldError(path, f"{where}: expected an object with {', '.join(keys)}.")
+    for k in raw:
+        if k not in keys:
+            shown = repr(k[:30]) if isinstance(k, str) else "a non-text key"
+            raise FieldError(
+                f"{path}.{k}" if isinstance(k, str) and k.isidentifier() else path,
+                f"{where}: unknown entry {shown}; valid: {', '.join(keys)}.",
+            )
+    for k, v in raw.items():
+        if isinstance(v, list) or (isinstance(v, dict) and set(v) - {"value", "unit"}):
+            raise FieldError(f"{path}.{k}", f"{where}: {k} must be a plain value.")
+    return raw
+
+
+def _text(raw: Any, path: str, what: str, limit: int = 80, required: bool = True) -> str:
+    if raw is None or (isinstance(raw, str) and not raw.strip()):
+        if required:
+            raise FieldError(path, f"{what} is required.")
+        return ""
+    if isinstance(raw, bool) or not isinstance(raw, str | int):
+        raise FieldError(path, f"{what} must be text.")
+    text = str(raw)
+    if len(text) > limit:
+        raise FieldError(path, f"{what}: at most {limit} characters.")
+    return text.strip()
+
+
+def _list(raw: Any, field: str, limit: int, what: str) -> list[Any]:
+    if raw is None:
+        return []
+    if not isinstance(raw, list):
+        raise FieldError(field, f"{what} must be a list.")
+    if len(raw) > limit:
+        raise FieldError(field, f"At most {limit} {what}; {len(raw)} were given.")
+    return raw
+
+
+def _number(raw: Any, path: str, what: str) -> float:
+    value = raw.get("value") if isinstance(raw, dict) else raw
+    if isinstance(value, str):
+        text = value.strip().replace("\u2212", "-").replace(" ", "")
+        if text.count(",") == 1 and "." not in text:
+            text = text.replace(",", ".")
+        if "_" in text:
+            raise FieldError(path, f"{what}: {value[:20]!r} is not a number.")
+        try:
+            value = float(text)
+        except ValueError:
+            raise FieldError(path, f"{what}: {value[:20]!r} is not a number.") from None
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise FieldError(path, f"{what}: enter a number.")
+    try:
+        x = float(value)
+    except OverflowError:
+        x = math.inf
+    if not math.isfinite(x):
+        raise FieldError(path, f"{what}: enter a finite number.")
+    return x
+
+
+def column_records(raw: Any, field: str = "quantity_columns") -> list[dict[str, Any]]:
+    """Value-column records ``{column, quantity, unit, diameter}`` checked and in SI.
+
+    Returns dicts with ``column`` (text), ``quantity``, ``unit`` (canonical or "" to read it
+    from the header), ``diameter`` (m, channels only) and ``path``.
+    """
+    items = _list(raw, field, MAX_COLUMNS, "columns")
+    out = []
+    for i, item in enumerate(items):
+        path = f"{field}.{i}"
+        where = f"Column {i + 1}"
+        rec = _record(item, path, where, ("column", "quantity", "unit", "diameter"))
+        column = _text(rec.get("column"), f"{path}.column", f"{where}: the column")
+        quantity = rec.get("quantity", "number")
+        if quantity not in COLUMN_QUANTITIES:
+            raise FieldError(
+                f"{path}.quantity",
+                f"{where}: the quantity must be one of {', '.join(COLUMN_QUANTITIES)}.",
+            )
+        unit_raw = rec.get("unit")
+        unit = ""
+        if unit_raw not in (None, ""):
+            unit = canonical(quantity, unit_raw) or ""
+            if not unit:
+                offered = ", ".join(unit_text(u) for u in QUANTITY_UNITS[quantity])
+                raise FieldError(
+                    f"{path}.unit",
+                    f"{where}: unknown unit {str(unit_raw)[:20]!r}; use one of {offered}.",
+                )
+        diameter = None
+        if quantity == "channel":
+            d = rec.get("diameter")
+            if d is None:
+                raise FieldError(f"{path}.diameter", f"{where}: a size channel needs its diameter.")
+            unit_d = d.get("unit", "nm") if isinstance(d, dict) else "nm"
+            x = _number(d, f"{path}.diameter", f"{where} diameter")
+            try:
+                diameter = to_si(x, "length", canonical_unit("length", str(unit_d)))
+            except KeyError:
+                raise FieldError(
+                    f"{path}.diameter", f"{where}: the diameter unit must be nm or µm."
+                ) from None
+            if not 1e-9 <= diameter <= 100e-6:
+                raise FieldError(
+                    f"{path}.diameter", f"{where}: the diameter must be from 1 nm to 100 µm."
+                )
+        out.append(
+            {
+                "column": column,
+                "quantity": quantity,
+                "unit": unit,
+                "diameter": diameter,
+                "path": path,
+            }
+        )
+    return out
+
+
+def parse_benchmark(raw: Any, quantity: str, field: str = "benchmark") -> float | None:
+    """The benchmark ``{value, unit}`` in SI of ``quantity``; None when none is given."""
+    if raw is None or raw == "" or (isinstance(raw, dict) and raw.get("value") in (None, "")):
+        return None
+    unit_raw = raw.get("unit") if isinstance(raw, dict) else None
+    if isinstance(raw, dict) and set(raw) - {"value", "unit"}:
+        raise FieldError(field, "The benchmark is a value and its unit.")
+    unit = canonical(quantity, unit_raw if unit_raw is not None else DEFAULT_UNIT[quantity])
+    if unit is None:
+        offered = ", ".join(unit_text(u) for u in QUANTITY_UNITS[quantity])
+        raise FieldError(
+            field, f"The benchmark's unit must be one of {offered} (the summarised quantity's)."
+        )
+    x = _number(raw, field, "The benchmark")
+    if not x > 0.0:
+        raise FieldError(field, "The benchmark must be above 0.")
+    return x * quantity_scale(quantity, unit)
+
+
+PERIOD_KEYS = ("label", "kind", "start", "end", "activity", "route", "protection_factor")
+
+
+def _time(raw: Any, path: str, what: str, start: float, end: float) -> float:
+    """A period time as seconds from the first reading (``start``: its clock time)."""
+    if isinstance(raw, bool) or not isinstance(raw, str) or not raw.strip():
+        raise FieldError(path, f"{what}: give a time (hh:mm, hh:mm:ss or 2026-03-05T08:00).")
+    text = raw.strip()
+    if len(text) > 40:
+        raise FieldError(path, f"{what}: a time is at most 40 characters.")
+    try:
+        if len(text) <= 12 and "-" not in text:
+            of_day = parse_clock_time(text)
+            first_day = math.floor(start / DAY) * DAY
+            clock = first_day + of_day
+            if clock < start and first_day + DAY + of_day <= end:
+                clock += DAY  # a clock time before the first reading: the next day's
+        else:
+            clock, offset = parse_iso(text)
+            if offset is not None:
+                raise FieldError(path, f"{what}: write the local time without a UTC offset.")
+    except ClockError as exc:
+        raise FieldError(path, f"{what}: {exc.message}") from None
+    return clock - start
+
+
+def parse_periods(raw: Any, start: float, end: float, field: str = "periods") -> list[Period]:
+    """Period records to :class:`~driftdose.shift.periods.Period` (times from the first
+    reading, whose clock time is ``start``; ``end`` is the clock time of the logged end)."""
+    from ..deposition import ACTIVITIES, ROUTES
+
+    items = _list(raw, field, MAX_PERIODS, "periods")
+    out = []
+    for i, item in enumerate(items):
+        path = f"{field}.{i}"
+        where = f"Period {i + 1}"
+        rec = _record(item, path, where, PERIOD_KEYS)
+        label = _text(rec.get("label"), f"{path}.label", f"{where}: the label", required=False)
+        kind = rec.get("kind", "task")
+        if kind not in PERIOD_KINDS:
+            raise FieldError(
+                f"{path}.kind", f"{where}: the kind must be one of {', '.join(PERIOD_KINDS)}."
+            )
+        label = label or f"{kind.capitalize()} {i + 1}"
+        t0 = _time(rec.get("start"), f"{path}.start", f"{where} start", start, end)
+        t1 = _time(rec.get("end"), f"{path}.end", f"{where} end", start, end)
+        act = rec.get("activity", "light_exercise") or "light_exercise"
+        if act not in ACTIVITIES:
+            raise FieldError(
+                f"{path}.activity", f"{where}: the activity must be one of {', '.join(ACTIVITIES)}."
+            )
+        route = rec.get("route", "mixed") or "mixed"
+        if route not in ROUTES:
+            raise FieldError(
+                f"{path}.route", f"{where}: the route must be one of {', '.join(ROUTES)}."
+            )
+        pf_raw = rec.get("protection_factor")
+        pf = 1.0 if pf_raw in (None, "") else _number(pf_raw, f"{path}.protection_factor", where)
+        if not 1.0 <= pf <= 100_000.0:
+            raise FieldError(
+                f"{path}.protection_factor",
+                f"{where}: the assigned protection factor must be from 1 (no protection) to "
+                "100000; enter the factor that applies to the device worn.",
+            )
+        out.append(Period(label, kind, t0, t1, act, route, pf))
+    return out

@@ -1,0 +1,395 @@
+"""Shaping the shift calculation's reply (layout in :mod:`driftdose.api.shift`), and reading
+its dose choices into the composer's :class:`~driftdose.compose.shift.DoseSetup`."""
+
+from __future__ import annotations
+
+import itertools
+from collections.abc import Callable
+from typing import Any
+
+from ..compose.shift import DoseSetup, ShiftResult
+from ..distribution import BinnedSpectrum
+from ..shift.periods import Period
+from ..shift.reader import Table
+from ..shift.series import TimeSeries
+from ..shift.stats import PeriodStats
+from ..shift.thin import thin_minmax
+from ..sources import cite
+from ..spectrum import SpectrumError, parse_spectrum_csv
+from .deposition import REGION_LABELS
+from .fields import FieldError
+from .shift_inputs import SI_UNITS, quantity_scale, unit_text
+
+__all__ = ["dose_setup", "shape"]
+
+PREVIEW_ROWS = 10
+CURVE_POINTS = 2000
+QUANTITY_WORDS = {
+    "number": "Number concentration",
+    "ldsa": "LDSA",
+    "mass": "Mass concentration",
+    "channel": "Size channel",
+}
+DOSE_UNITS = {"number": (1.0, "particles"), "surface": (1e-6, "mm²"), "mass": (1e-9, "µg")}
+RULE_WORDS = {
+    "zero": "unmeasured time of the 8 h counted as zero",
+    "background": "unmeasured time of the 8 h counted at the mean background",
+    "excluded": "mean over the measured time (unmeasured time left out)",
+}
+
+
+def dose_setup(
+    v: dict[str, Any],
+    columns: list[dict[str, Any]],
+    units: tuple[str, ...],
+    q_index: int,
+    parse_modes: Callable[[Any, float, float], Any],
+) -> DoseSetup | None:
+    """The dose choices as the composer takes them (None for no dose)."""
+    source = v["size_source"]
+    if source == "none":
+        return None
+    rho, chi = v["particle_density"], v["shape_factor"]
+    corrected = v["dose_basis"] == "corrected"
+    if source == "channels":
+        chans = sorted(
+            (c["diameter"], str(i)) for i, c in enumerate(columns) if c["quantity"] == "channel"
+        )
+        if len(chans) < 2:
+            raise FieldError("quantity_columns", "Add at least two size-channel columns.")
+        for (d0, _), (d1, k1) in itertools.pairwise(chans):
+            if d1 <= d0:
+                raise FieldError(
+                    f"quantity_columns.{k1}.diameter", "Two size channels have the same diameter."
+                )
+        return DoseSetup(
+            "channels",
+            channel_keys=tuple(k for _, k in chans),
+            channel_diameters=tuple(d for d, _ in chans),
+            channel_per_log10=v["channel_type"] == "dN/dlogDp",
+            density=rho,
+            shape_factor=chi,
+            model=v["model"],
+            corrected=corrected,
+        )
+    scale = (v.get("scale_column") or "").strip()
+    s_index = q_index
+    if scale:
+        match = [i for i, c in enumerate(columns) if c["column"].lower() == scale.lower()]
+        if not match:
+            raise FieldError("scale_column", f"{scale[:40]!r} is none of the value columns.")
+        s_index = match[0]
+    s_quantity = columns[s_index]["quantity"]
+    if s_quantity == "channel":
+        raise FieldError("scale_column", "Scale to a number, mass or LDSA column.")
+    if source == "modes":
+        shape = parse_modes(v.get("modes"), rho, chi)
+    else:
+        shape = _spectrum(v, rho, chi)
+    return DoseSetup(
+        source,
+        shape=shape,
+        scale_key=str(s_index),
+        scale_quantity=s_quantity,
+        model=v["model"],
+        corrected=corrected,
+    )
+
+
+def _spectrum(v: dict[str, Any], rho: float, chi: float) -> BinnedSpectrum:
+    text = v.get("spectrum_text")
+    if not isinstance(text, str) or not text.strip():
+        raise FieldError("spectrum_text", "Choose a CSV file with the spectrum.")
+    try:
+        imported = parse_spectrum_csv(
+            text,
+            v.get("spectrum_diameter_column") or "1",
+            v.get("spectrum_concentration_column") or "2",
+            v.get("spectrum_concentration_type") or "dN/dlogDp",
+            1e-9 if v["spectrum_diameter_unit"] == "nm" else 1e-6,
+            1e6,
+        )
+    except SpectrumError as exc:
+        raise FieldError("spectrum_text", str(exc)) from None
+    if not (1e-9 * 0.999 <= imported.diameters[0] and imported.diameters[-1] <= 100e-6 * 1.001):
+        raise FieldError("spectrum_text", "The diameters must lie from 1 nm to 100 µm.")
+    if sum(imported.numbers) <= 0.0:
+        raise FieldError("spectrum_text", "All concentrations in the spectrum are zero.")
+    return imported.to_distribution(rho, chi)
+
+
+def _q(x: float | None, f: float) -> float | None:
+    return None if x is None else x / f
+
+
+def _row(p: Period | None, st: PeriodStats, f: float, series: TimeSeries) -> dict[str, Any]:
+    out: dict[str, Any] = {}
+    if p is not None:
+        out.update(
+            {
+                "period": p.label,
+                "kind": p.kind,
+                "start": series.clock(p.start),
+                "end": series.clock(p.end),
+                "start_s": p.start,
+                "end_s": p.end,
+            }
+        )
+    out.update(
+        {
+            "duration_s": st.duration,
+            "coverage": st.coverage,
+            "readings": st.readings,
+            "mean": _q(st.mean, f),
+            "median": _q(st.median, f),
+            "p95": _q(st.p95, f),
+            "max": _q(st.maximum, f),
+            "peak15": _q(st.peak15, f),
+            "background": _q(st.background_mean, f),
+            "corrected_mean": _q(st.corrected_mean, f),
+            "below_background_share": st.below_background_share,
+            "ratio": st.ratio,
+            "share_above": st.share_above,
+        }
+    )
+    if p is not None:
+        out.update(
+            {
+                "activity": p.activity if p.kind == "task" else None,
+                "route": p.route if p.kind == "task" else None,
+                "protection_factor": p.protection_factor if p.kind == "task" else None,
+            }
+        )
+    return out
+
+
+def _import(table: Table, series: TimeSeries, v: dict[str, Any], prefix: str) -> dict[str, Any]:
+    rec = v.get(f"{prefix}file")
+    file = None
+    if isinstance(rec, dict):
+        file = {
+            k: rec[k]
+            for k in ("name", "sha256", "bytes")
+            if isinstance(rec.get(k), str | int) and not isinstance(rec.get(k), bool)
+        }
+        file = {k: (x[:200] if isinstance(x, str) else x) for k, x in file.items()}
+    return {
+        "rows": len(series.t),
+        "columns": [{"name": h, "unit": u} for h, u in zip(table.header, table.units, strict=True)],
+        "header_line": table.header_line,
+        "delimiter": table.delimiter_name,
+        "decimal": table.decimal,
+        "interval_s": series.interval,
+        "start": series.clock(0.0),
+        "end": series.clock(series.end),
+        "gaps": [
+            {"start": series.clock(g.start), "end": series.clock(g.end), "seconds": g.seconds}
+            for g in series.gaps[:200]
+        ],
+        "gap_count": len(series.gaps),
+        "file": file,
+    }
+
+
+def _curve(series: TimeSeries, cols: list[tuple[str, str, str, Any, float]]) -> dict[str, Any]:
+    """Thinned columns: (key, label, unit label, values in SI, factor to SI)."""
+    t, ys = thin_minmax(
+        series.t,
+        [vals for *_, vals, _ in cols],
+        CURVE_POINTS,
+        [g.start for g in series.gaps],
+    )
+    return {
+        "start": series.clock(0.0),
+        "x_label": "Time since the first reading",
+        "x_unit": "s",
+        "t_s": t,
+        "series": [
+            {"key": k, "label": lab, "unit": u, "y": [None if y is None else y / f for y in ys[i]]}
+            for i, (k, lab, u, _, f) in enumerate(cols)
+        ],
+        "gaps": [{"start_s": g.start, "end_s": g.end} for g in series.gaps[:200]],
+    }
+
+
+def _plain(label: str, si: float | None, f: float, unit: str, si_unit: str, note: str = "") -> Any:
+    if si is None:
+        return {"label": label, "text": "not available", "note": note}
+    return {
+        "label": label,
+        "symbol": "",
+        "value": si / f,
+        "unit": unit,
+        "si": si,
+        "si_unit": si_unit,
+        "note": note,
+    }
+
+
+def shape(
+    v: dict[str, Any],
+    table: Table,
+    series: TimeSeries,
+    columns: list[dict[str, Any]],
+    units: tuple[str, ...],
+    q_index: int,
+    unit: str,
+    r: ShiftResult,
+    far_table: Table | None,
+    far: TimeSeries | None,
+    far_unit: str,
+) -> dict[str, Any]:
+    """The reply of the shift calculation (layout in :mod:`driftdose.api.shift`)."""
+    quantity = columns[q_index]["quantity"]
+    f = quantity_scale(quantity, unit)
+    shown = unit_text(unit)
+    si_unit = SI_UNITS[quantity]
+    warnings: list[str] = list(r.notes)
+    results: dict[str, Any] = {
+        "import": _import(table, series, v, "series_"),
+        "preview": {
+            "header": list(table.header),
+            "rows": [cells[:40] for _, cells in table.rows[:PREVIEW_ROWS]],
+        },
+    }
+    if far is not None and far_table is not None:
+        results["background_import"] = _import(far_table, far, v, "background_")
+    rows = []
+    for i, (p, st) in enumerate(r.periods):
+        row = {"index": i, **_row(p, st, f, series)}
+        rows.append(row)
+        if st.coverage < 0.9:
+            warnings.append(
+                f"Period {p.label!r}: readings cover {st.coverage:.0%} of it (gaps or missing "
+                "values)."
+            )
+        if st.peak15 is None and p.duration >= 900:
+            warnings.append(f"Period {p.label!r}: no 15-minute window is half measured.")
+    results["tasks"] = {"label": "Periods", "unit": shown, "rows": rows}
+    s = r.shift
+    shift_row = {
+        "period": "Shift",
+        "start": series.clock(r.span[0]),
+        "end": series.clock(r.span[1]),
+        **_row(None, s, f, series),
+        "twa8h": _q(r.twa8h, f),
+        "twa8h_corrected": _q(r.twa8h_corrected, f),
+        "twa_ratio": r.twa_ratio,
+        "unmeasured_s": r.unmeasured,
+        "unmeasured_as": RULE_WORDS[r.unmeasured_as],
+        "background_method": r.background.words,
+    }
+    results["shift"] = {"label": "Shift", "unit": shown, "rows": [shift_row]}
+    twa_label = "8-h TWA" if r.unmeasured_as != "excluded" else "Mean over measured time"
+    results["twa8h"] = _plain(twa_label, r.twa8h, f, shown, si_unit, RULE_WORDS[r.unmeasured_as])
+    if r.twa8h_corrected is not None:
+        results["twa8h_corrected"] = _plain(
+            f"{twa_label}, background-corrected", r.twa8h_corrected, f, shown, si_unit
+        )
+    if r.twa_ratio is not None:
+        results["twa_ratio"] = _plain("8-h TWA ÷ benchmark", r.twa_ratio, 1.0, "–", "1")
+    results["shift_mean"] = _plain("Shift mean (breaks left out)", s.mean, f, shown, si_unit)
+    results["shift_peak15"] = _plain("Highest 15-min mean", s.peak15, f, shown, si_unit)
+    results["shift_max"] = _plain("Highest reading", s.maximum, f, shown, si_unit)
+    results["coverage"] = _plain("Shift measured", s.coverage * 100, 1.0, "%", "%")
+    results["twa_rule"] = {"label": "TWA rule", "text": RULE_WORDS[r.unmeasured_as], "note": ""}
+    results["background_method"] = {
+        "label": "Background",
+        "text": r.background.words,
+        "note": "",
+    }
+    if series.gaps:
+        total = sum(g.seconds for g in series.gaps)
+        warnings.append(
+            f"{len(series.gaps)} gap(s) in the logging, {total / 60:.3g} min in all (a gap: a "
+            "spacing over twice the logging interval)."
+        )
+    negative = sum(1 for x in series.values[str(q_index)] if x is not None and x < 0)
+    if negative:
+        warnings.append(f"{negative} reading(s) below zero are used as logged.")
+    if series.end > 24 * 3600.0:
+        warnings.append("The file covers more than 24 h; mark the shift with periods.")
+    # curves
+    cols = [
+        (
+            f"c{i}",
+            f"{QUANTITY_WORDS[c['quantity']]} ({c['column']})",
+            unit_text(units[i]),
+            series.values[str(i)],
+            quantity_scale(c["quantity"], units[i]),
+        )
+        for i, c in enumerate(columns)
+        if c["quantity"] != "channel"
+    ]
+    if r.background.values is not None:
+        cols.append(("background", "Background used", shown, list(r.background.values), f))
+    curve = _curve(series, cols)
+    curve["periods"] = [
+        {"index": i, "label": p.label, "kind": p.kind, "start_s": p.start, "end_s": p.end}
+        for i, (p, _) in enumerate(r.periods)
+    ]
+    curves: dict[str, Any] = {"series": curve}
+    if far is not None:
+        bf = quantity_scale(quantity, far_unit)
+        far_curve = _curve(
+            far, [("far", "Far-field series", unit_text(far_unit), far.values["0"], bf)]
+        )
+        far_curve["offset_s"] = far.start - series.start
+        curves["background"] = far_curve
+    model = v["model"]
+    if r.dose is not None:
+        results["dose"] = _dose(r, series)
+        for i, why in r.dose.skipped:
+            warnings.append(f"Task {r.periods[i][0].label!r}: no dose ({why}).")
+        if not r.dose.tasks:
+            warnings.append("No task has a dose: mark task periods.")
+    keys = ["en689_2018", "hyndman_fan1996"]
+    if r.dose is not None:
+        keys += ["en529_2005", "icrp66" if model == "icrp66" else "hinds1999", "ldsa_fissan2007"]
+    return {"results": results, "curves": curves, "warnings": warnings, "sources": cite(*keys)}
+
+
+def _dose(r: ShiftResult, series: TimeSeries) -> dict[str, Any]:
+    assert r.dose is not None
+    regions = list(r.dose.regions)
+    tasks = []
+    rows = []
+    for i, td in r.dose.tasks:
+        p = r.periods[i][0]
+        entry: dict[str, Any] = {
+            "index": i,
+            "period": p.label,
+            "protection_factor": p.protection_factor,
+            "duration_s": p.duration,
+            "activity": p.activity,
+            "route": p.route,
+        }
+        for w, (fac, _) in DOSE_UNITS.items():
+            entry[w] = [td.result.doses[reg][w] / fac for reg in regions]
+        entry["ldsa"] = {k: x * 1e6 for k, x in td.ldsa.items()}  # µm²/cm³
+        tasks.append(entry)
+        rows.append(_dose_row(p.label, entry, regions))
+    total = {
+        w: [r.dose.totals[reg][w] / fac for reg in regions] for w, (fac, _) in DOSE_UNITS.items()
+    }
+    rows.append(_dose_row("Shift total", {"index": None, **total}, regions))
+    return {
+        "label": "Deposited dose per task",
+        "regions": regions,
+        "region_labels": [REGION_LABELS.get(k, k) for k in regions],
+        "units": {w: u for w, (_, u) in DOSE_UNITS.items()},
+        "ldsa_unit": "µm²/cm³",
+        "tasks": tasks,
+        "total": total,
+        "rows": rows,
+    }
+
+
+def _dose_row(label: str, entry: dict[str, Any], regions: list[str]) -> dict[str, Any]:
+    q = []
+    for w, (_, u) in DOSE_UNITS.items():
+        for k, reg in enumerate(regions):
+            q.append({"label": f"{reg} {w}", "value": entry[w][k], "unit": u})
+    for k, x in (entry.get("ldsa") or {}).items():
+        q.append({"label": f"LDSA {k}", "value": x, "unit": "µm²/cm³"})
+    return {"task": label, "protection_factor": entry.get("protection_factor"), "quantities": q}

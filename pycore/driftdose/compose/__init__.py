@@ -1,0 +1,3 @@
+"""Compositions of calculations: each module calls the models in order for one calculation,
+takes SI inputs and returns a frozen dataclass with documented units. Never imports
+:mod:`driftdose.api`."""
