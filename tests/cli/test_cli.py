@@ -626,9 +626,33 @@ def test_main_every_calculation_has_subcommand_with_title(capsys):
                 assert value in sub_help
 
 
-def test_main_every_calculation_runs_with_defaults(capsys):
+# A calculation on a logged file has no default file: the file is the user's measurement.
+# Without one its command names the missing file; with a small invented one it runs.
+NEEDS_FILE = {"shift": "series_text"}
+INVENTED_LOG = "time,number [1/cm3]\n" + "".join(
+    f"2026-03-05T08:{m:02d}:00,{1000 + 10 * m}\n" for m in range(60)
+)
+
+
+def _file_flags(kind: str, tmp_path) -> list[str]:
+    if kind not in NEEDS_FILE:
+        return []
+    path = tmp_path / f"{kind}-log.csv"
+    path.write_text(INVENTED_LOG, encoding="utf-8")
+    return ["--" + NEEDS_FILE[kind].replace("_", "-"), str(path)]
+
+
+def test_main_every_calculation_runs_with_defaults(capsys, tmp_path):
     for kind in CALCULATIONS:
         code, out, err = run_main(capsys, kind, "--format", "json")
+        if kind in NEEDS_FILE:
+            assert code == 2 and NEEDS_FILE[kind] in err, (kind, err)
+            flags = _file_flags(kind, tmp_path)
+            code, out, err = run_main(capsys, kind, "--format", "json", *flags)
+            assert code == 0, (kind, err)
+            inputs = {NEEDS_FILE[kind]: INVENTED_LOG}
+            assert json.loads(out) == api.handle({"kind": kind, "inputs": inputs})
+            continue
         assert code == 0, (kind, err)
         assert json.loads(out) == api.handle({"kind": kind, "inputs": {}})
 
@@ -638,7 +662,8 @@ def test_main_every_calculation_every_format(capsys, tmp_path, fmt):
     """Every registered calculation prints in every format and writes its curves, no crash."""
     for kind in CALCULATIONS:
         curves = tmp_path / f"{kind}-{fmt}.csv"
-        code, out, err = run_main(capsys, kind, "--format", fmt, "--curves", str(curves))
+        flags = _file_flags(kind, tmp_path)
+        code, out, err = run_main(capsys, kind, "--format", fmt, "--curves", str(curves), *flags)
         assert code == 0, (kind, err)
         assert out.strip()
         assert "Traceback" not in err

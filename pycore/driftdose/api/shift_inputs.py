@@ -254,7 +254,13 @@ def _time(raw: Any, path: str, what: str, start: float, end: float) -> float:
             if offset is not None:
                 raise FieldError(path, f"{what}: write the local time without a UTC offset.")
     except ClockError as exc:
-        raise FieldError(path, f"{what}: {exc.message}") from None
+        if (text[:4].isdigit() and text[4:5] == "-") or ":" in text:
+            raise FieldError(path, f"{what}: {exc.message}") from None
+        raise FieldError(
+            path,
+            f"{what}: {text[:40]!r} is not a time; write a clock time hh:mm or hh:mm:ss, or "
+            "a date and time 2026-03-05T08:00.",
+        ) from None
     return clock - start
 
 

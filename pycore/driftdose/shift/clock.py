@@ -68,9 +68,10 @@ def days_from_civil(year: int, month: int, day: int) -> int:
 
     Notes
     -----
-    The civil-from-days inverse of H. Hinnant, "chrono-Compatible Low-Level Date
-    Algorithms" (2013), function ``days_from_civil``: years start in March so that the leap
-    day is the last day of the year, eras of 400 years hold 146 097 days.
+    The algorithm ``days_from_civil`` of H. Hinnant, "chrono-Compatible Low-Level Date
+    Algorithms" (2013, from memory): years start in March so that the leap day is the last
+    day of the year; eras of 400 years hold 146 097 days. Checked against
+    :mod:`datetime` in the tests.
 
     Examples
     --------
@@ -131,7 +132,7 @@ def clock_text(seconds: float, with_date: bool = True) -> str:
     '2026-03-05T08:00:00.5'
 
     """
-    day, rest = divmod(seconds, DAY)
+    day, rest = divmod(round(seconds, 3), DAY)
     z = int(day) + 719468
     era = (z if z >= 0 else z - 146096) // 146097
     doe = z - era * 146097
@@ -141,7 +142,6 @@ def clock_text(seconds: float, with_date: bool = True) -> str:
     d = doy - (153 * mp + 2) // 5 + 1
     m = mp + 3 if mp < 10 else mp - 9
     y = yoe + era * 400 + (m <= 2)
-    rest = round(rest, 3)
     whole = int(rest)
     hh, mm, ss = whole // 3600, whole % 3600 // 60, whole % 60
     frac = rest - whole

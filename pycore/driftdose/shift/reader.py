@@ -5,10 +5,12 @@ the file, so that the reader shared by every measured file can take its place wi
 changes. Rules (common practice for instrument exports opened in spreadsheets):
 
 - the delimiter is a ``sep=X`` first line when there is one, else the first of semicolon,
-  tab and comma that splits the last lines of the file into the same number (≥ 2) of cells;
-- the header row is the line just above the first three consecutive data rows (rows of that
-  many cells with at least one number), so metadata lines above it are skipped; the user may
-  name the header line instead (``header_line``, counted from 1; 0 detects it);
+  tab and comma that splits two thirds of the last lines into the same number (≥ 2) of
+  cells, that number being the width of the table;
+- the header row is the nearest line above the first three consecutive data rows (rows of
+  that many cells with at least one number) that has as many cells, one of them a name
+  without digits; metadata lines above it are skipped; the user may name the header line
+  instead (``header_line``, counted from 1; 0 detects it);
 - when cells are not separated by commas, a comma inside a number is a decimal comma;
 - a unit written in brackets at the end of a header (``Number [1/cm³]``, ``LDSA (µm²/cm³)``)
   is read as that column's unit.
@@ -30,6 +32,7 @@ MAX_COLUMNS = 400
 """Most columns per row."""
 
 _NUMBER = re.compile(r"^\s*[+-]?(\d+([.,]\d*)?|[.,]\d+)([eE][+-]?\d+)?\s*$")
+_DIGIT = re.compile(r"\d")
 _SEP_LINE = re.compile(r'^\s*"?sep=(.)"?\s*$', re.IGNORECASE)
 _UNIT = re.compile(r"[\[(]\s*([^\[\]()]+?)\s*[\])]\s*$")
 _DELIMITERS = ((";", "semicolon"), ("\t", "tab"), (",", "comma"))
@@ -88,16 +91,28 @@ def _split(line: str, delimiter: str) -> list[str]:
     return next(csv.reader([line], delimiter=delimiter), [])
 
 
-def _detect(lines: list[str]) -> str:
+def _detect(lines: list[str]) -> tuple[str, int]:
+    """Delimiter and row width: the first of semicolon, tab and comma for which at least two
+    thirds of the last (up to 12) lines have the same number (≥ 2) of cells."""
     tail = [ln for ln in lines[-12:] if ln.strip()]
     for delim, _ in _DELIMITERS:
-        counts = {len(_split(ln, delim)) for ln in tail}
-        if len(counts) == 1 and min(counts) >= 2:
-            return delim
+        counts = [len(_split(ln, delim)) for ln in tail]
+        width = max(set(counts), key=counts.count)
+        if width >= 2 and 3 * counts.count(width) >= 2 * len(counts):
+            return delim, width
     raise TableError(
         "No column separator found: the last lines do not split into the same number of "
         "cells by semicolons, tabs or commas."
     )
+
+
+_NOT_NAMES = {"nan", "inf", "+inf", "-inf", "infinity", "na", "n/a", "null", "none", "-", "--"}
+
+
+def _is_name(cell: str) -> bool:
+    """A header name: text without digits that is not a number word (``NaN``, ``inf``)."""
+    c = cell.strip().strip('"').strip()
+    return bool(c) and not _DIGIT.search(c) and c.lower() not in _NOT_NAMES
 
 
 def _data_like(cells: list[str], width: int) -> bool:
@@ -132,13 +147,17 @@ def read_table(text: str, header_line: int = 0) -> Table:
 
     """
     lines = text.splitlines()
+    if not any(ln.strip() for ln in lines):
+        raise TableError("The file is empty.")
     first = 0
     sep = _SEP_LINE.match(lines[0]) if lines else None
     if sep:
         delimiter, first = sep.group(1), 1
+        tail = [ln for ln in lines[-12:] if ln.strip()]
+        counts = [len(_split(ln, delimiter)) for ln in tail]
+        width = max(set(counts), key=counts.count)
     else:
-        delimiter = _detect(lines)
-    width = len(_split(lines[-1] if lines[-1].strip() else _last(lines), delimiter))
+        delimiter, width = _detect(lines)
     if width > MAX_COLUMNS:
         raise TableError(f"The rows have {width} columns; at most {MAX_COLUMNS} are read.")
     if header_line:
@@ -185,18 +204,27 @@ def _last(lines: list[str]) -> str:
 
 
 def _find_header(lines: list[str], first: int, delimiter: str, width: int) -> int:
-    """Index of the header line (-1 when the data start without one)."""
+    """Index of the header line (-1 when the data start without one).
+
+    The first three consecutive data rows are found; the header is the nearest line above
+    them of the same width with a cell holding no digit (a name), passing over rows of digits
+    that are not numbers (a damaged data row is reported with its line, not taken as the
+    header); a line of another width ends the search.
+    """
     n = len(lines)
     for i in range(first, n):
         if not _data_like(_split(lines[i], delimiter), width):
             continue
         run = [j for j in range(i, min(n, i + 3)) if lines[j].strip()]
         if all(_data_like(_split(lines[j], delimiter), width) for j in run):
-            prev = i - 1
-            while prev >= first and not lines[prev].strip():
-                prev -= 1
-            if prev >= first and len(_split(lines[prev], delimiter)) == width:
-                return prev
+            for prev in range(i - 1, first - 1, -1):
+                if not lines[prev].strip():
+                    continue
+                cells = _split(lines[prev], delimiter)
+                if len(cells) != width:
+                    return -1
+                if any(_is_name(c) for c in cells):
+                    return prev
             return -1
     raise TableError(
         f"No data rows found: no three lines in a row of {width} cells with numbers "

@@ -5,8 +5,7 @@ a period's statistics use every reading whose interval overlaps the period, weig
 overlap. Definitions:
 
 - **mean**: time-weighted mean over the measured part of the period, Σ cᵢ tᵢ / Σ tᵢ (the
-  usual time-weighted average, EN 689:2018, 3.1.x, "time-weighted average concentration";
-  the clause number from memory);
+  usual time-weighted average concentration; common practice);
 - **median, 95th percentile**: of the readings, linear interpolation between order statistics
   (Hyndman & Fan 1996, Am. Stat. 50:361, definition 7; the default of spreadsheets and numpy);
 - **maximum**: the highest reading;
@@ -129,7 +128,7 @@ def percentile(sorted_values: Sequence[float], q: float) -> float:
 
     Examples
     --------
-    >>> percentile([1.0, 2.0, 3.0, 4.0], 0.5), percentile([1.0, 2.0, 3.0, 4.0], 0.95)
+    >>> percentile([1.0, 2.0, 3.0, 4.0], 0.5), round(percentile([1.0, 2.0, 3.0, 4.0], 0.95), 12)
     (2.5, 3.85)
 
     """

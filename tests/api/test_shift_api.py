@@ -1,0 +1,265 @@
+"""The shift calculation at the JSON boundary: reply shape, numbers equal to the core's,
+errors naming the sub-field, and hostile requests refused with nothing changed."""
+
+from __future__ import annotations
+
+import copy
+import json
+import math
+
+import pytest
+
+from driftdose import api, export
+from driftdose.compose.shift import compose_shift
+from driftdose.shift.clock import TimeParser
+from driftdose.shift.periods import Period
+from driftdose.shift.reader import read_table
+from driftdose.shift.series import ColumnSpec, read_series
+
+
+def invented_log(hours: float = 8.0, step: int = 10, gap: tuple[int, int] | None = None) -> str:
+    """An invented logged file: metadata lines, units in the header, decimal commas."""
+    head = "Date;Time;Number [#/cm3];LDSA [um2/cm3]"
+    lines = ["Invented logger for tests", "Site;none", "", head]
+    for k in range(0, int(hours * 3600), step):
+        if gap and gap[0] <= k < gap[1]:
+            continue
+        h, m, s = 6 + k // 3600, k % 3600 // 60, k % 60
+        n = 2000 + 8000 * (1 + math.sin(k / 1500.0)) / 2
+        lines.append(f"05.03.2026;{h:02d}:{m:02d}:{s:02d};{n:.1f};{n / 200:.2f}")
+    text = "\n".join(lines) + "\n"
+    # decimal commas in the value cells only (the date keeps its points)
+    out = []
+    for line in text.splitlines():
+        cells = line.split(";")
+        if len(cells) == 4 and cells[2][:1].isdigit():
+            cells[2], cells[3] = cells[2].replace(".", ","), cells[3].replace(".", ",")
+        out.append(";".join(cells))
+    return "\n".join(out) + "\n"
+
+
+PERIODS = [
+    {"label": "Before work", "kind": "background", "start": "06:00", "end": "06:30"},
+    {
+        "label": "Grinding",
+        "kind": "task",
+        "start": "06:30",
+        "end": "09:00",
+        "protection_factor": 10,
+    },
+    {"label": "Lunch", "kind": "break", "start": "09:00", "end": "09:30"},
+    {
+        "label": "Welding",
+        "kind": "task",
+        "start": "09:30",
+        "end": "13:30",
+        "activity": "heavy_exercise",
+        "route": "mixed",
+    },
+    {"label": "After work", "kind": "background", "start": "13:30", "end": "14:00"},
+]
+
+
+def request(**extra):
+    inputs = {
+        "series_text": invented_log(),
+        "series_time_format": "day_first",
+        "series_time_column": "time",
+        "series_date_column": "date",
+        "quantity_columns": [
+            {"column": "number", "quantity": "number"},
+            {"column": "ldsa", "quantity": "ldsa"},
+        ],
+        "periods": copy.deepcopy(PERIODS),
+        "background_method": "pre_post",
+        "benchmark": {"value": 5000, "unit": "1/cm3"},
+    }
+    inputs.update(extra)
+    return {"kind": "shift", "inputs": inputs}
+
+
+def test_describe_lists_the_shift():
+    calc = api.describe()["calculations"]["shift"]
+    assert calc["title"] == "Shift exposure and dose from logged data"
+    names = {f["name"] for f in calc["fields"]}
+    assert {"series_text", "quantity_columns", "periods", "background_method"} <= names
+
+
+def test_reply_shape_and_numbers_equal_the_core():
+    reply = api.handle(request())
+    assert reply["ok"], reply
+    res = reply["results"]
+    imp = res["import"]
+    assert imp["header_line"] == 4 and imp["delimiter"] == "semicolon" and imp["decimal"] == ","
+    assert imp["interval_s"] == 10.0 and imp["rows"] == 8 * 360
+    assert [c["unit"] for c in imp["columns"]] == ["", "", "#/cm3", "um2/cm3"]
+    assert res["preview"]["header"] == ["Date", "Time", "Number", "LDSA"]
+    rows = res["tasks"]["rows"]
+    assert [r["period"] for r in rows] == [p["label"] for p in PERIODS]
+    assert res["tasks"]["unit"] == "1/cm³"
+    # the same numbers straight from the core, in 1/cm3
+    table = read_table(invented_log())
+    series = read_series(table, TimeParser("day_first"), 1, [ColumnSpec(2, "n", 1e6)], 0)
+    periods = [
+        Period("Before work", "background", 0.0, 1800.0),
+        Period("Grinding", "task", 1800.0, 10800.0, protection_factor=10.0),
+        Period("Lunch", "break", 10800.0, 12600.0),
+        Period("Welding", "task", 12600.0, 27000.0, "heavy_exercise"),
+        Period("After work", "background", 27000.0, 28800.0),
+    ]
+    core = compose_shift(series, "n", periods, "pre_post", "zero", 5e9)
+    for row, (_, st) in zip(rows, core.periods, strict=True):
+        assert row["mean"] == pytest.approx(st.mean / 1e6, rel=1e-12)
+        assert row["p95"] == pytest.approx(st.p95 / 1e6, rel=1e-12)
+        assert row["corrected_mean"] == pytest.approx(st.corrected_mean / 1e6, rel=1e-12)
+    shift = res["shift"]["rows"][0]
+    assert shift["twa8h"] == pytest.approx(core.twa8h / 1e6, rel=1e-12)
+    assert res["twa8h"]["value"] == pytest.approx(core.twa8h / 1e6, rel=1e-12)
+    assert "interpolated" in shift["background_method"]
+    # thinned series keep the extremes of the full series
+    curve = reply["curves"]["series"]
+    number = next(s for s in curve["series"] if s["key"] == "c0")
+    full = [x / 1e6 for x in series.values["n"]]
+    assert max(y for y in number["y"] if y is not None) == pytest.approx(max(full))
+    assert min(y for y in number["y"] if y is not None) == pytest.approx(min(full))
+    assert len(curve["t_s"]) <= 2100
+    # CSV export: the period and shift tables as blocks
+    text = export.results_csv(reply)
+    assert "\r\nPeriods\r\n" in text and "\r\nShift\r\n" in text and "Grinding" in text
+    json.dumps(reply, allow_nan=False)
+
+
+def test_dose_per_task_with_modes():
+    reply = api.handle(request(size_source="modes"))
+    assert reply["ok"], reply
+    dose = reply["results"]["dose"]
+    assert dose["regions"][-1] == "total" and [t["period"] for t in dose["tasks"]] == [
+        "Grinding",
+        "Welding",
+    ]
+    for w in ("number", "surface", "mass"):
+        for k in range(len(dose["regions"])):
+            assert dose["total"][w][k] == pytest.approx(sum(t[w][k] for t in dose["tasks"]))
+    assert "Deposited dose per task" in export.results_csv(reply)
+
+
+def test_gaps_are_reported():
+    reply = api.handle(request(series_text=invented_log(gap=(7200, 7800))))
+    assert reply["ok"], reply
+    gaps = reply["results"]["import"]["gaps"]
+    assert len(gaps) == 1 and gaps[0]["seconds"] == pytest.approx(600.0)  # 60 readings of 10 s
+    assert any("gap" in w for w in reply["warnings"])
+
+
+@pytest.mark.parametrize(
+    ("change", "field", "words"),
+    [
+        ({"periods": [{**PERIODS[1], "end": "06:00"}]}, "periods.0.end", "before or when"),
+        ({"periods": [PERIODS[0], {**PERIODS[0], "label": "x"}]}, "periods.1.start", "overlaps"),
+        (
+            {"periods": [PERIODS[0], PERIODS[1], {**PERIODS[2], "end": "23:00"}]},
+            "periods.2.end",
+            "after the logged time",
+        ),
+        ({"periods": [{**PERIODS[1], "start": "5:00"}]}, "periods.0.start", "before the first"),
+        (
+            {"periods": [{**PERIODS[1], "protection_factor": 0.5}]},
+            "periods.0.protection_factor",
+            "from 1",
+        ),
+        ({"periods": [{**PERIODS[1], "kind": "lunch"}]}, "periods.0.kind", "task, background"),
+        ({"periods": [{**PERIODS[1], "start": "half past six"}]}, "periods.0.start", "clock"),
+        (
+            {"quantity_columns": [{"column": "pm10", "quantity": "mass"}]},
+            "quantity_columns.0.column",
+            "no column matches",
+        ),
+        (
+            {"quantity_columns": [{"column": "number", "quantity": "number", "unit": "ppm"}]},
+            "quantity_columns.0.unit",
+            "unknown unit",
+        ),
+        (
+            {"quantity_columns": [{"column": "number", "quantity": "mass"}]},
+            "quantity_columns.0.unit",
+            "Give the unit",
+        ),
+        ({"series_time_format": "iso"}, "series_text", "Line 5:"),
+        ({"background_method": "far_field"}, "background_text", "far-field"),
+        ({"periods": [], "background_method": "marked_mean"}, "background_method", "background"),
+        ({"benchmark": {"value": 5, "unit": "mg/m3"}}, "benchmark", "unit"),
+        ({"unmeasured_as": "background", "background_method": "none"}, "unmeasured_as", "method"),
+        ({"series_text": None}, "series_text", "Choose"),
+    ],
+)
+def test_errors_name_the_sub_field(change, field, words):
+    req = request(**change)
+    before = copy.deepcopy(req)
+    reply = api.handle(req)
+    assert not reply["ok"]
+    assert reply["errors"][0]["field"] == field, reply
+    assert words in reply["errors"][0]["message"], reply
+    assert req == before  # nothing changed in the request
+
+
+HOSTILE = [
+    {"periods": [{"__proto__": {"polluted": 1}, "start": "07:00", "end": "08:00"}]},
+    {"periods": [{"constructor": {"prototype": {"x": 1}}, "start": "07:00", "end": "08:00"}]},
+    {"periods": [{**PERIODS[1], "extra": "x"}]},
+    {"periods": [{**PERIODS[1], "label": ["a"]}]},
+    {"periods": [{**PERIODS[1], "start": {"value": {"value": {}}}}]},
+    {"periods": [{**PERIODS[1], "start": 7}]},
+    {"periods": [{**PERIODS[1], "protection_factor": True}]},
+    {"periods": [{**PERIODS[1], "protection_factor": "1e400"}]},
+    {"periods": [{**PERIODS[1], "label": "x" * 10_000}]},
+    {"periods": [PERIODS[1]] * 100_000},
+    {"periods": "06:00-07:00"},
+    {"periods": {"0": PERIODS[1]}},
+    {"quantity_columns": [{"column": "number"}] * 10_000},
+    {"quantity_columns": [[["number"]]]},
+    {"quantity_columns": None},
+    {"quantity_columns": [{"column": {"$ne": 1}, "quantity": "number"}]},
+    {"quantity_columns": [{"column": "number", "quantity": "__proto__"}]},
+    {"series_text": 12345},
+    {"series_text": ["a", "b"]},
+    {"series_text": "\x00" * 100},
+    {"series_text": "a;b\n" * 300_000},
+    {"benchmark": {"value": float("nan"), "unit": "1/cm3"}},
+    {"benchmark": {"value": "1e999", "unit": "1/cm3"}},
+    {"benchmark": {"value": 1, "unit": "1/cm3", "__proto__": 1}},
+    {"quantity": {"toString": 1}},
+    {"series_header_line": 10**12},
+    {"series_time_column": "x" * 100_000},
+]
+
+
+def _deep(n: int):
+    out: list = []
+    for _ in range(n):
+        out = [out]
+    return out
+
+
+@pytest.mark.parametrize("change", [*HOSTILE, {"periods": _deep(200)}, {"modes": _deep(50)}])
+def test_hostile_inputs_are_refused_and_change_nothing(change):
+    good = api.handle(request())
+    req = request(**change)
+    if "modes" in change:
+        req["inputs"]["size_source"] = "modes"
+    before = copy.deepcopy(req)
+    reply = api.handle(req)
+    assert reply["ok"] is False, change
+    err = reply["errors"][0]
+    assert "Internal error" not in err["message"], err
+    assert len(err["message"]) < 400
+    assert req == before
+    assert api.handle(request()) == good  # nothing left behind
+    assert not hasattr(object, "polluted")
+
+
+def test_json_boundary_refuses_non_finite_and_deep_json():
+    text = json.dumps(request())
+    out = json.loads(api.handle_json(text))
+    assert out["ok"]
+    deep = '{"kind": "shift", "inputs": {"periods": ' + "[" * 100_000 + "]" * 100_000 + "}}"
+    assert json.loads(api.handle_json(deep))["ok"] is False
