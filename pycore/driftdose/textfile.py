@@ -3,7 +3,8 @@ page (through its calculation worker) and the command line both use, so a file r
 whichever front end opened it.
 
 Interface: :func:`decode_text` turns a file's bytes into a :class:`DecodedText` (the text, the
-encoding found, the file's size in bytes and notes for the user) or raises
+encoding found, the file's size in bytes, the SHA-256 of the bytes for the record and notes
+for the user) or raises
 :class:`TextFileError` with a plain message; :func:`decode_text_json` is the same for the
 worker (bytes in, JSON text out); :func:`size_text` writes a size as the messages do.
 
@@ -22,6 +23,7 @@ Order of the checks (common practice for text exchanged between office programs)
 from __future__ import annotations
 
 import codecs
+import hashlib
 import json
 from dataclasses import dataclass, field
 from typing import Any
@@ -72,6 +74,8 @@ class DecodedText:
         Characters that could not be decoded and were replaced by U+FFFD.
     notes : list of str
         What the user should know about the reading (an empty list for plain UTF-8).
+    sha256 : str
+        SHA-256 of the file's bytes as read (hex, 64 digits; FIPS 180-4), for the record.
 
     """
 
@@ -81,6 +85,7 @@ class DecodedText:
     size: int
     replaced: int = 0
     notes: list[str] = field(default_factory=list)
+    sha256: str = ""
 
 
 def size_text(size: int) -> str:
@@ -180,7 +185,8 @@ def decode_text(data: bytes | bytearray | memoryview, limit: int = MAX_BYTES) ->
             notes.append("The file is not UTF-8; it was read as Latin-1 (Windows-1252).")
     if replaced:
         notes.append(f"{replaced} character(s) that could not be read were replaced by �.")
-    return DecodedText(text, encoding, bom, size, replaced, notes)
+    digest = hashlib.sha256(raw).hexdigest()
+    return DecodedText(text, encoding, bom, size, replaced, notes, digest)
 
 
 _LATIN1_TABLE_MAP = {i: ch for i, ch in enumerate(_LATIN1_TABLE) if ord(ch) != i}
@@ -194,7 +200,7 @@ def decode_text_json(
     ``data`` may be a JavaScript ``Uint8Array`` as Pyodide passes it (read with its
     ``to_bytes``), or None with the file's ``size`` and ``name`` for a file too large to read
     at all. The reply is ``{"ok": true, "text", "encoding", "bom", "size", "size_text",
-    "replaced", "notes"}`` or ``{"ok": false, "message", "size"}``; it never raises.
+    "replaced", "notes", "sha256"}`` or ``{"ok": false, "message", "size"}``; it never raises.
     """
     if data is None:
         size = int(size or 0)
@@ -222,6 +228,7 @@ def decode_text_json(
             "size_text": size_text(d.size),
             "replaced": d.replaced,
             "notes": d.notes,
+            "sha256": d.sha256,
         },
         ensure_ascii=False,
     )

@@ -72,7 +72,7 @@ def test_parse_spectrum_csv_dnddp_conversion():
         ("", "empty", None),
         ("   \n\n", "no text", None),
         (b"\x00\x01\x02binary", "binary", None),
-        ("d n\n10 1\n20 2\n", "separator", None),
+        ("d\n10\n20\n", "separator", None),
         ("d,n\n10,1\nabc,2\n", "not a number", 3),
         ("d,n\n10,1\n20,x1\n", "not a number", 3),
         ("d,n\n-10,1\n20,2\n", "positive", 2),

@@ -65,11 +65,23 @@ def test_notes_above_header_with_columns_by_number():
     assert s.numbers[0] == pytest.approx(1200.5e6, rel=1e-15)
 
 
-def test_a_note_with_a_number_in_a_chosen_column_is_named_with_a_hint():
+def test_a_note_with_a_number_above_the_header_is_set_aside_for_columns_by_number():
+    # the header is the row above the data, so a note above it with a number in a chosen
+    # column no longer needs the columns by name
     text = "Flow;0,3\nd [nm];dN\n10,5;100\n20,5;200\n"
-    with pytest.raises(SpectrumError, match=r"^Line 1: .*header names"):
-        parse_spectrum_csv(text, 1, 2, "per_bin")
+    s = parse_spectrum_csv(text, 1, 2, "per_bin")
+    assert s.report["header_line"] == 2 and s.report["rows"] == 2
     assert parse_spectrum_csv(text, "d [nm]", "dN", "per_bin").report["rows"] == 2
+
+
+def test_a_header_line_given_by_the_user_wins():
+    text = "Flow;0,3\nd [nm];dN\n10,5;100\n20,5;200\n"
+    with pytest.raises(SpectrumError, match=r"^Line 2: the diameter cell 'd \[nm\]'") as exc:
+        parse_spectrum_csv(text, 1, 2, "per_bin", header_line=1)
+    assert exc.value.part == "file"
+    with pytest.raises(SpectrumError, match="Line 9 does not exist") as exc:
+        parse_spectrum_csv(text, 1, 2, "per_bin", header_line=9)
+    assert exc.value.part == "header_line"
 
 
 def test_a_gap_is_refused_with_its_line():

@@ -150,3 +150,12 @@ def test_any_bytes_decode_or_refuse_with_a_message(data):
     else:
         assert d.size == len(data)
         assert isinstance(d.text, str)
+
+
+def test_sha256_of_the_bytes_for_the_record():
+    # FIPS 180-2, appendix B.1: SHA-256("abc")
+    abc = "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad"
+    assert decode_text(b"abc").sha256 == abc
+    assert json.loads(decode_text_json(b"abc"))["sha256"] == abc
+    # the hash is of the bytes as picked, not of the decoded text
+    assert decode_text(codecs.BOM_UTF8 + b"abc").sha256 != abc
