@@ -10,6 +10,18 @@ from dataclasses import dataclass, field
 
 from .. import textfile
 from . import cells as _cells
+from .detect import (
+    DELIMITERS,
+    NO_SEPARATOR,
+    SAMPLE,
+    data_profile,
+    decimal_mark,
+    find_start,
+    fits,
+    is_summary,
+    pick_delimiter,
+    split_blanks,
+)
 from .units import HeaderUnit, is_unit
 
 __all__ = ["MAX_CHARS", "MAX_LINE", "Column", "Table", "TableError", "read_table"]
@@ -20,24 +32,8 @@ MAX_CHARS = textfile.MAX_BYTES
 MAX_LINE = 100_000
 """Longest line read, in characters (the csv module refuses cells above 131 072)."""
 
-DELIMITERS = (("\t", "tab"), (";", "semicolon"), (",", "comma"), (" ", "whitespace"))
-"""Separators tried, in the order that breaks a tie."""
-
-_SAMPLE = 400
-"""Rows examined from the top (and 50 from the end) to choose the separator and header."""
-
-_NO_SEPARATOR = (
-    "No column separator found: expected at least two columns of values (numbers, dates or "
-    "times) separated by commas, semicolons, tabs or blanks."
-)
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
 _SEP_LINE = re.compile(r'^\s*"?sep=(.)"?\s*$', re.IGNORECASE)
-_WHITESPACE_CELL = re.compile(r'"([^"]*)"|(\S+)')
-_SUMMARY = re.compile(
-    r"^(total|totals|sum|summe|gesamt|mean|average|avg|median|min|max|minimum|maximum|std|"
-    r"sd|count|n|moyenne|somme|end)\b",
-    re.IGNORECASE,
-)
 
 
 class TableError(ValueError):
@@ -179,13 +175,6 @@ class Table:
         return out
 
 
-def _split_whitespace(line: str) -> list[str]:
-    return [
-        m.group(1) if m.group(1) is not None else m.group(2)
-        for m in _WHITESPACE_CELL.finditer(line)
-    ]
-
-
 def _records(text: str, delim: str) -> tuple[list[tuple[int, list[str]]], list[int]]:
     """(first line, cells with blanks trimmed) of every record that is not blank, and the
     lines of the blank ones."""
@@ -197,7 +186,7 @@ def _records(text: str, delim: str) -> tuple[list[tuple[int, list[str]]], list[i
         if lines and not lines[-1]:
             lines.pop()  # the line break ending the last line starts no line
         for n, line in enumerate(lines, start=1):
-            cells = _split_whitespace(line)
+            cells = split_blanks(line)
             (out.append((n, cells)) if cells else blank.append(n))
         return out, blank
     reader = csv.reader(io.StringIO(text, newline=""), delimiter=delim)
@@ -234,124 +223,6 @@ def _check_text(text: object) -> str:
     if not text.strip().strip("\ufeff"):
         raise TableError("The file contains no text.")
     return text
-
-
-def _pick_delimiter(lines: list[str]) -> str:
-    """The separator giving at least two consistent columns with the most values."""
-    sample = [ln for ln in lines if ln.strip() and not ln.lstrip().startswith("#")]
-    sample = sample[:_SAMPLE] + sample[_SAMPLE:][-50:]
-    best: tuple[int, int, int, str] | None = None
-    for rank, (delim, _name) in enumerate(DELIMITERS):
-        if delim == " ":
-            rows = [_split_whitespace(ln) for ln in sample]
-        else:
-            rows = list(csv.reader(sample, delimiter=delim))
-        counts = [len(r) for r in rows if len(r) >= 2]
-        if not counts:
-            continue
-        mode = max(set(counts), key=lambda c: (counts.count(c), c))
-        fit = [r for r in rows if len(r) == mode]
-        values = sum(1 for r in fit for c in r if _cells.is_value(c))
-        score = (values, len(fit), -rank, delim)
-        if best is None or score > best:
-            best = score
-    if best is None:
-        raise TableError(_NO_SEPARATOR)
-    return best[3]
-
-
-def _compatible(a: list[str], b: list[str]) -> bool:
-    """Two rows of one kind: where both have a cell, both are values or both are text."""
-    return all(
-        not x or not y or _cells.is_value(x) == _cells.is_value(y)
-        for x, y in zip(a, b, strict=False)
-    )
-
-
-def _value_columns(rows: list[list[str]]) -> int:
-    """How many columns hold a value in some row."""
-    width = max((len(r) for r in rows), default=0)
-    return sum(any(i < len(r) and _cells.is_value(r[i]) for r in rows) for i in range(width))
-
-
-def _summary(cells: list[str]) -> bool:
-    """A summary row after the data: it starts with a word such as ``Total`` or ``Mean``, or
-    holds a single text cell (``End of file``)."""
-    filled = [c for c in cells if c]
-    if not filled or _cells.is_value(filled[0]):
-        return False
-    return len(filled) == 1 or bool(_SUMMARY.match(filled[0]))
-
-
-def _profile(rows: list[list[str]]) -> list[bool]:
-    """Which columns hold values in the data (its signature), from the last run of rows of
-    one kind at the end of ``rows``; up to three rows at the very end (a summary) may break
-    the run."""
-    tail = rows[-200:]
-    best: list[list[str]] = []
-    for skip in range(min(4, len(tail))):
-        end = len(tail) - 1 - skip
-        run = [tail[end]]
-        for i in range(end - 1, -1, -1):
-            if not _compatible(tail[i], tail[end]) or not _compatible(tail[i], tail[i + 1]):
-                break
-            run.append(tail[i])
-        if (_value_columns(run), len(run)) > (_value_columns(best), len(best)):
-            best = run
-    width = max((len(r) for r in best), default=0)
-    return [any(i < len(r) and r[i] and _cells.is_value(r[i]) for r in best) for i in range(width)]
-
-
-def _fits(cells: list[str], profile: list[bool]) -> bool:
-    """A data row: every value column holds a value or nothing, at least one a value."""
-    seen = False
-    for i, is_val in enumerate(profile):
-        if not is_val or i >= len(cells) or not cells[i]:
-            continue
-        if not _cells.is_value(cells[i]):
-            return False
-        seen = True
-    return seen
-
-
-def _data_like(cells: list[str], profile: list[bool]) -> bool:
-    """A data row, perhaps with a bad cell: it fits, or its first value-column cell is a value
-    and so are at least half of its value-column cells (a header's first cell is a name)."""
-    if _fits(cells, profile):
-        return True
-    filled = [cells[i] for i, v in enumerate(profile) if v and i < len(cells) and cells[i]]
-    if not filled or not _cells.is_value(filled[0]):
-        return False
-    return sum(map(_cells.is_value, filled)) * 2 >= len(filled)
-
-
-def _find_start(records: list[tuple[int, list[str]]], profile: list[bool]) -> int:
-    """Index of the first data record: it fits, and 90 % of the records after it do."""
-    top = records[:_SAMPLE]
-    fits = [_data_like(c, profile) for _, c in top]
-    if len(records) <= _SAMPLE:  # summary rows at the end do not count against the data
-        for _ in range(3):
-            if len(fits) > 1 and not fits[-1]:
-                fits.pop()
-        top = top[: len(fits)]
-    after = [0] * (len(top) + 1)
-    for i in range(len(top) - 1, -1, -1):
-        after[i] = after[i + 1] + fits[i]
-    for i, ok in enumerate(fits):
-        if ok and after[i] >= 0.9 * (len(top) - i):
-            return i
-    return 0
-
-
-def _decimal(rows: list[list[str]], delim: str) -> str:
-    comma = point = False
-    for r in rows:
-        for c in r:
-            shows_comma, shows_point = _cells.decimal_evidence(c)
-            comma, point = comma or shows_comma, point or shows_point
-    if delim == "," and not comma:
-        return "point"
-    return "comma" if comma and not point else "point"
 
 
 def read_table(text: str, header_line: int = 0) -> Table:
@@ -408,7 +279,10 @@ def read_table(text: str, header_line: int = 0) -> Table:
         notes.append(f"The first line {lines[0].strip()!r} named the separator.")
         text = "\n" + text[len(lines[0]) :].lstrip("\r").removeprefix("\n")
     else:
-        delim = _pick_delimiter(lines)
+        found = pick_delimiter(lines)
+        if found is None:
+            raise TableError(NO_SEPARATOR)
+        delim = found
     kept, blank = _records(text, delim)
     if not isinstance(header_line, int) or isinstance(header_line, bool) or header_line < -1:
         raise TableError(
@@ -440,10 +314,10 @@ def read_table(text: str, header_line: int = 0) -> Table:
             header[0] = header[0].lstrip("#").strip()
         above = kept[:i]
         body = [r for r in kept[i + 1 :] if r[1][0][:1] != "#"]
-        profile = _profile([c for _, c in body[:_SAMPLE]])
+        profile = data_profile([c for _, c in body[:SAMPLE]])
     else:
-        profile = _profile([c for _, c in content[-200:]])
-        start = 0 if header_line == -1 else _find_start(content, profile)
+        profile = data_profile([c for _, c in content[-200:]])
+        start = 0 if header_line == -1 else find_start(content, profile)
         first_data = content[start][0]
         above = kept[: next(i for i, r in enumerate(kept) if r[0] >= first_data)]
         body = content[start:]
@@ -459,12 +333,12 @@ def read_table(text: str, header_line: int = 0) -> Table:
                 header_line = content[start - 1][0]
     # summary rows after the data ("Total;;2150") do not fit the data's signature
     footer: list[tuple[int, list[str]]] = []
-    while len(body) > 1 and len(footer) < 5 and _summary(body[-1][1]):
-        if _fits(body[-1][1], profile):
+    while len(body) > 1 and len(footer) < 5 and is_summary(body[-1][1]):
+        if fits(body[-1][1], profile):
             break
         footer.insert(0, body.pop())
     if sum(profile) == 1:
-        raise TableError(_NO_SEPARATOR)
+        raise TableError(NO_SEPARATOR)
     if given and (not body or not any(profile)):
         raise TableError(
             f"Below line {header_line} there are no rows of numbers or times; give the line "
@@ -476,8 +350,8 @@ def read_table(text: str, header_line: int = 0) -> Table:
         raise TableError("The file has no data rows (only a header, blank or comment lines).")
     top = header_line or 0
     skipped = sum(1 for n in blank if n > top) + sum(1 for n in comments if n > top)
-    sample = [c for _, c in body[:_SAMPLE]] + [c for _, c in body[_SAMPLE:][-50:]]
-    decimal = _decimal(sample, delim)
+    sample = [c for _, c in body[:SAMPLE]] + [c for _, c in body[SAMPLE:][-50:]]
+    decimal = decimal_mark(sample, delim)
     from .columns import build_columns  # the column catalogue needs the rows read here
 
     columns = build_columns(header, units_row, body, profile, sample)
