@@ -49,7 +49,8 @@ def split_blanks(line: str) -> list[str]:
 
 
 def pick_delimiter(lines: list[str]) -> str | None:
-    """The separator giving at least two consistent columns with the most values."""
+    """The separator giving at least two consistent columns with the most values (ties
+    broken in the order of :data:`DELIMITERS`, then by the rows that agree)."""
     sample = [ln for ln in lines if ln.strip() and not ln.lstrip().startswith("#")]
     sample = sample[:SAMPLE] + sample[SAMPLE:][-50:]
     best: tuple[int, int, int, str] | None = None
@@ -64,7 +65,7 @@ def pick_delimiter(lines: list[str]) -> str | None:
         mode = max(set(counts), key=lambda c: (counts.count(c), c))
         fit = [r for r in rows if len(r) == mode]
         values = sum(1 for r in fit for c in r if _cells.is_value(c))
-        score = (values, len(fit), -rank, delim)
+        score = (values, -rank, len(fit), delim)
         if best is None or score > best:
             best = score
     return None if best is None else best[3]
