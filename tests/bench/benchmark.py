@@ -19,6 +19,10 @@ Measures in one run, on one server, in the same Chromium:
 - the heaviest core calculations in CPython, and the same requests in the page, with ratios;
 - the retained burden over 40 working years, and a 1000-sample propagation of the dose of a
   two-mode aerosol, in CPython and in the page;
+- the shift calculation on a 24 h file logged every second (86 400 rows, a date-time column and
+  two value columns): the first request (read, parse, summarise) and re-summarising after a
+  period moves (the parsed file is kept between requests), in CPython (`--cpython-only` prints
+  these and the other CPython figures without building or starting a browser);
 - the single-file edition: its size, and its time to ready from file:// divided by the served
   page's (cold, fresh contexts, alternating runs, medians).
 Targets are recorded in the README; this script only reports.
@@ -406,17 +410,83 @@ def _single_file_figures(build, browser, root: Path, base: str, runs: int) -> di
         }
 
 
+def shift_log_24h() -> str:
+    """An invented 24 h log at 1 s: ISO date-time, number concentration, LDSA (with gaps-free
+    sinusoidal values and a metadata line above the header)."""
+    import math
+
+    lines = ["Invented 24 h log for the benchmark", "Time,Number [1/cm3],LDSA [um2/cm3]"]
+    for k in range(86_400):
+        h, m, s = k // 3600, k % 3600 // 60, k % 60
+        n = 4000 + 3000 * math.sin(k / 2000.0) + (k * 7919 % 1000)
+        lines.append(f"2026-03-05 {h:02d}:{m:02d}:{s:02d},{n:.1f},{n / 150:.2f}")
+    return "\n".join(lines) + "\n"
+
+
+def _shift_figures(moves: int = 20) -> dict:
+    """First request and re-summaries of the shift calculation on a 24 h, 1 s file."""
+    text = shift_log_24h()
+    periods = [
+        {"label": "Before", "kind": "background", "start": "07:00", "end": "07:30"},
+        {"label": "Task 1", "kind": "task", "start": "07:30", "end": "10:00"},
+        {"label": "Break", "kind": "break", "start": "10:00", "end": "10:30"},
+        {"label": "Task 2", "kind": "task", "start": "10:30", "end": "15:00"},
+        {"label": "After", "kind": "background", "start": "15:00", "end": "15:30"},
+    ]
+    inputs = {
+        "series_text": text,
+        "quantity_columns": [
+            {"column": "number", "quantity": "number"},
+            {"column": "ldsa", "quantity": "ldsa"},
+        ],
+        "periods": periods,
+        "background_method": "pre_post",
+    }
+    cpu0, wall0 = time.process_time(), time.perf_counter()
+    reply = api.handle({"kind": "shift", "inputs": inputs})
+    first = (time.process_time() - cpu0, time.perf_counter() - wall0)
+    assert reply["ok"], reply
+    cpu, wall = [], []
+    for i in range(moves):
+        periods[1]["end"] = f"09:{10 + i:02d}"
+        periods[2]["start"] = periods[1]["end"]
+        c0, w0 = time.process_time(), time.perf_counter()
+        assert api.handle({"kind": "shift", "inputs": inputs})["ok"]
+        cpu.append(1e3 * (time.process_time() - c0))
+        wall.append(1e3 * (time.perf_counter() - w0))
+    return {
+        "file_MB": round(len(text.encode()) / 1048576, 2),
+        "rows": 86_400,
+        "first_request_cpu_s": round(first[0], 3),
+        "first_request_wall_s": round(first[1], 3),
+        "resummarise_cpu_ms_median": round(statistics.median(cpu), 1),
+        "resummarise_cpu_ms_p95": round(_pct(cpu, 0.95), 1),
+        "resummarise_wall_ms_p95": round(_pct(wall, 0.95), 1),
+    }
+
+
 def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--runs", type=int, default=5)
     parser.add_argument("--edits", type=int, default=40)
     parser.add_argument("--profile-runs", type=int, default=3)
+    parser.add_argument(
+        "--cpython-only", action="store_true", help="only the CPython figures (no build)"
+    )
     args = parser.parse_args()
+    if args.cpython_only:
+        figures = {"load_average_at_start": [round(x, 2) for x in os.getloadavg()]}
+        figures["icrp66_curves_200_sizes_cpython_ms"] = round(_icrp66_curves_ms(), 2)
+        figures["shift_24h_1s_cpython"] = _shift_figures()
+        figures["load_average_at_end"] = [round(x, 2) for x in os.getloadavg()]
+        print(json.dumps(figures, indent=2))
+        return 0
     from playwright.sync_api import sync_playwright
 
     build = _load_build()
     figures: dict = {"load_average_at_start": [round(x, 2) for x in os.getloadavg()]}
     figures["icrp66_curves_200_sizes_cpython_ms"] = round(_icrp66_curves_ms(), 2)
+    figures["shift_24h_1s_cpython"] = _shift_figures()
     with tempfile.TemporaryDirectory() as tmp:
         root = Path(tmp) / "site"
         root.mkdir()

@@ -109,3 +109,20 @@ def test_clock_time_of_day():
     assert parse_clock_time("07:05") == 7 * 3600 + 300
     with pytest.raises(ClockError):
         parse_clock_time("7 o'clock")
+
+
+@settings(max_examples=50)
+@given(st.lists(st.integers(0, 86_399_999), min_size=1, max_size=50), st.dates())
+def test_one_reader_over_many_rows_of_a_day(millis, day):
+    # rows after the first of a date take a shorter path; it must read the same
+    day = max(day, dt.date(1900, 1, 1))
+    iso, dmy = TimeParser("iso"), TimeParser("day_first")
+    base = dt.datetime.combine(min(day, dt.date(2200, 1, 1)), dt.time())
+    for ms in millis:
+        d = base + dt.timedelta(milliseconds=ms)
+        frac = f".{d.microsecond // 1000:03d}" if ms % 2 else ""
+        expected = _seconds(d) if ms % 2 else _seconds(d.replace(microsecond=0))
+        assert iso(d.strftime("%Y-%m-%d %H:%M:%S") + frac) == pytest.approx(expected, abs=1e-6)
+        assert dmy(d.strftime("%d/%m/%Y %H:%M:%S") + frac) == pytest.approx(expected, abs=1e-6)
+    with pytest.raises(ClockError, match="where earlier rows had none"):
+        iso(base.strftime("%Y-%m-%dT%H:%M:%S+01:00"))

@@ -47,6 +47,7 @@ Errors name the path of the field at fault: ``series_text`` ("Line 1234: ..."),
 from __future__ import annotations
 
 import functools
+from dataclasses import replace
 from typing import Any
 
 from ..distribution import LognormalMode, Multimodal
@@ -80,8 +81,9 @@ _TIME_FORMATS = (
 )
 
 
-def _file_fields(prefix: str, label: str, required: bool) -> tuple[Field, ...]:
-    return (
+def _file_fields(prefix: str, label: str, far: bool) -> tuple[Field, ...]:
+    when = ("background_method", ("far_field",)) if far else None
+    fields = (
         Field(
             f"{prefix}text",
             label,
@@ -126,12 +128,19 @@ def _file_fields(prefix: str, label: str, required: bool) -> tuple[Field, ...]:
             "",
             required=False,
             extra={"max_length": 40},
+            applies=(f"{prefix}time_format", ("elapsed_seconds",)),
         ),
+    )
+    return tuple(
+        f if f.applies is not None or when is None else replace(f, applies=when) for f in fields
     )
 
 
+_DOSE = ("size_source", ("channels", "modes", "spectrum"))
+
+
 FIELDS: tuple[Field, ...] = (
-    *_file_fields("series_", "Near-field (worker) time series file", True),
+    *_file_fields("series_", "Near-field (worker) time series file", False),
     Field(
         "quantity_columns",
         "Value columns",
@@ -149,7 +158,7 @@ FIELDS: tuple[Field, ...] = (
         help="The column (as named in the value columns) whose statistics and TWA are shown.",
         extra={"max_length": 80},
     ),
-    *_file_fields("background_", "Far-field (background) time series file", False),
+    *_file_fields("background_", "Far-field (background) time series file", True),
     Field(
         "background_column",
         "Far-field column of the same quantity",
@@ -157,6 +166,7 @@ FIELDS: tuple[Field, ...] = (
         "2",
         required=False,
         extra={"max_length": 80},
+        applies=("background_method", ("far_field",)),
     ),
     Field(
         "background_unit",
@@ -165,6 +175,7 @@ FIELDS: tuple[Field, ...] = (
         "",
         required=False,
         extra={"max_length": 20},
+        applies=("background_method", ("far_field",)),
     ),
     Field("periods", "Periods (tasks, background, breaks)", "data", [], required=False),
     Field(
@@ -217,6 +228,7 @@ FIELDS: tuple[Field, ...] = (
         "choice",
         "per_bin",
         choices=(("per_bin", "particles per channel (dN)"), ("dN/dlogDp", "dN/dlogDp")),
+        applies=("size_source", ("channels",)),
     ),
     Field(
         "modes",
@@ -226,6 +238,7 @@ FIELDS: tuple[Field, ...] = (
         required=False,
         help="Count median (volume-equivalent), GSD and the share of the particle number "
         "of each mode; the amount comes from the task's measurement.",
+        applies=("size_source", ("modes",)),
     ),
     Field(
         "spectrum_text",
@@ -234,9 +247,24 @@ FIELDS: tuple[Field, ...] = (
         None,
         required=False,
         extra={"max_bytes": 5 * 1024 * 1024, "accept": ".csv,.txt,.tsv"},
+        applies=("size_source", ("spectrum",)),
     ),
-    Field("spectrum_diameter_column", "Diameter column", "text", "1", required=False),
-    Field("spectrum_concentration_column", "Concentration column", "text", "2", required=False),
+    Field(
+        "spectrum_diameter_column",
+        "Diameter column",
+        "text",
+        "1",
+        required=False,
+        applies=("size_source", ("spectrum",)),
+    ),
+    Field(
+        "spectrum_concentration_column",
+        "Concentration column",
+        "text",
+        "2",
+        required=False,
+        applies=("size_source", ("spectrum",)),
+    ),
     Field(
         "spectrum_concentration_type",
         "Spectrum concentration is given",
@@ -247,6 +275,7 @@ FIELDS: tuple[Field, ...] = (
             ("dN/dlogDp", "per log10 of diameter (dN/dlogDp)"),
             ("dN/dDp", "per unit diameter (dN/dDp)"),
         ),
+        applies=("size_source", ("spectrum",)),
     ),
     Field(
         "spectrum_diameter_unit",
@@ -254,6 +283,7 @@ FIELDS: tuple[Field, ...] = (
         "choice",
         "nm",
         choices=(("nm", "nm"), ("um", "µm")),
+        applies=("size_source", ("spectrum",)),
     ),
     Field(
         "scale_column",
@@ -263,6 +293,7 @@ FIELDS: tuple[Field, ...] = (
         required=False,
         help="A number, mass or LDSA column (blank: the summarised column).",
         extra={"max_length": 80},
+        applies=("size_source", ("modes", "spectrum")),
     ),
     Field(
         "dose_basis",
@@ -273,9 +304,10 @@ FIELDS: tuple[Field, ...] = (
             ("measured", "Measured concentrations (what was breathed)"),
             ("corrected", "Background-corrected concentrations (the tasks' own share)"),
         ),
+        applies=_DOSE,
     ),
-    PARTICLE_DENSITY,
-    SHAPE_FACTOR,
+    replace(PARTICLE_DENSITY, applies=_DOSE),
+    replace(SHAPE_FACTOR, applies=_DOSE),
     Field(
         "model",
         "Deposition model",
@@ -285,6 +317,7 @@ FIELDS: tuple[Field, ...] = (
             ("icrp66", "ICRP 66 full regional model (ET1, ET2, BB, bb, AI)"),
             ("simplified", "Simplified fits to ICRP 66 (Hinds 1999)"),
         ),
+        applies=_DOSE,
     ),
 )
 

@@ -3,6 +3,7 @@ its dose choices into the composer's :class:`~driftdose.compose.shift.DoseSetup`
 
 from __future__ import annotations
 
+import bisect
 import itertools
 from collections.abc import Callable
 from typing import Any
@@ -191,25 +192,43 @@ def _import(table: Table, series: TimeSeries, v: dict[str, Any], prefix: str) ->
     }
 
 
+_THINNED: list[tuple[TimeSeries, tuple[str, ...], Any]] = []
+
+
 def _curve(series: TimeSeries, cols: list[tuple[str, str, str, Any, float]]) -> dict[str, Any]:
-    """Thinned columns: (key, label, unit label, values in SI, factor to SI)."""
-    t, ys = thin_minmax(
-        series.t,
-        [vals for *_, vals, _ in cols],
-        CURVE_POINTS,
-        [g.start for g in series.gaps],
-    )
+    """Thinned columns: (key, label, unit label, values in SI, factor to SI). The thinning of
+    a series read earlier is kept (the last two), so moving a period does not redo it."""
+    keys = tuple(k for k, *_ in cols)
+    hit = next((r for s, k, r in _THINNED if s is series and k == keys), None)
+    if hit is None:
+        hit = thin_minmax(
+            series.t, [vals for *_, vals, _ in cols], CURVE_POINTS, [g.start for g in series.gaps]
+        )
+        _THINNED.insert(0, (series, keys, hit))
+        del _THINNED[2:]
+    t, ys = hit
     return {
         "start": series.clock(0.0),
         "x_label": "Time since the first reading",
         "x_unit": "s",
-        "t_s": t,
+        "t_s": list(t),
         "series": [
             {"key": k, "label": lab, "unit": u, "y": [None if y is None else y / f for y in ys[i]]}
             for i, (k, lab, u, _, f) in enumerate(cols)
         ],
         "gaps": [{"start_s": g.start, "end_s": g.end} for g in series.gaps[:200]],
     }
+
+
+def _at_points(series: TimeSeries, values: Any, ts: list[float], f: float) -> list[float | None]:
+    """Values per reading taken at drawing times (the reading in force at each), in display
+    units; None inside gaps."""
+    out: list[float | None] = []
+    for t in ts:
+        k = max(0, bisect.bisect_right(series.t, t) - 1)
+        v = values[k] if t < series.t[k] + series.hold[k] else None
+        out.append(None if v is None else v / f)
+    return out
 
 
 def _plain(label: str, si: float | None, f: float, unit: str, si_unit: str, note: str = "") -> Any:
@@ -321,9 +340,16 @@ def shape(
         for i, c in enumerate(columns)
         if c["quantity"] != "channel"
     ]
-    if r.background.values is not None:
-        cols.append(("background", "Background used", shown, list(r.background.values), f))
     curve = _curve(series, cols)
+    if r.background.values is not None:
+        curve["series"].append(
+            {
+                "key": "background",
+                "label": "Background used",
+                "unit": shown,
+                "y": _at_points(series, r.background.values, curve["t_s"], f),
+            }
+        )
     curve["periods"] = [
         {"index": i, "label": p.label, "kind": p.kind, "start_s": p.start, "end_s": p.end}
         for i, (p, _) in enumerate(r.periods)

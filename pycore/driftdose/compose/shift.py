@@ -23,7 +23,7 @@ from ..distribution import WEIGHTS
 from ..shift.background import Background, background_values
 from ..shift.periods import Period, check_periods
 from ..shift.series import TimeSeries
-from ..shift.stats import PeriodStats, stats_over, twa8h
+from ..shift.stats import PeriodStats, mean_over, stats_over, twa8h
 from ..shift.taskdose import TaskDose, channel_spectrum, scaled, shape_amount, task_dose
 
 __all__ = ["DoseSetup", "ShiftDose", "ShiftResult", "compose_shift"]
@@ -268,7 +268,7 @@ def _dose(
             continue
         if setup.size_source == "channels":
             means = [
-                stats_over(series, series.values[k], [(p.start, p.end)]).mean
+                mean_over(series, series.values[k], [(p.start, p.end)])[0]
                 for k in setup.channel_keys
             ]
             if any(m is None for m in means):
@@ -290,7 +290,7 @@ def _dose(
                 if level is None:
                     level = st.mean
             else:
-                level = stats_over(series, series.values[setup.scale_key], [(p.start, p.end)]).mean
+                level = mean_over(series, series.values[setup.scale_key], [(p.start, p.end)])[0]
             if level is None:
                 skipped.append((i, "no readings of the scaling quantity in the task"))
                 continue

@@ -22,7 +22,7 @@ from dataclasses import dataclass
 
 from .periods import Period
 from .series import TimeSeries, aligned_values
-from .stats import stats_over
+from .stats import mean_over
 
 __all__ = ["BACKGROUND_METHODS", "Background", "BackgroundError", "background_values"]
 
@@ -141,28 +141,26 @@ def background_values(
     anchors: list[tuple[float, float]] = []
     integral = measured = 0.0
     for p in marked:
-        s = stats_over(series, values, [(p.start, p.end)])
-        if s.mean is None:
+        mean, part, time = mean_over(series, values, [(p.start, p.end)])
+        if mean is None:
             raise BackgroundError(f"The background period {p.label!r} holds no reading.")
-        anchors.append((0.5 * (p.start + p.end), s.mean))
-        integral += s.integral
-        measured += s.measured
+        anchors.append((0.5 * (p.start + p.end), mean))
+        integral += part
+        measured += time
     n = len(series.t)
     if method == "marked_mean":
         level = integral / measured
         return Background(method, (level,) * n, tuple(anchors))
     times = [a for a, _ in anchors]
     levels = [b for _, b in anchors]
-    out: list[float | None] = []
-    for t in series.t:
-        j = bisect.bisect_right(times, t)
-        if j == 0:
-            out.append(levels[0])
-        elif j == len(times):
-            out.append(levels[-1])
-        else:
-            f = (t - times[j - 1]) / (times[j] - times[j - 1])
-            out.append(levels[j - 1] + f * (levels[j] - levels[j - 1]))
+    ts = series.t
+    out: list[float | None] = [levels[0]] * bisect.bisect_right(ts, times[0])
+    for j in range(1, len(times)):  # readings between two anchors: the line through them
+        t0, t1, b0, b1 = times[j - 1], times[j], levels[j - 1], levels[j]
+        slope = (b1 - b0) / (t1 - t0)
+        stop = bisect.bisect_right(ts, t1)
+        out.extend(b0 + slope * (t - t0) for t in ts[len(out) : stop])
+    out.extend([levels[-1]] * (len(ts) - len(out)))
     notes = []
     for p in periods:
         if p.kind != "task":

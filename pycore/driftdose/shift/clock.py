@@ -251,8 +251,17 @@ class TimeParser:
         if date_text is not None:
             text = f"{date_text.strip()} {text.strip()}"
         if self.form == "iso":
+            fast = self._iso_fast(text)
+            if fast is not None:
+                return fast
             seconds, offset = parse_iso(text)
+            if offset is None and not self.offsets_seen and len(self._dates) < 4096:
+                self._dates[text.strip()[:10]] = int(seconds // DAY)
             if offset is not None:
+                if self._dates and not self.offsets_seen:
+                    raise ClockError(
+                        f"{text[:40]!r}: a UTC offset appears where earlier rows had none."
+                    )
                 self.offsets_seen = True
                 if self._offset is None:
                     self._offset = offset
@@ -261,6 +270,30 @@ class TimeParser:
                 raise ClockError(f"{text[:40]!r}: a UTC offset is missing (earlier rows had one).")
             return seconds
         return self._dmy(text)
+
+    def _iso_fast(self, text: str) -> float | None:
+        """``YYYY-MM-DD hh:mm:ss[.fff]`` of a date already read, without a UTC offset; None
+        for anything else (read in full by :func:`parse_iso`)."""
+        s = text.strip()
+        n = len(s)
+        if n < 19 or s[10] not in "T " or s[13] != ":" or s[16] != ":" or self.offsets_seen:
+            return None
+        day = self._dates.get(s[:10])
+        if day is None:
+            return None
+        digits = s[11:13] + s[14:16] + s[17:19]
+        if not (digits.isascii() and digits.isdigit()):
+            return None
+        hh, mm, ss = int(digits[:2]), int(digits[2:4]), int(digits[4:])
+        if hh > 23 or mm > 59 or ss > 59:
+            return None
+        seconds = day * DAY + hh * 3600.0 + mm * 60.0 + ss
+        if n == 19:
+            return seconds
+        frac = s[20:]
+        if s[19] not in ".," or not frac or not (frac.isascii() and frac.isdigit()):
+            return None
+        return seconds + int(frac) / 10 ** len(frac)
 
     def _elapsed(self, text: str) -> float:
         s = text.strip().replace(",", ".")
@@ -291,7 +324,14 @@ class TimeParser:
             day = _date(int(year_text), mo, dd, text[:40])
             if len(self._dates) < 4096:
                 self._dates[date_part] = day
-        t = _TIME.fullmatch(time_part.strip())
+        tp = time_part.strip()
+        if len(tp) == 8 and tp[2] == ":" and tp[5] == ":":
+            digits = tp[:2] + tp[3:5] + tp[6:]
+            if digits.isascii() and digits.isdigit():
+                hh, mm, ss = int(digits[:2]), int(digits[2:4]), int(digits[4:])
+                if hh <= 23 and mm <= 59 and ss <= 59:
+                    return day * DAY + hh * 3600.0 + mm * 60.0 + ss
+        t = _TIME.fullmatch(tp)
         if t is None:
             raise ClockError(f"{text[:40]!r}: the time of day must be hh:mm[:ss].")
         return day * DAY + _clock(t, text[:40], self.form == "month_first")

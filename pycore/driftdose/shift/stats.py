@@ -10,7 +10,8 @@ overlap. Definitions:
   (Hyndman & Fan 1996, Am. Stat. 50:361, definition 7; the default of spreadsheets and numpy);
 - **maximum**: the highest reading;
 - **highest 15-minute mean**: the highest time-weighted mean over any 15-minute window inside
-  the period (windows at least half measured, the mean over their measured part), the
+  the period (for the shift: inside a stretch between breaks; windows at least half measured,
+  the mean over their measured part), the
   short-term reference period of EN 689:2018 (15 min; common practice for short-term limits);
 - **background-corrected mean**: Σ max(cᵢ − bᵢ, 0) tᵢ / Σ tᵢ over readings with a background
   value bᵢ; readings below the background count with zero and their time share is reported;
@@ -36,6 +37,7 @@ __all__ = [
     "TWA_REFERENCE",
     "UNMEASURED_RULES",
     "PeriodStats",
+    "mean_over",
     "percentile",
     "stats_over",
     "twa8h",
@@ -154,19 +156,34 @@ def _segments(
     for a, b in intervals:
         i = max(0, bisect.bisect_right(t, a) - 1)
         j = bisect.bisect_left(t, b)
-        for k in range(i, j):
-            c = values[k]
-            if c is None:
+        if j <= i:
+            continue
+        ks = range(i, j)
+        vs = values[i:j]
+        if None in vs:
+            ks = [k for k in range(i, j) if values[k] is not None]
+            if not ks:
                 continue
-            s = t[k] if t[k] > a else a
-            e = t[k] + hold[k]
-            if e > b:
-                e = b
-            if e > s:
-                s_out.append(s)
-                e_out.append(e)
-                v_out.append(c)
-                i_out.append(k)
+            starts = [t[k] for k in ks]
+            ends = [t[k] + hold[k] for k in ks]
+            vals = [values[k] for k in ks]
+        else:
+            starts = list(t[i:j])
+            ends = [x + h for x, h in zip(starts, hold[i:j], strict=True)]
+            vals = list(vs)
+        # clip the first and last readings to the interval; drop one left with no time
+        for k in {0, len(starts) - 1}:
+            starts[k] = max(starts[k], a)
+            ends[k] = min(ends[k], b)
+        ks = list(ks)
+        if ends[-1] <= starts[-1]:
+            del starts[-1], ends[-1], vals[-1], ks[-1]
+        if starts and ends[0] <= starts[0]:
+            del starts[0], ends[0], vals[0], ks[0]
+        s_out += starts
+        e_out += ends
+        v_out += vals
+        i_out += ks
     return s_out, e_out, v_out, i_out
 
 
@@ -183,6 +200,9 @@ def _peak(
     if hi - lo < w or not starts:
         return None
     n = len(starts)
+    regular = _regular_peak(starts, ends, vals, lo, hi)
+    if regular is not None:
+        return regular
     # cumulative integral and measured time at each segment start
     cum_i = [0.0] * (n + 1)
     cum_m = [0.0] * (n + 1)
@@ -192,34 +212,88 @@ def _peak(
         cum_m[k + 1] = cum_m[k] + d
     last = hi - w
     cand = {lo, last}
-    for s, e in zip(starts, ends, strict=True):
-        for x in (s, e, s - w, e - w):
-            if lo <= x <= last:
-                cand.add(x)
+    cand.update(x for x in starts if lo <= x <= last)
+    cand.update(x for x in ends if lo <= x <= last)
+    cand.update(y for x in starts if lo <= (y := x - w) <= last)
+    cand.update(y for x in ends if lo <= (y := x - w) <= last)
     xs = sorted(cand)
-
-    def at(x: float, p: int) -> tuple[float, float, int]:
-        while p < n and ends[p] <= x:
-            p += 1
-        ci, cm = cum_i[p], cum_m[p]
-        if p < n and starts[p] < x:
-            d = x - starts[p]
-            ci += vals[p] * d
-            cm += d
-        return ci, cm, p
-
     best: float | None = None
+    need = WINDOW_MIN_COVERAGE * w - 1e-9
     p0 = p1 = 0
-    need = WINDOW_MIN_COVERAGE * w
     for x in xs:
-        i0, m0, p0 = at(x, p0)
-        i1, m1, p1 = at(x + w, p1)
+        # integral and measured time up to x (pointer p0) and up to x + w (pointer p1)
+        while p0 < n and ends[p0] <= x:
+            p0 += 1
+        i0, m0 = cum_i[p0], cum_m[p0]
+        if p0 < n and starts[p0] < x:
+            i0 += vals[p0] * (x - starts[p0])
+            m0 += x - starts[p0]
+        y = x + w
+        while p1 < n and ends[p1] <= y:
+            p1 += 1
+        i1, m1 = cum_i[p1], cum_m[p1]
+        if p1 < n and starts[p1] < y:
+            i1 += vals[p1] * (y - starts[p1])
+            m1 += y - starts[p1]
         m = m1 - m0
-        if m >= need - 1e-9:
+        if m >= need:
             mean = (i1 - i0) / m
             if best is None or mean > best:
                 best = mean
     return best
+
+
+def _regular_peak(
+    starts: list[float], ends: list[float], vals: list[float], lo: float, hi: float
+) -> float | None:
+    """The highest 15-min mean when the readings tile [lo, hi] in equal steps that divide
+    15 min (regular logging without holes): every window edge then crosses reading edges
+    together, so the highest mean is that of some run of whole readings (None otherwise)."""
+    n = len(starts)
+    d = ends[0] - starts[0]
+    if d <= 0.0 or starts[0] != lo or ends[-1] != hi:
+        return None
+    m = round(SHORT_TERM / d)
+    if m < 1 or m > n or abs(m * d - SHORT_TERM) > 1e-9 * SHORT_TERM:
+        return None
+    tol = 1e-9 * d
+    for k in range(1, n):
+        if abs(starts[k] - ends[k - 1]) > tol or abs(ends[k] - starts[k] - d) > tol:
+            return None
+    cum = [0.0] * (n + 1)
+    acc = 0.0
+    for k, v in enumerate(vals):
+        acc += v
+        cum[k + 1] = acc
+    return max(cum[k + m] - cum[k] for k in range(n - m + 1)) / m
+
+
+def mean_over(
+    series: TimeSeries,
+    values: Sequence[float | None],
+    intervals: Sequence[tuple[float, float]],
+) -> tuple[float | None, float, float]:
+    """Time-weighted mean, Σ cᵢ tᵢ and Σ tᵢ over intervals (mean None if nothing measured).
+
+    Parameters
+    ----------
+    series : TimeSeries
+        Reading times and intervals.
+    values : sequence of float or None
+        One value per reading. [SI]
+    intervals : sequence of (float, float)
+        Disjoint, increasing intervals. [s from start]
+
+    Returns
+    -------
+    tuple
+        Mean [SI], integral [SI × s], measured time [s].
+
+    """
+    starts, ends, vals, _ = _segments(series, values, intervals)
+    measured = math.fsum(e - s for s, e in zip(starts, ends, strict=True))
+    integral = math.fsum(v * (e - s) for v, s, e in zip(vals, starts, ends, strict=True))
+    return (integral / measured if measured > 0.0 else None), integral, measured
 
 
 def stats_over(
@@ -263,8 +337,12 @@ def stats_over(
         median = percentile(ordered, 0.5)
         p95 = percentile(ordered, 0.95)
         maximum = ordered[-1]
-    lo, hi = (intervals[0][0], intervals[-1][1]) if intervals else (0.0, 0.0)
-    peak = _peak(starts, ends, vals, lo, hi)
+    peak = None
+    for a, b in intervals:  # windows lie inside one interval (not across a break)
+        k0, k1 = bisect.bisect_left(ends, a), bisect.bisect_left(starts, b)
+        p = _peak(starts[k0:k1], ends[k0:k1], vals[k0:k1], a, b)
+        if p is not None and (peak is None or p > peak):
+            peak = p
     b_mean = corrected = below = None
     corr_int = b_time = 0.0
     if background is not None:
