@@ -9,6 +9,7 @@ import { fingerprint } from "./digest.js";
 import { STATE_FORMAT, STATE_VERSION, acceptedNotice, decodeFragment, readInputsFile, refusedNotice, schemaFrom } from "./intake.js";
 import { SURVEY_FIELDS, mountSurvey } from "./survey.js";
 import { encodeState } from "./state.js";
+import { setToolVersion } from "./charts.js";
 import * as motion from "./panels/motion.js";
 import * as deposition from "./panels/deposition.js";
 import * as sampling from "./panels/sampling.js";
@@ -297,6 +298,7 @@ function setupServiceWorker(build) {
 async function start() {
   const forms = await formsLoaded;
   document.getElementById("app-version").textContent = forms.version;
+  setToolVersion(forms.version);
   const tabs = document.getElementById("panel-tabs");
   const panels = document.getElementById("panels");
   for (const p of PANELS) {

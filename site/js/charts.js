@@ -1,7 +1,10 @@
 // Thin layer over Chart.js (vendored UMD build, global `Chart`): log-log line charts with hover
-// readouts, theme colours from CSS, and PNG export through Chart.js's own toBase64Image().
+// readouts, theme colours from CSS, and PNG export with a title, the scenario and the tool
+// version drawn above and below the chart and kept as text chunks in the file.
 import { formatNumber } from "./format.js";
 import { el } from "./forms.js";
+import { download, stamp } from "./files.js";
+import { imageText, pngWithText, readout as nameValue, wrapText } from "./chartparts.js";
 
 const TINY_SPAN = 1e-250;
 const SERIES_VARS = ["--series-1", "--series-2", "--series-3", "--series-4", "--series-5", "--series-6", "--series-7"];
@@ -31,16 +34,11 @@ export function decadeTicks(label) {
   return (value) => (isDecade(value) ? label(value) : "");
 }
 
-/**
- * Create a chart on `canvas`. `axes` = {x: {title, type, tick}, y: {...}}; datasets are given
- * later through update(). Returns the Chart.js instance.
- */
-export function createChart(canvas, axes, { legendLabel, readout, type = "line" } = {}) {
-  const Chart = window.Chart;
+/** Chart.js options of one axis: {title, type, tick, readout, min, max, position, secondary}. */
+function scaleOptions(axis) {
   const text = cssVar("--ink");
   const grid = cssVar("--grid");
-  Chart.defaults.font.family = cssVar("--font-body") || "system-ui, sans-serif";
-  const scale = (axis) => ({
+  return {
     type: axis.type || "logarithmic",
     position: axis.position,
     title: { display: true, text: axis.title, color: text },
@@ -53,10 +51,20 @@ export function createChart(canvas, axes, { legendLabel, readout, type = "line" 
     grid: axis.type && axis.type !== "logarithmic"
       ? { color: grid, drawOnChartArea: !axis.secondary }
       : { color: (ctx) => (ctx.tick && isDecade(ctx.tick.value) ? grid : "transparent"), drawOnChartArea: !axis.secondary },
-  });
+  };
+}
+
+/**
+ * Create a chart on `canvas`. `axes` = {x: {title, type, tick, readout}, y: {...}}; datasets are
+ * given later through setDatasets(), axes changed later through setAxes(): a chart is created
+ * once per canvas and updated in place. Returns the Chart.js instance.
+ */
+export function createChart(canvas, axes, { legendLabel, readout, type = "line" } = {}) {
+  const Chart = window.Chart;
+  Chart.defaults.font.family = cssVar("--font-body") || "system-ui, sans-serif";
   const scales = {};
-  for (const [key, axis] of Object.entries(axes)) scales[key] = scale(axis);
-  return new Chart(canvas, {
+  for (const [key, axis] of Object.entries(axes)) scales[key] = scaleOptions(axis);
+  const chart = new Chart(canvas, {
     type,
     plugins: [backgroundPlugin],
     data: { datasets: [] },
@@ -69,16 +77,30 @@ export function createChart(canvas, axes, { legendLabel, readout, type = "line" 
       interaction: { mode: type === "bar" ? "index" : "nearest", axis: "x", intersect: false },
       scales,
       plugins: {
-        legend: { labels: { color: text, usePointStyle: true, filter: legendLabel } },
+        legend: { labels: { color: cssVar("--ink"), usePointStyle: true, filter: legendLabel } },
         tooltip: {
           callbacks: {
-            label: readout || ((ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 3)}`),
-            title: (items) => (items.length && axes.x.readout ? axes.x.readout(items[0].parsed.x) : items[0]?.label ?? ""),
+            label: readout || ((ctx) => nameValue(ctx.dataset.label, formatNumber(ctx.parsed.y, 3))),
+            title: (items) => {
+              const x = chart.$driftdoseAxes?.x;
+              return items.length && x?.readout ? x.readout(items[0].parsed.x) : items[0]?.label ?? "";
+            },
           },
         },
       },
     },
   });
+  chart.$driftdoseAxes = { ...axes };
+  return chart;
+}
+
+/**
+ * Change some axes of a chart (type, title, ticks, hover title) in place; the next
+ * setDatasets() or chart.update() draws them.
+ */
+export function setAxes(chart, axes) {
+  for (const [key, axis] of Object.entries(axes)) chart.options.scales[key] = scaleOptions(axis);
+  chart.$driftdoseAxes = { ...chart.$driftdoseAxes, ...axes };
 }
 
 /**
@@ -99,15 +121,78 @@ export function setDatasets(chart, datasets) {
   chart.update("none");
 }
 
-/** Download the chart as a PNG image with a solid background. */
-export function exportChart(chart, filename) {
-  const url = chart.toBase64Image("image/png", 1);
-  const link = document.createElement("a");
-  link.href = url;
-  link.download = filename;
-  document.body.append(link);
-  link.click();
-  link.remove();
+let toolVersion = "";
+
+/** The tool version written on every exported chart image (set once the forms are read). */
+export function setToolVersion(version) {
+  toolVersion = String(version ?? "");
+}
+
+function pngBytes(dataUrl) {
+  const binary = atob(dataUrl.slice(dataUrl.indexOf(",") + 1));
+  const bytes = new Uint8Array(binary.length);
+  for (let i = 0; i < binary.length; i++) bytes[i] = binary.charCodeAt(i);
+  return bytes;
+}
+
+/**
+ * The chart as a PNG image (bytes) with a header (title, scenario) and a footer (tool version,
+ * date) drawn around it, and the same texts as PNG text chunks (Title, Description, Software).
+ */
+export function chartImage(chart, { title, scenario } = {}) {
+  const src = chart.canvas;
+  const ratio = src.width / (chart.width || src.width) || 1;
+  const text = imageText({ title, scenario, version: toolVersion, date: stamp() });
+  const width = src.width;
+  const canvas = document.createElement("canvas");
+  const ctx = canvas.getContext("2d");
+  const font = cssVar("--font-body") || "system-ui, sans-serif";
+  const pad = Math.round(14 * ratio);
+  const big = Math.round(17 * ratio);
+  const small = Math.round(12.5 * ratio);
+  const measureIn = (spec) => {
+    ctx.font = spec;
+    return (t) => ctx.measureText(t).width;
+  };
+  const titleFont = `600 ${big}px ${font}`;
+  const smallFont = `${small}px ${font}`;
+  const titleLines = wrapText(text.title, width - 2 * pad, measureIn(titleFont), 2);
+  const scenarioLines = wrapText(text.scenario, width - 2 * pad, measureIn(smallFont), 3);
+  const footerLines = wrapText(text.footer, width - 2 * pad, measureIn(smallFont), 2);
+  const step = (px) => Math.round(px * 1.35);
+  const header = pad + titleLines.length * step(big) + scenarioLines.length * step(small) + Math.round(pad / 2);
+  const footer = Math.round(pad / 2) + footerLines.length * step(small) + pad;
+  canvas.width = width;
+  canvas.height = header + src.height + footer;
+  ctx.fillStyle = cssVar("--surface") || "#fff";
+  ctx.fillRect(0, 0, canvas.width, canvas.height);
+  ctx.fillStyle = cssVar("--ink") || "#222";
+  ctx.textBaseline = "top";
+  let y = pad;
+  ctx.font = titleFont;
+  for (const line of titleLines) {
+    ctx.fillText(line, pad, y);
+    y += step(big);
+  }
+  ctx.font = smallFont;
+  for (const line of scenarioLines) {
+    ctx.fillText(line, pad, y);
+    y += step(small);
+  }
+  ctx.drawImage(src, 0, header);
+  y = header + src.height + Math.round(pad / 2);
+  for (const line of footerLines) {
+    ctx.fillText(line, pad, y);
+    y += step(small);
+  }
+  return pngWithText(pngBytes(canvas.toDataURL("image/png")), {
+    Title: text.title, Description: text.scenario, Software: text.footer.split(" · ")[0], "Creation Time": text.footer.split(" · ")[1],
+  });
+}
+
+/** Download the chart as a PNG image with its title, scenario and the tool version. */
+export function exportChart(chart, filename, describe = {}) {
+  download(filename, new Blob([chartImage(chart, describe)], { type: "image/png" }));
 }
 
 /** Chart.js plugin: paint the canvas background so exported images are not transparent. */
@@ -123,14 +208,17 @@ export const backgroundPlugin = {
   },
 };
 
-/** A figure with a chart canvas, its caption and a button that saves the chart as PNG. */
-export function chartFigure(idBase, captionText, buttonText, filename, getChart) {
+/**
+ * A figure with a chart canvas, its caption and a button that saves the chart as PNG.
+ * `describe()` returns {title, scenario} for the saved image.
+ */
+export function chartFigure(idBase, captionText, buttonText, filename, getChart, describe = () => ({})) {
   const figure = el("figure", { class: "chart-card" });
   const box = el("div", { class: "chart-box" });
   const canvas = el("canvas", { id: `${idBase}-canvas`, role: "img", "aria-label": captionText });
   box.append(canvas);
   const save = el("button", { type: "button", class: "secondary" }, buttonText);
-  save.addEventListener("click", () => getChart() && exportChart(getChart(), filename));
+  save.addEventListener("click", () => getChart() && exportChart(getChart(), filename, describe()));
   figure.append(box, el("figcaption", {}, captionText), save);
   return { figure, canvas };
 }

@@ -5,6 +5,7 @@ import { FieldSet, el } from "./forms.js";
 import { formatNumber } from "./format.js";
 import { download, stamp } from "./files.js";
 import { failureReply } from "./engine.js";
+import { scenarioLine } from "./chartparts.js";
 
 const describeError = (err) => String(err && err.message ? err.message : err).slice(0, 120);
 
@@ -87,18 +88,29 @@ export class CalcPanel {
       if (this.fields.handles.get(field.name)?.wrap.hidden) continue; // not in use with these choices
       if (field.kind === "choice") {
         const choice = (field.choices || []).find((c) => c.value === raw);
-        rows.push({ label: field.label, value: choice ? choice.label : String(raw), unit: "" });
+        rows.push({ name: field.name, label: field.label, value: choice ? choice.label : String(raw), unit: "" });
       } else if (raw && typeof raw === "object" && "value" in raw) {
         const unit = (field.units || []).find((u) => u.unit === raw.unit);
         const label = unit ? unit.label : String(raw.unit ?? "");
-        rows.push({ label: field.label, value: String(raw.value), unit: label === "–" ? "" : label, range: field.range || "" });
+        rows.push({ name: field.name, label: field.label, value: String(raw.value), unit: label === "–" ? "" : label, range: field.range || "" });
       } else if (field.kind === "data") {
-        rows.push({ label: field.label, value: this.opts.describeData ? this.opts.describeData(field.name, raw) : JSON.stringify(raw), unit: "" });
+        rows.push({ name: field.name, label: field.label, value: this.opts.describeData ? this.opts.describeData(field.name, raw) : JSON.stringify(raw), unit: "" });
       } else {
-        rows.push({ label: field.label, value: String(raw), unit: "", range: field.range || "" });
+        rows.push({ name: field.name, label: field.label, value: String(raw), unit: "", range: field.range || "" });
       }
     }
     return rows;
+  }
+
+  /**
+   * The scenario of the shown results in one line, for exported chart images: the inputs in
+   * use named in `names` (all when omitted), after the invented demo's name when one is shown.
+   */
+  scenario(names) {
+    const rows = this.describeInputs(this.lastGoodInputs)
+      .filter((r) => !names || (r.name && names.includes(r.name)));
+    const line = scenarioLine(rows, { maxLength: 400 });
+    return this.demoLabel ? `Invented demo: ${this.demoLabel} · ${line}` : line;
   }
 
   /** Files in use by the last valid inputs: [{name, size, sha256, from}]. */

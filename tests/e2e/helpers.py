@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import math
 import re
+import struct
+import zlib
 
 SUPERSCRIPT = str.maketrans("⁻⁰¹²³⁴⁵⁶⁷⁸⁹", "-0123456789")
 
@@ -37,3 +39,30 @@ def table_values(page, panel_id: str) -> dict[str, tuple[str, str]]:
         unit = cells.nth(1).inner_text() if cells.count() > 1 else ""
         out[key] = (value, unit)
     return out
+
+
+def png_text(data: bytes) -> dict[str, str]:
+    """The iTXt/tEXt chunks of a PNG (PNG 1.2, section 11.3.4), read independently of the page."""
+    assert data[:8] == b"\x89PNG\r\n\x1a\n"
+    out, at = {}, 8
+    while at < len(data):
+        (length,) = struct.unpack(">I", data[at : at + 4])
+        kind = data[at + 4 : at + 8]
+        body = data[at + 8 : at + 8 + length]
+        (crc,) = struct.unpack(">I", data[at + 8 + length : at + 12 + length])
+        assert crc == zlib.crc32(kind + body), kind
+        if kind == b"iTXt":
+            key, rest = body.split(b"\0", 1)
+            rest = rest[2:]  # compression flag and method
+            _lang, rest = rest.split(b"\0", 1)
+            _translated, text = rest.split(b"\0", 1)
+            out[key.decode("latin-1")] = text.decode("utf-8")
+        elif kind == b"tEXt":
+            key, text = body.split(b"\0", 1)
+            out[key.decode("latin-1")] = text.decode("latin-1")
+        at += 12 + length
+    return out
+
+
+def png_size(data: bytes) -> tuple[int, int]:
+    return struct.unpack(">II", data[16:24])

@@ -123,8 +123,28 @@ def test_progress_shows_and_an_input_change_cancels_the_propagation(page, base_u
 
 def test_time_axis_switch_and_link_round_trip(page, base_url, browser):
     _load_demo(page, base_url)
+    axis = (
+        "() => { const c = Chart.getChart(document.querySelector('#burden-time-canvas'));"
+        " window.__seen = window.__seen || c; return {same: window.__seen === c,"
+        " type: c.options.scales.x.type, title: c.options.scales.x.title.text,"
+        " y: c.options.scales.y.title.text}; }"
+    )
+    log = page.evaluate(axis)
+    # log axis: ticks carry their units ("1 d", "10 y"), so the title names the quantity only
+    assert log == {
+        "same": True,
+        "type": "logarithmic",
+        "title": "Time from the first exposure",
+        "y": log["y"],
+    }
+    assert log["y"].endswith(")")  # bare-number ticks: the unit is in the title
     page.locator("#burden-time-axis").select_option("linear")
+    lin = page.evaluate(axis)
+    # linear axis: bare numbers of days; the chart is the same one, updated in place
+    assert lin["same"] and lin["type"] == "linear"
+    assert lin["title"] == "Time from the first exposure (days)"
     page.locator("#burden-time-axis").select_option("logarithmic")
+    assert page.evaluate(axis)["same"]
     link = page.evaluate("() => location.href")
     other = browser.new_page()
     try:

@@ -7,7 +7,7 @@ import pytest
 from driftdose import api
 
 from .conftest import screenshot, wait_ready
-from .helpers import parse_shown, round_sig
+from .helpers import parse_shown, png_text, round_sig
 
 pytestmark = pytest.mark.e2e
 
@@ -183,6 +183,28 @@ def test_demo_loads_with_one_click_and_is_marked_invented(page, base_url):
     _settled(page)
     page.evaluate("() => window.dispatchEvent(new Event('beforeprint'))")
     assert "Invented demo data" in page.locator("#report").inner_text()
+    # size ticks carry their units: the size axis title has none; the dose readout names its
+    # series and unit
+    got = page.evaluate(
+        """() => {
+        const f = Chart.getChart(document.querySelector('#deposition-fraction-canvas'));
+        const d = Chart.getChart(document.querySelector('#deposition-dose-canvas'));
+        const el = d.getDatasetMeta(0).data[0];
+        d.tooltip.setActiveElements([{datasetIndex: 0, index: 0}], {x: el.x, y: el.y});
+        d.update('none');
+        return {x: f.options.scales.x.title.text, lines: d.tooltip.body.flatMap((b) => b.lines),
+                label: d.data.datasets[0].label};
+    }"""
+    )
+    assert got["x"].startswith("Particle diameter") and "µm" not in got["x"]
+    assert got["lines"][0].startswith(got["label"] + ": ")
+    with page.expect_download() as info:
+        page.locator(PANEL).get_by_role("button", name="Save fraction chart image").click()
+    text = png_text(open(info.value.path(), "rb").read())
+    assert text["Title"] == "Deposition fraction by region against particle size"
+    assert text["Description"].startswith("Invented demo: ")
+    assert "Mode 1: by " in text["Description"]
+    assert text["Software"] == "Drift & Dose " + page.locator("#app-version").inner_text()
 
 
 def test_link_round_trip_reproduces_deposition(page, base_url, browser):

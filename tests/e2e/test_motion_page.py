@@ -2,12 +2,14 @@
 
 from __future__ import annotations
 
+import re
+
 import pytest
 
 from driftdose import api
 
-from .conftest import screenshot, wait_ready
-from .helpers import parse_shown, round_sig, table_values
+from .conftest import ARTIFACTS, screenshot, wait_ready
+from .helpers import parse_shown, png_size, png_text, round_sig, table_values
 
 pytestmark = pytest.mark.e2e
 
@@ -155,3 +157,148 @@ def test_link_reproduces_inputs(page, base_url, browser):
         assert table_values(p2, "motion") == shown
     finally:
         other.close()
+
+
+def test_axis_titles_and_readouts_name_their_series(page, base_url):
+    page.goto(base_url)
+    wait_ready(page)
+    _wait_updates(page, "motion", 1)
+    got = page.evaluate(
+        """() => {
+        const chart = Chart.getChart(document.querySelector('#panel-motion canvas'));
+        const i = chart.data.datasets.findIndex((d) => d.label === 'This particle');
+        const el = chart.getDatasetMeta(i).data[0];
+        chart.tooltip.setActiveElements([{datasetIndex: i, index: 0}, {datasetIndex: i, index: 1}],
+          {x: el.x, y: el.y});
+        chart.update('none');
+        return {
+          x: chart.options.scales.x.title.text, y: chart.options.scales.y.title.text,
+          ticks: chart.scales.x.ticks.map((t) => t.label).filter(Boolean),
+          lines: chart.tooltip.body.flatMap((b) => b.lines),
+        };
+    }"""
+    )
+    # the ticks carry their units ("1 nm", "10 µm"): no unit in the titles
+    assert "nm" in " ".join(got["ticks"]) and "µm" in " ".join(got["ticks"])
+    assert got["x"] == "Volume-equivalent diameter"
+    assert got["y"] == "Distance in the chosen time"
+    lines = got["lines"]
+    assert len(lines) == 2, lines
+    assert lines[0].startswith("This particle, Brownian displacement: ")
+    assert lines[1].startswith("This particle, settling distance: ")
+
+
+def test_compare_three_particles_against_the_core(page, base_url):
+    page.goto(base_url)
+    wait_ready(page)
+    _wait_updates(page, "motion", 1)
+    panel = page.locator("#panel-motion")
+    add = panel.get_by_role("button", name="Add a particle to compare")
+    add.click()
+    b = panel.locator("fieldset.compare-particle").nth(0)
+    b.get_by_label("Particle diameter", exact=True).fill("3")
+    b.get_by_label("Particle diameter unit").select_option("um")
+    b.get_by_label("Particle density", exact=True).fill("2.2")
+    add.click()
+    c = panel.locator("fieldset.compare-particle").nth(1)
+    c.get_by_label("Particle diameter", exact=True).fill("20")
+    c.get_by_label("Particle diameter unit").select_option("nm")
+    assert not add.is_visible()  # three particles at most
+    page.wait_for_function(
+        "() => document.querySelectorAll('#panel-motion .compare-table th[scope=col]').length === 4"
+        " && [...document.querySelectorAll('#panel-motion .compare-table td[data-particle=C]')]"
+        ".some((td) => td.textContent.startsWith('20 nm'))"
+    )
+    _settled(page)
+    shown = {
+        letter: {
+            row.get_attribute("data-compare"): row.locator(
+                f"td[data-particle={letter}]"
+            ).inner_text()
+            for row in panel.locator(".compare-table tbody tr").all()
+        }
+        for letter in "ABC"
+    }
+    own = {
+        "A": {},
+        "B": {
+            "particle_diameter": {"value": "3", "unit": "um"},
+            "particle_density": {"value": "2.2", "unit": "g/cm3"},
+        },
+        "C": {"particle_diameter": {"value": "20", "unit": "nm"}},
+    }
+    # the form's particle (A) keeps the defaults the engine publishes
+    fields = api.describe()["calculations"]["motion"]["fields"]
+    defaults = {f["name"]: f["default"] for f in fields}
+    for letter in "ABC":
+        reply = api.handle({"kind": "motion", "inputs": {**defaults, **own[letter]}})
+        assert reply["ok"], reply
+        for key, text in shown[letter].items():
+            row = reply["results"][key]
+            if "text" in row:
+                assert text == row["text"]
+                continue
+            m = re.fullmatch(r"(-?[\d.]+(?: × 10[⁻⁰¹²³⁴⁵⁶⁷⁸⁹]+)?)(?: (.*))?", text)
+            assert m, text
+            value, unit = m.group(1), m.group(2) or ""
+            assert parse_shown(value) == pytest.approx(round_sig(row["value"]), rel=1e-12), key
+            assert unit == ("" if row["unit"] == "–" else row["unit"]), key
+    assert len(shown["B"]) >= 10
+    labels = page.evaluate(
+        "() => Chart.getChart(document.querySelector('#panel-motion canvas'))"
+        ".data.datasets.map(d => d.label)"
+    )
+    assert {"Particle A", "Particle B", "Particle C"} <= set(labels)
+    # B has its own density: its curves differ and are drawn; C differs only in size: no
+    # second copy of the same curves
+    assert any(s.startswith("Particle B: Settling distance") for s in labels), labels
+    assert not any(s.startswith("Particle C: ") for s in labels), labels
+    screenshot(page, "motion-compare-1280")
+    page.set_viewport_size({"width": 375, "height": 800})
+    screenshot(page, "motion-compare-375")
+    overflow = page.evaluate("() => document.documentElement.scrollWidth - innerWidth")
+    assert overflow <= 0
+    # a bad size in B: the message sits by B's field, A and C stay computed
+    page.set_viewport_size({"width": 1280, "height": 900})
+    field = b.get_by_label("Particle diameter", exact=True)
+    field.fill("-1")
+    error = b.locator(".field[data-field=particle_diameter] .error")
+    error.wait_for(state="visible")
+    assert "from 0.5 nm to 1 mm" in error.inner_text()
+    page.wait_for_function(
+        "() => document.querySelectorAll('#panel-motion .compare-table th[scope=col]').length === 3"
+    )
+    # removing a particle leaves two, relettered
+    b.get_by_role("button", name="Remove particle B").click()
+    page.wait_for_function(
+        "() => document.querySelectorAll('#panel-motion fieldset.compare-particle').length === 1"
+        " && document.querySelector('#panel-motion fieldset.compare-particle legend')"
+        ".textContent === 'Particle B'"
+    )
+    assert add.is_visible()
+
+
+def test_saved_chart_image_carries_title_scenario_and_version(page, base_url):
+    page.goto(base_url)
+    wait_ready(page)
+    _wait_updates(page, "motion", 1)
+    page.locator("#panel-motion").get_by_label("Particle density", exact=True).fill("7.8")
+    page.wait_for_function("() => location.hash.includes('7.8')")
+    _settled(page)
+    version = page.locator("#app-version").inner_text()
+    assert version
+    canvas_height = page.evaluate("() => document.querySelector('#panel-motion canvas').height")
+    with page.expect_download() as info:
+        page.locator("#panel-motion").get_by_role("button", name="Save chart image").click()
+    data = open(info.value.path(), "rb").read()
+    text = png_text(data)
+    assert text["Title"] == "Diffusion versus settling: distance in the chosen time"
+    assert "Particle density 7.8 g/cm³" in text["Description"]
+    assert "Particle diameter 100 nm" in text["Description"]
+    assert text["Software"] == f"Drift & Dose {version}"
+    # the title, scenario and footer are drawn above and below the chart itself
+    _width, height = png_size(data)
+    assert height > canvas_height + 40
+    out = ARTIFACTS / "motion-chart-export.png"
+    out.parent.mkdir(exist_ok=True)
+    out.write_bytes(data)

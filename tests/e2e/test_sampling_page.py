@@ -481,6 +481,23 @@ def test_csv_spectrum_corrected_with_unreliable_bins_flagged(page, base_url, tmp
     )
     assert page.locator(f"{PANEL} #sampling-spectrum-canvas").is_visible()
     assert "sampling.csv_text=j:" in urllib.parse.unquote_plus(page.url)  # it travels with the link
+    chart = (
+        "() => { const c = Chart.getChart(document.querySelector('#sampling-spectrum-canvas'));"
+        " window.__seen = window.__seen || c; return {same: window.__seen === c,"
+        " x: c.options.scales.x.title.text, y: c.options.scales.y.title.text,"
+        " penetration: Chart.getChart(document.querySelector('#sampling-penetration-canvas'))"
+        ".options.scales.x.title.text}; }"
+    )
+    titles = page.evaluate(chart)
+    # size ticks carry units ("10 nm"): no unit in the size titles; bare concentration ticks:
+    # the unit in that title
+    assert "µm" not in titles["x"] and "µm" not in titles["penetration"]
+    assert titles["y"].endswith(f"({reply['curves']['spectrum']['y_unit']})")
+    before = _updates(page)
+    panel = page.locator(PANEL)
+    panel.get_by_label("Air temperature", exact=True).fill("25")
+    _after(page, before)
+    assert page.evaluate(chart)["same"]  # updated in place, not recreated
     screenshot(page, "sampling-spectrum")
 
 

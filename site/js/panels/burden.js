@@ -5,7 +5,8 @@
 // input stops it between blocks and starts again with the new inputs.
 import { CalcPanel } from "../panel.js";
 import { el } from "../forms.js";
-import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
+import { chartFigure, createChart, decadeTicks, seriesColour, setAxes, setDatasets } from "../charts.js";
+import { axisTitle, readout } from "../chartparts.js";
 import { formatNumber } from "../format.js";
 
 export const id = "burden";
@@ -14,6 +15,8 @@ const SHOW_AFTER_MS = 150; // a propagation shows its progress bar once it takes
 const QUIET_MS = 250; // the propagation starts once the inputs have been still this long
 const CHART_REGIONS = ["AI", "lungs", "LN", "BB", "bb", "ET"];
 const TABLE_REGIONS = ["ET", "BB", "bb", "AI", "LN", "lungs", "GI", "environment", "deposited"];
+// the deposition inputs named on a saved chart image
+const AEROSOL = ["distribution_source", "modes", "particle_density", "density_basis", "shape_factor", "breathing", "activity", "route", "exposure_duration"];
 const DOSE_REGIONS = ["ET1", "ET2", "BB", "bb", "AI", "total"];
 
 const own = (description, exclude) => ({
@@ -52,6 +55,7 @@ export function mountSections(root, { engine, forms, deposition }) {
   // --- retained burden ---------------------------------------------------------------
   let burdenReply = null;
   let burdenChart = null;
+  let burdenUnit = ""; // read by the chart's readout, which outlives one reply
   const milestoneBox = el("div", { class: "table-box" });
   const burdenWeight = select("burden-weight", WEIGHTS, "mass");
   const timeAxis = select("burden-time-axis", [["logarithmic", "Logarithmic"], ["linear", "Linear"]], "logarithmic");
@@ -62,7 +66,8 @@ export function mountSections(root, { engine, forms, deposition }) {
   );
   const burdenFigure = chartFigure("burden-time",
     "Amount retained in each region against time since the first exposure (insoluble particles).",
-    "Save burden chart image", "drift-dose-retained-burden.png", () => burdenChart);
+    "Save burden chart image", "drift-dose-retained-burden.png", () => burdenChart,
+    () => ({ title: "Retained burden against time", scenario: [deposition.scenario(AEROSOL), burden.scenario()].filter(Boolean).join(" · ") }));
 
   const burden = new CalcPanel(burdenRoot, {
     id: "burden", kind: "burden", title: "What stays: retained burden over months and years",
@@ -109,12 +114,16 @@ export function mountSections(root, { engine, forms, deposition }) {
     const w = burdenWeight.value;
     const curves = burdenReply.curves[w];
     const logTime = timeAxis.value === "logarithmic";
-    if (burdenChart) burdenChart.destroy();
-    burdenChart = createChart(burdenFigure.canvas, {
-      x: { title: `${curves.x_label} (${logTime ? "log scale" : "days"})`, type: logTime ? "logarithmic" : "linear",
+    // created once and updated in place; on the logarithmic axis the ticks carry their units
+    // ("1 d", "10 y"), on the linear one they are days
+    const axes = {
+      x: { title: axisTitle(curves.x_label, "days", logTime), type: logTime ? "logarithmic" : "linear",
         tick: logTime ? decadeTicks(timeTick) : undefined, readout: timeTick },
-      y: { title: `${curves.y_label} (${curves.y_unit})`, type: "linear", min: 0 },
-    }, { readout: (ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 4)} ${curves.y_unit}` });
+      y: { title: axisTitle(curves.y_label, curves.y_unit), type: "linear", min: 0 },
+    };
+    burdenUnit = curves.y_unit;
+    if (burdenChart) setAxes(burdenChart, axes);
+    else burdenChart = createChart(burdenFigure.canvas, axes, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y, 4)} ${burdenUnit}`) });
     setDatasets(burdenChart, CHART_REGIONS.map((r, i) => {
       const s = curves.series[r];
       return {
@@ -135,6 +144,7 @@ export function mountSections(root, { engine, forms, deposition }) {
   // --- ranges (uncertainty) ------------------------------------------------------------
   let rangesReply = null;
   let bandChart = null;
+  let bandUnit = "";
   const progressBox = el("div", { class: "propagation", hidden: "" });
   const progressBar = el("progress", { max: "100", value: "0", id: "ranges-progress", "aria-label": "Samples computed" });
   const progressText = el("p", { class: "help", role: "status" });
@@ -147,7 +157,8 @@ export function mountSections(root, { engine, forms, deposition }) {
   const burdenRangeBox = el("div", { class: "table-box" });
   const bandFigure = chartFigure("ranges-bands",
     "Deposited dose per region: bars from the 5th to the 95th percentile, the median and the value from the inputs as entered.",
-    "Save range chart image", "drift-dose-dose-ranges.png", () => bandChart);
+    "Save range chart image", "drift-dose-dose-ranges.png", () => bandChart,
+    () => ({ title: "Dose ranges by region", scenario: [deposition.scenario(AEROSOL), ranges.scenario()].filter(Boolean).join(" · ") }));
 
   const ranges = new CalcPanel(rangesRoot, {
     id: "ranges", kind: "uncertainty", title: "How sure: ranges of dose and retained burden",
@@ -268,16 +279,21 @@ export function mountSections(root, { engine, forms, deposition }) {
     const bands = rangesReply.curves.dose_bands;
     const w = rangeWeight.value;
     const unit = bands[`${w}_p50`].unit;
-    if (bandChart) bandChart.destroy();
-    bandChart = createChart(bandFigure.canvas, {
+    const axes = {
       x: { title: "Region", type: "category" },
-      y: { title: `Deposited over ${bands.per} (${unit})`, type: "logarithmic" },
-    }, { type: "bar", readout: (ctx) => {
-      const v = ctx.raw;
-      return Array.isArray(v)
-        ? `${ctx.dataset.label}: ${formatNumber(v[0], 4)} to ${formatNumber(v[1], 4)} ${unit}`
-        : `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 4)} ${unit}`;
-    } });
+      y: { title: axisTitle(`Deposited over ${bands.per}`, unit), type: "logarithmic" },
+    };
+    bandUnit = unit;
+    if (bandChart) {
+      setAxes(bandChart, axes);
+    } else {
+      bandChart = createChart(bandFigure.canvas, axes, { type: "bar", readout: (ctx) => {
+        const v = ctx.raw;
+        return Array.isArray(v)
+          ? readout(ctx.dataset.label, `${formatNumber(v[0], 4)} to ${formatNumber(v[1], 4)} ${bandUnit}`)
+          : readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y, 4)} ${bandUnit}`);
+      } });
+    }
     bandChart.data.labels = bands.keys.map((k) => (k === "total" ? "Total" : k));
     setDatasets(bandChart, [
       { type: "bar", label: "5th to 95th percentile", data: bands.keys.map((_, i) => [bands[`${w}_p5`].y[i], bands[`${w}_p95`].y[i]]),

@@ -2,6 +2,7 @@
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
+import { axisTitle, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
 
 export const id = "deposition";
@@ -14,6 +15,12 @@ const METRICS = [
 ];
 
 const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
+// the inputs named on a saved chart image
+const SCENARIO = [
+  "distribution_source", "modes", "csv_text", "spectrum_diameter_type", "particle_density", "density_basis",
+  "shape_factor", "model", "breathing", "activity", "route", "tidal_volume", "breathing_frequency",
+  "nasal_fraction", "exposure_duration",
+];
 
 export function mount(root, { engine, description }) {
   const fields = description.fields.map((f) => (f.name === "modes" ? { ...f, item_label: "a mode" } : f));
@@ -40,10 +47,12 @@ export function mount(root, { engine, description }) {
 
   const fractionFigure = chartFigure("deposition-fraction",
     "Deposition fraction in each region against particle size (ICRP region names), with your size distribution overlaid, scaled to a peak of 1. The size axis is the diameter named on it (volume-equivalent; mobility with an effective density): an aerodynamic median of dense particles sits at a smaller size here. The table of modes gives each median in both.",
-    "Save fraction chart image", "drift-dose-deposition-fractions.png", () => fractionChart);
+    "Save fraction chart image", "drift-dose-deposition-fractions.png", () => fractionChart,
+    () => ({ title: "Deposition fraction by region against particle size", scenario: scenario() }));
   const doseFigure = chartFigure("deposition-dose",
     "Deposited dose per region for the chosen metric.",
-    "Save dose chart image", "drift-dose-deposition-dose.png", () => doseChart);
+    "Save dose chart image", "drift-dose-deposition-dose.png", () => doseChart,
+    () => ({ title: doseChart?.options.scales.y.title.text || "Deposited dose by region", scenario: scenario() }));
 
   const panel = new CalcPanel(root, {
     id, kind: "deposition", title: "Where it lands: respiratory deposition and dose",
@@ -126,12 +135,13 @@ export function mount(root, { engine, description }) {
   function renderFractionChart(curves) {
     if (!fractionChart) {
       fractionChart = createChart(fractionFigure.canvas, {
-        x: { title: `${curves.x_label} (µm)`, tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => lengthTick(x * 1e-6), min: 1e-3, max: 100 },
+        // the size ticks carry their units ("10 nm", "1 µm"): the title names the quantity only
+        x: { title: axisTitle(curves.x_label, "µm", true), tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => lengthTick(x * 1e-6), min: 1e-3, max: 100 },
         y: { title: curves.y_label, type: "linear", min: 0, max: 1 },
         y2: { title: "Your distribution (scaled)", type: "linear", min: 0, max: 1, position: "right", secondary: true },
-      }, { readout: (ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 3)}` });
+      }, { readout: (ctx) => readout(ctx.dataset.label, formatNumber(ctx.parsed.y, 3)) });
     }
-    fractionChart.options.scales.x.title.text = `${curves.x_label} (µm)`;
+    fractionChart.options.scales.x.title.text = axisTitle(curves.x_label, "µm", true);
     const sets = [];
     Object.values(curves.deposition).forEach((curve, i) => {
       sets.push({
@@ -161,12 +171,17 @@ export function mount(root, { engine, description }) {
       doseChart = createChart(doseFigure.canvas, {
         x: { title: "Region", type: "category" },
         y: { title: yTitle, type: "linear", min: 0 },
-      }, { type: "bar", readout: (ctx) => `${formatNumber(ctx.parsed.y, 4)} ${doseUnit}` });
+      }, { type: "bar", readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y, 4)} ${doseUnit}`) });
     }
     doseChart.options.scales.y.title.text = yTitle; // the chart is updated in place
     doseChart.data.labels = bars.keys.map((k) => (k === "total" ? "Total" : k));
     setDatasets(doseChart, [{ label: per === "dose" ? data.label : `${data.label} per hour`, data: values, backgroundColor: bars.keys.map((_, i) => seriesColour(i)) }]);
     doseFigure.canvas.setAttribute("aria-label", `Bar chart of ${data.label.toLowerCase()} by region: ${bars.keys.map((k, i) => `${k} ${formatNumber(values[i], 3)} ${unit}`).join(", ")}.`);
+  }
+
+  function scenario() {
+    const files = panel.importedFiles().map((f) => `file ${f.name}`);
+    return [panel.scenario(SCENARIO.filter((n) => n !== "csv_text" || !files.length)), ...files].join(" · ");
   }
 
   metricSelect.addEventListener("change", () => lastReply && renderDoseChart());

@@ -4,7 +4,8 @@
 // Presentation only: every number and every message comes from driftdose.api ("sampling").
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el, renderField } from "../forms.js";
-import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
+import { chartFigure, createChart, decadeTicks, seriesColour, setAxes, setDatasets } from "../charts.js";
+import { axisTitle, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
 
 export const id = "sampling";
@@ -290,20 +291,23 @@ export function mount(root, { engine, description }) {
   const demos = Object.entries(stagesField.demos || {}).map(([demoId, d]) => ({ id: demoId, ...d }));
   let penetrationChart = null;
   let spectrumChart = null;
+  let spectrumUnit = ""; // read by the spectrum chart's readout, which outlives one reply
 
   const summaryBox = el("div", { class: "table-box summary-box" });
   const stageBox = el("div", { class: "table-box", tabindex: "0", role: "region", "aria-label": "Penetration by stage (scrolls sideways on narrow screens)" });
   const detailBox = el("div", { class: "stage-details" });
   const penetrationFigure = chartFigure("sampling-penetration",
     "Penetration (the fraction of particles that get through) against particle size, for each stage and for the whole chain, with the target curve if one is chosen.",
-    "Save penetration chart image", "drift-dose-sampling-penetration.png", () => penetrationChart);
+    "Save penetration chart image", "drift-dose-sampling-penetration.png", () => penetrationChart,
+    () => ({ title: "Penetration through the sampling chain against particle size", scenario: scenario() }));
   const spectrumSection = el("section", { class: "spectrum-result", "aria-labelledby": "sampling-spectrum-title", hidden: "" });
   const spectrumTitle = el("h3", { id: "sampling-spectrum-title" }, "Measured spectrum corrected for the chain's losses");
   const spectrumSummary = el("p", { class: "spectrum-summary" });
   const spectrumTableBox = el("div", { class: "table-box spectrum-table-box", tabindex: "0", role: "region", "aria-label": "Corrected spectrum table" });
   const spectrumFigure = chartFigure("sampling-spectrum",
     "Measured and corrected concentration per size bin. Bins the chain passes with less than 50 % are drawn as large triangles: their correction is unreliable.",
-    "Save spectrum chart image", "drift-dose-sampling-spectrum.png", () => spectrumChart);
+    "Save spectrum chart image", "drift-dose-sampling-spectrum.png", () => spectrumChart,
+    () => ({ title: "Measured spectrum corrected for the chain's losses", scenario: scenario() }));
   spectrumSection.append(spectrumTitle, spectrumSummary, spectrumTableBox);
 
   const panel = new CalcPanel(root, {
@@ -328,6 +332,17 @@ export function mount(root, { engine, description }) {
     panel.schedule();
   });
   chain.set(stagesField.default || [], true);
+
+  // the scenario of a saved chart image: the chain in one line, then flow, target and spectrum
+  function scenario() {
+    const inputs = panel.lastGoodInputs || {};
+    const stages = Array.isArray(inputs.stages) ? inputs.stages : [];
+    const types = stagesField.stage_types || {};
+    const chainText = stages.map((st, i) => `${i + 1}. ${(st && st.name) || types[st?.type]?.label || st?.type || "stage"}`).join(", ");
+    const files = panel.importedFiles().map((f) => `file ${f.name}`);
+    const rest = panel.scenario(["flow", "target", "spectrum_source", "temperature", "pressure", "particle_density", "density_basis", "shape_factor"]);
+    return [chainText ? `Chain: ${chainText}` : "", rest, ...files].filter(Boolean).join(" · ");
+  }
 
   function describeData(name, raw) {
     if (name === "csv_text") {
@@ -392,13 +407,14 @@ export function mount(root, { engine, description }) {
   function renderPenetrationChart(curves) {
     if (!penetrationChart) {
       penetrationChart = createChart(penetrationFigure.canvas, {
-        x: { title: `${curves.x_label} (µm)`, tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => lengthTick(x * 1e-6), min: 1e-3, max: 100 },
+        // the size ticks carry their units ("10 nm", "1 µm"): the title names the quantity only
+        x: { title: axisTitle(curves.x_label, "µm", true), tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => lengthTick(x * 1e-6), min: 1e-3, max: 100 },
         y: { title: "Penetration (fraction passing)", type: "linear", min: 0, max: 1 },
-      }, { readout: (ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y * 100, 3)} %` });
+      }, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y * 100, 3)} %`) });
       // the whole chain is drawn under the stages (dataset order), but listed after them
       penetrationChart.options.plugins.legend.labels.sort = (a, b) => a.datasetIndex - b.datasetIndex;
     }
-    penetrationChart.options.scales.x.title.text = `${curves.x_label} (µm)`;
+    penetrationChart.options.scales.x.title.text = axisTitle(curves.x_label, "µm", true);
     const sets = curves.stages.map((curve, i) => ({
       label: `${i + 1}. ${stageName(i, curve.label)}`, data: toPoints(curve), borderColor: seriesColour(i + 1), backgroundColor: seriesColour(i + 1),
       pointRadius: 0, borderWidth: 2, borderDash: [5, 3 + 2 * (i % 3)], order: 1,
@@ -422,9 +438,8 @@ export function mount(root, { engine, description }) {
   function renderSpectrum(table, curves) {
     spectrumSection.hidden = !table;
     if (!table) {
-      // no canvas left behind: the printed record draws every canvas of the panel
-      if (spectrumChart) spectrumChart.destroy();
-      spectrumChart = null;
+      // no canvas left in the panel (the printed record draws every canvas of the panel); the
+      // chart itself is kept and updated in place when a spectrum comes back
       spectrumFigure.figure.remove();
       return;
     }
@@ -486,11 +501,15 @@ export function mount(root, { engine, description }) {
 
   function renderSpectrumChart(curves, aero) {
     const positive = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] > 0 ? curve.y[i] : null }));
-    if (spectrumChart) spectrumChart.destroy();
-    spectrumChart = createChart(spectrumFigure.canvas, {
-      x: { title: `${curves.x_label} (µm)`, tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => `${lengthTick(x * 1e-6)}${aero ? " aerodynamic" : ""}` },
-      y: { title: `${curves.y_label} (${curves.y_unit})`, tick: decadeTicks((v) => formatNumber(v, 2)) },
-    }, { readout: (ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 4)}` });
+    // created once, its axes and data updated in place; the size ticks carry their units, the
+    // concentration ticks are bare numbers (so that title names the unit)
+    const axes = {
+      x: { title: axisTitle(curves.x_label, "µm", true), tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => `${lengthTick(x * 1e-6)}${aero ? " aerodynamic" : ""}` },
+      y: { title: axisTitle(curves.y_label, curves.y_unit), tick: decadeTicks((v) => formatNumber(v, 2)) },
+    };
+    if (spectrumChart) setAxes(spectrumChart, axes);
+    else spectrumChart = createChart(spectrumFigure.canvas, axes, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y, 4)} ${spectrumUnit}`) });
+    spectrumUnit = curves.y_unit || "";
     const all = positive(curves.corrected);
     const flagged = thin(all.map((p, i) => ({ x: p.x, y: curves.unreliable[i] ? p.y : null })));
     const corrected = thin(all);
