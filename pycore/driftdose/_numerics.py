@@ -25,11 +25,13 @@ def brent_root(
     f : callable
         Continuous function with ``f(a)`` and ``f(b)`` of opposite sign.
     a, b : float
-        Bracket ends.
-    xtol, rtol : float
-        Absolute and relative tolerance on the root.
+        Bracket ends [unit of the argument of ``f``].
+    xtol : float
+        Absolute tolerance on the root [unit of the argument of ``f``].
+    rtol : float
+        Relative tolerance on the root [-].
     maxiter : int
-        Iteration limit.
+        Iteration limit [-].
 
     Returns
     -------
@@ -157,6 +159,13 @@ def logspace(start: float, stop: float, num: int) -> list[float]:
 
     Both ends are included exactly (like ``numpy.geomspace``); ``num`` 0 gives an empty
     list and 1 gives ``[start]``, as numpy does.
+
+    Parameters
+    ----------
+    start, stop : float
+        First and last value, both above 0 [unit of the values].
+    num : int
+        Number of values [-].
     """
     if num < 0:
         raise ValueError(f"number of points must be non-negative, got {num}")

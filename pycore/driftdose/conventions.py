@@ -165,12 +165,24 @@ def high_risk_respirable(d_ae: float) -> float:
 
 
 def extrathoracic(d_ae: float) -> float:
-    """Extrathoracic sub-fraction, E_I - E_T (ISO 7708:1995, clause 8). [-]"""
+    """Extrathoracic sub-fraction, E_I - E_T (ISO 7708:1995, clause 8). [-]
+
+    Parameters
+    ----------
+    d_ae : float
+        Aerodynamic diameter [m].
+    """
     return inhalable(d_ae) - thoracic(d_ae)
 
 
 def tracheobronchial(d_ae: float) -> float:
-    """Tracheobronchial sub-fraction, E_T - E_R (ISO 7708:1995, clause 8). [-]"""
+    """Tracheobronchial sub-fraction, E_T - E_R (ISO 7708:1995, clause 8). [-]
+
+    Parameters
+    ----------
+    d_ae : float
+        Aerodynamic diameter [m].
+    """
     return thoracic(d_ae) - respirable(d_ae)
 
 

@@ -486,7 +486,7 @@ def integrate(
     weight : str
         ``number``, ``surface`` or ``mass``.
     step : float, optional
-        Grid step in ln d for lognormal modes (ignored for binned spectra).
+        Grid step in ln d for lognormal modes [-] (ignored for binned spectra).
 
     Returns
     -------

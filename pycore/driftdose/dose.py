@@ -46,7 +46,13 @@ DURATION_MAX = 24 * 3600.0
 
 
 def model_regions(model: str) -> tuple[str, ...]:
-    """Return the region keys of a model, ``total`` last."""
+    """Return the region keys of a model, ``total`` last.
+
+    Parameters
+    ----------
+    model : str
+        ``icrp66`` or ``simplified``.
+    """
     if model == "icrp66":
         return (*ICRP_REGIONS, "total")
     if model == "simplified":
@@ -127,10 +133,28 @@ def deposition_curves(
     subject: Subject,
     thermodynamic: str = "icrp66",
 ) -> dict[str, list[float]]:
-    """Deposition fractions of a model at volume-equivalent ``diameters`` [m] (by region).
+    """Deposition fractions of a model at volume-equivalent ``diameters`` (by region).
 
-    ``thermodynamic`` says how the shape factor enters diffusion: ``icrp66`` (published
-    convention, default) or ``mobility`` (see :mod:`driftdose.deposition.icrp66`).
+    Parameters
+    ----------
+    model : str
+        ``icrp66`` or ``simplified``.
+    diameters : list of float
+        Volume-equivalent diameters [m].
+    density : float
+        Particle density [kg/m^3].
+    shape_factor : float
+        Dynamic shape factor [-].
+    subject : Subject
+        Breathing.
+    thermodynamic : str
+        How the shape factor enters diffusion: ``icrp66`` (published convention, default) or
+        ``mobility`` (see :mod:`driftdose.deposition.icrp66`).
+
+    Returns
+    -------
+    dict
+        Region key -> deposition fraction at each diameter [-].
     """
     if thermodynamic not in THERMODYNAMIC_CONVENTIONS:
         raise ValueError(
@@ -173,7 +197,7 @@ def deposited_dose(
     benchmark_mass : float, optional
         A mass concentration to compare with. [kg/m^3]
     step : float, optional
-        Integration grid step in ln d for lognormal modes (default: see
+        Integration grid step in ln d for lognormal modes [-] (default: see
         :meth:`~driftdose.distribution.LognormalMode.grid`).
     thermodynamic : str
         How the shape factor enters diffusion: ``icrp66`` (default) or ``mobility``.

@@ -43,6 +43,11 @@ def safe_cell(value: Any) -> Any:
     Text beginning with ``= + - @``, a tab or a carriage return gets a leading apostrophe;
     a plain number (``-2.5e-09``) and anything that is not text are returned unchanged.
 
+    Parameters
+    ----------
+    value : object
+        The cell's content.
+
     Examples
     --------
     >>> safe_cell("=1+1"), safe_cell("-2.5e-09"), safe_cell("@SUM(A1)"), safe_cell("tube")
@@ -70,7 +75,13 @@ class _SafeWriter:
 
 
 def csv_writer(buffer: Any) -> _SafeWriter:
-    """A CSV writer as every export uses: CRLF line ends, formula-like cells neutralised."""
+    """A CSV writer as every export uses: CRLF line ends, formula-like cells neutralised.
+
+    Parameters
+    ----------
+    buffer : file-like
+        Where the rows are written (a text stream opened with ``newline=""``).
+    """
     return _SafeWriter(buffer)
 
 
@@ -94,6 +105,11 @@ def results_csv(reply: dict[str, Any]) -> str:
     """Results as CSV: quantity, symbol, value, unit, value in SI, SI unit, note.
 
     Results that are tables themselves (a row per stage, per bin...) follow as blocks.
+
+    Parameters
+    ----------
+    reply : dict
+        A reply of :func:`driftdose.api.handle` (its ``results``).
     """
     buffer = io.StringIO()
     w = _writer(buffer)
@@ -154,6 +170,11 @@ def curves_csv(reply: dict[str, Any]) -> str:
     from the nearest ``x_label``/``x_unit``/``y_label``/``y_unit`` keys (its own or a parent
     group's). Category data (a dict with ``keys`` and metric dicts holding ``y``) is written
     as a block per metric with the categories as rows.
+
+    Parameters
+    ----------
+    reply : dict
+        A reply of :func:`driftdose.api.handle` (its ``curves``).
     """
     buffer = io.StringIO()
     w = _writer(buffer)
@@ -224,10 +245,22 @@ def _category_groups(node: Any) -> Iterator[dict[str, Any]]:
 
 
 def results_csv_json(reply_json: str) -> str:
-    """:func:`results_csv` of a reply given as JSON text (the browser worker's form)."""
+    """:func:`results_csv` of a reply given as JSON text (the browser worker's form).
+
+    Parameters
+    ----------
+    reply_json : str
+        The reply as JSON text.
+    """
     return results_csv(json.loads(reply_json))
 
 
 def curves_csv_json(reply_json: str) -> str:
-    """:func:`curves_csv` of a reply given as JSON text (the browser worker's form)."""
+    """:func:`curves_csv` of a reply given as JSON text (the browser worker's form).
+
+    Parameters
+    ----------
+    reply_json : str
+        The reply as JSON text.
+    """
     return curves_csv(json.loads(reply_json))

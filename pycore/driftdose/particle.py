@@ -518,8 +518,16 @@ def settling_warnings(
 
     Parameters
     ----------
-    d, density, T, P, shape_factor : float
-        As for :func:`settling_velocity`.
+    d : float
+        Volume-equivalent diameter [m].
+    density : float
+        Particle density [kg/m^3].
+    T : float
+        Air temperature [K].
+    P : float
+        Air pressure [Pa].
+    shape_factor : float
+        Dynamic shape factor [-].
     model : str
         The settling model used, a key of :data:`SETTLING_MODELS`.
 
@@ -546,6 +554,13 @@ def settling_regime(re: float, model: str = "clift_gauvin1970") -> str:
 
     Returns ``"Stokes with slip (Re ≤ 0.1)"`` in the Stokes regime, else the correlation's
     name with its range, e.g. ``"Clift & Gauvin (1970) drag (valid to Re 3×10⁵)"``.
+
+    Parameters
+    ----------
+    re : float
+        Particle Reynolds number at the settling velocity [-].
+    model : str
+        The settling model used, a key of :data:`SETTLING_MODELS`.
     """
     if model == "stokes" or re <= STOKES_RE_MAX:
         return "Stokes with slip (Re ≤ 0.1)" if re <= STOKES_RE_MAX else "Stokes with slip"
@@ -709,8 +724,18 @@ def stopping_distance_klyachko(
 
     Parameters
     ----------
-    d, initial_velocity, density, T, P, shape_factor : float
-        As for :func:`stopping_distance`.
+    d : float
+        Volume-equivalent diameter [m].
+    initial_velocity : float
+        Initial velocity relative to the air [m/s].
+    density : float
+        Particle density [kg/m^3].
+    T : float
+        Air temperature [K].
+    P : float
+        Air pressure [Pa].
+    shape_factor : float
+        Dynamic shape factor [-].
 
     Returns
     -------
@@ -734,7 +759,15 @@ def stopping_distance_klyachko(
 
 
 def stopping_regime(re0: float, model: str = "clift_gauvin1970") -> str:
-    """Name how the stopping distance was found at initial Reynolds number ``re0``."""
+    """Name how the stopping distance was found at initial Reynolds number ``re0``.
+
+    Parameters
+    ----------
+    re0 : float
+        Particle Reynolds number at the initial velocity [-].
+    model : str
+        The drag model used, a key of :data:`SETTLING_MODELS`.
+    """
     if model == "stokes":
         return "Stokes: S = V₀τ"
     if re0 <= STOKES_RE_MAX:

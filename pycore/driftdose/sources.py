@@ -174,5 +174,11 @@ SOURCES: dict[str, str] = {
 
 
 def cite(*keys: str) -> list[dict[str, str]]:
-    """Return ``[{"key": k, "citation": SOURCES[k]}, ...]`` for the given keys."""
+    """Return ``[{"key": k, "citation": SOURCES[k]}, ...]`` for the given keys.
+
+    Parameters
+    ----------
+    *keys : str
+        Keys of :data:`SOURCES`.
+    """
     return [{"key": k, "citation": SOURCES[k]} for k in keys]

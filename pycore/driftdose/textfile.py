@@ -91,6 +91,11 @@ class DecodedText:
 def size_text(size: int) -> str:
     """Return a size in bytes as the messages write it (``"4.87 MB"``, ``"812 kB"``).
 
+    Parameters
+    ----------
+    size : int
+        The size [bytes].
+
     Examples
     --------
     >>> size_text(5_106_000), size_text(812 * 1024), size_text(17)
@@ -105,13 +110,28 @@ def size_text(size: int) -> str:
 
 
 def too_large(size: int, limit: int = MAX_BYTES, name: str = "The file") -> str:
-    """The refusal for a file of ``size`` bytes over ``limit`` (the page's words too)."""
+    """The refusal for a file of ``size`` bytes over ``limit`` (the page's words too).
+
+    Parameters
+    ----------
+    size : int
+        The file's size [bytes].
+    limit : int
+        The largest size taken [bytes].
+    name : str
+        How the message names the file.
+    """
     return f"{name} is {size_text(size)}; the limit is {size_text(limit)}."
 
 
 def nul_message(even: int, odd: int) -> str:
-    """Explain NUL characters (``even``/``odd``: how many at even and odd places of the
-    start): UTF-16 text without a byte-order mark, or a binary file."""
+    """Explain NUL characters: UTF-16 text without a byte-order mark, or a binary file.
+
+    Parameters
+    ----------
+    even, odd : int
+        How many NUL bytes at even and at odd places of the file's start [-].
+    """
     if max(even, odd) > 10 * (min(even, odd) + 1):  # one byte in two is NUL: UTF-16
         return (
             "The file looks like UTF-16 text without a byte-order mark; save it as UTF-8 "
@@ -201,6 +221,17 @@ def decode_text_json(
     ``to_bytes``), or None with the file's ``size`` and ``name`` for a file too large to read
     at all. The reply is ``{"ok": true, "text", "encoding", "bom", "size", "size_text",
     "replaced", "notes", "sha256"}`` or ``{"ok": false, "message", "size"}``; it never raises.
+
+    Parameters
+    ----------
+    data : bytes, Uint8Array or None
+        The file's content.
+    limit : int
+        Largest file read [bytes].
+    name : str, optional
+        The file's name, for messages.
+    size : int, optional
+        The file's size when ``data`` is None [bytes].
     """
     if data is None:
         size = int(size or 0)

@@ -153,7 +153,7 @@ def design(
     spreads : dict
         Input name -> :class:`Spread`, in the order the draws are made.
     n : int
-        Number of samples, >= 1.
+        Number of samples, >= 1 [-].
     seed : int
         Seed of ``random.Random``.
     method : str
@@ -188,6 +188,13 @@ def design(
 
 def percentile(values: Sequence[float], p: float) -> float:
     """The ``p``-th percentile (0-100) by linear interpolation between order statistics.
+
+    Parameters
+    ----------
+    values : sequence of float
+        The sample, in any order [unit of the values].
+    p : float
+        Percentile, 0 to 100 [%].
 
     Notes
     -----
@@ -237,6 +244,11 @@ def spearman(x: Sequence[float], y: Sequence[float]) -> float | None:
     """Spearman rank correlation (Pearson's r of the ranks, ties ranked by their mean).
 
     Returns None when either sequence is constant. Spearman (1904), Am. J. Psychol. 15:72.
+
+    Parameters
+    ----------
+    x, y : sequence of float
+        Paired samples of equal length [any unit; ranks only are used].
     """
     if len(x) != len(y) or len(x) < 2:
         raise ValueError("two sequences of equal length >= 2 are needed")
@@ -244,7 +256,15 @@ def spearman(x: Sequence[float], y: Sequence[float]) -> float | None:
 
 
 def table_nodes(nominal: float, lo: float, hi: float) -> list[float]:
-    """Table nodes in ln(value) spanning nominal * [lo, hi], at most NODE_SPACING apart."""
+    """Table nodes in ln(value) spanning nominal * [lo, hi], at most NODE_SPACING apart.
+
+    Parameters
+    ----------
+    nominal : float
+        Nominal value [unit of the value: kg/m^3 for a density, - for a shape factor].
+    lo, hi : float
+        Smallest and largest factor drawn [-].
+    """
     if lo == hi == 1.0:
         return [nominal]
     a, b = math.log(nominal * lo), math.log(nominal * hi)
@@ -439,8 +459,10 @@ def propagate(
     ----------
     spreads : dict
         Input name (of :data:`INPUTS`) -> :class:`Spread`.
-    n, seed, method
-        Size, seed and method of the :func:`design`.
+    n : int
+        Number of samples of the :func:`design` [-].
+    seed : int
+        Seed of the :func:`design`.
     build : callable
         Factors by input name -> the sample's distribution (modes with the sampled medians,
         GSDs, concentrations, densities and shape factors).
@@ -453,6 +475,8 @@ def propagate(
         with the ratio-scaled rates of each sample.
     nominal_exact : dict
         The full model's deposition rates ``[weight][column]`` at the nominal inputs.
+    method : str
+        ``lhs`` or ``mc``, as for :func:`design`.
     samples : range, optional
         Which samples to compute (default all): the propagation can run in blocks.
     tables : DepositionTables, optional
@@ -499,7 +523,21 @@ def make_tables(
     nominal: dict[str, float],
     thermodynamic: str = "icrp66",
 ) -> DepositionTables:
-    """Tables whose nodes span the densities and shape factors drawn in ``factors``."""
+    """Tables whose nodes span the densities and shape factors drawn in ``factors``.
+
+    Parameters
+    ----------
+    spreads : dict
+        Input name (of :data:`INPUTS`) -> :class:`Spread`.
+    factors : dict
+        Input name -> the drawn factors [-] (as :func:`design` returns them).
+    subject : Subject
+        Breathing.
+    nominal : dict
+        Nominal ``density`` [kg/m^3] and ``shape_factor`` [-].
+    thermodynamic : str
+        How the shape factor enters diffusion: ``icrp66`` or ``mobility``.
+    """
 
     def span(name: str) -> tuple[float, float]:
         fs = factors.get(name)

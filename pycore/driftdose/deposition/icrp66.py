@@ -765,7 +765,15 @@ def icrp66_lognormal(
 
 
 def warnings_for(d_min: float, d_max: float, subject: Subject | None = None) -> list[str]:
-    """Warn about sizes from ``d_min`` to ``d_max`` [m] and breathing outside the model."""
+    """Warn about sizes from ``d_min`` to ``d_max`` and breathing outside the model.
+
+    Parameters
+    ----------
+    d_min, d_max : float
+        Smallest and largest diameter used [m].
+    subject : Subject, optional
+        Breathing, checked against the reference ranges of its parameters.
+    """
     out = []
     if d_min < D_MIN:
         out.append(

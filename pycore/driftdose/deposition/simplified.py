@@ -115,7 +115,13 @@ def simplified_icrp(d: float, d_ae: float | None = None) -> dict[str, float]:
 
 
 def validity_warnings(d_min: float, d_max: float) -> list[str]:
-    """Warnings when diameters from ``d_min`` to ``d_max`` [m] leave the fits' range."""
+    """Warnings when diameters from ``d_min`` to ``d_max`` leave the fits' range.
+
+    Parameters
+    ----------
+    d_min, d_max : float
+        Smallest and largest diameter used [m].
+    """
     out = []
     if d_min < D_MIN:
         out.append(

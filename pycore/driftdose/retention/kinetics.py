@@ -190,12 +190,26 @@ def _compile(b: Block) -> _Node:
 
 
 def block_duration(b: Block) -> float:
-    """Total duration of a block. [s]"""
+    """Total duration of a block. [s]
+
+    Parameters
+    ----------
+    b : On, Off, Seq or Repeat
+        The exposure schedule.
+    """
     return _compile(b).dur
 
 
 def exposure_time(b: Block, t: float | None = None) -> float:
-    """Time spent exposed in a block, over all of it or up to ``t`` [s] from its start. [s]"""
+    """Time spent exposed in a block, over all of it or up to ``t`` from its start. [s]
+
+    Parameters
+    ----------
+    b : On, Off, Seq or Repeat
+        The exposure schedule.
+    t : float, optional
+        Time from the block's start [s]; the whole block when None.
+    """
     node = _compile(b)
     return node.exposed if t is None else node.exposure(t)
 
@@ -224,6 +238,15 @@ def response(b: Block, lam: float, t: float) -> float:
 
     After the schedule ends (t beyond its duration) the exposure has stopped and the
     response decays as exp(lam (t - T)).
+
+    Parameters
+    ----------
+    b : On, Off, Seq or Repeat
+        The exposure schedule s(t) (1 while exposed, else 0).
+    lam : float
+        Eigenvalue of the compartment network, 0 or negative [1/s].
+    t : float
+        Time from the schedule's start [s].
     """
     return _compile(b).partial(lam, t)
 

@@ -198,7 +198,13 @@ _NETWORKS: dict[str, Network] = {}
 
 
 def network(key: str) -> Network:
-    """The solved network of a rate set (decomposed once per process)."""
+    """The solved network of a rate set (decomposed once per process).
+
+    Parameters
+    ----------
+    key : str
+        The rate set: ``icrp66`` or ``icrp130``.
+    """
     if key not in RATE_SETS:
         raise ValueError(f"unknown rate set {key!r}; valid: {', '.join(RATE_SETS)}")
     if key not in _NETWORKS:
@@ -264,7 +270,7 @@ def deposition_rates(
     subject : Subject
         Breathing during exposure.
     step : float, optional
-        Integration grid step in ln d (as :func:`driftdose.dose.deposited_dose`).
+        Integration grid step in ln d [-] (as :func:`driftdose.dose.deposited_dose`).
     thermodynamic : str
         How the shape factor enters diffusion (as :func:`driftdose.dose.deposited_dose`).
 
@@ -326,7 +332,7 @@ def compartment_inputs(
     rate_set : str
         ``icrp66`` or ``icrp130``.
     step : float, optional
-        Integration grid step in ln d (as :func:`driftdose.dose.deposited_dose`).
+        Integration grid step in ln d [-] (as :func:`driftdose.dose.deposited_dose`).
     thermodynamic : str
         How the shape factor enters diffusion (as :func:`driftdose.dose.deposited_dose`).
 
@@ -399,11 +405,11 @@ def work_schedule(
     hours_per_shift : float
         Exposure per shift, above 0 and at most 24. [h]
     shifts_per_week : int
-        1 to 7 shifts, on consecutive days, each starting at the same time of day.
+        1 to 7 shifts, on consecutive days, each starting at the same time of day [1/week].
     weeks_per_year : int
-        1 to 52 working weeks, then the rest of the year off.
+        1 to 52 working weeks, then the rest of the year off [1/year].
     years : int
-        Working years, at least 1.
+        Working years, at least 1 [year].
 
     Returns
     -------
@@ -430,7 +436,13 @@ def work_schedule(
 
 
 def single_exposure(duration: float) -> On:
-    """One exposure of ``duration`` [s] at time 0."""
+    """One exposure of ``duration`` at time 0.
+
+    Parameters
+    ----------
+    duration : float
+        Exposure duration [s].
+    """
     if not (duration > 0.0 and math.isfinite(duration)):
         raise ValueError("duration must be positive")
     return On(duration)
@@ -527,7 +539,13 @@ def retained_burden(
 
 
 def exposure_end(schedule: On | Off | Seq | Repeat) -> float:
-    """End of the last exposure of a schedule (trailing off-time excluded). [s]"""
+    """End of the last exposure of a schedule (trailing off-time excluded). [s]
+
+    Parameters
+    ----------
+    schedule : On, Off, Seq or Repeat
+        The exposure schedule.
+    """
     if isinstance(schedule, On):
         return schedule.duration
     if isinstance(schedule, Off):

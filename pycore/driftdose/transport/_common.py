@@ -100,7 +100,13 @@ def tube_reynolds_number(
 
 def flow_regime(reynolds: float) -> str:
     """Return ``"laminar"`` below 2000, ``"transition"`` from 2000 to 4000, else
-    ``"turbulent"`` (:data:`RE_LAMINAR_MAX`, :data:`RE_TURBULENT_MIN`; common practice)."""
+    ``"turbulent"`` (:data:`RE_LAMINAR_MAX`, :data:`RE_TURBULENT_MIN`; common practice).
+
+    Parameters
+    ----------
+    reynolds : float
+        Flow Reynolds number [-].
+    """
     if reynolds < RE_LAMINAR_MAX:
         return "laminar"
     if reynolds <= RE_TURBULENT_MIN:
@@ -137,7 +143,15 @@ def transition_weight(reynolds: float) -> float:
 
 
 def interpolate_regimes(laminar: float, turbulent: float, weight: float) -> float:
-    """Return (1 - weight) laminar + weight turbulent (see :func:`transition_weight`). [-]"""
+    """Return (1 - weight) laminar + weight turbulent (see :func:`transition_weight`). [-]
+
+    Parameters
+    ----------
+    laminar, turbulent : float
+        Penetrations in laminar and in turbulent flow [-].
+    weight : float
+        Weight of the turbulent value, 0 to 1 [-].
+    """
     if weight <= 0.0:
         return laminar
     if weight >= 1.0:
@@ -170,10 +184,24 @@ def speed_of_sound(T: float = T_DEFAULT) -> float:
 
 
 def mach_number(velocity: float, T: float = T_DEFAULT) -> float:
-    """Mach number of a mean air ``velocity`` [m/s] at temperature ``T`` [K]. [-]"""
+    """Mach number of a mean air ``velocity`` at temperature ``T``. [-]
+
+    Parameters
+    ----------
+    velocity : float
+        Mean air velocity [m/s].
+    T : float
+        Air temperature [K].
+    """
     return abs(velocity) / speed_of_sound(T)
 
 
 def normal_cdf(x: float) -> float:
-    """Return the standard normal cumulative distribution function, 0.5 erfc(-x/sqrt 2). [-]"""
+    """Return the standard normal cumulative distribution function, 0.5 erfc(-x/sqrt 2). [-]
+
+    Parameters
+    ----------
+    x : float
+        Standard normal deviate [-].
+    """
     return 0.5 * math.erfc(-x / math.sqrt(2.0))

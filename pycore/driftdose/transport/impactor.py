@@ -95,8 +95,16 @@ def impactor_jet_reynolds_number(
 
     Parameters
     ----------
-    nozzle_diameter, flow, n_nozzles, jet, slit_length
-        As for :func:`jet_velocity`.
+    nozzle_diameter : float
+        Nozzle diameter (round) or slit width (rectangular), W. [m]
+    flow : float
+        Total volumetric flow through the stage. [m^3/s]
+    n_nozzles : int
+        Number of identical nozzles sharing the flow. [-]
+    jet : str
+        ``round`` or ``rectangular``.
+    slit_length : float or None
+        Length of each slit (rectangular jets only). [m]
     T, P : float
         Temperature [K], pressure [Pa].
 
@@ -280,12 +288,22 @@ def impactor_penetration(
     ----------
     d : float
         Particle diameter. [m]
-    nozzle_diameter, flow, n_nozzles, density, jet, slit_length
-        As for :func:`impactor_cut_diameter`.
+    nozzle_diameter : float
+        Nozzle diameter (round) or slit width (rectangular). [m]
+    flow : float
+        Total volumetric flow through the stage. [m^3/s]
+    n_nozzles : int
+        Number of identical nozzles. [-]
+    density : float
+        Particle density. [kg/m^3]
+    jet : str
+        ``round`` or ``rectangular`` (see :func:`impactor_cut_diameter`).
     steepness : float
         Width of the efficiency curve, :func:`impactor_efficiency`. [-]
     T, P : float
         Temperature [K], pressure [Pa].
+    slit_length : float or None
+        Length of each slit, required for rectangular jets. [m]
 
     Returns
     -------
