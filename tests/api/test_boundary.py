@@ -1,7 +1,8 @@
 """The JSON boundary: describe(), error replies, and that no exception ever crosses it.
 
-DESIGN.md, "The boundary": a reply is ``{"ok": true, ...}`` or ``{"ok": false, "errors":
-[{"field", "message"}]}``; no exception crosses; a reply never holds NaN or infinity.
+The boundary (DEVELOPERS.md, "Architecture"): a reply is ``{"ok": true, ...}`` or
+``{"ok": false, "errors": [{"field", "message"}]}``; no exception crosses; a reply never holds
+NaN or infinity.
 """
 
 from __future__ import annotations

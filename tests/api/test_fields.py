@@ -1,6 +1,6 @@
 """Validation of the motion calculation's inputs: every field, every kind of bad value.
 
-Contract (DESIGN.md, "The boundary"): a bad input gives ``ok: False`` and an error on that
+Contract (DEVELOPERS.md, "Architecture"): a bad input gives ``ok: False`` and an error on that
 field whose message names the valid range (or the valid choices), so the page can show it
 next to the field. No physics here.
 """

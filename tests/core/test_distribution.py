@@ -58,7 +58,7 @@ def test_gauss_hermite_matches_numpy(n):
 @pytest.mark.parametrize("weight", ["number", "surface", "mass"])
 def test_integrate_matches_scipy_quad_for_deposition(cmd, gsd, weight):
     # cross-check: Gauss-Hermite integration of a smooth per-size quantity (the ICRP 66
-    # alveolar fraction) against scipy.integrate.quad, 1e-6 relative (issue requirement)
+    # alveolar fraction) against scipy.integrate.quad, 1e-6 relative (as the README states)
     mode = LognormalMode(cmd, gsd, 1e10, density=1000.0)
 
     def f(d: float) -> float:

@@ -30,7 +30,7 @@ REL = 0.03
 
 # ICRP 66 (1994) regional deposition, reference worker (normal nose breather, 2.5 h sitting
 # + 5.5 h light exercise), density 3 g/cm3, shape factor 1.5, fraction of inhaled activity
-# in ambient air. 5 um AMAD (GSD 2.5): from memory, matching the values quoted in the task
+# in ambient air. 5 um AMAD (GSD 2.5): from memory
 # (ET1 ~0.34, ET2 ~0.40, BB ~0.018, bb ~0.011, AI ~0.053); printed to 4 digits as
 # percentages 33.93, 39.94, 1.78, 1.10, 5.32, total 82.07 (from memory).
 WORKER_5UM = {

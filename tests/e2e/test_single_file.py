@@ -20,7 +20,7 @@ from driftdose import api
 from .conftest import screenshot, wait_ready
 from .helpers import parse_shown, round_sig, table_values
 
-LIMIT_BYTES = 12_000_000  # issue 5: the single file is at most 12 MB
+LIMIT_BYTES = 12_000_000  # the single file is at most 12 MB (the edition's size budget)
 
 
 @pytest.fixture(scope="module")
