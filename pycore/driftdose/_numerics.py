@@ -1,4 +1,4 @@
-"""Small pure-Python numerical helpers (root finding, spacing).
+"""Small pure-Python numerical tools (root finding, spacing, the normal distribution).
 
 The browser core cannot use scipy, so the few numerical tools it needs live here; the
 tests compare them with scipy as an independent reference.
@@ -176,3 +176,14 @@ def logspace(start: float, stop: float, num: int) -> list[float]:
     values = [math.exp(a + i * step) for i in range(num)]
     values[0], values[-1] = start, stop
     return values
+
+
+def normal_cdf(x: float) -> float:
+    """Return the standard normal cumulative distribution function, 0.5 erfc(-x/sqrt 2). [-]
+
+    Parameters
+    ----------
+    x : float
+        Standard normal deviate [-].
+    """
+    return 0.5 * math.erfc(-x / math.sqrt(2.0))

@@ -115,7 +115,7 @@ def test_stopping_distance_continuous_in_initial_reynolds_number(re0, d, rho):
 
 
 def _flow_for(re: float, dt: float) -> float:
-    from driftdose.transport._common import tube_reynolds_number
+    from driftdose.transport.flow import tube_reynolds_number
 
     return re * 1.0 / tube_reynolds_number(1.0, dt)
 

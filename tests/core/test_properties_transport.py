@@ -26,7 +26,7 @@ from driftdose.transport import (
     settling,
     tube,
 )
-from driftdose.transport._common import tube_reynolds_number
+from driftdose.transport.flow import tube_reynolds_number
 
 FAST = settings(max_examples=260, deadline=None)
 

@@ -126,7 +126,7 @@ def test_bend_penetration_transition_interpolates_between_fits() -> None:
     # Between Re 2000 and 4000 the answer lies between the two published fits, equal to
     # each at the ends (this tool's interpolation, linear in P).
     d, dt, rho = 5e-6, 5e-3, 1000.0
-    from driftdose.transport._common import tube_reynolds_number
+    from driftdose.transport.flow import tube_reynolds_number
 
     nu_flow = tube_reynolds_number(1.0, dt) / 1.0  # Re per unit flow
     for re in (2000.0, 2500.0, 3000.0, 3999.0, 4000.0):

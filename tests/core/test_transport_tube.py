@@ -19,7 +19,7 @@ import scipy.linalg
 
 from driftdose import gas, particle
 from driftdose.transport import tube
-from driftdose.transport._common import tube_reynolds_number
+from driftdose.transport.flow import tube_reynolds_number
 
 # ---------------------------------------------------------------------------------------------
 # 1. Published values

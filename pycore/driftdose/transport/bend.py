@@ -23,7 +23,7 @@ import math
 
 from .. import particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from ._common import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
+from .flow import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
 
 __all__ = [
     "PUI1987_RE_RANGE",
@@ -200,7 +200,7 @@ def bend_penetration(
         Temperature [K], pressure [Pa].
     regime : str
         ``auto`` (laminar below Re = 2000, turbulent above 4000, interpolated between, see
-        :func:`~driftdose.transport._common.transition_weight`), ``laminar`` or
+        :func:`~driftdose.transport.flow.transition_weight`), ``laminar`` or
         ``turbulent``.
 
     Returns

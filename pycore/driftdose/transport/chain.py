@@ -25,7 +25,7 @@ from . import impactor as _impactor
 from . import screen as _screen
 from . import settling as _settling
 from . import tube as _tube
-from ._common import (
+from .flow import (
     MACH_ERROR,
     MACH_WARNING,
     RE_LAMINAR_MAX,
@@ -55,7 +55,7 @@ __all__ = [
 
 UNRELIABLE_BELOW = 0.5
 """Penetration below which a spectrum correction is flagged as unreliable: dividing by a
-small, uncertain penetration amplifies its error (our threshold, as the issue asks). [-]"""
+small, uncertain penetration amplifies its error (our threshold). [-]"""
 
 
 class StageInputError(ValueError):

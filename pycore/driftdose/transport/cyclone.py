@@ -14,8 +14,8 @@ import math
 from collections.abc import Callable
 
 from .. import conventions, particle
+from .._numerics import normal_cdf
 from ..constants import P_DEFAULT, T_DEFAULT
-from ._common import normal_cdf
 
 __all__ = [
     "CYCLONE_CURVES",

@@ -14,9 +14,8 @@ from __future__ import annotations
 import math
 
 from .. import gas, particle
-from .._numerics import brent_root
+from .._numerics import brent_root, normal_cdf
 from ..constants import P_DEFAULT, T_DEFAULT
-from ._common import normal_cdf
 
 __all__ = [
     "DEFAULT_STEEPNESS",

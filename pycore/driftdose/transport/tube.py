@@ -19,7 +19,7 @@ import math
 
 from .. import gas, particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from ._common import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
+from .flow import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
 
 __all__ = [
     "LAMINAR_MODELS",
@@ -269,7 +269,7 @@ def tube_diffusion_penetration_any(
         Temperature [K], pressure [Pa].
     regime : str
         ``auto`` (laminar below Re = 2000, turbulent above 4000, interpolated between, see
-        :func:`~driftdose.transport._common.transition_weight`), ``laminar`` or
+        :func:`~driftdose.transport.flow.transition_weight`), ``laminar`` or
         ``turbulent``.
 
     Returns

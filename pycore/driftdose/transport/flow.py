@@ -1,4 +1,5 @@
-"""Shared helpers of the transport models: tube flow, Reynolds number, speed of sound.
+"""Air flow in sampling lines: tube velocity and Reynolds number, flow regimes and the
+laminar-turbulent interpolation, speed of sound and Mach number.
 
 Conventions used by every stage: diameters are volume-equivalent sphere diameters [m] unless a
 name says aerodynamic; flows are volumetric at the stated temperature and pressure [m^3/s];
@@ -22,7 +23,6 @@ __all__ = [
     "flow_regime",
     "interpolate_regimes",
     "mach_number",
-    "normal_cdf",
     "speed_of_sound",
     "transition_weight",
     "tube_reynolds_number",
@@ -194,14 +194,3 @@ def mach_number(velocity: float, T: float = T_DEFAULT) -> float:
         Air temperature [K].
     """
     return abs(velocity) / speed_of_sound(T)
-
-
-def normal_cdf(x: float) -> float:
-    """Return the standard normal cumulative distribution function, 0.5 erfc(-x/sqrt 2). [-]
-
-    Parameters
-    ----------
-    x : float
-        Standard normal deviate [-].
-    """
-    return 0.5 * math.erfc(-x / math.sqrt(2.0))
