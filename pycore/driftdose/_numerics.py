@@ -105,16 +105,16 @@ def newton_bracketed(
         ``x -> (f(x), f'(x))`` for a smooth, strictly increasing ``f``.
     a, b : float
         Bracket, ``a < b``, known to hold the root (``f(a) <= 0 <= f(b)``); the ends are not
-        evaluated.
+        evaluated [unit of the argument of ``f_df``].
     x0 : float
-        First guess (moved to the middle of the bracket if outside it).
+        First guess (moved to the middle of the bracket if outside it) [unit of the argument].
     step_tol : float
-        The iteration ends with the first Newton step shorter than this; the point it reaches
-        is returned. Near a simple root the error after a step of length h is of order
-        h^2 f''/(2 f'), so the default 1e-7 leaves an error of order 1e-14 for functions with
-        f''/f' of order one.
+        Step length [unit of the argument of ``f_df``]: the iteration ends with the first
+        Newton step shorter than this; the point it reaches is returned. Near a simple root
+        the error after a step of length h is of order h^2 f''/(2 f'), so the default 1e-7
+        leaves an error of order 1e-14 for functions with f''/f' of order one.
     maxiter : int
-        Iteration limit.
+        Iteration limit [-].
 
     Returns
     -------

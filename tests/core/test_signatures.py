@@ -29,9 +29,18 @@ import driftdose
 SKIPPED_PACKAGES = ("driftdose.api", "driftdose.cli", "driftdose.__main__")
 
 #: (module.function, parameter) -> why the parameter carries no unit (numeric but no quantity)
+_SEED = "a seed of the random generator, not a quantity"
+_DATE = "a field of a calendar date, not a quantity"
+_INDEX = "a position in a file (column or line number), not a quantity"
 NO_UNIT: dict[tuple[str, str], str] = {
-    ("driftdose.uncertainty.design", "seed"): "a seed of the random generator, not a quantity",
-    ("driftdose.uncertainty.propagate", "seed"): "a seed of the random generator, not a quantity",
+    ("driftdose.uncertainty.design", "seed"): _SEED,
+    ("driftdose.uncertainty.propagate", "seed"): _SEED,
+    ("driftdose.shift.clock.days_from_civil", "year"): _DATE,
+    ("driftdose.shift.clock.days_from_civil", "month"): _DATE,
+    ("driftdose.shift.clock.days_from_civil", "day"): _DATE,
+    ("driftdose.shift.reader.read_table", "header_line"): _INDEX,
+    ("driftdose.shift.series.read_series", "time_index"): _INDEX,
+    ("driftdose.shift.series.read_series", "date_index"): _INDEX,
 }
 
 

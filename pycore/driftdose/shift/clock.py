@@ -126,6 +126,13 @@ def _clock(m: re.Match[str], text: str, ampm_allowed: bool) -> float:
 def clock_text(seconds: float, with_date: bool = True) -> str:
     """Write a clock time (seconds since 1970-01-01, local) as ISO 8601 text.
 
+    Parameters
+    ----------
+    seconds : float
+        Clock time since 1970-01-01 00:00, local [s].
+    with_date : bool
+        Write the date as well as the time of day.
+
     Examples
     --------
     >>> clock_text(days_from_civil(2026, 3, 5) * 86400.0 + 8 * 3600 + 0.5)
@@ -205,6 +212,11 @@ def parse_iso(text: str) -> tuple[float, float | None]:
 
 def parse_clock_time(text: str) -> float:
     """Seconds after midnight of a clock time ``hh:mm[:ss[.fff]]``. [s]
+
+    Parameters
+    ----------
+    text : str
+        The clock time as written.
 
     Examples
     --------

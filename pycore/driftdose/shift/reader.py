@@ -255,6 +255,15 @@ def find_column(table: Table, spec: str, what: str) -> int:
     """Index of the column named by ``spec``: a number from 1, or a header text matched
     whole or in part, ignoring case.
 
+    Parameters
+    ----------
+    table : Table
+        The file's cells (:func:`read_table`).
+    spec : str
+        Column number from 1, or header text.
+    what : str
+        What the column holds, for error messages.
+
     Raises
     ------
     TableError

@@ -118,7 +118,7 @@ def percentile(sorted_values: Sequence[float], q: float) -> float:
     Parameters
     ----------
     sorted_values : sequence of float
-        Values in increasing order, at least one.
+        Values in increasing order, at least one [unit of the values].
     q : float
         Probability, 0 to 1. [-]
 

@@ -80,7 +80,17 @@ def channel_spectrum(
 
 def shape_amount(dist: Any, quantity: str, model: str = "icrp66") -> float:
     """Amount of ``quantity`` in a distribution: number [1/m^3], mass [kg/m^3] or alveolar
-    LDSA for the ICRP reference worker [m^2/m^3]."""
+    LDSA for the ICRP reference worker [m^2/m^3].
+
+    Parameters
+    ----------
+    dist : LognormalMode, Multimodal or BinnedSpectrum
+        The airborne particles.
+    quantity : str
+        ``number``, ``mass`` or ``ldsa``.
+    model : str
+        Deposition model for the LDSA: ``icrp66`` or ``simplified``.
+    """
     if quantity == "number":
         return dist.total("number")
     if quantity == "mass":
@@ -92,7 +102,15 @@ def shape_amount(dist: Any, quantity: str, model: str = "icrp66") -> float:
 
 
 def scaled(dist: Any, factor: float) -> Any:
-    """The distribution with every concentration multiplied by ``factor`` (≥ 0)."""
+    """The distribution with every concentration multiplied by ``factor`` (≥ 0).
+
+    Parameters
+    ----------
+    dist : LognormalMode, Multimodal or BinnedSpectrum
+        The airborne particles.
+    factor : float
+        Factor on every concentration [-].
+    """
     if isinstance(dist, LognormalMode):
         return replace(dist, number_concentration=dist.number_concentration * factor)
     if isinstance(dist, Multimodal):

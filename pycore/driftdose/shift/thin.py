@@ -28,7 +28,7 @@ def thin_minmax(
     columns : sequence of sequences of float or None
         Values per column, one per reading (None: missing).
     max_points : int
-        Most points returned (about; two per bucket, plus one per gap).
+        Most points returned (about; two per bucket, plus one per gap) [-].
     breaks : sequence of float
         Times where a gap starts (a bucket never spans one; a point with None values is
         placed there). [s]
