@@ -108,6 +108,11 @@ def number(cell: str, decimal: str = "point") -> float | None:
 def is_number(cell: str) -> bool:
     """Tell whether a cell reads as a number with either decimal mark (ambiguous ones too).
 
+    Parameters
+    ----------
+    cell : str
+        The cell's text.
+
     Examples
     --------
     >>> is_number("1,000"), is_number("Größe"), is_number("")
@@ -123,6 +128,11 @@ def is_number(cell: str) -> bool:
 def is_time(cell: str) -> bool:
     """Tell whether a cell is a date, a date and time, or a time of day.
 
+    Parameters
+    ----------
+    cell : str
+        The cell's text.
+
     Examples
     --------
     >>> is_time("2026-03-04 10:15:00"), is_time("04.03.2026"), is_time("10:15"), is_time("a")
@@ -133,7 +143,13 @@ def is_time(cell: str) -> bool:
 
 
 def is_value(cell: str) -> bool:
-    """Tell whether a cell holds a measured value: a number, a date or a time."""
+    """Tell whether a cell holds a measured value: a number, a date or a time.
+
+    Parameters
+    ----------
+    cell : str
+        The cell's text.
+    """
     return is_number(cell) or is_time(cell)
 
 
@@ -142,6 +158,11 @@ def decimal_evidence(cell: str) -> tuple[bool, bool]:
 
     A comma shows a decimal comma only where it cannot be a thousands group (``12,5``,
     ``0,125``, ``1234,567``); a point shows a decimal point likewise (``12.5``, ``0.125``).
+
+    Parameters
+    ----------
+    cell : str
+        The cell's text.
     """
     s = _clean(cell)
     if _COMMA_DECIMAL.match(s):

@@ -51,7 +51,21 @@ def build_columns(
     sample: list[list[str]],
 ) -> tuple[Column, ...]:
     """Catalogue the columns: names (``Column N`` without a header), units from the header
-    or the units row, kind from the first rows, and gaps over every data row."""
+    or the units row, kind from the first rows, and gaps over every data row.
+
+    Parameters
+    ----------
+    header : list of str or None
+        The header row's cells, if the file has one.
+    units_row : list of str or None
+        The units row's cells, if the file has one.
+    body : list of (int, list of str)
+        Data rows with their file line numbers.
+    profile : list of bool
+        Which columns hold values in the data (:func:`~driftdose.tables.detect.data_profile`).
+    sample : list of list of str
+        The first data rows, which decide each column's kind.
+    """
     width = max([_width(header or [])] + [_width(c) for _, c in body])
     gaps = [0] * width
     gap_lines: list[list[int]] = [[] for _ in range(width)]
@@ -174,7 +188,15 @@ def _clip(cells: tuple[str, ...] | list[str]) -> list[str]:
 
 
 def describe_table(table: Table, preview_rows: int = PREVIEW_ROWS) -> dict[str, Any]:
-    """The JSON description of a table that the page shows (shape in :mod:`driftdose.tables`)."""
+    """The JSON description of a table that the page shows (shape in :mod:`driftdose.tables`).
+
+    Parameters
+    ----------
+    table : Table
+        The table read.
+    preview_rows : int
+        How many data rows the preview holds [-].
+    """
     columns = [
         {
             "number": c.index + 1,

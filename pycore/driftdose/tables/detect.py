@@ -42,6 +42,14 @@ _SUMMARY = re.compile(
 
 
 def split_blanks(line: str) -> list[str]:
+    """Split a line into cells separated by blanks (spaces or tabs); a quoted cell may hold
+    blanks.
+
+    Parameters
+    ----------
+    line : str
+        One line of the file.
+    """
     return [
         m.group(1) if m.group(1) is not None else m.group(2)
         for m in _WHITESPACE_CELL.finditer(line)
@@ -50,7 +58,13 @@ def split_blanks(line: str) -> list[str]:
 
 def pick_delimiter(lines: list[str]) -> str | None:
     """The separator giving at least two consistent columns with the most values (ties
-    broken in the order of :data:`DELIMITERS`, then by the rows that agree)."""
+    broken in the order of :data:`DELIMITERS`, then by the rows that agree).
+
+    Parameters
+    ----------
+    lines : list of str
+        The file's lines.
+    """
     sample = [ln for ln in lines if ln.strip() and not ln.lstrip().startswith("#")]
     sample = sample[:SAMPLE] + sample[SAMPLE:][-50:]
     best: tuple[int, int, int, str] | None = None
@@ -72,14 +86,26 @@ def pick_delimiter(lines: list[str]) -> str | None:
 
 
 def value_columns(rows: list[list[str]]) -> int:
-    """How many columns hold a value in some row."""
+    """How many columns hold a value in some row.
+
+    Parameters
+    ----------
+    rows : list of list of str
+        Rows split into cells.
+    """
     width = max((len(r) for r in rows), default=0)
     return sum(any(i < len(r) and _cells.is_value(r[i]) for r in rows) for i in range(width))
 
 
 def is_summary(cells: list[str]) -> bool:
     """A summary row after the data: it starts with a word such as ``Total`` or ``Mean``, or
-    holds a single text cell (``End of file``)."""
+    holds a single text cell (``End of file``).
+
+    Parameters
+    ----------
+    cells : list of str
+        The row's cells.
+    """
     filled = [c for c in cells if c]
     if not filled or _cells.is_value(filled[0]):
         return False
@@ -87,7 +113,13 @@ def is_summary(cells: list[str]) -> bool:
 
 
 def compatible(a: list[str], b: list[str]) -> bool:
-    """Two rows of one kind: where both have a cell, both are values or both are text."""
+    """Two rows of one kind: where both have a cell, both are values or both are text.
+
+    Parameters
+    ----------
+    a, b : list of str
+        The two rows' cells.
+    """
     return all(
         not x or not y or _cells.is_value(x) == _cells.is_value(y)
         for x, y in zip(a, b, strict=False)
@@ -97,7 +129,13 @@ def compatible(a: list[str], b: list[str]) -> bool:
 def data_profile(rows: list[list[str]]) -> list[bool]:
     """Which columns hold values in the data (its signature), from the last run of rows of
     one kind at the end of ``rows``; up to three rows at the very end (a summary) may break
-    the run."""
+    the run.
+
+    Parameters
+    ----------
+    rows : list of list of str
+        The file's rows split into cells.
+    """
     tail = rows[-200:]
     best: list[list[str]] = []
     for skip in range(min(4, len(tail))):
@@ -114,7 +152,15 @@ def data_profile(rows: list[list[str]]) -> list[bool]:
 
 
 def fits(cells: list[str], profile: list[bool]) -> bool:
-    """A data row: every value column holds a value or nothing, at least one a value."""
+    """A data row: every value column holds a value or nothing, at least one a value.
+
+    Parameters
+    ----------
+    cells : list of str
+        The row's cells.
+    profile : list of bool
+        Which columns hold values in the data (:func:`data_profile`).
+    """
     seen = False
     for i, is_val in enumerate(profile):
         if not is_val or i >= len(cells) or not cells[i]:
@@ -127,7 +173,15 @@ def fits(cells: list[str], profile: list[bool]) -> bool:
 
 def data_like(cells: list[str], profile: list[bool]) -> bool:
     """A data row, perhaps with a bad cell: it fits, or its first value-column cell is a value
-    and so are at least half of its value-column cells (a header's first cell is a name)."""
+    and so are at least half of its value-column cells (a header's first cell is a name).
+
+    Parameters
+    ----------
+    cells : list of str
+        The row's cells.
+    profile : list of bool
+        Which columns hold values in the data (:func:`data_profile`).
+    """
     if fits(cells, profile):
         return True
     filled = [cells[i] for i, v in enumerate(profile) if v and i < len(cells) and cells[i]]
@@ -137,7 +191,15 @@ def data_like(cells: list[str], profile: list[bool]) -> bool:
 
 
 def find_start(records: list[tuple[int, list[str]]], profile: list[bool]) -> int:
-    """Index of the first data record: it fits, and 90 % of the records after it do."""
+    """Index of the first data record: it fits, and 90 % of the records after it do.
+
+    Parameters
+    ----------
+    records : list of (int, list of str)
+        The file's rows with their line numbers.
+    profile : list of bool
+        Which columns hold values in the data (:func:`data_profile`).
+    """
     top = records[:SAMPLE]
     fits = [data_like(c, profile) for _, c in top]
     if len(records) <= SAMPLE:  # summary rows at the end do not count against the data
@@ -155,6 +217,16 @@ def find_start(records: list[tuple[int, list[str]]], profile: list[bool]) -> int
 
 
 def decimal_mark(rows: list[list[str]], delim: str) -> str:
+    """The decimal mark of a file: ``comma`` when its cells show decimal commas and no decimal
+    points, else ``point``.
+
+    Parameters
+    ----------
+    rows : list of list of str
+        The data rows' cells.
+    delim : str
+        The file's separator.
+    """
     comma = point = False
     for r in rows:
         for c in r:

@@ -115,6 +115,11 @@ def _normalise(unit: str) -> str:
 def unit_code(unit: str) -> tuple[str, str] | None:
     """Return (canonical code, kind of quantity) of a written unit, or None if unknown.
 
+    Parameters
+    ----------
+    unit : str
+        The unit as written (``#/cm³``, ``µg/m3``).
+
     Examples
     --------
     >>> unit_code("#/cm³"), unit_code("µg/m3"), unit_code("p/cc"), unit_code("furlongs")
@@ -126,7 +131,13 @@ def unit_code(unit: str) -> tuple[str, str] | None:
 
 
 def is_unit(cell: str) -> bool:
-    """Tell whether a cell is a known unit, with or without brackets (``nm``, ``[#/cm³]``)."""
+    """Tell whether a cell is a known unit, with or without brackets (``nm``, ``[#/cm³]``).
+
+    Parameters
+    ----------
+    cell : str
+        The cell's text.
+    """
     s = cell.strip()
     if len(s) >= 2 and s[0] + s[-1] in ("[]", "()"):
         s = s[1:-1]
