@@ -30,9 +30,14 @@ from ..distribution import GSD_MAX, MAX_MODES, BinnedSpectrum, LognormalMode, Mu
 from ..dose import DoseResult, deposited_dose, deposition_curves
 from ..ldsa import lung_deposited_surface_area
 from ..sources import cite
-from .common import DENSITY_BASIS, DIAMETER_TYPE_CHOICES, PARTICLE_DENSITY, SHAPE_FACTOR
 from .fields import Field, FieldError
 from .labels import COORDINATE_WORDS, DIAMETER_TYPE_WORDS, REGION_LABELS
+from .particle_air_fields import (
+    DENSITY_BASIS,
+    DIAMETER_TYPE_CHOICES,
+    PARTICLE_DENSITY,
+    SHAPE_FACTOR,
+)
 from .reply import text_result
 from .spectrum_fields import D_RANGE, NUMBER_MAX, NUMBER_MIN, import_spectrum, spectrum_fields
 from .units import canonical_unit, to_si, unit_label

@@ -15,8 +15,8 @@ from typing import Any
 from .. import gas, particle
 from .._numerics import logspace
 from ..sources import cite
-from .common import PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
 from .fields import Field, FieldError
+from .particle_air_fields import PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
 from .reply import quantity, text_result
 
 TITLE = "Particle motion: diffusion versus settling"

@@ -58,9 +58,15 @@ from ..transport import (
 from ..transport.chain import UNRELIABLE_BELOW
 from ..transport.cyclone import ISO7708_MAX_DIAMETER
 from ..transport.impactor import DEFAULT_STEEPNESS
-from .common import DENSITY_BASIS, PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
 from .fields import Field, FieldError, parse_fields
 from .labels import DIAMETER_TYPE_WORDS, REGION_LABELS
+from .particle_air_fields import (
+    DENSITY_BASIS,
+    PARTICLE_DENSITY,
+    PRESSURE,
+    SHAPE_FACTOR,
+    TEMPERATURE,
+)
 from .reply import quantity, text_result
 from .spectrum_fields import import_spectrum, spectrum_fields
 from .units import auto_unit, from_si, unit_label

@@ -57,8 +57,8 @@ from ..shift.periods import PeriodError
 from ..shift.reader import Table, TableError, find_column, read_table
 from ..shift.series import ColumnSpec, SeriesError, TimeSeries, read_series
 from . import shift_reply as reply
-from .common import PARTICLE_DENSITY, SHAPE_FACTOR
 from .fields import Field, FieldError
+from .particle_air_fields import PARTICLE_DENSITY, SHAPE_FACTOR
 from .shift_inputs import (
     DEFAULT_UNIT,
     canonical,

@@ -13,8 +13,8 @@ from dataclasses import replace
 from typing import Any
 
 from ..spectrum import MAX_BYTES, SpectrumError, SpectrumImport, parse_spectrum_csv
-from .common import DIAMETER_TYPE_CHOICES
 from .fields import Field, FieldError
+from .particle_air_fields import DIAMETER_TYPE_CHOICES
 from .units import to_si
 
 __all__ = [

@@ -1,4 +1,4 @@
-"""Input fields shared by several calculations, declared once (same label, units and range).
+"""Input fields of the particle and the air that several calculations share, declared once.
 
 A calculation that needs its own help text uses ``dataclasses.replace(FIELD, help=...)``.
 """
