@@ -178,7 +178,7 @@ def _check_weight(weight: str) -> int:
 
 @dataclass(frozen=True)
 class LognormalMode:
-    """One lognormal mode of a particle population, held by count.
+    """One lognormal mode of a particle population, held by number.
 
     Attributes
     ----------
@@ -213,7 +213,7 @@ class LognormalMode:
             raise ValueError("density must be positive")
 
     @classmethod
-    def from_count(
+    def from_number(
         cls,
         cmd: float,
         gsd: float,
@@ -251,7 +251,7 @@ class LognormalMode:
         Returns
         -------
         LognormalMode
-            The same population held by count.
+            The same population held by number.
 
         Notes
         -----

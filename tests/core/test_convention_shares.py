@@ -31,7 +31,7 @@ def _scipy_share(mode: LognormalMode, weight: str, convention) -> float:
 )
 def test_convention_shares_vs_scipy_quad(weight, cmd, gsd, rho, chi):
     # cross-check against scipy.integrate.quad (independent numerical reference)
-    mode = LognormalMode.from_count(cmd, gsd, 1e9, rho, chi)
+    mode = LognormalMode.from_number(cmd, gsd, 1e9, rho, chi)
     shares = conventions.convention_shares(mode, (weight,))[weight]
     for name, conv in conventions.CONVENTIONS.items():
         assert shares[name] == pytest.approx(_scipy_share(mode, weight, conv), abs=1e-6), name
@@ -40,8 +40,8 @@ def test_convention_shares_vs_scipy_quad(weight, cmd, gsd, rho, chi):
 def test_convention_shares_equal_convention_fractions_for_multimodal():
     dist = Multimodal(
         (
-            LognormalMode.from_count(50e-9, 1.7, 1e11, 2000.0, 1.0),
-            LognormalMode.from_count(3e-6, 2.0, 1e6, 2000.0, 1.0),
+            LognormalMode.from_number(50e-9, 1.7, 1e11, 2000.0, 1.0),
+            LognormalMode.from_number(3e-6, 2.0, 1e6, 2000.0, 1.0),
         )
     )
     both = conventions.convention_shares(dist, ("mass", "number"))

@@ -42,8 +42,8 @@ from driftdose.retention.model import network
 H = 3600.0
 FUME = Multimodal(
     (
-        LognormalMode.from_count(40e-9, 1.7, 1.5e11, 5000.0, 1.2),
-        LognormalMode.from_count(250e-9, 1.6, 8e9, 5000.0, 1.2),
+        LognormalMode.from_number(40e-9, 1.7, 1.5e11, 5000.0, 1.2),
+        LognormalMode.from_number(250e-9, 1.6, 8e9, 5000.0, 1.2),
     )
 )
 PULSE = On(1e-3)  # a deposit of 1 unit in a millisecond stands for an instant one

@@ -476,7 +476,7 @@ def _parse_modes(raw: Any, desc: ParticleDescription) -> tuple[Multimodal, list[
                 )
             d_model = desc.to_model(median, d_type)
             modes.append(
-                LognormalMode.from_count(
+                LognormalMode.from_number(
                     d_model, gsd, conc, desc.model_density, desc.model_shape_factor
                 )
             )

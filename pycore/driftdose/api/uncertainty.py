@@ -200,7 +200,7 @@ def _builder(v: dict[str, Any], nominal: Multimodal, entered: list[dict[str, Any
             d_model = desc.to_model(median * f.get("median", 1.0), d_type)
             g = gsd * f.get("gsd", 1.0)
             c = conc * f.get("concentration", 1.0)
-            make = LognormalMode.from_count if basis == "count" else LognormalMode.from_mass
+            make = LognormalMode.from_number if basis == "count" else LognormalMode.from_mass
             modes.append(make(d_model, g, c, desc.model_density, desc.model_shape_factor))
         return Multimodal(tuple(modes))
 
