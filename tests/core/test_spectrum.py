@@ -8,7 +8,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from driftdose.spectrum import MAX_BYTES, SpectrumError, parse_spectrum_csv
+from driftdose.spectrum_import import MAX_BYTES, SpectrumError, parse_spectrum_csv
 
 
 def _parse(text, *args, **kw):

@@ -14,7 +14,7 @@ import codecs
 
 import pytest
 
-from driftdose.spectrum import SpectrumError, parse_spectrum_csv
+from driftdose.spectrum_import import SpectrumError, parse_spectrum_csv
 
 INSTRUMENT = (
     "Instrument;mobility sizer (invented)\n"

@@ -16,7 +16,7 @@ from ..shift.series import TimeSeries
 from ..shift.stats import PeriodStats
 from ..shift.thin import thin_minmax
 from ..sources import cite
-from ..spectrum import SpectrumError, parse_spectrum_csv
+from ..spectrum_import import SpectrumError, parse_spectrum_csv
 from .deposition import REGION_LABELS
 from .fields import FieldError
 from .shift_inputs import SI_UNITS, quantity_scale, unit_text

@@ -12,7 +12,7 @@ from __future__ import annotations
 from dataclasses import replace
 from typing import Any
 
-from ..spectrum import MAX_BYTES, SpectrumError, SpectrumImport, parse_spectrum_csv
+from ..spectrum_import import MAX_BYTES, SpectrumError, SpectrumImport, parse_spectrum_csv
 from .fields import Field, FieldError
 from .particle_air_fields import DIAMETER_TYPE_CHOICES
 from .units import to_si
