@@ -13,8 +13,8 @@ from driftdose import api, export
 from driftdose.compose.shift import compose_shift
 from driftdose.shift.clock import TimeParser
 from driftdose.shift.periods import Period
-from driftdose.shift.reader import read_table
 from driftdose.shift.series import ColumnSpec, read_series
+from driftdose.tables import read_table
 
 
 def invented_log(hours: float = 8.0, step: int = 10, gap: tuple[int, int] | None = None) -> str:
@@ -90,10 +90,11 @@ def test_reply_shape_and_numbers_equal_the_core():
     assert reply["ok"], reply
     res = reply["results"]
     imp = res["import"]
-    assert imp["header_line"] == 4 and imp["delimiter"] == "semicolon" and imp["decimal"] == ","
+    assert imp["header_line"] == 4 and imp["delimiter"] == "semicolon" and imp["decimal"] == "comma"
     assert imp["interval_s"] == 10.0 and imp["rows"] == 8 * 360
     assert [c["unit"] for c in imp["columns"]] == ["", "", "#/cm3", "um2/cm3"]
-    assert res["preview"]["header"] == ["Date", "Time", "Number", "LDSA"]
+    assert res["preview"]["header"] == ["Date", "Time", "Number [#/cm3]", "LDSA [um2/cm3]"]
+    assert res["preview"]["rows"][0]["line"] == 5
     rows = res["tasks"]["rows"]
     assert [r["period"] for r in rows] == [p["label"] for p in PERIODS]
     assert res["tasks"]["unit"] == "1/cm³"
@@ -172,7 +173,7 @@ def test_gaps_are_reported():
         (
             {"quantity_columns": [{"column": "pm10", "quantity": "mass"}]},
             "quantity_columns.0.column",
-            "no column matches",
+            "No column named 'pm10'",
         ),
         (
             {"quantity_columns": [{"column": "number", "quantity": "number", "unit": "ppm"}]},

@@ -21,10 +21,10 @@ from driftdose.distribution import LognormalMode
 from driftdose.shift.background import background_values
 from driftdose.shift.clock import TimeParser
 from driftdose.shift.periods import Period
-from driftdose.shift.reader import read_table
 from driftdose.shift.series import ColumnSpec, aligned_values, read_series
 from driftdose.shift.stats import stats_over, twa8h
 from driftdose.shift.taskdose import task_dose
+from driftdose.tables import read_table
 
 
 def make_series(times, *columns, start=0.0):

@@ -38,7 +38,6 @@ NO_UNIT: dict[tuple[str, str], str] = {
     ("driftdose.shift.clock.days_from_civil", "year"): _DATE,
     ("driftdose.shift.clock.days_from_civil", "month"): _DATE,
     ("driftdose.shift.clock.days_from_civil", "day"): _DATE,
-    ("driftdose.shift.reader.read_table", "header_line"): _INDEX,
     ("driftdose.spectrum_import.parse_spectrum_csv", "header_line"): _INDEX,
     ("driftdose.tables.reader.read_table", "header_line"): _INDEX,
     ("driftdose.shift.series.read_series", "time_index"): _INDEX,

@@ -14,10 +14,12 @@ method, what unmeasured time counts as, a benchmark ``{value, unit}`` and the do
 Reply (besides ``ok``, ``warnings``, ``sources``):
 
 - ``results.import``: ``{rows, columns: [{name, unit}], header_line, delimiter, decimal,
-  interval_s, start, end, gaps: [{start, end, seconds}], file: {name, sha256, bytes}}``
-  (``start``/``end`` ISO local date-times; gaps in ISO and seconds); ``results.background_import``
-  the same for the far-field file; ``results.preview``: ``{header, rows}`` (first 10 rows as
-  text cells);
+  interval_s, start, end, gaps: [{start, end, seconds}], gap_count, file: {name, sha256,
+  bytes}, table}`` (``start``/``end`` ISO local date-times; gaps in ISO and seconds;
+  ``delimiter`` and ``decimal`` in words as :mod:`driftdose.tables` gives them; ``table`` its
+  :func:`~driftdose.tables.describe_table`); ``results.background_import`` the same for the
+  far-field file; ``results.preview``: the reader's preview ``{header, rows: [{line,
+  cells}]}``;
 - ``results.tasks``: a table ``{label, unit, rows}``, a row per period in the order entered:
   ``index, period, kind, start, end, start_s, end_s, duration_s, coverage, readings, mean,
   median, p95, max, peak15, background, corrected_mean, below_background_share, ratio,
@@ -50,12 +52,13 @@ import functools
 from dataclasses import replace
 from typing import Any
 
+from .. import textfile
 from ..distribution import LognormalMode, Multimodal
 from ..shift.background import BACKGROUND_METHODS, BackgroundError
 from ..shift.clock import ClockError, TimeParser, clock_text, parse_iso
 from ..shift.periods import PeriodError
-from ..shift.reader import Table, TableError, find_column, read_table
 from ..shift.series import ColumnSpec, SeriesError, TimeSeries, read_series
+from ..tables import Table, TableError, pick_column, read_table
 from . import shift_reply as reply
 from .fields import Field, FieldError
 from .particle_air_fields import PARTICLE_DENSITY, SHAPE_FACTOR
@@ -70,8 +73,9 @@ from .shift_inputs import (
 
 TITLE = "Shift exposure and dose from logged data"
 
-MAX_BYTES = 16 * 1024 * 1024
-"""Largest time-series file, 16 MB (a 24 h file at 1 s with dates and a few columns is 3-6 MB)."""
+MAX_BYTES = textfile.MAX_BYTES
+"""Largest time-series file, the shared 5 MB (a 24 h file at 1 s with ISO date-times and two
+value columns is about 2.7 MB)."""
 
 _TIME_FORMATS = (
     ("iso", "ISO 8601 (2026-03-05T08:00:00 or 2026-03-05 08:00:00)"),
@@ -91,16 +95,16 @@ def _file_fields(prefix: str, label: str, far: bool) -> tuple[Field, ...]:
             None,
             required=False,
             help="Plain text table with a time column; commas, semicolons or tabs; notes above "
-            "the header row are skipped; at most 16 MB.",
+            "the header row are skipped; at most 5 MB.",
             extra={"max_bytes": MAX_BYTES, "accept": ".csv,.txt,.tsv"},
         ),
         Field(f"{prefix}file", f"{label}: name and SHA-256", "data", None, required=False),
         Field(
             f"{prefix}header_line",
-            "Header is on line (0: find it)",
+            "Header is on line (0: find it, -1: none)",
             "integer",
             0,
-            minimum=0,
+            minimum=-1,
             maximum=1000,
             required=False,
         ),
@@ -338,17 +342,18 @@ def _read(
     try:
         table = read_table(text, header_line)
     except TableError as exc:
-        raise FieldError(field, exc.message) from None
+        where = f"{prefix}header_line" if exc.part == "header_line" else field
+        raise FieldError(where, str(exc)) from None
     try:
-        t_index = find_column(table, time_column or "1", "Time column")
+        t_index = pick_column(table, time_column or "1", "time").index
     except TableError as exc:
-        raise FieldError(f"{prefix}time_column", exc.message) from None
+        raise FieldError(f"{prefix}time_column", str(exc)) from None
     d_index = None
     if date_column:
         try:
-            d_index = find_column(table, date_column, "Date column")
+            d_index = pick_column(table, date_column, "date").index
         except TableError as exc:
-            raise FieldError(f"{prefix}date_column", exc.message) from None
+            raise FieldError(f"{prefix}date_column", str(exc)) from None
     start = 0.0
     if time_format == "elapsed_seconds":
         if not start_time:
@@ -359,23 +364,22 @@ def _read(
             raise FieldError(f"{prefix}start_time", exc.message) from None
     specs, units = [], []
     for key, (spec, quantity, unit, fallback) in enumerate(columns):
-        path = f"quantity_columns.{key}" if prefix == "series_" else f"{prefix}column"
+        near = prefix == "series_"
+        path = f"quantity_columns.{key}" if near else f"{prefix}column"
         try:
-            index = find_column(table, spec, "Column")
+            column = pick_column(table, spec, "value")
         except TableError as exc:
-            raise FieldError(
-                f"{path}.column" if prefix == "series_" else path, exc.message
-            ) from None
+            raise FieldError(f"{path}.column" if near else path, str(exc)) from None
         if not unit:
-            unit = canonical(quantity, table.units[index]) or fallback
+            unit = canonical(quantity, column.unit.code or column.unit.unit or "") or fallback
         if not unit:
-            head = table.units[index]
+            head = column.unit.unit
             why = f"its header's unit {head!r} is not one" if head else "its header names none"
             raise FieldError(
-                f"{path}.unit" if prefix == "series_" else f"{prefix}unit",
-                f"Give the unit of column {table.header[index]!r} ({why}).",
+                f"{path}.unit" if near else f"{prefix}unit",
+                f"Give the unit of column {column.name!r} ({why}).",
             )
-        specs.append(ColumnSpec(index, str(key), quantity_scale(quantity, unit)))
+        specs.append(ColumnSpec(column.index, str(key), quantity_scale(quantity, unit)))
         units.append(unit)
     try:
         parser = TimeParser(time_format, start)
@@ -392,7 +396,7 @@ def _file_text(v: dict[str, Any], prefix: str, what: str) -> str:
     if not isinstance(text, str):
         raise FieldError(f"{prefix}text", "The file must be sent as text.")
     if len(text.encode("utf-8", "surrogatepass")) > MAX_BYTES:
-        raise FieldError(f"{prefix}text", "The file is larger than 16 MB.")
+        raise FieldError(f"{prefix}text", "The file is larger than 5 MB.")
     return text
 
 

@@ -11,19 +11,18 @@ from typing import Any
 from ..compose.shift import DoseSetup, ShiftResult
 from ..distribution import BinnedSpectrum
 from ..shift.periods import Period
-from ..shift.reader import Table
 from ..shift.series import TimeSeries
 from ..shift.stats import PeriodStats
 from ..shift.thin import thin_minmax
 from ..sources import cite
 from ..spectrum_import import SpectrumError, parse_spectrum_csv
+from ..tables import Table, describe_table
 from .deposition import REGION_LABELS
 from .fields import FieldError
 from .shift_inputs import SI_UNITS, quantity_scale, unit_text
 
 __all__ = ["dose_setup", "shape"]
 
-PREVIEW_ROWS = 10
 CURVE_POINTS = 2000
 QUANTITY_WORDS = {
     "number": "Number concentration",
@@ -176,9 +175,9 @@ def _import(table: Table, series: TimeSeries, v: dict[str, Any], prefix: str) ->
         file = {k: (x[:200] if isinstance(x, str) else x) for k, x in file.items()}
     return {
         "rows": len(series.t),
-        "columns": [{"name": h, "unit": u} for h, u in zip(table.header, table.units, strict=True)],
+        "columns": [{"name": c.name, "unit": c.unit.unit or ""} for c in table.columns],
         "header_line": table.header_line,
-        "delimiter": table.delimiter_name,
+        "delimiter": table.delimiter,
         "decimal": table.decimal,
         "interval_s": series.interval,
         "start": series.clock(0.0),
@@ -189,6 +188,7 @@ def _import(table: Table, series: TimeSeries, v: dict[str, Any], prefix: str) ->
         ],
         "gap_count": len(series.gaps),
         "file": file,
+        "table": describe_table(table),
     }
 
 
@@ -266,11 +266,8 @@ def shape(
     warnings: list[str] = list(r.notes)
     results: dict[str, Any] = {
         "import": _import(table, series, v, "series_"),
-        "preview": {
-            "header": list(table.header),
-            "rows": [cells[:40] for _, cells in table.rows[:PREVIEW_ROWS]],
-        },
     }
+    results["preview"] = results["import"]["table"]["preview"]
     if far is not None and far_table is not None:
         results["background_import"] = _import(far_table, far, v, "background_")
     rows = []

@@ -2,7 +2,7 @@
 
 A :class:`TimeSeries` holds the readings of one file: times (seconds from the first
 reading), the clock time of the first reading and one or more columns of values in SI.
-:func:`read_series` builds it from a file's table (:mod:`driftdose.shift.reader`) and
+:func:`read_series` builds it from a file's table (:mod:`driftdose.tables`) and
 refuses duplicated or backward time stamps with their line numbers.
 
 Each reading stands for the time from its own time stamp to the next one (sample and hold,
@@ -19,8 +19,9 @@ import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
+from ..tables import CellError, Table
+from ..tables import number as read_number
 from .clock import ClockError, TimeParser, clock_text
-from .reader import Table
 
 __all__ = [
     "GAP_FACTOR",
@@ -154,7 +155,7 @@ def read_series(
     Parameters
     ----------
     table : Table
-        The file's cells (:func:`driftdose.shift.reader.read_table`).
+        The file's cells (:func:`driftdose.tables.read_table`).
     parse_time : TimeParser
         Reader of the time stamps in the form the user chose.
     time_index : int
@@ -184,26 +185,38 @@ def read_series(
     clock: list[float] = []
     values: dict[str, list[float | None]] = {c.key: [] for c in columns}
     lines: list[int] = []
-    specs = [(c.index, c.scale, values[c.key]) for c in columns]
+    specs = [(c.index, c.scale, values[c.key], table.columns[c.index].name) for c in columns]
+    decimal = table.decimal
     for line, cells in rows:
         try:
-            date = cells[date_index] if date_index is not None else None
-            now = parse_time(cells[time_index], date)
+            width = len(cells)
+            date = None
+            if date_index is not None:
+                date = cells[date_index] if date_index < width else ""
+            stamp = cells[time_index] if time_index < width else ""
+            now = parse_time(stamp, date)
         except ClockError as exc:
-            raise SeriesError(f"Line {line}: {exc.message}", where, line) from None
+            hint = ""
+            if table.delimiter == "whitespace" and date_index is None:
+                hint = (
+                    " The columns were read as separated by blanks, which splits a date from "
+                    "its time: look for rows with another separator, or name the date column."
+                )
+            raise SeriesError(f"Line {line}: {exc.message}{hint}", where, line) from None
         if clock and now <= clock[-1]:
             before = lines[-1]
             what = "repeats the time" if now == clock[-1] else "goes back in time from"
             raise SeriesError(
-                f"Line {line}: the time stamp {cells[time_index].strip()[:30]!r} {what} line "
+                f"Line {line}: the time stamp {stamp.strip()[:30]!r} {what} line "
                 f"{before} ({clock_text(clock[-1])}); time stamps must increase.",
                 where,
                 line,
             )
         clock.append(now)
         lines.append(line)
-        for index, scale, out in specs:
-            out.append(_number(cells[index], scale, line, table.header[index], where))
+        for index, scale, out, name in specs:
+            cell = cells[index] if index < width else ""
+            out.append(_number(cell, decimal, scale, line, name, where))
     start = clock[0]
     t = [c - start for c in clock]
     spacing = [b - a for a, b in itertools.pairwise(t)]
@@ -223,25 +236,24 @@ def read_series(
     )
 
 
-def _number(cell: str, scale: float, line: int, name: str, where: str) -> float | None:
-    s = cell.strip()
+def _number(
+    cell: str, decimal: str, scale: float, line: int, name: str, where: str
+) -> float | None:
     try:
-        x = float(s)
-    except ValueError:
-        if s.strip('"').lower() in MISSING:
+        x = read_number(cell, decimal)
+    except CellError as exc:
+        if cell.strip().strip('"').lower() in MISSING:
             return None
         raise SeriesError(
-            f"Line {line}: {s[:30]!r} in column {name[:40]!r} is not a number.", where, line
+            f"Line {line}: column {name[:40]!r}: {exc.message}", where, line
         ) from None
-    if "_" in s:
-        raise SeriesError(
-            f"Line {line}: {s[:30]!r} in column {name[:40]!r} is not a number.", where, line
-        )
-    if math.isnan(x):
+    if x is None or math.isnan(x):
         return None
     if math.isinf(x):
         raise SeriesError(
-            f"Line {line}: {s[:30]!r} in column {name[:40]!r} is not a finite number.", where, line
+            f"Line {line}: {cell.strip()[:30]!r} in column {name[:40]!r} is not a finite number.",
+            where,
+            line,
         )
     return x * scale
 
