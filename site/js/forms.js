@@ -39,7 +39,7 @@ function asText(value) {
  * Render one field description into `container`; returns a handle with get(), set(), showError().
  */
 export function renderField(container, field, prefix) {
-  if (field.kind === "data" && field.item_fields) return renderList(container, field, prefix);
+  if (field.kind === "records") return renderList(container, field, prefix);
   if (field.kind === "data" && field.accept) return renderFile(container, field, prefix);
   const id = `${prefix}-${field.name}-${++counter}`;
   const wrap = el("div", { class: "field", "data-field": field.name });
@@ -141,16 +141,27 @@ export class FieldSet {
    */
   showErrors(errors) {
     const byField = new Map();
+    const byItem = new Map(); // errors of one value inside a list field: "<field>.<index>[.<sub>]"
     const orphans = [];
     for (const e of errors || []) {
-      if (this.handles.has(e.field) && !byField.has(e.field)) {
-        byField.set(e.field, e.message);
-        if (this.handles.get(e.field).wrap.hidden) orphans.push(e.message);
+      const path = String(e.field ?? "");
+      const head = path.split(".")[0];
+      const list = path !== head ? this.handles.get(head) : undefined;
+      if (list && list.showItemErrors) {
+        if (!byItem.has(head)) byItem.set(head, []);
+        byItem.get(head).push({ ...e, field: path });
+        if (list.wrap.hidden) orphans.push(e.message);
+      } else if (this.handles.has(path) && !byField.has(path)) {
+        byField.set(path, e.message);
+        if (this.handles.get(path).wrap.hidden) orphans.push(e.message);
       } else {
         orphans.push(e.message);
       }
     }
-    for (const [name, handle] of this.handles) handle.showError(byField.get(name) || "");
+    for (const [name, handle] of this.handles) {
+      handle.showError(byField.get(name) || "");
+      if (handle.showItemErrors) orphans.push(...handle.showItemErrors(handle.wrap.hidden ? [] : byItem.get(name) || []));
+    }
     return orphans;
   }
 
@@ -275,7 +286,10 @@ function renderFile(container, field, prefix) {
   };
 }
 
-/** A list of items (such as lognormal modes), each a small group of fields. */
+/**
+ * A `records` field (such as lognormal modes): one group of sub-fields per record, with add and
+ * remove buttons; a message about one value sits beside that value only.
+ */
 function renderList(container, field, prefix) {
   const shell = fieldShell(container, field, prefix);
   const group = el("fieldset", { class: "item-list" });
@@ -311,6 +325,8 @@ function renderList(container, field, prefix) {
       if (h.unitSelect) h.unitSelect.addEventListener("change", notify);
       handles.set(f.name, h);
     }
+    const error = el("p", { class: "error", hidden: "" }); // about the record as a whole
+    box.append(error);
     const remove = el("button", { type: "button", class: "secondary" }, "Remove");
     remove.addEventListener("click", () => {
       rows = rows.filter((r) => r !== row);
@@ -319,7 +335,7 @@ function renderList(container, field, prefix) {
       notify();
     });
     box.append(remove);
-    const row = { box, legend, handles, remove };
+    const row = { box, legend, handles, remove, error };
     return row;
   }
 
@@ -360,9 +376,34 @@ function renderList(container, field, prefix) {
     return out;
   }
 
+  /**
+   * Put each error ({field: "<name>.<index>[.<sub>]", message}) beside the value it names;
+   * returns the messages that have no place here (a record the form does not show).
+   */
+  function showItemErrors(errors) {
+    const left = [];
+    const shown = new Map(); // handle -> messages
+    const rowShown = new Map();
+    for (const e of errors) {
+      const [, index, sub] = e.field.split(".");
+      const row = /^\d+$/.test(index) ? rows[Number(index)] : undefined;
+      const target = row && sub !== undefined ? row.handles.get(sub) : undefined;
+      if (target) shown.set(target, [...(shown.get(target) || []), e.message]);
+      else if (row && sub === undefined) rowShown.set(row, [...(rowShown.get(row) || []), e.message]);
+      else left.push(e.message);
+    }
+    for (const row of rows) {
+      for (const h of row.handles.values()) h.showError((shown.get(h) || []).join(" "));
+      const text = (rowShown.get(row) || []).join(" ");
+      row.error.textContent = text;
+      row.error.hidden = !text;
+    }
+    return left;
+  }
+
   setItems(field.default || []);
   return {
-    field, wrap: shell.wrap, input: add, unitSelect: null, showError: shell.showError,
+    field, wrap: shell.wrap, input: add, unitSelect: null, showError: shell.showError, showItemErrors,
     get() { return passThrough !== undefined ? passThrough : rows.map(readRow); },
     set(raw) { setItems(raw); },
     listen(cb) { listeners.push(cb); },

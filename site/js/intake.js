@@ -173,7 +173,7 @@ function fieldValue(field, v, path, refused) {
     if (!Array.isArray(v)) return leaf(v);
     return v.slice(0, LIMITS.items).map((x, i) => item(x, stageKeys(field, isPlain(x) ? x.type : undefined), `${path}[${i}]`, refused));
   }
-  if (field.kind === "choice" || field.kind === "text" || field.kind === "data") return leaf(v);
+  if (field.kind === "choice" || field.kind === "text" || field.kind === "data" || field.kind === "records") return leaf(v);
   return quantity(v, path, refused);
 }
 
@@ -218,7 +218,7 @@ function fragmentValue(field, value) {
     }
   }
   const hasUnits = field && !field.item_fields && !field.stage_types && field.kind !== "choice"
-    && field.kind !== "text" && field.kind !== "data";
+    && field.kind !== "text" && field.kind !== "data" && field.kind !== "records";
   const tilde = hasUnits ? value.lastIndexOf("~") : -1;
   return { raw: tilde >= 0 ? { value: value.slice(0, tilde), unit: value.slice(tilde + 1) } : value };
 }

@@ -93,7 +93,7 @@ export class CalcPanel {
         const unit = (field.units || []).find((u) => u.unit === raw.unit);
         const label = unit ? unit.label : String(raw.unit ?? "");
         rows.push({ name: field.name, label: field.label, value: String(raw.value), unit: label === "–" ? "" : label, range: field.range || "" });
-      } else if (field.kind === "data") {
+      } else if (field.kind === "data" || field.kind === "records") {
         rows.push({ name: field.name, label: field.label, value: this.opts.describeData ? this.opts.describeData(field.name, raw) : JSON.stringify(raw), unit: "" });
       } else {
         rows.push({ name: field.name, label: field.label, value: String(raw), unit: "", range: field.range || "" });

@@ -118,18 +118,19 @@ def test_deposition_custom_breathing_below_dead_space():
 
 
 @pytest.mark.parametrize(
-    ("mode", "text"),
+    ("mode", "path", "text"),
     [
-        (_mode(gsd=1.0), "GSD must be above 1"),
-        (_mode(gsd=0.8), "GSD must be above 1"),
-        (_mode(gsd=6), "implausible"),
-        (_mode(median=(0.5, "nm")), "1 nm to 100 µm"),
-        (_mode(median=(200, "um")), "1 nm to 100 µm"),
-        (_mode(conc=(-5, "1/cm3")), "above 0"),
-        (_mode(conc=(1e12, "1/cm3")), "not plausible"),
-        (_mode("mass", (2, "um"), 2, (20000, "mg/m3")), "not plausible"),
-        (_mode(conc=(5, "mg/m3")), "unknown unit"),
-        (_mode(median=("abc", "nm")), "not a number"),
+        (_mode(gsd=1.0), "gsd", "greater than 1"),
+        (_mode(gsd=0.8), "gsd", "greater than 1"),
+        (_mode(gsd=6), "gsd", "at most 5"),
+        (_mode(median=(0.5, "nm")), "median", "1 nm to 100 µm"),
+        (_mode(median=(200, "um")), "median", "1 nm to 100 µm"),
+        (_mode(conc=(-5, "1/cm3")), "concentration", "must be from"),
+        (_mode(conc=(1e12, "1/cm3")), "concentration", "10⁹ 1/cm³"),
+        (_mode("mass", (2, "um"), 2, (20000, "mg/m3")), "concentration", "10⁴ mg/m³"),
+        (_mode(conc=(5, "mg/m3")), "concentration", "unknown unit"),
+        (_mode(median=("abc", "nm")), "median", "must be a number"),
+        (_mode(median=("1,000", "nm")), "median", "ambiguous"),
     ],
     ids=[
         "gsd-1",
@@ -142,18 +143,22 @@ def test_deposition_custom_breathing_below_dead_space():
         "absurd-mass",
         "wrong-unit-kind",
         "non-numeric",
+        "thousands-separator",
     ],
 )
-def test_deposition_mode_validation(mode, text):
+def test_deposition_mode_validation(mode, path, text):
+    """Each mode value is checked by its sub-field's declaration, as a plain field is, and
+    the error names the path of the wrong value (modes.<index>.<name>)."""
     e = _error(_run(modes=[mode]))
-    assert e["field"] == "modes"
+    assert e["field"] == f"modes.0.{path}"
     assert text in e["message"]
     assert e["message"].startswith("Mode 1")
 
 
 def test_deposition_too_many_modes():
     e = _error(_run(modes=[_mode()] * 5))
-    assert "At most 4" in e["message"]
+    assert e["field"] == "modes"
+    assert "at most 4" in e["message"]
 
 
 @pytest.mark.parametrize(

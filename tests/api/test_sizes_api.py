@@ -227,8 +227,8 @@ def test_bad_diameter_type_is_refused_without_a_result(bad):
     sent = copy.deepcopy(mode)
     r = _run(modes=[mode])
     assert r["ok"] is False and "results" not in r
-    assert r["errors"][0]["field"] == "modes"
-    assert "diameter type" in r["errors"][0]["message"]
+    assert r["errors"][0]["field"] == "modes.0.diameter_type"
+    assert "diameter of type" in r["errors"][0]["message"]
     assert mode == sent  # the request is not changed
 
 

@@ -228,3 +228,46 @@ def test_link_round_trip_reproduces_deposition(page, base_url, browser):
         assert p2.locator(f"{PANEL} .demo-note").is_visible()
     finally:
         other.close()
+
+
+def test_mode_error_sits_beside_the_wrong_value_only(page, base_url):
+    """A wrong value in one mode is marked where it is: its message beside that value, no
+    message on the other values, the other mode or the list as a whole; fixing it clears it."""
+    _open(page, base_url)
+    panel = page.locator(PANEL)
+    panel.get_by_role("button", name="Add a mode").click()
+    second = panel.locator("fieldset.item").nth(1)
+    second.get_by_label("Geometric standard deviation", exact=True).fill("0,8")
+    page.wait_for_function(
+        "() => document.getElementById('panel-deposition').dataset.state === 'invalid'"
+    )
+    _settled(page)
+    gsd = second.locator("[data-field=gsd]")
+    error = gsd.locator(".error")
+    assert error.is_visible()
+    assert error.inner_text().startswith("Mode 2: Geometric standard deviation must be greater")
+    assert gsd.get_attribute("class").split().count("invalid") == 1
+    assert gsd.locator("input").get_attribute("aria-invalid") == "true"
+    visible = panel.locator(".field[data-field=modes] .error:visible")
+    assert visible.count() == 1  # only the one beside the GSD of mode 2
+    first = panel.locator("fieldset.item").nth(0)
+    assert first.locator(".invalid").count() == 0
+    assert second.locator(".invalid").count() == 1
+    screenshot(page, "deposition-mode-error")
+    # a thousands separator is refused in a mode as in a plain field, beside the value
+    second.get_by_label("Geometric standard deviation", exact=True).fill("1,8")
+    second.get_by_label(
+        "Median diameter: count median (count mode) or mass median (mass mode)", exact=True
+    ).fill("1,000")
+    page.wait_for_function(
+        "() => [...document.querySelectorAll('#panel-deposition fieldset.item')][1]"
+        ".querySelector('[data-field=median] .error').textContent.includes('ambiguous')"
+    )
+    assert not error.is_visible()
+    second.get_by_label(
+        "Median diameter: count median (count mode) or mass median (mass mode)", exact=True
+    ).fill("100")
+    page.wait_for_function(
+        "() => document.getElementById('panel-deposition').dataset.state === 'ok'"
+    )
+    assert panel.locator(".field[data-field=modes] .error:visible").count() == 0

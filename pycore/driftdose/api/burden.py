@@ -156,17 +156,11 @@ def particle_description(v: dict[str, Any], f_density: float = 1.0, f_shape: flo
     )
 
 
-def aerosol_and_subject(v: dict[str, Any]) -> tuple[Any, Any, dict | None, list]:
+def aerosol_and_subject(v: dict[str, Any]) -> tuple[Any, Any, dict | None, tuple]:
     """Distribution, breathing, CSV report and the modes as entered, from the deposition
     inputs (validated SI), read as the deposition calculation reads them."""
-    desc = particle_description(v)
-    report = None
-    entered: list = []
-    if v["distribution_source"] == "lognormal":
-        dist, entered = dep._parse_modes(v.get("modes"), desc)
-    else:
-        dist, report = dep._parse_csv(v, desc)
-    return dist, dep._subject(v), report, entered
+    aerosol, report = dep._aerosol(v)
+    return aerosol.distribution, dep._subject(v), report, aerosol.modes
 
 
 def schedule_of(v: dict[str, Any]) -> Any:

@@ -20,13 +20,20 @@ from dataclasses import replace
 from typing import Any
 
 from .._numerics import logspace
+from ..compose.aerosol import (
+    Aerosol,
+    ModeSpec,
+    aerosol_from_modes,
+    aerosol_from_spectrum,
+    is_converted,
+)
 from ..conventions import convention_shares
 from ..deposition import Subject, activity, reference_worker
 from ..deposition.icrp66 import BreathingPattern
 from ..deposition.icrp66 import warnings_for as icrp66_warnings
 from ..deposition.simplified import validity_warnings as simplified_warnings
 from ..diameters import ParticleDescription
-from ..distribution import GSD_MAX, MAX_MODES, BinnedSpectrum, LognormalMode, Multimodal
+from ..distribution import GSD_MAX, MAX_MODES, BinnedSpectrum
 from ..dose import DoseResult, deposited_dose, deposition_curves
 from ..ldsa import lung_deposited_surface_area
 from ..sources import cite
@@ -40,7 +47,6 @@ from .particle_air_fields import (
 )
 from .reply import text_result
 from .spectrum_fields import D_RANGE, NUMBER_MAX, NUMBER_MIN, import_spectrum, spectrum_fields
-from .units import canonical_unit, to_si, unit_label
 
 TITLE = "Respiratory deposition and dose per shift"
 
@@ -50,12 +56,6 @@ MASS_MAX = 1e-2  # [kg/m^3], 10 g/m^3
 MASS_MIN = 1e-15  # [kg/m^3], 1e-6 ug/m^3
 BENCHMARK_NUMBER_MIN = 1.0  # [1/m^3]: smaller benchmarks make the ratio overflow
 BENCHMARK_MASS_MIN = 1e-12  # [kg/m^3], 1 ng/m^3
-
-_MODE_UNITS = {
-    "length": ("nm", "um"),
-    "number_concentration": ("1/cm3", "1/m3"),
-    "mass_concentration": ("mg/m3", "ug/m3"),
-}
 
 _DEMO_CSV = (
     "# invented demo spectrum, not a measurement\n"
@@ -166,44 +166,88 @@ MEDIAN_NAMES = {
 }
 """What a mode's median is, by basis and diameter type (shown beside the median field)."""
 
-_MODE_SCHEMA = {
-    "max_items": MAX_MODES,
-    "median_names": MEDIAN_NAMES,
-    "item_fields": [
-        {
-            "name": "basis",
-            "label": "Mode given by",
-            "kind": "choice",
-            "choices": [
-                {"value": "count", "label": "Count (CMD, number concentration)"},
-                {"value": "mass", "label": "Mass (mass median, mass concentration)"},
-            ],
-        },
-        {
-            "name": "median",
-            "label": "Median diameter: count median (count mode) or mass median (mass mode)",
-            "kind": "length",
-            "units": ["nm", "um"],
-            "range": "from 1 nm to 100 µm",
-        },
-        {
-            "name": "diameter_type",
-            "label": "The median is a diameter of type",
-            "kind": "choice",
-            "choices": [{"value": v, "label": lab} for v, lab in DIAMETER_TYPE_CHOICES],
-            "help": "Mass mode: aerodynamic gives the MMAD, volume-equivalent the geometric "
-            "mass median. Left out: volume-equivalent for a count mode, aerodynamic for a "
-            "mass mode.",
-        },
-        {"name": "gsd", "label": "Geometric standard deviation", "kind": "dimensionless"},
-        {
-            "name": "concentration",
-            "label": "Concentration (number for count modes, mass for mass modes)",
-            "kind": "concentration",
-            "units": ["1/cm3", "1/m3", "mg/m3", "ug/m3"],
-        },
-    ],
-}
+_CONCENTRATION_LABEL = "Concentration (number for count modes, mass for mass modes)"
+_DIAMETER_TYPE = Field(
+    "diameter_type",
+    "The median is a diameter of type",
+    "choice",
+    "volume_equivalent",
+    choices=DIAMETER_TYPE_CHOICES,
+    help="Mass mode: aerodynamic gives the MMAD, volume-equivalent the geometric mass median. "
+    "Left out: volume-equivalent for a count mode, aerodynamic for a mass mode.",
+)
+_NUMBER_CONCENTRATION = Field(
+    "concentration",
+    _CONCENTRATION_LABEL,
+    "number_concentration",
+    (None, "1/cm3"),
+    ("1/cm3", "1/m3"),
+    minimum=NUMBER_MIN,
+    maximum=NUMBER_MAX,
+    applies=("basis", ("count",)),
+)
+
+MODE_FIELDS: tuple[Field, ...] = (
+    Field(
+        "basis",
+        "Mode given by",
+        "choice",
+        "count",
+        choices=(
+            ("count", "Count (CMD, number concentration)"),
+            ("mass", "Mass (mass median, mass concentration)"),
+        ),
+    ),
+    Field(
+        "median",
+        "Median diameter: count median (count mode) or mass median (mass mode)",
+        "length",
+        (None, "nm"),
+        ("nm", "um"),
+        minimum=D_RANGE[0],
+        maximum=D_RANGE[1],
+    ),
+    replace(
+        _DIAMETER_TYPE,
+        variants=(
+            replace(_DIAMETER_TYPE, applies=("basis", ("count",))),
+            replace(_DIAMETER_TYPE, default="aerodynamic", applies=("basis", ("mass",))),
+        ),
+    ),
+    Field(
+        "gsd",
+        "Geometric standard deviation",
+        "dimensionless",
+        (None, "1"),
+        ("1",),
+        minimum=1.0,
+        exclusive_min=True,
+        maximum=GSD_MAX,
+        help="Above 1 (1 would mean all particles share one size; e.g. 1.05 for a nearly "
+        f"uniform aerosol); above {GSD_MAX:g} is implausible for one mode: use several modes.",
+    ),
+    replace(
+        _NUMBER_CONCENTRATION,
+        units=("1/cm3", "1/m3", "mg/m3", "ug/m3"),
+        minimum=None,
+        maximum=None,
+        applies=None,
+        variants=(
+            _NUMBER_CONCENTRATION,
+            Field(
+                "concentration",
+                _CONCENTRATION_LABEL,
+                "mass_concentration",
+                (None, "mg/m3"),
+                ("mg/m3", "ug/m3"),
+                minimum=MASS_MIN,
+                maximum=MASS_MAX,
+                applies=("basis", ("mass",)),
+            ),
+        ),
+    ),
+)
+"""What each lognormal mode holds; parsed as every other field is."""
 
 FIELDS: tuple[Field, ...] = (
     Field(
@@ -218,7 +262,7 @@ FIELDS: tuple[Field, ...] = (
     Field(
         "modes",
         "Lognormal modes",
-        "data",
+        "records",
         [
             {
                 "basis": "count",
@@ -232,7 +276,11 @@ FIELDS: tuple[Field, ...] = (
         applies=("distribution_source", ("lognormal",)),
         help="Up to four modes, each by count (count median, GSD, number concentration) or "
         "by mass (mass median, GSD, mass concentration); say which diameter each median is.",
-        extra=_MODE_SCHEMA,
+        item_fields=MODE_FIELDS,
+        min_items=1,
+        max_items=MAX_MODES,
+        item_label="Mode",
+        extra={"median_names": MEDIAN_NAMES},
     ),
     *spectrum_fields("distribution_source"),
     replace(
@@ -369,153 +417,20 @@ FIELDS: tuple[Field, ...] = (
 )
 
 
-def _quantity_in(
-    raw: Any, kinds: tuple[str, ...], where: str, field: str
-) -> tuple[float, str] | None:
-    """Parse ``{"value": x, "unit": u}`` of one of ``kinds``; return (SI, kind)."""
-    if isinstance(raw, dict):
-        value, unit = raw.get("value"), raw.get("unit")
-    else:
-        value, unit = raw, None
-    if isinstance(value, str):
-        text = value.strip().replace("\u2212", "-").replace(" ", "")
-        if text.count(",") == 1 and "." not in text:
-            text = text.replace(",", ".")
-        try:
-            value = float(text)
-        except ValueError:
-            raise FieldError(field, f"{where}: {value[:20]!r} is not a number.") from None
-    if isinstance(value, bool) or not isinstance(value, int | float):
-        raise FieldError(field, f"{where}: enter a number.")
-    value = float(value)
-    if not math.isfinite(value):
-        raise FieldError(field, f"{where}: enter a finite number.")
-    for kind in kinds:
-        if unit is None:
-            continue
-        try:
-            u = canonical_unit(kind, str(unit))
-        except KeyError:
-            continue
-        return to_si(value, kind, u), kind
-    offered = ", ".join(unit_label(u) for k in kinds for u in _MODE_UNITS[k])
-    raise FieldError(field, f"{where}: unknown unit {str(unit)[:20]!r}; use one of {offered}.")
-
-
-def _parse_modes(raw: Any, desc: ParticleDescription) -> tuple[Multimodal, list[dict[str, Any]]]:
-    """The modes as the models see them, and per mode what was entered (basis, type)."""
-    field = "modes"
-    if not isinstance(raw, list) or not raw:
-        raise FieldError(field, "Give at least one lognormal mode.")
-    if len(raw) > MAX_MODES:
-        raise FieldError(
-            field, f"At most {MAX_MODES} modes can be combined; {len(raw)} were given."
-        )
-    modes = []
-    entered: list[dict[str, Any]] = []
-    for i, m in enumerate(raw, start=1):
-        where = f"Mode {i}"
-        if not isinstance(m, dict):
-            raise FieldError(field, f"{where}: expected basis, median, GSD and concentration.")
-        basis = m.get("basis", "count")
-        if basis not in ("count", "mass"):
-            raise FieldError(field, f"{where}: basis must be count or mass.")
-        d_type = m.get("diameter_type")
-        if d_type is None:  # links and files from before the choice existed
-            d_type = "volume_equivalent" if basis == "count" else "aerodynamic"
-        if not isinstance(d_type, str) or d_type not in DIAMETER_TYPE_WORDS:
-            raise FieldError(
-                field,
-                f"{where}: the diameter type must be one of {', '.join(DIAMETER_TYPE_WORDS)}.",
-            )
-        med = _quantity_in(m.get("median"), ("length",), f"{where} median diameter", field)
-        assert med is not None
-        median = med[0]
-        if not (D_RANGE[0] <= median <= D_RANGE[1]):
-            raise FieldError(field, f"{where}: the median diameter must be from 1 nm to 100 µm.")
-        gsd_raw = m.get("gsd")
-        gsd_q = _quantity_in(
-            {"value": gsd_raw, "unit": "1"} if not isinstance(gsd_raw, dict) else gsd_raw,
-            ("dimensionless",),
-            f"{where} GSD",
-            field,
-        )
-        assert gsd_q is not None
-        gsd = gsd_q[0]
-        if gsd <= 1.0:
-            raise FieldError(
-                field,
-                f"{where}: the GSD must be above 1 (1 would mean all particles share one "
-                "size; use e.g. 1.05 for a nearly uniform aerosol).",
-            )
-        if gsd > GSD_MAX:
-            raise FieldError(
-                field,
-                f"{where}: a GSD above {GSD_MAX:g} is implausible for one mode; describe the "
-                "aerosol with several modes instead.",
-            )
-        conc_kind = "number_concentration" if basis == "count" else "mass_concentration"
-        conc_q = _quantity_in(m.get("concentration"), (conc_kind,), f"{where} concentration", field)
-        assert conc_q is not None
-        conc = conc_q[0]
-        if conc <= 0.0:
-            raise FieldError(field, f"{where}: the concentration must be above 0.")
-        if conc < (NUMBER_MIN if basis == "count" else MASS_MIN):
-            raise FieldError(
-                field,
-                f"{where}: a concentration below "
-                f"{'10⁻⁶ per cm³' if basis == 'count' else '10⁻⁶ µg/m³'} is too small to "
-                "compute doses with; check the unit.",
-            )
-        if basis == "count":
-            if conc > NUMBER_MAX:
-                raise FieldError(
-                    field,
-                    f"{where}: a number concentration above 10⁹ per cm³ is not plausible "
-                    "for a workplace aerosol; check the unit.",
-                )
-            d_model = desc.to_model(median, d_type)
-            modes.append(
-                LognormalMode.from_number(
-                    d_model, gsd, conc, desc.model_density, desc.model_shape_factor
-                )
-            )
-        else:
-            if conc > MASS_MAX:
-                raise FieldError(
-                    field,
-                    f"{where}: a mass concentration above 10 g/m³ is not plausible; check "
-                    "the unit.",
-                )
-            d_model = desc.to_model(median, d_type)
-            modes.append(
-                LognormalMode.from_mass(
-                    d_model, gsd, conc, desc.model_density, desc.model_shape_factor
-                )
-            )
-        entered.append({"basis": basis, "diameter_type": d_type, "median": median})
-    return Multimodal(tuple(modes)), entered
-
-
-def _parse_csv(
-    v: dict[str, Any], desc: ParticleDescription, T: float = 293.15, P: float = 101325.0
-) -> tuple[BinnedSpectrum, dict[str, Any]]:
-    """The imported spectrum with its diameters turned into the models' diameters.
-
-    Each bin keeps its particles; its mid-point is converted from the file's diameter type
-    (``spectrum_diameter_type``) by :meth:`ParticleDescription.to_model`, which is monotone,
-    so the bins stay in order.
-    """
+def _aerosol(v: dict[str, Any]) -> tuple[Aerosol, dict[str, Any] | None]:
+    """The aerosol of the validated inputs, and the CSV import report for a spectrum."""
+    desc = ParticleDescription(
+        v["particle_density"], v["shape_factor"], v.get("density_basis") or "material"
+    )
+    if v["distribution_source"] == "lognormal":
+        return aerosol_from_modes([ModeSpec(**m) for m in v["modes"]], desc), None
     imported, report = import_spectrum(v)
-    d_type = v.get("spectrum_diameter_type") or "volume_equivalent"
-    diameters = imported.diameters
-    if d_type != desc.coordinate and not (
-        desc.coordinate == "volume_equivalent" and d_type == "optical"
-    ):
-        diameters = tuple(desc.to_model(d, d_type, T, P) for d in diameters)
     try:
-        dist = BinnedSpectrum(
-            diameters, imported.numbers, desc.model_density, desc.model_shape_factor
+        aerosol = aerosol_from_spectrum(
+            imported.diameters,
+            imported.numbers,
+            v.get("spectrum_diameter_type") or "volume_equivalent",
+            desc,
         )
     except ValueError:
         raise FieldError(
@@ -523,7 +438,7 @@ def _parse_csv(
             "Two bins of the spectrum fall on the same size after conversion to the models' "
             "diameter; merge them.",
         ) from None
-    return dist, report
+    return aerosol, report
 
 
 def _subject(v: dict[str, Any]) -> Subject:
@@ -569,16 +484,9 @@ _WEIGHT_LABEL = {"number": "number", "surface": "surface area", "mass": "mass"}
 
 def run(v: dict[str, Any]) -> dict[str, Any]:
     """Compute the deposition reply from validated SI inputs."""
-    desc = ParticleDescription(
-        v["particle_density"], v["shape_factor"], v.get("density_basis") or "material"
-    )
+    aerosol, report = _aerosol(v)
+    dist, desc = aerosol.distribution, aerosol.description
     rho, chi = desc.model_density, desc.model_shape_factor
-    report = None
-    entered: list[dict[str, Any]] = []
-    if v["distribution_source"] == "lognormal":
-        dist, entered = _parse_modes(v.get("modes"), desc)
-    else:
-        dist, report = _parse_csv(v, desc)
     subject = _subject(v)
     model = v["model"]
     duration = v["exposure_duration"]
@@ -605,11 +513,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "einstein1905",
         "ldsa_fissan2007",
     ]
-    if (
-        desc.basis == "effective"
-        or any(e["diameter_type"] == "mobility" for e in entered)
-        or (report is not None and v.get("spectrum_diameter_type") == "mobility")
-    ):
+    if aerosol.mobility_used():
         sources.append("decarlo2004")
     if model == "simplified":
         sources.insert(1, "hinds1999_ch11")
@@ -619,7 +523,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "results": {
             **_results(res, subject, dist, report),
             **_ldsa_rows(res),
-            **_mode_rows(dist, entered, desc),
+            **_mode_rows(aerosol),
         },
         "curves": _curves(dist, subject, model, rho, chi, res, desc),
         "warnings": warnings,
@@ -733,18 +637,15 @@ def _ldsa_rows(res: DoseResult) -> dict[str, Any]:
     }
 
 
-def _mode_rows(
-    dist: Any, entered: list[dict[str, Any]], desc: ParticleDescription
-) -> dict[str, Any]:
+def _mode_rows(aerosol: Aerosol) -> dict[str, Any]:
     """Per mode: the medians the models use, the MMAD and both concentrations."""
     out: dict[str, Any] = {}
-    modes = getattr(dist, "modes", ())
+    desc = aerosol.description
+    modes = getattr(aerosol.distribution, "modes", ())
     coord = COORDINATE_WORDS[desc.coordinate]
-    for i, (mode, e) in enumerate(zip(modes, entered, strict=True), start=1):
-        given = f"entered: {e['basis']} median, {DIAMETER_TYPE_WORDS[e['diameter_type']]}"
-        converted = e["diameter_type"] != desc.coordinate and not (
-            desc.coordinate == "volume_equivalent" and e["diameter_type"] == "optical"
-        )
+    for i, (mode, e) in enumerate(zip(modes, aerosol.modes, strict=True), start=1):
+        given = f"entered: {e.basis} median, {DIAMETER_TYPE_WORDS[e.diameter_type]}"
+        converted = is_converted(desc, e.diameter_type)
         note = given + ("; converted, GSD kept" if converted else "")
         mmd = mode.median("mass")
         out[f"mode{i}_count_median"] = _row(

@@ -13,7 +13,7 @@ from typing import Any
 
 from .units import SI_UNIT, UNITS, auto_unit, canonical_unit, from_si, to_si, unit_label
 
-__all__ = ["Field", "FieldError", "applies", "format_si", "parse_fields"]
+__all__ = ["Field", "FieldError", "FieldsError", "applies", "format_si", "parse_fields"]
 
 
 class FieldError(Exception):
@@ -23,6 +23,18 @@ class FieldError(Exception):
         super().__init__(message)
         self.field = field_name
         self.message = message
+
+
+class FieldsError(FieldError):
+    """Several problems found in one input (e.g. in different records of a ``records`` field).
+
+    ``errors`` lists them as ``{"field": ..., "message": ...}``; the first also stands as the
+    error's own ``field`` and ``message``.
+    """
+
+    def __init__(self, errors: list[dict[str, str]]) -> None:
+        super().__init__(errors[0]["field"], errors[0]["message"])
+        self.errors = errors
 
 
 @dataclass(frozen=True)
@@ -36,7 +48,10 @@ class Field:
     ``default`` is ``(value, unit)`` for a quantity, else a plain value.
     ``applies`` is ``(other field, values of it)``: the field applies (the page shows it, the
     command line prints it) only while that other field has one of those values; ``None``
-    means always. It is published by :meth:`describe` as ``applies_when``.
+    means always. It is published by :meth:`describe` as ``applies_when``. Within a record,
+    ``variants`` are alternative declarations of the same sub-field, chosen by their own
+    ``applies`` against the record's other values (a concentration by number for a count
+    mode, by mass for a mass mode); the field itself describes the union for the forms.
     """
 
     name: str
@@ -51,6 +66,11 @@ class Field:
     help: str = ""
     required: bool = True
     applies: tuple[str, tuple[str, ...]] | None = None
+    item_fields: tuple[Field, ...] = ()
+    min_items: int = 0
+    max_items: int = 0
+    item_label: str = "Item"
+    variants: tuple[Field, ...] = ()
     extra: dict[str, Any] = field(default_factory=dict)
 
     def describe(self) -> dict[str, Any]:
@@ -76,6 +96,13 @@ class Field:
         if self.applies is not None:
             other, values = self.applies
             out["applies_when"] = {"field": other, "values": list(values)}
+        if self.kind == "records":
+            out["item_fields"] = [f.describe() for f in self.item_fields]
+            out["min_items"] = self.min_items
+            out["max_items"] = self.max_items
+            out["item_label"] = self.item_label
+        if self.variants:
+            out["variants"] = [v.describe() for v in self.variants]
         out.update(self.extra)
         return out
 
@@ -123,6 +150,8 @@ class Field:
             return raw
         if self.kind == "data":
             return raw
+        if self.kind == "records":
+            return self._parse_records(raw)
         if self.kind == "integer":
             number = _number(self, raw)
             if number != int(number):
@@ -163,7 +192,87 @@ class Field:
             return f"text of at most {self.extra.get('max_length', 200)} characters"
         if self.kind == "data":
             return "structured data"
+        if self.kind == "records":
+            return f"a list of at most {self.max_items} records"
         return f"enter a number{_within(self)}"
+
+    def _parse_records(self, raw: Any) -> list[dict[str, Any]]:
+        """Validate a list of records; every value goes through its sub-field's :meth:`parse`.
+
+        A sub-field missing from a record takes its default (a required one without a default
+        is an error). Keys that are not sub-fields are ignored, as for plain inputs. Errors name
+        the path ``<field>.<index>.<sub-field>`` (index from 0) and the record by number.
+        """
+        noun = self.item_label
+        if not isinstance(raw, list):
+            raise FieldError(self.name, f"{self.label}: expected a list of {noun.lower()}s.")
+        if len(raw) < self.min_items:
+            raise FieldError(
+                self.name, f"{self.label}: give at least {self.min_items} {noun.lower()}."
+            )
+        if len(raw) > self.max_items:
+            raise FieldError(
+                self.name,
+                f"{self.label}: at most {self.max_items} {noun.lower()}s can be combined; "
+                f"{len(raw)} were given.",
+            )
+        records: list[dict[str, Any]] = []
+        errors: list[dict[str, str]] = []
+        for i, item in enumerate(raw):
+            where = f"{noun} {i + 1}"
+            if not isinstance(item, dict):
+                errors.append(
+                    {
+                        "field": f"{self.name}.{i}",
+                        "message": f"{where}: expected an object with "
+                        f"{', '.join(f.name for f in self.item_fields)}.",
+                    }
+                )
+                continue
+            record: dict[str, Any] = {}
+            for sub in self.item_fields:
+                decl = sub.variant_for(record)
+                value = item.get(sub.name)
+                if value is None:
+                    value = decl.default_input()
+                try:
+                    record[sub.name] = decl.parse(value)
+                except FieldError as exc:
+                    errors.append(
+                        {
+                            "field": f"{self.name}.{i}.{sub.name}",
+                            "message": f"{where}: {exc.message}",
+                        }
+                    )
+            records.append(record)
+        if errors:
+            raise FieldsError(errors)
+        return records
+
+    def variant_for(self, record: dict[str, Any]) -> Field:
+        """The declaration that applies within ``record``: the first variant whose ``applies``
+        holds for the record's values parsed so far, else this field itself.
+
+        Parameters
+        ----------
+        record : dict
+            Sub-field name -> parsed value (choices as their plain value).
+
+        Returns
+        -------
+        Field
+            The variant, or ``self``.
+        """
+        for v in self.variants:
+            if v.applies is None or record.get(v.applies[0]) in v.applies[1]:
+                return v
+        return self
+
+    def default_input(self) -> Any:
+        """The default as a raw input (``{"value", "unit"}`` for a quantity)."""
+        if self.kind in UNITS:
+            return {"value": self.default[0], "unit": self.default[1]}
+        return self.default
 
     def _check_range(self, si: float, shown: float, unit: str | None = None) -> None:
         lo, hi = self.minimum, self.maximum
@@ -275,18 +384,30 @@ def format_si(value: float, kind: str, unit: str, digits: int = 3) -> str:
 def parse_fields(fields: tuple[Field, ...], inputs: Any) -> tuple[dict[str, Any], list[dict]]:
     """Validate ``inputs`` against ``fields``; return (values in SI, errors).
 
-    Missing optional inputs take their defaults; unknown input names are ignored.
+    Missing optional inputs take their defaults; unknown input names are ignored. A field
+    that does not apply to the other inputs (its ``applies``) is not used: a fault in it is
+    no error, and its value is then ``None``.
     """
     if not isinstance(inputs, dict):
         return {}, [{"field": "", "message": "Inputs must be an object of named fields."}]
     values: dict[str, Any] = {}
     errors: list[dict] = []
+    failed: dict[str, list[dict]] = {}
     for f in fields:
         raw = inputs.get(f.name)
         if raw is None:
-            raw = {"value": f.default[0], "unit": f.default[1]} if f.kind in UNITS else f.default
+            raw = f.default_input()
         try:
             values[f.name] = f.parse(raw)
+        except FieldsError as exc:
+            failed[f.name] = exc.errors
         except FieldError as exc:
-            errors.append({"field": exc.field, "message": exc.message})
+            failed[f.name] = [{"field": exc.field, "message": exc.message}]
+    for f in fields:
+        if f.name not in failed:
+            continue
+        if f.applies is not None and values.get(f.applies[0]) not in f.applies[1]:
+            values[f.name] = None  # does not apply to these choices: not used, not an error
+        else:
+            errors.extend(failed[f.name])
     return values, errors

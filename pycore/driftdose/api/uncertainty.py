@@ -21,7 +21,8 @@ import json
 import math
 from typing import Any
 
-from ..distribution import WEIGHTS, LognormalMode, Multimodal
+from ..compose.aerosol import ModeSpec, aerosol_from_modes, scaled_modes
+from ..distribution import WEIGHTS, Multimodal
 from ..retention import deposition_rates, split_deposit
 from ..retention.model import RATE_SETS, network
 from ..sources import cite
@@ -183,26 +184,16 @@ def describe_spread(s: Spread) -> str:
     return "none (as entered)"
 
 
-def _builder(v: dict[str, Any], nominal: Multimodal, entered: list[dict[str, Any]]) -> Any:
+def _builder(v: dict[str, Any], entered: tuple[ModeSpec, ...]) -> Any:
     """Factors -> the sample's modes, converted to the models' diameters as the deposition
     calculation converts what was entered (diameter type, density basis)."""
-    specs = []
-    for i, (m, mode, e) in enumerate(zip(v["modes"], nominal.modes, entered, strict=True), 1):
-        kind = "number_concentration" if e["basis"] == "count" else "mass_concentration"
-        conc = dep._quantity_in(m.get("concentration"), (kind,), f"Mode {i}", "modes")
-        assert conc is not None
-        specs.append((e["basis"], e["diameter_type"], e["median"], mode.gsd, conc[0]))
 
     def build(f: dict[str, float]) -> Multimodal:
         desc = burden.particle_description(v, f.get("density", 1.0), f.get("shape_factor", 1.0))
-        modes = []
-        for basis, d_type, median, gsd, conc in specs:
-            d_model = desc.to_model(median * f.get("median", 1.0), d_type)
-            g = gsd * f.get("gsd", 1.0)
-            c = conc * f.get("concentration", 1.0)
-            make = LognormalMode.from_number if basis == "count" else LognormalMode.from_mass
-            modes.append(make(d_model, g, c, desc.model_density, desc.model_shape_factor))
-        return Multimodal(tuple(modes))
+        modes = scaled_modes(
+            entered, f.get("median", 1.0), f.get("gsd", 1.0), f.get("concentration", 1.0)
+        )
+        return aerosol_from_modes(modes, desc).distribution
 
     return build
 
@@ -347,7 +338,7 @@ def _context(v: dict[str, Any]) -> dict[str, Any]:
         ),
         "nominal": nominal,
         "exact": exact,
-        "build": _builder(v, dist, entered),
+        "build": _builder(v, entered),
         "outputs": _outputs_fn(v, rows),
         "rows": rows,
         "done": Propagation(n, seed, method, {k: [] for k in spreads}, {}),

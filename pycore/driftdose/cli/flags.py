@@ -18,7 +18,9 @@ from .documents import MAX_JSON_DEPTH, json_depth_over, parse_json_text, read_te
 from .numbers import js_string
 from .status import UserError
 
-QUANTITY_KINDS_EXCLUDED = ("choice", "integer", "text", "data")
+STRUCTURED_KINDS = ("data", "records")
+"""Kinds given as JSON text, @FILE or KEY=VALUE pairs."""
+QUANTITY_KINDS_EXCLUDED = ("choice", "integer", "text", *STRUCTURED_KINDS)
 _KEY_VALUE = re.compile(r"^([A-Za-z_][A-Za-z0-9_]*)=(.*)$", re.S)
 _NUMBER_THEN_UNIT = re.compile(
     r"^\s*([-+\u2212]?(?:\d[\d,_]*(?:\.[\d_]*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$"
@@ -83,7 +85,7 @@ def _field_help(fd: dict[str, Any]) -> str:
             parts.append("units: " + ", ".join(labels))
     if fd.get("range"):
         parts.append(f"valid: {fd['range']}")
-    if fd.get("kind") == "data" and not is_file_field(fd):
+    if fd.get("kind") in STRUCTURED_KINDS and not is_file_field(fd):
         parts.append("JSON text, @FILE.json, or KEY=VALUE pairs (@FILE as a value reads a file)")
     elif is_file_field(fd):
         parts.append("a file name")
@@ -133,7 +135,7 @@ def add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any]
             alias = file_alias(fd, fields)
             if alias and alias not in taken:
                 flags.append(alias)
-        elif fd.get("kind") == "data":
+        elif fd.get("kind") in STRUCTURED_KINDS:
             kwargs["metavar"] = "DATA"
             kwargs["nargs"] = "+"
         else:
@@ -214,7 +216,7 @@ def flag_inputs(
             choice, value = source_choice(fd)
             if choice and f"field:{choice}" not in given:
                 inputs[choice] = value  # a file given means: use it (as choosing it on the page)
-        elif fd.get("kind") == "data":
+        elif fd.get("kind") in STRUCTURED_KINDS:
             inputs[name] = data_value(raw, name, origins, fd)
         elif fd.get("kind") == "text" and raw.startswith("@"):
             inputs[name] = read_text_file(raw[1:], name)
@@ -286,11 +288,12 @@ def _item_list(pairs: list[tuple[str, str]], fd: dict[str, Any], name: str) -> l
             items.append(current)
             current = {}
         f = fields.get(key)
-        if f is not None and f.get("units"):
+        if f is not None and len(f.get("units") or ()) > 1:
             number, unit = split_quantity(value)
             default = template.get(key)
             if unit is None:
-                unit = default.get("unit") if isinstance(default, dict) else f["units"][0]
+                first = f["units"][0]
+                unit = default.get("unit") if isinstance(default, dict) else first["unit"]
             current[key] = {"value": number, "unit": unit}
         elif f is not None:
             current[key] = value  # choices and plain numbers travel as text, as from the form

@@ -71,6 +71,13 @@ HELPERS = r"""
     if (node.parentElement.matches("fieldset.chain")) return "stages";
     let top = field;
     while (top && top.parentElement.closest(".field")) top = top.parentElement.closest(".field");
+    const item = node.closest("fieldset.item");
+    if (top && item && top.contains(item)) {
+      // a record of a list field: the value's path, or the record's for a message about it
+      const index = [...top.querySelectorAll("fieldset.item")].indexOf(item);
+      if (field && field !== top && item.contains(field)) return `${top.dataset.field}.${index}.${field.dataset.field}`;
+      return `${top.dataset.field}.${index}`;
+    }
     return top ? top.dataset.field : "?";
   }
   function waitUpdate(pid, before, timeout) {
@@ -305,7 +312,7 @@ def check_placement(pid: str, reply: dict[str, Any], snap: dict[str, Any]) -> li
         info = snap["fields"].get(f, {"exists": False, "visible": False})
         if f == "stages":
             owner = "stages"
-        elif f.startswith("stages."):
+        elif "." in f:  # a value inside a record (a stage, a mode)
             owner = f if info["visible"] else ".".join(f.split(".")[:2])
         elif f and info["visible"]:
             owner = f
