@@ -75,8 +75,9 @@ HELPERS = r"""
     if (top && item && top.contains(item)) {
       // a record of a list field: the value's path, or the record's for a message about it
       const index = [...top.querySelectorAll("fieldset.item")].indexOf(item);
-      if (field && field !== top && item.contains(field)) return `${top.dataset.field}.${index}.${field.dataset.field}`;
-      return `${top.dataset.field}.${index}`;
+      const where = `${top.dataset.field}.${index}`;
+      if (field && field !== top && item.contains(field)) return `${where}.${field.dataset.field}`;
+      return where;
     }
     return top ? top.dataset.field : "?";
   }
