@@ -6,6 +6,7 @@ import argparse
 import fnmatch
 import io
 import json
+import os
 from collections.abc import Sequence
 from typing import Any, TextIO
 
@@ -17,6 +18,27 @@ from .numbers import is_number, number_text, plain_number
 from .outputs import check_outputs, digits_option, write_text
 from .render import pad, result_rows, row_label, text_width, with_unit
 from .status import EXIT_OK, EXIT_USAGE, UserError
+
+
+def expand_folders(paths: Sequence[str], accept: str) -> list[str]:
+    """The files to run: each path as given, a folder replaced by its files whose names end
+    in one of the ``accept`` suffixes (``".csv,.txt"``; any file when empty), sorted by name,
+    hidden files left out (a folder of survey files, say)."""
+    suffixes = tuple(s.strip().lower() for s in accept.split(",") if s.strip())
+    out: list[str] = []
+    for path in paths:
+        if path != "-" and os.path.isdir(path):
+            names = sorted(
+                n
+                for n in os.listdir(path)
+                if not n.startswith(".")
+                and os.path.isfile(os.path.join(path, n))
+                and (not suffixes or n.lower().endswith(suffixes))
+            )
+            out.extend(os.path.join(path, n) for n in names)
+        else:
+            out.append(path)
+    return out
 
 
 def run_batch(
@@ -35,6 +57,9 @@ def run_batch(
     with the messages in the ``errors`` column; the exit status is then 2.
     """
     fields = description["fields"]
+    opts.files = expand_folders(opts.files, file_field.get("accept", ""))
+    if not opts.files:
+        raise UserError("files", "the folders hold no file of the accepted types.")
     check_outputs(opts, opts.files)
     warn_unknown(kind, fields, base, stderr)
     name = file_field["name"]

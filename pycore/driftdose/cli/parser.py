@@ -169,7 +169,8 @@ def build_parser(description: dict[str, Any]) -> tuple[Parser, dict[str, Any]]:
                 nargs="+",
                 required=True,
                 metavar="FILE",
-                help=f"files, one run each, read into {ff['label']!r} ({ff['name']})",
+                help=f"files, one run each, read into {ff['label']!r} ({ff['name']}); a "
+                "folder stands for its files of the accepted types",
             )
             p.add_argument(
                 "--input", metavar="FILE", help="the other inputs from a JSON file (as above)"
