@@ -20,9 +20,10 @@ from driftdose.api import describe, handle, handle_json
 from driftdose.api import sampling as sampling_api
 from driftdose.api.sampling import CURVE_POINTS, DEMOS, STAGE_FIELDS, TARGETS
 from driftdose.api.spectrum_fields import import_spectrum
+from driftdose.conventions import iso7708_fraction
 from driftdose.deposition import REFERENCE_WORKER, icrp66_curves, simplified_icrp
 from driftdose.sources import SOURCES
-from driftdose.transport import Bend, Chain, Cyclone, Impactor, ScreenStack, Tube, iso7708_fraction
+from driftdose.transport import Bend, Chain, Cyclone, Impactor, ScreenStack, Tube
 
 
 def q(value, unit):

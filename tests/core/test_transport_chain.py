@@ -83,7 +83,7 @@ def test_tube_mechanisms_can_be_switched_off() -> None:
         (lambda: Tube(0.0, 4e-3, Q), "length"),
         (lambda: Tube(-1.0, 4e-3, Q), "length"),
         (lambda: Tube(1.0, 4e-3, 0.0), "flow"),
-        (lambda: Tube(1.0, 4e-3, Q, angle=2.0), "angle"),
+        (lambda: Tube(1.0, 4e-3, Q, inclination=2.0), "inclination"),
         (lambda: Bend(4e-3, Q, math.pi / 2, 1.5e-3), "curvature_radius"),
         (lambda: Bend(4e-3, Q, 0.0, 0.05), "bend_angle"),
         (lambda: Cyclone(4e-6, 1.0), "steepness"),
@@ -144,3 +144,30 @@ def test_correct_spectrum_divides_and_flags() -> None:
     assert out.unreliable[-1]  # 5 um is cut by the cyclone and impactor
     with pytest.raises(ValueError, match="same length"):
         correct_spectrum(chain, sizes, measured[:2])
+
+
+def test_stage_kinds_registry_builds_every_kind() -> None:
+    # Each registry entry builds a stage of its own class and kind from named SI parameters.
+    from driftdose.transport import STAGE_KINDS, build_stage
+
+    parameters = {
+        "tube": {"length": 1.0, "tube_diameter": 4e-3, "inclination": 0.3},
+        "bend": {"tube_diameter": 4e-3, "bend_angle": math.pi / 2, "curvature_radius": 0.05},
+        "cyclone": {"d50": 4e-6, "steepness": 1.5},
+        "impactor": {"nozzle_diameter": 1e-3, "steepness": 1.2},
+        "screens": {
+            "wire_diameter": 5e-5,
+            "solidity": 0.3,
+            "thickness": 1e-4,
+            "screen_diameter": 0.025,
+        },
+    }
+    assert list(STAGE_KINDS) == list(parameters)
+    for key, entry in STAGE_KINDS.items():
+        stage = build_stage(key, parameters[key], 2.5e-5, f"my {key}")
+        assert isinstance(stage, entry.stage)
+        assert stage.kind == key and stage.name == f"my {key}"
+        assert entry.uses_flow == hasattr(stage, "flow")
+    assert build_stage("tube", parameters["tube"], 2.5e-5, "t").inclination == 0.3
+    with pytest.raises(ValueError, match="valid: tube, bend"):
+        build_stage("pipe", {}, 1e-5, "x")

@@ -41,22 +41,13 @@ from dataclasses import replace
 from typing import Any
 
 from .._numerics import logspace
+from ..conventions import D_AE_MAX as ISO7708_MAX_DIAMETER
+from ..conventions import iso7708_fraction
 from ..deposition import REFERENCE_WORKER, icrp66_curves, simplified_icrp
 from ..diameters import ParticleDescription
 from ..sources import cite
-from ..transport import (
-    Bend,
-    Chain,
-    Cyclone,
-    Impactor,
-    ScreenStack,
-    StageInputError,
-    Tube,
-    correct_spectrum,
-    iso7708_fraction,
-)
+from ..transport import STAGE_KINDS, Chain, StageInputError, build_stage, correct_spectrum
 from ..transport.chain import UNRELIABLE_BELOW
-from ..transport.cyclone import ISO7708_MAX_DIAMETER
 from ..transport.impactor import DEFAULT_STEEPNESS
 from .fields import Field, FieldError, parse_fields
 from .labels import DIAMETER_TYPE_WORDS, REGION_LABELS
@@ -341,27 +332,8 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
 }
 """Parameters of each stage type, validated with :func:`~driftdose.api.fields.parse_fields`."""
 
-STAGE_LABELS: dict[str, str] = {
-    "tube": "Straight tube",
-    "bend": "Bend",
-    "cyclone": "Cyclone or pre-separator",
-    "impactor": "Impactor stage",
-    "screens": "Wire screens",
-}
-
-STAGE_HELP: dict[str, str] = {
-    "tube": "Diffusion (Gormley & Kennedy; Friedlander) and settling (Fuchs; Heyder & "
-    "Gebhart; Schwendiman) in a straight tube.",
-    "bend": "Inertial loss in a bend (Pui, Romay-Novas & Liu 1987).",
-    "cyclone": "A penetration curve from a cut size and steepness, or the ideal ISO 7708 "
-    "respirable curve.",
-    "impactor": "Cut size from the Stokes number at 50 % (Marple & Willeke 1976).",
-    "screens": "A stack of wire screens as a fan-model filter (Cheng & Yeh 1980; Cheng, Yeh "
-    "& Brinsko 1985).",
-}
-
-# Core parameter names (StageInputError.parameter) -> field names of this boundary.
-_PARAMETER_FIELDS = {"angle": "inclination"}
+STAGE_LABELS: dict[str, str] = {key: kind.label for key, kind in STAGE_KINDS.items()}
+STAGE_HELP: dict[str, str] = {key: kind.help for key, kind in STAGE_KINDS.items()}
 
 
 def _q(value: float, unit: str) -> dict[str, Any]:
@@ -603,9 +575,9 @@ def _build_stage(index: int, raw: Any, flow: float, T: float, P: float):
     if not isinstance(raw, dict):
         return None, [_stage_error(index, None, "type", "must be an object with a type.")]
     kind = raw.get("type")
-    if not isinstance(kind, str) or kind not in STAGE_FIELDS:
+    if not isinstance(kind, str) or kind not in STAGE_KINDS:
         return None, [
-            _stage_error(index, None, "type", f"type must be one of {', '.join(STAGE_FIELDS)}.")
+            _stage_error(index, None, "type", f"type must be one of {', '.join(STAGE_KINDS)}.")
         ]
     v, errors = parse_fields(STAGE_FIELDS[kind], raw)
     if errors:
@@ -614,10 +586,10 @@ def _build_stage(index: int, raw: Any, flow: float, T: float, P: float):
     q = own_flow if own_flow is not None else flow
     name = v.get("name") or f"{index + 1}. {STAGE_LABELS[kind]}"
     try:
-        stage = _make_stage(kind, v, q, name)
+        stage = build_stage(kind, v, q, name)
         stage.report(T, P)  # refuses near-sonic speeds
     except StageInputError as exc:
-        field = _PARAMETER_FIELDS.get(exc.parameter, exc.parameter)
+        field = exc.parameter
         if field == "flow" and own_flow is None:
             return None, [
                 {
@@ -628,45 +600,6 @@ def _build_stage(index: int, raw: Any, flow: float, T: float, P: float):
             ]
         return None, [_stage_error(index, kind, field, exc.message)]
     return stage, []
-
-
-def _make_stage(kind: str, v: dict[str, Any], q: float, name: str):
-    if kind == "tube":
-        mech = v["mechanisms"]
-        return Tube(
-            v["length"],
-            v["tube_diameter"],
-            q,
-            angle=v["inclination"],
-            diffusion=mech in ("both", "diffusion"),
-            settling=mech in ("both", "settling"),
-            name=name,
-        )
-    if kind == "bend":
-        return Bend(v["tube_diameter"], q, v["bend_angle"], v["curvature_radius"], name=name)
-    if kind == "cyclone":
-        return Cyclone(v["d50"], v["steepness"], v["curve"], name=name)
-    if kind == "impactor":
-        rect = v["jet"] == "rectangular"
-        return Impactor(
-            v["nozzle_diameter"],
-            q,
-            v["n_nozzles"],
-            v["jet"],
-            v["slit_length"] if rect else None,
-            v["steepness"],
-            name=name,
-        )
-    return ScreenStack(
-        v["wire_diameter"],
-        v["solidity"],
-        v["thickness"],
-        q,
-        v["screen_diameter"],
-        v["n_screens"],
-        v["impaction"] == "on",
-        name=name,
-    )
 
 
 # ---------------------------------------------------------------------------------------------

@@ -11,15 +11,16 @@ Stable interfaces (SI units; defaults 293.15 K and 101325 Pa):
 
 Modules: :mod:`.tube` (diffusion, laminar and turbulent), :mod:`.settling` (gravitational
 settling in horizontal and inclined tubes), :mod:`.bend` (inertial loss in bends),
-:mod:`.cyclone` (penetration curves, ISO 7708 conventions), :mod:`.impactor`,
-:mod:`.screen`, :mod:`.chain` (stages composed in order; spectrum correction).
+:mod:`.cyclone` (penetration curves; the ISO 7708 curves come from
+:mod:`driftdose.conventions`), :mod:`.impactor`,
+:mod:`.screen`, :mod:`.chain` (stages composed in order; spectrum correction), :mod:`.kinds`
+(the registry of stage kinds, from which stages are built by key).
 """
 
 from __future__ import annotations
 
 from .bend import bend_penetration, bend_stokes_number
 from .chain import (
-    STAGE_KINDS,
     Bend,
     Chain,
     ChainResult,
@@ -32,13 +33,14 @@ from .chain import (
     Tube,
     correct_spectrum,
 )
-from .cyclone import cyclone_penetration, iso7708_fraction, lognormal_penetration
+from .cyclone import cyclone_penetration, lognormal_penetration
 from .impactor import (
     impactor_cut_diameter,
     impactor_efficiency,
     impactor_penetration,
     impactor_stokes_number,
 )
+from .kinds import STAGE_KINDS, StageKind, build_stage
 from .screen import screen_penetration, single_wire_efficiency
 from .settling import tube_settling_penetration
 from .tube import (
@@ -57,17 +59,18 @@ __all__ = [
     "Impactor",
     "ScreenStack",
     "StageInputError",
+    "StageKind",
     "StageReport",
     "Tube",
     "bend_penetration",
     "bend_stokes_number",
+    "build_stage",
     "correct_spectrum",
     "cyclone_penetration",
     "impactor_cut_diameter",
     "impactor_efficiency",
     "impactor_penetration",
     "impactor_stokes_number",
-    "iso7708_fraction",
     "lognormal_penetration",
     "screen_penetration",
     "single_wire_efficiency",

@@ -7,6 +7,8 @@ level. Results are gathered in dataclasses whose field comments state their unit
 Stages: :class:`Tube` (diffusion and settling in a straight tube), :class:`Bend`,
 :class:`Cyclone`, :class:`Impactor`, :class:`ScreenStack`. Compose them with :class:`Chain`
 and call :meth:`Chain.evaluate`; correct a measured spectrum with :func:`correct_spectrum`.
+The registry of stage kinds (labels, builders from named parameters) is
+:mod:`driftdose.transport.kinds`.
 
 Diameters are volume-equivalent sphere diameters (dynamic shape factor 1) of particles of
 one density; stages that act on the aerodynamic diameter convert.
@@ -38,7 +40,6 @@ from .flow import (
 )
 
 __all__ = [
-    "STAGE_KINDS",
     "UNRELIABLE_BELOW",
     "Bend",
     "Chain",
@@ -47,6 +48,7 @@ __all__ = [
     "Cyclone",
     "Impactor",
     "ScreenStack",
+    "Stage",
     "StageInputError",
     "StageReport",
     "Tube",
@@ -121,15 +123,15 @@ def _regime_warnings(re: float, what: str, models: str, regime: str) -> list[str
 class Tube:
     """Straight circular tube: diffusion and gravitational settling.
 
-    Attributes: ``length`` [m], ``tube_diameter`` [m] (inner), ``flow`` [m^3/s], ``angle``
-    [rad] (inclination from horizontal), ``diffusion`` and ``settling`` switch the
+    Attributes: ``length`` [m], ``tube_diameter`` [m] (inner), ``flow`` [m^3/s],
+    ``inclination`` [rad] (from horizontal), ``diffusion`` and ``settling`` switch the
     mechanisms, ``regime`` is ``auto``, ``laminar`` or ``turbulent``.
     """
 
     length: float
     tube_diameter: float
     flow: float
-    angle: float = 0.0
+    inclination: float = 0.0
     diffusion: bool = True
     settling: bool = True
     regime: str = "auto"
@@ -140,8 +142,8 @@ class Tube:
         _positive("length", self.length, "Tube length")
         _positive("tube_diameter", self.tube_diameter, "Tube inner diameter")
         _positive("flow", self.flow, "Flow")
-        if not (-math.pi / 2 <= self.angle <= math.pi / 2):
-            raise StageInputError("angle", "Inclination must be between -90° and 90°.")
+        if not (-math.pi / 2 <= self.inclination <= math.pi / 2):
+            raise StageInputError("inclination", "Inclination must be between -90° and 90°.")
         if self.regime not in ("auto", "laminar", "turbulent"):
             raise StageInputError("regime", "Regime must be auto, laminar or turbulent.")
 
@@ -160,7 +162,15 @@ class Tube:
             )
         if self.settling:
             p *= _settling.tube_settling_penetration(
-                d, self.length, self.flow, self.tube_diameter, density, self.angle, T, P, regime
+                d,
+                self.length,
+                self.flow,
+                self.tube_diameter,
+                density,
+                self.inclination,
+                T,
+                P,
+                regime,
             )
         return p
 
@@ -197,7 +207,7 @@ class Tube:
             if regime != "laminar":
                 sources += ("friedlander1977",)
             sources += ("brockmann2001",)
-        if self.settling and math.cos(self.angle) > 1e-12:
+        if self.settling and math.cos(self.inclination) > 1e-12:
             if regime != "turbulent":
                 sources += ("fuchs1964", "thomas1958", "heyder_gebhart1977")
             if regime != "laminar":
@@ -217,10 +227,10 @@ class Tube:
 
     def axial_settling_warning(self, d_max: float, density: float, T: float, P: float) -> str:
         """Warning text when settling along the axis is not small against the air speed."""
-        if abs(math.sin(self.angle)) < 1e-12 or not self.settling:
+        if abs(math.sin(self.inclination)) < 1e-12 or not self.settling:
             return ""
         v = particle.settling_velocity(d_max, density, T, P)
-        ratio = v * abs(math.sin(self.angle)) / tube_velocity(self.flow, self.tube_diameter)
+        ratio = v * abs(math.sin(self.inclination)) / tube_velocity(self.flow, self.tube_diameter)
         if ratio > 0.1:
             return (
                 f"Inclined tube: the largest particles settle along the axis at "
@@ -557,15 +567,6 @@ class ScreenStack:
 
 
 Stage = Tube | Bend | Cyclone | Impactor | ScreenStack
-
-STAGE_KINDS: dict[str, type] = {
-    "tube": Tube,
-    "bend": Bend,
-    "cyclone": Cyclone,
-    "impactor": Impactor,
-    "screens": ScreenStack,
-}
-"""Stage classes by ``kind``."""
 
 
 @dataclass(frozen=True)

@@ -7,7 +7,7 @@ inclined tubes by Heyder & Gebhart (1977) (:func:`penetration_heyder_gebhart1977
 :func:`tube_settling_penetration_heyder_gebhart1977`); well-mixed turbulent flow by
 Schwendiman et al. (1975) (:func:`tube_settling_penetration_schwendiman1975`).
 
-The angle is the inclination of the tube axis from the horizontal [rad]: 0 horizontal,
+The ``inclination`` is the angle of the tube axis from the horizontal [rad]: 0 horizontal,
 pi/2 vertical (no settling loss to the wall in either model).
 """
 
@@ -117,7 +117,7 @@ def tube_settling_penetration_heyder_gebhart1977(
     flow: float,
     tube_diameter: float,
     density: float = 1000.0,
-    angle: float = 0.0,
+    inclination: float = 0.0,
     T: float = T_DEFAULT,
     P: float = P_DEFAULT,
 ) -> float:
@@ -135,7 +135,7 @@ def tube_settling_penetration_heyder_gebhart1977(
         Inner tube diameter. [m]
     density : float
         Particle density. [kg/m^3]
-    angle : float
+    inclination : float
         Inclination of the tube from the horizontal. [rad]
     T, P : float
         Temperature [K], pressure [Pa].
@@ -153,7 +153,7 @@ def tube_settling_penetration_heyder_gebhart1977(
 
     """
     z = settling_parameter(d, length, flow, tube_diameter, density, T, P)
-    return penetration_heyder_gebhart1977(0.75 * z * abs(math.cos(angle)))
+    return penetration_heyder_gebhart1977(0.75 * z * abs(math.cos(inclination)))
 
 
 def tube_settling_penetration_schwendiman1975(
@@ -162,7 +162,7 @@ def tube_settling_penetration_schwendiman1975(
     flow: float,
     tube_diameter: float,
     density: float = 1000.0,
-    angle: float = 0.0,
+    inclination: float = 0.0,
     T: float = T_DEFAULT,
     P: float = P_DEFAULT,
 ) -> float:
@@ -174,7 +174,7 @@ def tube_settling_penetration_schwendiman1975(
         Particle diameter [m], tube length [m], flow [m^3/s], inner tube diameter [m].
     density : float
         Particle density. [kg/m^3]
-    angle : float
+    inclination : float
         Inclination of the tube from the horizontal. [rad]
     T, P : float
         Temperature [K], pressure [Pa].
@@ -197,7 +197,7 @@ def tube_settling_penetration_schwendiman1975(
 
     """
     v_ts = particle.settling_velocity(d, density, T, P)
-    return math.exp(-tube_diameter * length * v_ts * abs(math.cos(angle)) / flow)
+    return math.exp(-tube_diameter * length * v_ts * abs(math.cos(inclination)) / flow)
 
 
 def tube_settling_penetration(
@@ -206,7 +206,7 @@ def tube_settling_penetration(
     flow: float,
     tube_diameter: float,
     density: float = 1000.0,
-    angle: float = 0.0,
+    inclination: float = 0.0,
     T: float = T_DEFAULT,
     P: float = P_DEFAULT,
     regime: str = "auto",
@@ -219,7 +219,7 @@ def tube_settling_penetration(
         Particle diameter [m], tube length [m], flow [m^3/s], inner tube diameter [m].
     density : float
         Particle density. [kg/m^3]
-    angle : float
+    inclination : float
         Inclination of the tube from the horizontal. [rad]
     T, P : float
         Temperature [K], pressure [Pa].
@@ -244,14 +244,14 @@ def tube_settling_penetration(
         raise ValueError(f"unknown regime {regime!r}; valid: auto, laminar, turbulent")
     lam = (
         tube_settling_penetration_heyder_gebhart1977(
-            d, length, flow, tube_diameter, density, angle, T, P
+            d, length, flow, tube_diameter, density, inclination, T, P
         )
         if w < 1.0
         else 1.0
     )
     turb = (
         tube_settling_penetration_schwendiman1975(
-            d, length, flow, tube_diameter, density, angle, T, P
+            d, length, flow, tube_diameter, density, inclination, T, P
         )
         if w > 0.0
         else 1.0
