@@ -23,41 +23,36 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-from .deposition import REGIONS as ICRP_REGIONS
-from .deposition import Subject, icrp66_curves, simplified_icrp
-from .deposition.icrp66 import THERMODYNAMIC_CONVENTIONS
-from .deposition.simplified import REGIONS as SIMPLE_REGIONS
+from .deposition import DEPOSITION_MODELS, Subject, deposition_curves, deposition_model
 from .distribution import WEIGHTS, Distribution
-from .particle import aerodynamic_diameter, mobility_diameter
 
 __all__ = [
     "DURATION_MAX",
     "MODELS",
     "DoseResult",
     "deposited_dose",
+    "deposition_curves",
     "model_regions",
 ]
 
-MODELS = ("icrp66", "simplified")
-"""Deposition models: the full ICRP 66 model, or the simplified fits of Hinds (1999)."""
+MODELS = tuple(DEPOSITION_MODELS)
+"""Deposition models (keys of :data:`driftdose.deposition.DEPOSITION_MODELS`): the full ICRP
+66 model, or the simplified fits of Hinds (1999)."""
 
 DURATION_MAX = 24 * 3600.0
 """Longest exposure duration accepted, one day. [s]"""
 
 
 def model_regions(model: str) -> tuple[str, ...]:
-    """Return the region keys of a model, ``total`` last.
+    """Return the region keys of a model, ``total`` last (from the model registry).
 
     Parameters
     ----------
     model : str
-        ``icrp66`` or ``simplified``.
+        A key of :data:`driftdose.deposition.DEPOSITION_MODELS` (``icrp66`` or
+        ``simplified``).
     """
-    if model == "icrp66":
-        return (*ICRP_REGIONS, "total")
-    if model == "simplified":
-        return (*SIMPLE_REGIONS, "total")
-    raise ValueError(f"unknown model {model!r}; valid: {', '.join(MODELS)}")
+    return deposition_model(model).regions
 
 
 @dataclass(frozen=True)
@@ -108,64 +103,6 @@ class DoseResult:
 
 def _modes(distribution: Distribution) -> tuple:
     return getattr(distribution, "modes", (distribution,))
-
-
-def _simplified_curves(
-    diameters: list[float], density: float, shape_factor: float, thermodynamic: str
-) -> dict[str, list[float]]:
-    """Simplified fits with diffusion terms on the thermodynamic diameter and inertial terms
-    on the aerodynamic one (see :func:`~driftdose.deposition.simplified_icrp`)."""
-    out: dict[str, list[float]] = {k: [] for k in (*SIMPLE_REGIONS, "total")}
-    for d in diameters:
-        d_ae = aerodynamic_diameter(d, density, shape_factor)
-        d_th = d if thermodynamic == "icrp66" else mobility_diameter(d, shape_factor)
-        r = simplified_icrp(d_th, d_ae)
-        for k in out:
-            out[k].append(r[k])
-    return out
-
-
-def deposition_curves(
-    model: str,
-    diameters: list[float],
-    density: float,
-    shape_factor: float,
-    subject: Subject,
-    thermodynamic: str = "icrp66",
-) -> dict[str, list[float]]:
-    """Deposition fractions of a model at volume-equivalent ``diameters`` (by region).
-
-    Parameters
-    ----------
-    model : str
-        ``icrp66`` or ``simplified``.
-    diameters : list of float
-        Volume-equivalent diameters [m].
-    density : float
-        Particle density [kg/m^3].
-    shape_factor : float
-        Dynamic shape factor [-].
-    subject : Subject
-        Breathing.
-    thermodynamic : str
-        How the shape factor enters diffusion: ``icrp66`` (published convention, default) or
-        ``mobility`` (see :mod:`driftdose.deposition.icrp66`).
-
-    Returns
-    -------
-    dict
-        Region key -> deposition fraction at each diameter [-].
-    """
-    if thermodynamic not in THERMODYNAMIC_CONVENTIONS:
-        raise ValueError(
-            f"unknown thermodynamic convention {thermodynamic!r}; valid: "
-            + ", ".join(THERMODYNAMIC_CONVENTIONS)
-        )
-    if model == "icrp66":
-        return icrp66_curves(diameters, density, shape_factor, subject, thermodynamic=thermodynamic)
-    if model == "simplified":
-        return _simplified_curves(diameters, density, shape_factor, thermodynamic)
-    raise ValueError(f"unknown model {model!r}; valid: {', '.join(MODELS)}")
 
 
 def deposited_dose(

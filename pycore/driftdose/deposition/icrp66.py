@@ -3,8 +3,9 @@
 Interfaces: :func:`icrp66` (one size), :func:`icrp66_curves` (many sizes at once, with the
 per-subject constants computed once and cached), :func:`icrp66_lognormal` (fractions of
 inhaled activity for a lognormal aerosol given by its AMAD, as the ICRP tables present
-them); breathing data: :class:`BreathingPattern`, :class:`Subject`, :data:`ACTIVITIES`,
-:func:`activity`, :func:`reference_worker`, :data:`REFERENCE_WORKER`.
+them). The breathing it takes (:class:`BreathingPattern`, :class:`Subject`, the reference
+worker) lives in :mod:`.breathing`; slip, aerodynamic diameter and diffusion coefficient come
+from :mod:`driftdose.particle`.
 
 The model
 ---------
@@ -108,29 +109,22 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from functools import lru_cache
 
-from .. import gas, particle
-from ..constants import BOLTZMANN
+from .. import particle
+from .breathing import REFERENCE_WORKER, BreathingPattern, Subject, breathing_warnings
 
 __all__ = [
-    "ACTIVITIES",
     "BODY_TEMPERATURE",
     "D_MAX",
     "D_MIN",
-    "REFERENCE_WORKER",
     "REGIONS",
-    "ROUTES",
     "THERMODYNAMIC_CONVENTIONS",
-    "BreathingPattern",
-    "Subject",
-    "activity",
     "icrp66",
     "icrp66_curves",
     "icrp66_lognormal",
     "inhalability",
-    "reference_worker",
     "warnings_for",
 ]
 
@@ -151,200 +145,6 @@ published model: a sphere of the volume-equivalent diameter, chi only in d_ae) o
 
 BODY_TEMPERATURE = 310.15
 """Air temperature in the respiratory tract used for slip and diffusion, 37 degrees C. [K]"""
-
-ROUTES = ("nose", "mouth", "mixed", "mouth_breather")
-"""Breathing routes: nose only, mouth only, the ICRP normal nose breather (``mixed``: all
-through the nose except half through the mouth at heavy exercise), and the ICRP mouth
-breather."""
-
-# Nasal fraction F_n by route and activity, ICRP 66 Annex B (from memory):
-# normal nose breather 1, 1, 1, 0.5; mouth breather 0.7, 0.7, 0.7, 0.4.
-_NASAL_FRACTION = {
-    "mixed": {"sleep": 1.0, "sitting": 1.0, "light_exercise": 1.0, "heavy_exercise": 0.5},
-    "mouth_breather": {
-        "sleep": 0.7,
-        "sitting": 0.7,
-        "light_exercise": 0.7,
-        "heavy_exercise": 0.4,
-    },
-}
-
-
-@dataclass(frozen=True)
-class BreathingPattern:
-    """Breathing parameters of one activity, in SI.
-
-    Attributes
-    ----------
-    name : str
-        Label of the activity.
-    tidal_volume : float
-        Tidal volume V_T. [m^3]
-    frequency : float
-        Breathing frequency f. [1/s]
-    nasal_fraction : float
-        Fraction F_n of the air breathed through the nose. [-]
-    frc : float
-        Functional residual capacity. [m^3]
-    dead_space_et, dead_space_bb_big, dead_space_bb_small : float
-        Anatomical dead space of ET, BB and bb at FRC. [m^3]
-    scale_t, scale_b, scale_a : float
-        ICRP body-size scaling factors for trachea/bronchi, bronchioles, alveoli (1 for the
-        adult male). [-]
-
-    """
-
-    name: str
-    tidal_volume: float
-    frequency: float
-    nasal_fraction: float = 1.0
-    frc: float = 3301e-6
-    dead_space_et: float = 50e-6
-    dead_space_bb_big: float = 49e-6
-    dead_space_bb_small: float = 47e-6
-    scale_t: float = 1.0
-    scale_b: float = 1.0
-    scale_a: float = 1.0
-
-    @property
-    def ventilation(self) -> float:
-        """Minute ventilation V_T f. [m^3/s]"""
-        return self.tidal_volume * self.frequency
-
-    @property
-    def flow(self) -> float:
-        """Mean inspiratory flow 2 V_T f (inhalation lasts half the cycle). [m^3/s]"""
-        return 2.0 * self.tidal_volume * self.frequency
-
-    def check(self) -> None:
-        """Raise ValueError when the parameters cannot describe a breath."""
-        if not (0.0 <= self.nasal_fraction <= 1.0):
-            raise ValueError("nasal_fraction must be between 0 and 1")
-        if self.tidal_volume <= 0.0 or self.frequency <= 0.0 or self.frc <= 0.0:
-            raise ValueError("tidal volume, frequency and FRC must be positive")
-        grow = 1.0 + self.tidal_volume / self.frc
-        dead = self.dead_space_et + (self.dead_space_bb_big + self.dead_space_bb_small) * grow
-        if dead >= self.tidal_volume:
-            raise ValueError(
-                "tidal volume is smaller than the airways' dead space: no air reaches the "
-                "alveolar region"
-            )
-
-
-# ICRP 66 Annex B, reference adult male (from memory; the products V_T f
-# reproduce the ventilation rates 0.45, 0.54, 1.5 and 3.0 m^3/h).
-ACTIVITIES: dict[str, BreathingPattern] = {
-    "sleep": BreathingPattern("sleep", 625e-6, 12.0 / 60.0),
-    "sitting": BreathingPattern("sitting", 750e-6, 12.0 / 60.0),
-    "light_exercise": BreathingPattern("light exercise", 1250e-6, 20.0 / 60.0),
-    "heavy_exercise": BreathingPattern("heavy exercise", 1920e-6, 26.0 / 60.0),
-}
-"""Reference adult male breathing for the four ICRP activity levels, nose breathing."""
-
-
-def activity(name: str, route: str = "mixed") -> BreathingPattern:
-    """Return reference adult male breathing for an activity and breathing route.
-
-    Parameters
-    ----------
-    name : str
-        ``sleep``, ``sitting``, ``light_exercise`` or ``heavy_exercise``.
-    route : str
-        One of :data:`ROUTES`.
-
-    Returns
-    -------
-    BreathingPattern
-        With the nasal fraction of the route.
-
-    """
-    try:
-        base = ACTIVITIES[name]
-    except KeyError:
-        raise ValueError(f"unknown activity {name!r}; valid: {', '.join(ACTIVITIES)}") from None
-    if route == "nose":
-        fn = 1.0
-    elif route == "mouth":
-        fn = 0.0
-    elif route in _NASAL_FRACTION:
-        fn = _NASAL_FRACTION[route][name]
-    else:
-        raise ValueError(f"unknown route {route!r}; valid: {', '.join(ROUTES)}")
-    return replace(base, nasal_fraction=fn)
-
-
-@dataclass(frozen=True)
-class Subject:
-    """A person's breathing over an exposure: activities and the hours spent in each.
-
-    Attributes
-    ----------
-    name : str
-        Label.
-    periods : tuple of (BreathingPattern, float)
-        Activities and hours. Fractions are weighted by the air volume inhaled in each.
-    wind_speed : float
-        Ambient wind speed for the inhalability term. [m/s]
-
-    """
-
-    name: str
-    periods: tuple[tuple[BreathingPattern, float], ...]
-    wind_speed: float = 0.0
-
-    def __post_init__(self) -> None:
-        """Require at least one period with positive time."""
-        if not self.periods or sum(h for _, h in self.periods) <= 0.0:
-            raise ValueError("a subject needs at least one period of positive duration")
-        for p, h in self.periods:
-            if h < 0.0:
-                raise ValueError("hours must be non-negative")
-            p.check()
-
-    @property
-    def hours(self) -> float:
-        """Total time of the periods. [h]"""
-        return sum(h for _, h in self.periods)
-
-    @property
-    def inhaled_volume(self) -> float:
-        """Air inhaled over the periods. [m^3]"""
-        return sum(p.ventilation * h * 3600.0 for p, h in self.periods)
-
-    @property
-    def mean_ventilation(self) -> float:
-        """Time-averaged ventilation. [m^3/s]"""
-        return self.inhaled_volume / (self.hours * 3600.0)
-
-    @classmethod
-    def single(cls, pattern: BreathingPattern, wind_speed: float = 0.0) -> Subject:
-        """Return a subject breathing one pattern throughout."""
-        return cls(pattern.name, ((pattern, 1.0),), wind_speed)
-
-
-def reference_worker(route: str = "mixed") -> Subject:
-    """Return the ICRP reference worker: 8 h of 2.5 h sitting and 5.5 h light exercise.
-
-    Parameters
-    ----------
-    route : str
-        Breathing route, one of :data:`ROUTES`; the ICRP reference is ``mixed`` (normal
-        nose breather), which at these two activities is nose breathing.
-
-    Returns
-    -------
-    Subject
-        9.6 m^3 inhaled per 8-h shift (ICRP 66, Annex B; ICRP 68; from memory).
-
-    """
-    return Subject(
-        f"reference worker ({route})",
-        ((activity("sitting", route), 2.5), (activity("light_exercise", route), 5.5)),
-    )
-
-
-REFERENCE_WORKER = reference_worker()
-"""The ICRP reference worker, normal nose breather."""
 
 
 @dataclass(frozen=True)
@@ -430,64 +230,6 @@ def inhalability(d_ae: float, wind_speed: float = 0.0) -> float:
     if wind_speed > 0.0:
         val += 1e-5 * wind_speed**2.75 * math.exp(0.055 * da)
     return min(1.0, val)
-
-
-class _FastSize:
-    """Aerodynamic and volume-equivalent diameter, D and d_th for many sizes at once."""
-
-    def __init__(self, T: float, P: float) -> None:
-        self.T, self.P = T, P
-        alpha, beta, gamma = particle.SLIP_MODELS["kim2005"]
-        self.abg = (alpha, beta, gamma)
-        self.two_lambda = 2.0 * gas.mean_free_path(T, P, "kim2005")
-        self.kt_3pimu = BOLTZMANN * T / (3.0 * math.pi * gas.air_viscosity(T))
-
-    def cc(self, d: float) -> float:
-        a, b, g = self.abg
-        kn = self.two_lambda / d
-        return 1.0 + kn * (a + b * math.exp(-g / kn))
-
-    def to_aerodynamic(self, d: float, rho: float, chi: float) -> float:
-        """d_ae from d by fixed-point iteration of d_ae^2 Cc(d_ae) rho0 = d^2 Cc(d) rho/chi."""
-        if rho == 1000.0 and chi == 1.0:
-            return d
-        target = d * d * self.cc(d) * rho / (1000.0 * chi)
-        return self._solve(target, d * math.sqrt(rho / (1000.0 * chi)))
-
-    def to_volume_equivalent(self, d_ae: float, rho: float, chi: float) -> float:
-        """Return d from d_ae, the same relation solved the other way."""
-        if rho == 1000.0 and chi == 1.0:
-            return d_ae
-        target = d_ae * d_ae * self.cc(d_ae) * 1000.0 * chi / rho
-        return self._solve(target, d_ae * math.sqrt(1000.0 * chi / rho))
-
-    def _solve(self, target: float, x: float) -> float:
-        # Newton in ln x on g(x) = ln(x^2 Cc(x)) - ln(target); g is monotonic and smooth.
-        lt = math.log(target)
-        a, b, gm = self.abg
-        tl = self.two_lambda
-        for _ in range(50):
-            kn = tl / x
-            e = math.exp(-gm / kn)
-            cc = 1.0 + kn * (a + b * e)
-            g = math.log(x * x * cc) - lt
-            # d ln Cc / d ln x = (x/Cc) dCc/dx; dCc/dx = -(kn/x)(a + b e) - kn b e gm / tl
-            dcc_dlnx = -kn * (a + b * e) - b * e * gm * (x / tl) * kn
-            dg = 2.0 + dcc_dlnx / cc
-            step = g / dg
-            x *= math.exp(-max(-1.0, min(1.0, step)))
-            if abs(step) < 1e-13:
-                break
-        return x
-
-    def diffusion_cm2(self, d: float, chi: float) -> float:
-        """Diffusion coefficient [cm^2/s] (Stokes–Einstein with slip, Hinds 1999 eq. 7.7)."""
-        return self.kt_3pimu * self.cc(d) / (d * chi) * 1e4
-
-
-@lru_cache(maxsize=8)
-def _fast(T: float, P: float) -> _FastSize:
-    return _FastSize(T, P)
 
 
 def _pattern_fractions(
@@ -613,7 +355,6 @@ def icrp66_curves(
             + ", ".join(THERMODYNAMIC_CONVENTIONS)
         )
     mobility = thermodynamic == "mobility"
-    fs = _fast(T, P)
     vols = [(_constants(p), p.ventilation * h) for p, h in subject.periods if h > 0.0]
     vtot = sum(v for _, v in vols)
     weights = [(c, v / vtot) for c, v in vols]
@@ -625,17 +366,18 @@ def icrp66_curves(
     for x in diameters:
         if aero:
             d_ae = x
-            d = fs.to_volume_equivalent(x, density, shape_factor)
+            d = particle.volume_equivalent_diameter(x, density, shape_factor, T, P)
         else:
             d = x
-            d_ae = fs.to_aerodynamic(x, density, shape_factor)
+            d_ae = particle.aerodynamic_diameter(x, density, shape_factor, T, P)
         if mobility:
-            dcm = fs.diffusion_cm2(d, shape_factor)
+            chi_th = shape_factor
             d_th = d * shape_factor * 1e6  # continuum mobility-equivalent diameter ~ d chi
         else:
             # ICRP 66: the thermodynamic side sees a sphere of the volume-equivalent diameter
-            dcm = fs.diffusion_cm2(d, 1.0)
+            chi_th = 1.0
             d_th = d * 1e6
+        dcm = particle.diffusion_coefficient(d, T, P, chi_th) * 1e4  # [cm^2/s]
         psi = 1.0 + 100.0 * math.exp(-(math.log10(100.0 + 10.0 / d_th**0.9) ** 2))
         inh = inhalability(d_ae, wind)
         da = d_ae * 1e6
@@ -786,16 +528,5 @@ def warnings_for(d_min: float, d_max: float, subject: Subject | None = None) -> 
             "extrapolated beyond its stated range."
         )
     if subject is not None:
-        for p, _ in subject.periods:
-            if not (300e-6 <= p.tidal_volume <= 3500e-6):
-                out.append(
-                    f"Tidal volume {p.tidal_volume * 1e6:.0f} mL is far from the ICRP adult "
-                    "reference values (625 to 1920 mL); the model's fits were made for "
-                    "adult breathing."
-                )
-            if not (5.0 / 60.0 <= p.frequency <= 40.0 / 60.0):
-                out.append(
-                    f"Breathing frequency {p.frequency * 60:.0f} per minute is far from the "
-                    "ICRP adult reference values (12 to 26 per minute)."
-                )
+        out += breathing_warnings(subject)
     return out
