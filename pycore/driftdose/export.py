@@ -21,6 +21,8 @@ import re
 from collections.abc import Iterator
 from typing import Any
 
+from .api.units import unit_label
+
 __all__ = [
     "csv_writer",
     "curves_csv",
@@ -98,7 +100,10 @@ def _num(x: Any) -> str:
 
 
 def _unit(u: Any) -> str:
-    return "" if u in (None, "–") else str(u)
+    """A unit as a file shows it: a unit code labelled (``um`` -> ``µm``), none for pure numbers."""
+    if u in (None, "–", "1"):
+        return ""
+    return unit_label(str(u))
 
 
 def results_csv(reply: dict[str, Any]) -> str:

@@ -10,6 +10,7 @@ import { STATE_FORMAT, STATE_VERSION, acceptedNotice, decodeFragment, readInputs
 import { SURVEY_FIELDS, mountSurvey } from "./survey.js";
 import { encodeState } from "./state.js";
 import { setToolVersion } from "./charts.js";
+import { setUnitTable } from "./units.js";
 import * as motion from "./panels/motion.js";
 import * as deposition from "./panels/deposition.js";
 import * as sampling from "./panels/sampling.js";
@@ -297,6 +298,7 @@ function setupServiceWorker(build) {
 
 async function start() {
   const forms = await formsLoaded;
+  setUnitTable(forms.units);
   document.getElementById("app-version").textContent = forms.version;
   setToolVersion(forms.version);
   const tabs = document.getElementById("panel-tabs");

@@ -201,7 +201,8 @@ def test_handle_motion_curves(case) -> None:
         steps = [math.log(b / a) for a, b in itertools.pairwise(x)]
         assert max(steps) == pytest.approx(min(steps), rel=1e-9)
         assert all(yi > 0 and math.isfinite(yi) for yi in y)
-    assert curves["x_unit"] == "\u00b5m" and curves["y_unit"] == "m"
+    # unit codes only (the page labels them from the table sent with the forms)
+    assert curves["x_unit"] == "um" and curves["y_unit"] == "m"
     # Brownian falls and settling rises with size along the x-axis.
     b, s = curves["brownian"]["y"], curves["settling"]["y"]
     assert all(p > q for p, q in itertools.pairwise(b))

@@ -30,6 +30,7 @@ from driftdose import api, cli, export
 from driftdose.api.deposition import _DEMO_CSV
 from driftdose.api.fields import Field, FieldError
 from driftdose.api.registry import CALCULATIONS
+from driftdose.api.units import unit_label
 
 ROOT = Path(__file__).resolve().parents[2]
 FORMAT_JS = ROOT / "site" / "js" / "format.js"
@@ -568,8 +569,8 @@ def test_main_curves_csv_names_quantities_and_units(capsys, tmp_path):
     c = reply["curves"]
     assert rows[0] == [
         "curve",
-        f"{c['x_label']} [{c['x_unit']}]",
-        f"{c['y_label']} [{c['y_unit']}]",
+        f"{c['x_label']} [{unit_label(c['x_unit'])}]",  # the reply's unit codes, labelled
+        f"{c['y_label']} [{unit_label(c['y_unit'])}]",
     ]
     brownian = [r for r in rows[1:] if r[0] == c["brownian"]["label"]]
     assert [float(r[1]) for r in brownian] == c["brownian"]["x"]

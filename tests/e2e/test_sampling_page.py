@@ -17,6 +17,7 @@ import pytest
 
 from driftdose import api, export
 from driftdose.api.sampling import DEMOS
+from driftdose.api.units import unit_label
 
 from .conftest import new_watched_page, screenshot, wait_ready
 from .helpers import parse_shown, round_sig
@@ -492,7 +493,8 @@ def test_csv_spectrum_corrected_with_unreliable_bins_flagged(page, base_url, tmp
     # size ticks carry units ("10 nm"): no unit in the size titles; bare concentration ticks:
     # the unit in that title
     assert "µm" not in titles["x"] and "µm" not in titles["penetration"]
-    assert titles["y"].endswith(f"({reply['curves']['spectrum']['y_unit']})")
+    # the reply names the unit by code; the page labels it from the table sent with the forms
+    assert titles["y"].endswith(f"({unit_label(reply['curves']['spectrum']['y_unit'])})")
     before = _updates(page)
     panel = page.locator(PANEL)
     panel.get_by_label("Air temperature", exact=True).fill("25")

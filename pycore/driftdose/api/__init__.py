@@ -16,15 +16,21 @@ from typing import Any
 from .. import __version__
 from .fields import FieldError, parse_fields
 from .registry import CALCULATIONS
+from .units import unit_table
 
 __all__ = ["describe", "handle", "handle_json"]
 
 
 def describe() -> dict[str, Any]:
-    """Describe every calculation: name, title, and its fields (labels, units, defaults)."""
+    """Describe every calculation (title, fields with labels, units, defaults) and every unit.
+
+    ``units`` is the one table of unit labels and SI factors (:func:`units.unit_table`):
+    replies carry unit codes, and the page labels them from this table.
+    """
     return {
         "ok": True,
         "version": __version__,
+        "units": unit_table(),
         "calculations": {
             name: {"title": calc.TITLE, "fields": [f.describe() for f in calc.FIELDS]}
             for name, calc in CALCULATIONS.items()

@@ -7,7 +7,16 @@ alternatives (``µm``, ``μm``, ``°C``, ``m³``) are accepted as aliases.
 
 from __future__ import annotations
 
-__all__ = ["SI_UNIT", "UNITS", "auto_unit", "canonical_unit", "from_si", "to_si", "unit_label"]
+__all__ = [
+    "SI_UNIT",
+    "UNITS",
+    "auto_unit",
+    "canonical_unit",
+    "from_si",
+    "to_si",
+    "unit_label",
+    "unit_table",
+]
 
 UNITS: dict[str, dict[str, float]] = {
     "length": {"m": 1.0, "cm": 1e-2, "mm": 1e-3, "um": 1e-6, "nm": 1e-9},
@@ -114,6 +123,33 @@ def canonical_unit(kind: str, unit: str) -> str:
 def unit_label(unit: str) -> str:
     """Typographic label of a canonical unit (``um`` -> ``µm``)."""
     return _LABELS.get(unit, unit)
+
+
+def unit_table() -> dict[str, dict[str, float | str]]:
+    """Every unit code with its label and its conversion to SI, for the page.
+
+    Returns
+    -------
+    dict
+        ``{code: {"label": ..., "kind": ..., "factor": ..., "offset": ...}}``: a value x in
+        the unit is ``(x + offset) * factor`` in the SI unit of its kind. Replies carry unit
+        codes only (``x_unit: "um"``); the page labels and converts them with this table,
+        sent once with the forms. A code shared by two kinds (``m3/h`` for flow and
+        ventilation) has the same factor in both.
+    """
+    out: dict[str, dict[str, float | str]] = {}
+    for kind, table in UNITS.items():
+        for code, factor in table.items():
+            out.setdefault(
+                code,
+                {
+                    "label": unit_label(code),
+                    "kind": kind,
+                    "factor": factor,
+                    "offset": _OFFSET.get(code, 0.0),
+                },
+            )
+    return out
 
 
 def to_si(value: float, kind: str, unit: str) -> float:

@@ -5,6 +5,7 @@ import { el, renderField } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
 import { MAX_COMPARED, axisTitle, particleLetter, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
+import { fromSI, toSI, unitLabel } from "../units.js";
 
 export const id = "motion";
 export const title = "How it moves";
@@ -189,17 +190,20 @@ export function mount(root, { engine, description }) {
     const reply = panel.lastGood;
     if (!reply) return;
     const c = reply.curves;
+    // sizes and distances arrive in the units the reply names by code; converted to metres here
+    const xm = (v) => toSI(v, c.x_unit);
+    const ym = (v) => toSI(v, c.y_unit);
     if (!chart) {
       chart = createChart(figure.canvas, {
         // the ticks carry their units ("10 nm", "1 µm"): the titles name the quantity only
-        x: { title: axisTitle(c.x_label, c.x_unit, true), tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => lengthTick(x * 1e-6), min: 1e-3, max: 100 },
-        y: { title: axisTitle(c.y_label, c.y_unit, true), tick: decadeTicks(lengthTick) },
+        x: { title: axisTitle(c.x_label, unitLabel(c.x_unit), true), tick: decadeTicks((v) => lengthTick(xm(v))), readout: (x) => lengthTick(xm(x)), min: fromSI(1e-9, c.x_unit), max: fromSI(100e-6, c.x_unit) },
+        y: { title: axisTitle(c.y_label, unitLabel(c.y_unit), true), tick: decadeTicks((v) => lengthTick(ym(v))) },
       }, {
         // a marker holds a particle's two points: each named by its own series
-        readout: (ctx) => readout(ctx.dataset.pointNames?.[ctx.dataIndex] ?? ctx.dataset.label, lengthTick(ctx.parsed.y)),
+        readout: (ctx) => readout(ctx.dataset.pointNames?.[ctx.dataIndex] ?? ctx.dataset.label, lengthTick(ym(ctx.parsed.y))),
       });
     }
-    chart.options.scales.x.title.text = axisTitle(c.x_label, c.x_unit, true);
+    chart.options.scales.x.title.text = axisTitle(c.x_label, unitLabel(c.x_unit), true);
     const many = compared.length > 0;
     const datasets = [
       line(c.brownian, 0), line(c.settling, 1),
@@ -215,9 +219,9 @@ export function mount(root, { engine, description }) {
       datasets.push(marker(o.this_particle, name, 5 + i, MARKERS[i + 1]));
     });
     setDatasets(chart, datasets);
-    const where = (p) => `${p.letter} at ${lengthTick(p.reply.curves.this_particle.x[0] * 1e-6)}`;
+    const where = (p) => `${p.letter} at ${lengthTick(toSI(p.reply.curves.this_particle.x[0], p.reply.curves.x_unit))}`;
     figure.canvas.setAttribute("aria-label", `Log-log chart: Brownian displacement and settling distance against ${c.x_label.toLowerCase()}${
-      c.crossover ? `; they cross at ${formatNumber(c.crossover.x[0], 3)} µm` : ""}${
+      c.crossover ? `; they cross at ${formatNumber(c.crossover.x[0], 3)} ${unitLabel(c.x_unit)}` : ""}${
       many ? `; particles ${[{ letter: "A", reply }, ...compared].map(where).join(", ")}` : ""}.`);
   }
 

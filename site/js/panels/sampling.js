@@ -7,6 +7,7 @@ import { el, renderField } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setAxes, setDatasets } from "../charts.js";
 import { axisTitle, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
+import { fromSI, toSI, unitLabel } from "../units.js";
 
 export const id = "sampling";
 export const title = "What the sampler sees";
@@ -46,8 +47,8 @@ function thin(points) {
 }
 const isObject = (v) => v !== null && typeof v === "object" && !Array.isArray(v);
 const percent = (row) => (row ? `${formatNumber(row.value)} %` : "—");
-// the API names an unnamed stage "<n>. <type>"; show each stage's number once
-const stageName = (index, name) => name.replace(new RegExp(`^${index + 1}\\. `), "");
+// a stage as the reply names it (structured): the user's own name, else its type
+const stageName = (stage) => stage.name || stage.type_label;
 
 /**
  * The chain builder: an ordered list of stages, each a fieldset of the fields its type declares.
@@ -366,8 +367,8 @@ export function mount(root, { engine, description }) {
     const body = el("tbody");
     for (const row of table.rows) {
       const tr = el("tr", { "data-stage": String(row.index) });
-      const name = el("th", { scope: "row" }, `${row.index + 1}. ${stageName(row.index, row.name)}`);
-      if (!row.name.includes(row.type_label)) name.append(el("span", { class: "note" }, ` (${row.type_label.toLowerCase()})`));
+      const name = el("th", { scope: "row" }, `${row.index + 1}. ${stageName(row)}`);
+      if (row.name && !row.name.includes(row.type_label)) name.append(el("span", { class: "note" }, ` (${row.type_label.toLowerCase()})`));
       tr.append(name);
       row.penetration_at.forEach((p, j) => tr.append(el("td", { class: "value", "data-key": `stage-${row.index}-${j}` }, percent(p))));
       const halves = row.half_penetration_sizes.map((q) => `${formatNumber(q.value)} ${q.unit}`).join(", ") || "none in 1 nm – 100 µm";
@@ -391,7 +392,7 @@ export function mount(root, { engine, description }) {
       const details = el("details", { class: "stage-detail", "data-stage": String(row.index) });
       const regime = row.regime ? `, ${row.regime} flow` : "";
       const flag = row.warnings.length ? ` — ${row.warnings.length} warning${row.warnings.length > 1 ? "s" : ""}` : "";
-      details.append(el("summary", {}, `Stage ${row.index + 1}: ${stageName(row.index, row.name)}${regime}${flag}`));
+      details.append(el("summary", {}, `Stage ${row.index + 1}: ${stageName(row)}${regime}${flag}`));
       const quantities = Object.fromEntries(row.quantities.map((q) => [q.key, q]));
       details.append(resultsTable(quantities, `Key figures of stage ${row.index + 1} (${row.type_label.toLowerCase()})`));
       if (row.warnings.length) {
@@ -405,18 +406,19 @@ export function mount(root, { engine, description }) {
   }
 
   function renderPenetrationChart(curves) {
+    const metres = (v) => toSI(v, curves.x_unit); // sizes arrive in the unit the reply names
     if (!penetrationChart) {
       penetrationChart = createChart(penetrationFigure.canvas, {
         // the size ticks carry their units ("10 nm", "1 µm"): the title names the quantity only
-        x: { title: axisTitle(curves.x_label, "µm", true), tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => lengthTick(x * 1e-6), min: 1e-3, max: 100 },
+        x: { title: axisTitle(curves.x_label, unitLabel(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => lengthTick(metres(x)), min: fromSI(1e-9, curves.x_unit), max: fromSI(100e-6, curves.x_unit) },
         y: { title: "Penetration (fraction passing)", type: "linear", min: 0, max: 1 },
       }, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y * 100, 3)} %`) });
       // the whole chain is drawn under the stages (dataset order), but listed after them
       penetrationChart.options.plugins.legend.labels.sort = (a, b) => a.datasetIndex - b.datasetIndex;
     }
-    penetrationChart.options.scales.x.title.text = axisTitle(curves.x_label, "µm", true);
+    penetrationChart.options.scales.x.title.text = axisTitle(curves.x_label, unitLabel(curves.x_unit), true);
     const sets = curves.stages.map((curve, i) => ({
-      label: `${i + 1}. ${stageName(i, curve.label)}`, data: toPoints(curve), borderColor: seriesColour(i + 1), backgroundColor: seriesColour(i + 1),
+      label: `${curve.index + 1}. ${stageName(curve)}`, data: toPoints(curve), borderColor: seriesColour(i + 1), backgroundColor: seriesColour(i + 1),
       pointRadius: 0, borderWidth: 2, borderDash: [5, 3 + 2 * (i % 3)], order: 1,
     }));
     sets.push({
@@ -445,7 +447,7 @@ export function mount(root, { engine, description }) {
     }
     if (!spectrumFigure.figure.isConnected) spectrumSection.append(spectrumFigure.figure);
     const aero = table.diameter_type === "aerodynamic";
-    const typeWord = (curves?.x_label || "").match(/\(([^)]*)\)$/)?.[1] || "";
+    const typeWord = table.diameter_type === "volume_equivalent" ? "" : table.diameter_type_label;
     const bad = table.rows.filter((r) => r.unreliable).length;
     const how = "Each bin's concentration is divided by the chain's penetration at its diameter.";
     spectrumSummary.textContent = bad
@@ -453,10 +455,10 @@ export function mount(root, { engine, description }) {
       : `All ${table.rows.length} bins pass the chain with at least 50 %. ${how}`;
     spectrumSummary.classList.toggle("has-unreliable", bad > 0);
     const t = el("table", { class: "results spectrum-table" });
-    t.append(el("caption", {}, `Corrected spectrum, ${table.concentration_unit}`));
+    t.append(el("caption", {}, `Corrected spectrum, ${table.concentration_label}`));
     const head = el("thead");
     const hr = el("tr");
-    for (const h of [`Diameter${typeWord ? ` (${typeWord})` : ""}, ${table.diameter_unit}`, "Measured", "Penetration", "Corrected", "Correction"]) {
+    for (const h of [`Diameter${typeWord ? ` (${typeWord})` : ""}, ${unitLabel(table.diameter_unit)}`, "Measured", "Penetration", "Corrected", "Correction"]) {
       hr.append(el("th", { scope: "col" }, h));
     }
     head.append(hr);
@@ -503,13 +505,14 @@ export function mount(root, { engine, description }) {
     const positive = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] > 0 ? curve.y[i] : null }));
     // created once, its axes and data updated in place; the size ticks carry their units, the
     // concentration ticks are bare numbers (so that title names the unit)
+    const metres = (v) => toSI(v, curves.x_unit); // sizes arrive in the unit the reply names
     const axes = {
-      x: { title: axisTitle(curves.x_label, "µm", true), tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => `${lengthTick(x * 1e-6)}${aero ? " aerodynamic" : ""}` },
-      y: { title: axisTitle(curves.y_label, curves.y_unit), tick: decadeTicks((v) => formatNumber(v, 2)) },
+      x: { title: axisTitle(curves.x_label, unitLabel(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => `${lengthTick(metres(x))}${aero ? " aerodynamic" : ""}` },
+      y: { title: axisTitle(curves.y_label, unitLabel(curves.y_unit)), tick: decadeTicks((v) => formatNumber(v, 2)) },
     };
     if (spectrumChart) setAxes(spectrumChart, axes);
     else spectrumChart = createChart(spectrumFigure.canvas, axes, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y, 4)} ${spectrumUnit}`) });
-    spectrumUnit = curves.y_unit || "";
+    spectrumUnit = curves.y_unit ? unitLabel(curves.y_unit) : "";
     const all = positive(curves.corrected);
     const flagged = thin(all.map((p, i) => ({ x: p.x, y: curves.unreliable[i] ? p.y : null })));
     const corrected = thin(all);
