@@ -21,7 +21,7 @@ import re
 from collections.abc import Iterator
 from typing import Any
 
-from .api.units import unit_label
+from .unit_labels import unit_label
 
 __all__ = [
     "csv_writer",

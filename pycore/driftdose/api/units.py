@@ -7,6 +7,8 @@ alternatives (``µm``, ``μm``, ``°C``, ``m³``) are accepted as aliases.
 
 from __future__ import annotations
 
+from ..unit_labels import unit_label
+
 __all__ = [
     "SI_UNIT",
     "UNITS",
@@ -88,25 +90,6 @@ _ALIASES = {
     "°": "deg",
 }
 
-_LABELS = {
-    "um": "µm",
-    "um/s": "µm/s",
-    "degC": "°C",
-    "degF": "°F",
-    "kg/m3": "kg/m³",
-    "g/cm3": "g/cm³",
-    "m3/s": "m³/s",
-    "m3/h": "m³/h",
-    "cm3/s": "cm³/s",
-    "1/cm3": "1/cm³",
-    "1/m3": "1/m³",
-    "mg/m3": "mg/m³",
-    "ug/m3": "µg/m³",
-    "m3": "m³",
-    "1": "–",
-    "deg": "°",
-}
-
 
 def canonical_unit(kind: str, unit: str) -> str:
     """Return the canonical spelling of ``unit`` for ``kind``; raise KeyError if unknown."""
@@ -118,11 +101,6 @@ def canonical_unit(kind: str, unit: str) -> str:
     if u in table:
         return u
     raise KeyError(unit)
-
-
-def unit_label(unit: str) -> str:
-    """Typographic label of a canonical unit (``um`` -> ``µm``)."""
-    return _LABELS.get(unit, unit)
 
 
 def unit_table() -> dict[str, dict[str, float | str]]:

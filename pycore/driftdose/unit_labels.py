@@ -1,0 +1,46 @@
+"""Typographic labels of unit codes (``um`` -> ``µm``): one table for replies, exports and forms.
+
+Replies name units by code; :func:`unit_label` gives the label people read. The api sends the
+whole table to the page with the forms (:func:`driftdose.api.units.unit_table`), and the CSV
+export labels its headers with it, so a unit is spelled one way everywhere.
+"""
+
+from __future__ import annotations
+
+__all__ = ["LABELS", "unit_label"]
+
+LABELS: dict[str, str] = {
+    "um": "µm",
+    "um/s": "µm/s",
+    "degC": "°C",
+    "degF": "°F",
+    "kg/m3": "kg/m³",
+    "g/cm3": "g/cm³",
+    "m3/s": "m³/s",
+    "m3/h": "m³/h",
+    "cm3/s": "cm³/s",
+    "1/cm3": "1/cm³",
+    "1/m3": "1/m³",
+    "mg/m3": "mg/m³",
+    "ug/m3": "µg/m³",
+    "m3": "m³",
+    "1": "–",
+    "deg": "°",
+}
+"""Label of every unit code whose label differs from the code."""
+
+
+def unit_label(unit: str) -> str:
+    """Typographic label of a unit code.
+
+    Parameters
+    ----------
+    unit : str
+        A unit code (``um``, ``degC``, ``1/cm3``, ``1`` for a pure number).
+
+    Returns
+    -------
+    str
+        Its label (``µm``, ``°C``, ``1/cm³``, ``–``); a code without an entry is its own label.
+    """
+    return LABELS.get(unit, unit)
