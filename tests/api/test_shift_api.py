@@ -203,10 +203,31 @@ def test_errors_name_the_sub_field(change, field, words):
     assert req == before  # nothing changed in the request
 
 
+UNKNOWN_KEYS = [
+    {"__proto__": {"polluted": 1}},
+    {"constructor": {"prototype": {"polluted": 1}}},
+    {"extra": "x", "toString": [1, 2]},
+]
+
+
+@pytest.mark.parametrize("keys", UNKNOWN_KEYS)
+def test_unknown_keys_in_records_are_ignored_and_change_nothing(keys):
+    # records take their declared sub-fields only (as plain inputs ignore unknown names)
+    plain = api.handle(request())
+    req = request(
+        periods=[{**p, **keys} for p in PERIODS],
+        quantity_columns=[
+            {"column": "number", "quantity": "number", **keys},
+            {"column": "ldsa", "quantity": "ldsa"},
+        ],
+    )
+    before = copy.deepcopy(req)
+    assert api.handle(req) == plain
+    assert req == before
+    assert not hasattr(object, "polluted") and not hasattr({}, "polluted")
+
+
 HOSTILE = [
-    {"periods": [{"__proto__": {"polluted": 1}, "start": "07:00", "end": "08:00"}]},
-    {"periods": [{"constructor": {"prototype": {"x": 1}}, "start": "07:00", "end": "08:00"}]},
-    {"periods": [{**PERIODS[1], "extra": "x"}]},
     {"periods": [{**PERIODS[1], "label": ["a"]}]},
     {"periods": [{**PERIODS[1], "start": {"value": {"value": {}}}}]},
     {"periods": [{**PERIODS[1], "start": 7}]},
@@ -264,3 +285,100 @@ def test_json_boundary_refuses_non_finite_and_deep_json():
     assert out["ok"]
     deep = '{"kind": "shift", "inputs": {"periods": ' + "[" * 100_000 + "]" * 100_000 + "}}"
     assert json.loads(api.handle_json(deep))["ok"] is False
+
+
+def test_far_field_background_is_the_second_file():
+    # far field at a constant 1500/cm3 logged every 60 s, its own header and separator
+    far = "Time,Far [1/cm3]\n" + "".join(
+        f"2026-03-05T{6 + m // 60:02d}:{m % 60:02d}:00,1500\n" for m in range(8 * 60)
+    )
+    reply = api.handle(
+        request(
+            background_method="far_field",
+            background_text=far,
+            background_time_format="iso",
+            background_column="far",
+        )
+    )
+    assert reply["ok"], reply
+    shift = reply["results"]["shift"]["rows"][0]
+    assert shift["background"] == pytest.approx(1500.0)
+    assert "far-field" in shift["background_method"]
+    assert reply["curves"]["background"]["series"][0]["y"][0] == pytest.approx(1500.0)
+    for row in reply["results"]["tasks"]["rows"]:
+        assert row["corrected_mean"] >= 0.0
+
+
+def test_elapsed_seconds_with_a_start_time():
+    text = "seconds;N [1/cm3]\n" + "".join(f"{k * 10};{1000 + k}\n" for k in range(360))
+    reply = api.handle(
+        request(
+            series_text=text,
+            series_time_format="elapsed_seconds",
+            series_time_column="seconds",
+            series_date_column="",
+            series_start_time="2026-03-05T23:30:00",
+            quantity_columns=[{"column": "n", "quantity": "number"}],
+            periods=[
+                {"label": "Night task", "kind": "task", "start": "23:45", "end": "00:15"},
+            ],
+            background_method="none",
+        )
+    )
+    assert reply["ok"], reply
+    row = reply["results"]["tasks"]["rows"][0]
+    # 23:45 to 00:15 the next day: readings 90..269 (k), mean 1000 + 179.5
+    assert row["start"] == "2026-03-05T23:45:00" and row["end"] == "2026-03-06T00:15:00"
+    assert row["mean"] == pytest.approx(1179.5)
+
+
+def test_dose_from_size_channels():
+    # two channels, 50 nm and 200 nm, per channel (dN), 1000 and 10 per cm3
+    lines = ["time,n [1/cm3],c50 [1/cm3],c200 [1/cm3]"]
+    for k in range(720):
+        lines.append(f"2026-03-05T08:{k // 60 % 60:02d}:{k % 60:02d},1010,1000,10")
+    text = "\n".join(lines[:3601]) + "\n"
+    reply = api.handle(
+        {
+            "kind": "shift",
+            "inputs": {
+                "series_text": text,
+                "quantity_columns": [
+                    {"column": "n", "quantity": "number"},
+                    {
+                        "column": "c50",
+                        "quantity": "channel",
+                        "diameter": {"value": 50, "unit": "nm"},
+                    },
+                    {
+                        "column": "c200",
+                        "quantity": "channel",
+                        "diameter": {"value": 200, "unit": "nm"},
+                    },
+                ],
+                "periods": [{"label": "T", "kind": "task", "start": "08:00", "end": "08:10"}],
+                "size_source": "channels",
+            },
+        }
+    )
+    assert reply["ok"], reply
+    dose = reply["results"]["dose"]
+    # the deposited number equals the same spectrum through the dose functions directly
+    from driftdose.deposition import Subject, activity
+    from driftdose.distribution import BinnedSpectrum
+    from driftdose.dose import deposited_dose
+
+    spectrum = BinnedSpectrum((50e-9, 200e-9), (1e9, 1e7))
+    direct = deposited_dose(spectrum, Subject.single(activity("light_exercise", "mixed")), 600.0)
+    k = dose["regions"].index("AI")
+    assert dose["tasks"][0]["number"][k] == pytest.approx(direct.doses["AI"]["number"], rel=1e-9)
+
+
+def test_channel_without_diameter_names_the_sub_field():
+    reply = api.handle(
+        request(
+            quantity_columns=[{"column": "number", "quantity": "channel"}], size_source="channels"
+        )
+    )
+    assert not reply["ok"]
+    assert reply["errors"][0]["field"] == "quantity_columns.0.diameter"

@@ -56,14 +56,18 @@ from .. import textfile
 from ..distribution import LognormalMode, Multimodal
 from ..shift.background import BACKGROUND_METHODS, BackgroundError
 from ..shift.clock import ClockError, TimeParser, clock_text, parse_iso
-from ..shift.periods import PeriodError
+from ..shift.periods import MAX_PERIODS, PeriodError
 from ..shift.series import ColumnSpec, SeriesError, TimeSeries, read_series
 from ..tables import Table, TableError, pick_column, read_table
 from . import shift_reply as reply
 from .fields import Field, FieldError
 from .particle_air_fields import PARTICLE_DENSITY, SHAPE_FACTOR
 from .shift_inputs import (
+    COLUMN_FIELDS,
     DEFAULT_UNIT,
+    MAX_COLUMNS,
+    MODE_FIELDS,
+    PERIOD_FIELDS,
     canonical,
     column_records,
     parse_benchmark,
@@ -148,10 +152,14 @@ FIELDS: tuple[Field, ...] = (
     Field(
         "quantity_columns",
         "Value columns",
-        "data",
-        [{"column": "2", "quantity": "number", "unit": "1/cm3"}],
+        "records",
+        [{"column": "2", "quantity": "number", "unit": ""}],
         help="Each logged column used: number concentration, LDSA, mass concentration, or a "
         "size channel with its diameter. A unit left out is read from the header.",
+        item_fields=COLUMN_FIELDS,
+        min_items=1,
+        max_items=MAX_COLUMNS,
+        item_label="Column",
     ),
     Field(
         "quantity",
@@ -181,7 +189,16 @@ FIELDS: tuple[Field, ...] = (
         extra={"max_length": 20},
         applies=("background_method", ("far_field",)),
     ),
-    Field("periods", "Periods (tasks, background, breaks)", "data", [], required=False),
+    Field(
+        "periods",
+        "Periods (tasks, background, breaks)",
+        "records",
+        [],
+        required=False,
+        item_fields=PERIOD_FIELDS,
+        max_items=MAX_PERIODS,
+        item_label="Period",
+    ),
     Field(
         "background_method",
         "Background",
@@ -237,12 +254,16 @@ FIELDS: tuple[Field, ...] = (
     Field(
         "modes",
         "Shape of the size distribution (lognormal modes, count medians)",
-        "data",
+        "records",
         [{"median": {"value": 50, "unit": "nm"}, "gsd": 1.8, "share": 1.0}],
         required=False,
         help="Count median (volume-equivalent), GSD and the share of the particle number "
         "of each mode; the amount comes from the task's measurement.",
         applies=("size_source", ("modes",)),
+        item_fields=MODE_FIELDS,
+        min_items=1,
+        max_items=4,
+        item_label="Mode",
     ),
     Field(
         "spectrum_text",
@@ -431,34 +452,12 @@ def _summarised(v: dict[str, Any], columns: list[dict[str, Any]]) -> int:
 
 
 def _modes(raw: Any, density: float, shape_factor: float) -> Multimodal:
-    from .shift_inputs import _list, _number, _record
-    from .units import canonical_unit, to_si
-
-    items = _list(raw, "modes", 4, "modes")
-    if not items:
+    """The modes (records already in SI) as the shape of the task's distribution."""
+    if not isinstance(raw, list) or not raw:
         raise FieldError("modes", "Give at least one lognormal mode.")
-    modes = []
-    for i, item in enumerate(items):
-        path, where = f"modes.{i}", f"Mode {i + 1}"
-        rec = _record(item, path, where, ("median", "gsd", "share"))
-        med = rec.get("median")
-        unit = med.get("unit", "nm") if isinstance(med, dict) else "nm"
-        x = _number(med, f"{path}.median", f"{where} median")
-        try:
-            d = to_si(x, "length", canonical_unit("length", str(unit)))
-        except KeyError:
-            raise FieldError(f"{path}.median", f"{where}: the unit must be nm or µm.") from None
-        if not 1e-9 <= d <= 100e-6:
-            raise FieldError(f"{path}.median", f"{where}: the median must be 1 nm to 100 µm.")
-        gsd = _number(rec.get("gsd"), f"{path}.gsd", f"{where} GSD")
-        if not 1.0 < gsd <= 5.0:
-            raise FieldError(f"{path}.gsd", f"{where}: the GSD must be above 1 and at most 5.")
-        share_raw = rec.get("share")
-        share = 1.0 if share_raw in (None, "") else _number(share_raw, f"{path}.share", where)
-        if not share > 0.0 or share > 1e6:
-            raise FieldError(f"{path}.share", f"{where}: the share must be above 0.")
-        modes.append(LognormalMode(d, gsd, share, density, shape_factor))
-    return Multimodal(tuple(modes))
+    return Multimodal(
+        tuple(LognormalMode(m["median"], m["gsd"], m["share"], density, shape_factor) for m in raw)
+    )
 
 
 def run(v: dict[str, Any]) -> dict[str, Any]:

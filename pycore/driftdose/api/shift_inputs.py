@@ -14,8 +14,8 @@ from typing import Any
 
 from ..shift.clock import DAY, ClockError, parse_clock_time, parse_iso
 from ..shift.periods import MAX_PERIODS, PERIOD_KINDS, Period
-from .fields import FieldError
-from .units import canonical_unit, to_si, unit_label
+from .fields import Field, FieldError
+from .units import unit_label
 
 __all__ = [
     "COLUMN_QUANTITIES",
@@ -72,6 +72,141 @@ DEFAULT_UNIT = {"number": "1/cm3", "channel": "1/cm3", "ldsa": "um2/cm3", "mass"
 UNIT_LABELS = {"um2/cm3": "µm²/cm³", "m2/m3": "m²/m³"}
 
 SI_UNITS = {"number": "1/m³", "channel": "1/m³", "ldsa": "m²/m³", "mass": "kg/m³"}
+
+
+COLUMN_FIELDS: tuple[Field, ...] = (
+    Field(
+        "column",
+        "Column (header name, part of it, or number)",
+        "text",
+        None,
+        extra={"max_length": 80},
+    ),
+    Field(
+        "quantity",
+        "Holds",
+        "choice",
+        "number",
+        choices=(
+            ("number", "Number concentration"),
+            ("ldsa", "Lung-deposited surface area (LDSA)"),
+            ("mass", "Mass concentration"),
+            ("channel", "A size channel (particles in the channel)"),
+        ),
+    ),
+    Field(
+        "unit",
+        "Unit (blank: from the header)",
+        "text",
+        "",
+        required=False,
+        help="1/cm³ or 1/m³ (number, channels); µm²/cm³ or m²/m³ (LDSA); µg/m³, mg/m³ or "
+        "kg/m³ (mass).",
+        extra={"max_length": 20},
+    ),
+    Field(
+        "diameter",
+        "Channel diameter",
+        "length",
+        (None, "nm"),
+        ("nm", "um"),
+        minimum=1e-9,
+        maximum=100e-6,
+        required=False,
+        applies=("quantity", ("channel",)),
+    ),
+)
+"""Sub-fields of a value-column record."""
+
+PERIOD_FIELDS: tuple[Field, ...] = (
+    Field("label", "Label", "text", "", required=False, extra={"max_length": 80}),
+    Field(
+        "kind",
+        "Period is",
+        "choice",
+        "task",
+        choices=(("task", "A task"), ("background", "Background"), ("break", "A break")),
+    ),
+    Field(
+        "start",
+        "Start (hh:mm[:ss] or 2026-03-05T08:00)",
+        "text",
+        None,
+        extra={"max_length": 40},
+    ),
+    Field("end", "End (hh:mm[:ss] or 2026-03-05T08:00)", "text", None, extra={"max_length": 40}),
+    Field(
+        "activity",
+        "Activity level",
+        "choice",
+        "light_exercise",
+        choices=(
+            ("sitting", "Sitting awake"),
+            ("light_exercise", "Light exercise"),
+            ("heavy_exercise", "Heavy exercise"),
+            ("sleep", "Sleep"),
+        ),
+        applies=("kind", ("task",)),
+    ),
+    Field(
+        "route",
+        "Breathing route",
+        "choice",
+        "mixed",
+        choices=(
+            ("mixed", "Normal nose breather (ICRP: mouth joins at heavy exercise)"),
+            ("nose", "Nose only"),
+            ("mouth", "Mouth only"),
+            ("mouth_breather", "Habitual mouth breather (ICRP)"),
+        ),
+        applies=("kind", ("task",)),
+    ),
+    Field(
+        "protection_factor",
+        "Assigned protection factor of the respiratory protection worn (1: none)",
+        "dimensionless",
+        (1.0, "1"),
+        ("1",),
+        minimum=1.0,
+        maximum=100_000.0,
+        help="The factor that applies to the device worn, from your own source; none is built in.",
+        applies=("kind", ("task",)),
+    ),
+)
+"""Sub-fields of a period record."""
+
+MODE_FIELDS: tuple[Field, ...] = (
+    Field(
+        "median",
+        "Count median diameter (volume-equivalent)",
+        "length",
+        (50.0, "nm"),
+        ("nm", "um"),
+        minimum=1e-9,
+        maximum=100e-6,
+    ),
+    Field(
+        "gsd",
+        "Geometric standard deviation",
+        "dimensionless",
+        (1.8, "1"),
+        ("1",),
+        minimum=1.0,
+        maximum=5.0,
+        exclusive_min=True,
+    ),
+    Field(
+        "share",
+        "Share of the particle number",
+        "dimensionless",
+        (1.0, "1"),
+        ("1",),
+        minimum=0.0,
+        maximum=1e6,
+        exclusive_min=True,
+    ),
+)
+"""Sub-fields of a lognormal mode giving the shape of a task's size distribution."""
 
 
 def unit_text(unit: str) -> str:
@@ -186,17 +321,10 @@ def column_records(raw: Any, field: str = "quantity_columns") -> list[dict[str, 
                 )
         diameter = None
         if quantity == "channel":
-            d = rec.get("diameter")
-            if d is None:
+            diameter = rec.get("diameter")
+            if diameter is None:
                 raise FieldError(f"{path}.diameter", f"{where}: a size channel needs its diameter.")
-            unit_d = d.get("unit", "nm") if isinstance(d, dict) else "nm"
-            x = _number(d, f"{path}.diameter", f"{where} diameter")
-            try:
-                diameter = to_si(x, "length", canonical_unit("length", str(unit_d)))
-            except KeyError:
-                raise FieldError(
-                    f"{path}.diameter", f"{where}: the diameter unit must be nm or µm."
-                ) from None
+            diameter = _number(diameter, f"{path}.diameter", f"{where} diameter")
             if not 1e-9 <= diameter <= 100e-6:
                 raise FieldError(
                     f"{path}.diameter", f"{where}: the diameter must be from 1 nm to 100 µm."
