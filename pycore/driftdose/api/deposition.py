@@ -417,13 +417,20 @@ FIELDS: tuple[Field, ...] = (
 )
 
 
+#: a mode's basis as the page, links and saved inputs write it -> the core's word (the core
+#: says "number" for counts everywhere: number, surface and mass weights and concentrations)
+_CORE_BASIS = {"count": "number", "mass": "mass"}
+_MEDIAN_WORDS = {"number": "count", "mass": "mass"}  # the trade's words: count median, mass median
+
+
 def _aerosol(v: dict[str, Any]) -> tuple[Aerosol, dict[str, Any] | None]:
     """The aerosol of the validated inputs, and the CSV import report for a spectrum."""
     desc = ParticleDescription(
         v["particle_density"], v["shape_factor"], v.get("density_basis") or "material"
     )
     if v["distribution_source"] == "lognormal":
-        return aerosol_from_modes([ModeSpec(**m) for m in v["modes"]], desc), None
+        modes = [ModeSpec(**{**m, "basis": _CORE_BASIS[m["basis"]]}) for m in v["modes"]]
+        return aerosol_from_modes(modes, desc), None
     imported, report = import_spectrum(v)
     try:
         aerosol = aerosol_from_spectrum(
@@ -644,7 +651,7 @@ def _mode_rows(aerosol: Aerosol) -> dict[str, Any]:
     modes = getattr(aerosol.distribution, "modes", ())
     coord = COORDINATE_WORDS[desc.coordinate]
     for i, (mode, e) in enumerate(zip(modes, aerosol.modes, strict=True), start=1):
-        given = f"entered: {e.basis} median, {DIAMETER_TYPE_WORDS[e.diameter_type]}"
+        given = f"entered: {_MEDIAN_WORDS[e.basis]} median, {DIAMETER_TYPE_WORDS[e.diameter_type]}"
         converted = is_converted(desc, e.diameter_type)
         note = given + ("; converted, GSD kept" if converted else "")
         mmd = mode.median("mass")

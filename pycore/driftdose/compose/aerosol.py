@@ -38,7 +38,7 @@ class ModeSpec:
     Attributes
     ----------
     basis : str
-        ``count`` (the median is a count median, the concentration a number concentration)
+        ``number`` (the median is a count median, the concentration a number concentration)
         or ``mass`` (mass median, mass concentration).
     median : float
         Median diameter, of the type ``diameter_type``. [m]
@@ -47,7 +47,7 @@ class ModeSpec:
     gsd : float
         Geometric standard deviation, above 1. [-]
     concentration : float
-        Number concentration [1/m^3] for a count mode, mass concentration [kg/m^3] for a
+        Number concentration [1/m^3] for a number mode, mass concentration [kg/m^3] for a
         mass mode.
     """
 
@@ -153,7 +153,7 @@ def aerosol_from_modes(modes: Sequence[ModeSpec], description: ParticleDescripti
     built = []
     for m in modes:
         d_model = description.to_model(m.median, m.diameter_type, T_MEASURED, P_MEASURED)
-        make = LognormalMode.from_number if m.basis == "count" else LognormalMode.from_mass
+        make = LognormalMode.from_number if m.basis == "number" else LognormalMode.from_mass
         built.append(make(d_model, m.gsd, m.concentration, rho, chi))
     return Aerosol(Multimodal(tuple(built)), description, tuple(modes))
 
