@@ -182,9 +182,13 @@ export class Engine {
     return this._post({ kind, inputs });
   }
 
-  /** Turn a reply into CSV text ("results" or "curves") with the core's exporter. */
-  exportCsv(reply, part) {
-    return this._post({ op: "export", reply, part });
+  /**
+   * A shown reply as CSV text ("results" or "curves") with the header block naming the tool
+   * version, date, calculation and inputs: the engine's request kind "export" (the same door as
+   * every calculation). `bom` starts the text with a byte-order mark for spreadsheets.
+   */
+  exportCsv(calculation, inputs, reply, part, bom = true) {
+    return this.request("export", { calculation, part, inputs, reply, bom });
   }
 
   /**

@@ -57,7 +57,17 @@ export class CalcPanel {
     csvResults.addEventListener("click", () => this.exportCsv("results"));
     const csvCurves = el("button", { type: "button", class: "secondary" }, "Download curves (CSV)");
     csvCurves.addEventListener("click", () => this.exportCsv("curves"));
-    tools.append(csvResults, csvCurves);
+    // spreadsheets read a CSV file as UTF-8 (µ, ², ³ intact) only when it starts with a
+    // byte-order mark; other programs may want the file without one
+    const encodingId = `${opts.id}-csv-encoding`;
+    this.csvEncoding = el("select", { id: encodingId, class: "csv-encoding" });
+    this.csvEncoding.append(
+      el("option", { value: "bom" }, "UTF-8 with BOM, for spreadsheets"),
+      el("option", { value: "plain" }, "UTF-8 without BOM"),
+    );
+    const encodingBox = el("span", { class: "csv-encoding-box" });
+    encodingBox.append(el("label", { for: encodingId }, "CSV files"), this.csvEncoding);
+    tools.append(csvResults, csvCurves, encodingBox);
     this.output.append(tools);
     grid.append(this.output);
     root.append(grid);
@@ -127,8 +137,14 @@ export class CalcPanel {
 
   async exportCsv(part) {
     if (!this.lastGood) return;
-    const reply = await this.engine.exportCsv(this.lastGood, part);
-    if (reply && reply.ok) download(`drift-dose-${this.opts.id}-${part}-${stamp()}.csv`, reply.text, "text/csv;charset=utf-8");
+    const bom = this.csvEncoding.value === "bom";
+    const reply = await this.engine.exportCsv(this.opts.kind, this.lastGoodInputs, this.lastGood, part, bom);
+    if (reply && reply.ok) {
+      download(`drift-dose-${this.opts.id}-${part}-${stamp()}.csv`, reply.text, "text/csv;charset=utf-8");
+    } else {
+      this.formMessage.textContent = `The CSV file could not be written: ${(reply?.errors || []).map((e) => e.message).join(" ") || "no reply"}`;
+      this.formMessage.hidden = false;
+    }
   }
 
   onChange(listener) {

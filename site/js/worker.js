@@ -1,6 +1,7 @@
 // Module worker that owns Pyodide and the driftdose package. Messages in: first {op: "init",
 // wheel} (the wheel of the page's own build, named in its forms.json), then {id, kind, inputs}
-// or {id, op: "export", reply, part}; out: {type: "progress"|"ready"|"failed"} or {type:
+// (an export is the kind "export" of the same door, driftdose.api.handle) or {id, op:
+// "decode", ...}; out: {type: "progress"|"ready"|"failed"} or {type:
 // "reply", id, reply}. A JSON string crosses into Python and back, so no Python object leaks
 // into JavaScript.
 //
@@ -21,7 +22,6 @@ import { expandSparse } from "./sparse.js";
 const base = new URL("../", import.meta.url);
 const indexURL = new URL("pyodide/", base).href;
 let handleJson = null;
-let exporter = null;
 let textfile = null;
 // phase marks, in ms since the page's time origin's epoch (performance.timeOrigin + now())
 const marks = { workerStart: stamp() };
@@ -117,7 +117,6 @@ async function start() {
   progress(90, "Preparing…");
   const api = pyodide.pyimport("driftdose.api");
   handleJson = api.handle_json;
-  exporter = pyodide.pyimport("driftdose.export");
   textfile = pyodide.pyimport("driftdose.textfile");
   const version = JSON.parse(handleJson(JSON.stringify({ kind: "describe" }))).version;
   marks.packageImported = stamp();
@@ -131,11 +130,6 @@ const started = start().catch((err) => {
   postMessage({ type: "failed", message: String(err && err.message ? err.message : err) });
   throw err;
 });
-
-function exportCsv(reply, part) {
-  const fn = part === "curves" ? exporter.curves_csv_json : exporter.results_csv_json;
-  return { ok: true, text: fn(JSON.stringify(reply)) };
-}
 
 // A file the user picked, as bytes: decoded by the core's one decoder (driftdose.textfile),
 // the same the command line uses, so a file reads alike in both.
@@ -154,8 +148,7 @@ self.addEventListener("message", async (event) => {
   let reply;
   try {
     await started;
-    if (op === "export") reply = exportCsv(event.data.reply, event.data.part);
-    else if (op === "decode") reply = decodeFile(event.data);
+    if (op === "decode") reply = decodeFile(event.data);
     else reply = JSON.parse(handleJson(JSON.stringify({ kind, inputs })));
   } catch (err) {
     const message = "The calculation engine is not available.";

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import csv
+import io
 import math
 import re
 import struct
@@ -66,3 +68,16 @@ def png_text(data: bytes) -> dict[str, str]:
 
 def png_size(data: bytes) -> tuple[int, int]:
     return struct.unpack(">II", data[16:24])
+
+
+def export_parts(text: str) -> tuple[list[list[str]], str]:
+    """Split a CSV export of the page into its header block (rows) and the table text.
+
+    The page's exports start with a byte-order mark (unless plain UTF-8 was chosen) and a
+    header block ended by the first empty row; the table after it is the core's
+    ``export.results_csv`` or ``export.curves_csv``.
+    """
+    text = text.removeprefix("\ufeff").replace("\r\n", "\n")
+    head, sep, table = text.partition("\n\n")
+    assert sep, "no header block"
+    return list(csv.reader(io.StringIO(head))), table

@@ -11,7 +11,7 @@ import pytest
 from driftdose import api
 
 from .conftest import screenshot, wait_ready
-from .helpers import table_values
+from .helpers import export_parts, table_values
 
 pytestmark = pytest.mark.e2e
 
@@ -76,7 +76,12 @@ def test_results_csv_export_matches_core(page, base_url):
     _ready_with_results(page, base_url)
     with page.expect_download() as info:
         page.locator("#panel-motion").get_by_role("button", name="Download results (CSV)").click()
-    rows = list(csv.reader(io.StringIO(open(info.value.path(), encoding="utf-8").read())))
+    raw = open(info.value.path(), "rb").read()
+    assert raw.startswith(b"\xef\xbb\xbf")  # the default: a byte-order mark for spreadsheets
+    head, table = export_parts(raw.decode("utf-8"))
+    assert head[0] == ["Drift & Dose export", "results"]
+    assert ["calculation", "motion", api.CALCULATIONS["motion"].TITLE] in head
+    rows = list(csv.reader(io.StringIO(table)))
     assert rows[0] == ["quantity", "symbol", "value", "unit", "value_si", "si_unit", "note"]
     reply = api.handle({"kind": "motion", "inputs": {}})
     by_label = {r[0]: r for r in rows[1:]}
@@ -89,7 +94,8 @@ def test_curves_csv_export_has_units_in_header(page, base_url):
     _ready_with_results(page, base_url)
     with page.expect_download() as info:
         page.locator("#panel-motion").get_by_role("button", name="Download curves (CSV)").click()
-    rows = list(csv.reader(io.StringIO(open(info.value.path(), encoding="utf-8").read())))
+    _head, table = export_parts(open(info.value.path(), encoding="utf-8").read())
+    rows = list(csv.reader(io.StringIO(table)))
     assert rows[0] == [
         "curve",
         "Volume-equivalent diameter [µm]",

@@ -3,7 +3,9 @@
 ``handle(request) -> reply`` takes ``{"kind": ..., "inputs": {...}}`` and returns either
 ``{"ok": True, "results": ..., "curves": ..., "warnings": [...], "sources": [...]}`` or
 ``{"ok": False, "errors": [{"field": ..., "message": ...}]}``. No exception crosses it.
-``{"kind": "describe"}`` lists every calculation with its fields for building forms.
+``{"kind": "describe"}`` lists every calculation with its fields for building forms;
+``{"kind": "export", "inputs": {...}}`` writes a shown reply as CSV with a header block
+(:mod:`driftdose.api.exports`).
 """
 
 from __future__ import annotations
@@ -14,6 +16,7 @@ import traceback
 from typing import Any
 
 from .. import __version__
+from .exports import EXPORT_KIND, export_csv
 from .fields import FieldError, parse_fields
 from .registry import CALCULATIONS
 from .units import unit_table
@@ -62,6 +65,8 @@ def _handle(request: Any, check: bool = True) -> dict[str, Any]:
     kind = request.get("kind")
     if kind == "describe":
         return describe()
+    if kind == EXPORT_KIND:
+        return export_csv(request.get("inputs"), CALCULATIONS)
     calc = CALCULATIONS.get(kind) if isinstance(kind, str) else None
     if calc is None:
         return _error(
