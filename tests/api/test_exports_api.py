@@ -109,7 +109,11 @@ def test_curves_part_and_structured_inputs_each_item_field_its_own_row():
     rows = {r[1]: r for r in head[6:]}
     assert rows["modes[1].median"][3:5] == ["30", "nm"]
     assert rows["modes[2].concentration"][3:5] == ["0.5", "mg/m³"]
-    assert rows["modes[2].diameter_type"][3] == "aerodynamic"
+    assert float(rows["modes[1].median"][5]) == pytest.approx(3e-8, rel=1e-15)
+    assert rows["modes[1].median"][6] == "m"
+    assert rows["modes[2].concentration"][5:7] == [repr(0.5e-6), "kg/m³"]
+    assert rows["modes[2].diameter_type"][5] == "aerodynamic"  # the code; its label before it
+    assert rows["modes[1].gsd"][3] == "1.6"
     # the spectrum inputs do not apply to modes: not written
     assert "csv_text" not in rows and "csv_diameter_unit" not in rows
     assert table == export.curves_csv(reply)

@@ -155,7 +155,8 @@ def _plain(raw: Any, f: Field) -> Any:
     return f.default if raw is None and f.kind not in UNITS else raw
 
 
-def _input_rows(f: Field, raw: Any, si: Any) -> list[list[str]]:
+def _input_rows(f: Field, raw: Any, si: Any, name: str = "", label: str = "") -> list[list[str]]:
+    name, label = name or f.name, label or f.label
     if f.kind in UNITS:
         if si is None:
             return []
@@ -166,8 +167,8 @@ def _input_rows(f: Field, raw: Any, si: Any) -> list[list[str]]:
         return [
             [
                 "input",
-                f.name,
-                f.label,
+                name,
+                label,
                 _entered(value),
                 _label(unit),
                 repr(si),
@@ -176,10 +177,34 @@ def _input_rows(f: Field, raw: Any, si: Any) -> list[list[str]]:
         ]
     if f.kind == "choice":
         shown = dict(f.choices).get(si, str(si))
-        return [["input", f.name, f.label, shown, "", str(si), ""]]
+        return [["input", name, label, shown, "", str(si), ""]]
+    if f.kind == "records":
+        return _record_rows(f, raw, si)
     if f.kind == "data":
         return _data_rows(f, si)
-    return [["input", f.name, f.label, "" if si is None else str(si), "", "", ""]]
+    return [["input", name, label, "" if si is None else str(si), "", "", ""]]
+
+
+def _record_rows(f: Field, raw: Any, records: Any) -> list[list[str]]:
+    """One row per value of each record (``modes[1].median``), as a plain field's row."""
+    if not isinstance(records, list):
+        return []
+    items = raw if isinstance(raw, list) and len(raw) == len(records) else [{}] * len(records)
+    rows = []
+    for i, (item, record) in enumerate(zip(items, records, strict=True)):
+        item = item if isinstance(item, dict) else {}
+        for sub in f.item_fields:
+            decl = sub.variant_for(record)
+            rows.extend(
+                _input_rows(
+                    decl,
+                    item.get(sub.name),
+                    record.get(sub.name),
+                    f"{f.name}[{i + 1}].{sub.name}",
+                    f"{f.item_label} {i + 1}: {decl.label}",
+                )
+            )
+    return rows
 
 
 def _entered(value: Any) -> str:
