@@ -23,20 +23,21 @@ Reply (besides ``ok``, ``warnings``, ``sources``):
 - ``results.tasks``: a table ``{label, unit, rows}``, a row per period in the order entered:
   ``index, period, kind, start, end, start_s, end_s, duration_s, coverage, readings, mean,
   median, p95, max, peak15, background, corrected_mean, below_background_share, ratio,
-  share_above, activity, route, protection_factor`` (concentrations in ``unit``, the
-  summarised column's unit; shares 0-1; None where nothing was measured);
+  share_above, activity, route, protection_factor, unit`` (concentrations in ``unit``, the
+  code of the summarised column's unit, e.g. ``1/cm3``, ``um2/cm3``, ``ug/m3``; shares 0-1;
+  None where nothing was measured);
 - ``results.shift``: a table with one row, the same keys for the shift (breaks left out) plus
   ``twa8h, twa8h_corrected, twa_ratio, unmeasured_s, unmeasured_as, background_method``
   (words); and rows ``twa8h``, ``twa8h_corrected``, ``shift_mean``, ``shift_peak15``,
   ``shift_max``, ``coverage``, ``twa_rule``, ``background_method`` as plain result rows
   (label, value, unit, si, si_unit) for tables, the CLI and batch;
 - ``results.dose`` (with a size source): ``{label, regions, region_labels, units: {number,
-  surface, mass}, tasks: [{index, period, protection_factor, duration_s, number: [...],
-  surface: [...], mass: [...], ldsa: {alveolar, tracheobronchial, total}}], total: {number,
-  surface, mass}, rows}``, per region in ``regions`` order (``total`` last); deposited
-  particles, mm², µg; LDSA of the inhaled air in µm²/cm³; ``rows`` the same as a table for
-  the CSV export;
-- ``curves.series``: ``{start, x_label, x_unit, t_s, series: [{key, label, unit, y}],
+  surface, mass}, ldsa_unit, tasks: [{index, period, protection_factor, duration_s, number:
+  [...], surface: [...], mass: [...], ldsa: {alveolar, tracheobronchial, total}}], total:
+  {number, surface, mass}, rows}``, per region in ``regions`` order (``total`` last); units by
+  code: ``1`` (particles), ``mm2``, ``ug``; LDSA of the inhaled air in ``um2/cm3``; ``rows``
+  the same as a table for the CSV export;
+- ``curves.series``: ``{start, x_label, x_unit, t_s, series: [{key, label, unit (code), y}],
   periods: [{index, label, kind, start_s, end_s}], gaps: [...]}`` thinned for drawing (each
   bucket keeps its lowest and highest values; a gap is a point with None values); the
   background used per reading is the series ``background``; ``curves.background`` the

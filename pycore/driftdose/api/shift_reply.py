@@ -30,7 +30,8 @@ QUANTITY_WORDS = {
     "mass": "Mass concentration",
     "channel": "Size channel",
 }
-DOSE_UNITS = {"number": (1.0, "particles"), "surface": (1e-6, "mm²"), "mass": (1e-9, "µg")}
+DOSE_UNITS = {"number": (1.0, "1"), "surface": (1e-6, "mm2"), "mass": (1e-9, "ug")}
+"""Dose per weight: (factor to SI, unit code): particles, mm², µg."""
 RULE_WORDS = {
     "zero": "unmeasured time of the 8 h counted as zero",
     "background": "unmeasured time of the 8 h counted at the mean background",
@@ -272,7 +273,7 @@ def shape(
         results["background_import"] = _import(far_table, far, v, "background_")
     rows = []
     for i, (p, st) in enumerate(r.periods):
-        row = {"index": i, **_row(p, st, f, series)}
+        row = {"index": i, **_row(p, st, f, series), "unit": unit}
         rows.append(row)
         if st.coverage < 0.9:
             warnings.append(
@@ -281,7 +282,7 @@ def shape(
             )
         if st.peak15 is None and p.duration >= 900:
             warnings.append(f"Period {p.label!r}: no 15-minute window is half measured.")
-    results["tasks"] = {"label": "Periods", "unit": shown, "rows": rows}
+    results["tasks"] = {"label": "Periods", "unit": unit, "rows": rows}
     s = r.shift
     shift_row = {
         "period": "Shift",
@@ -294,8 +295,9 @@ def shape(
         "unmeasured_s": r.unmeasured,
         "unmeasured_as": RULE_WORDS[r.unmeasured_as],
         "background_method": r.background.words,
+        "unit": unit,
     }
-    results["shift"] = {"label": "Shift", "unit": shown, "rows": [shift_row]}
+    results["shift"] = {"label": "Shift", "unit": unit, "rows": [shift_row]}
     twa_label = "8-h TWA" if r.unmeasured_as != "excluded" else "Mean over measured time"
     results["twa8h"] = _plain(twa_label, r.twa8h, f, shown, si_unit, RULE_WORDS[r.unmeasured_as])
     if r.twa8h_corrected is not None:
@@ -330,7 +332,7 @@ def shape(
         (
             f"c{i}",
             f"{QUANTITY_WORDS[c['quantity']]} ({c['column']})",
-            unit_text(units[i]),
+            units[i],
             series.values[str(i)],
             quantity_scale(c["quantity"], units[i]),
         )
@@ -343,7 +345,7 @@ def shape(
             {
                 "key": "background",
                 "label": "Background used",
-                "unit": shown,
+                "unit": unit,
                 "y": _at_points(series, r.background.values, curve["t_s"], f),
             }
         )
@@ -354,9 +356,7 @@ def shape(
     curves: dict[str, Any] = {"series": curve}
     if far is not None:
         bf = quantity_scale(quantity, far_unit)
-        far_curve = _curve(
-            far, [("far", "Far-field series", unit_text(far_unit), far.values["0"], bf)]
-        )
+        far_curve = _curve(far, [("far", "Far-field series", far_unit, far.values["0"], bf)])
         far_curve["offset_s"] = far.start - series.start
         curves["background"] = far_curve
     model = v["model"]
@@ -401,7 +401,7 @@ def _dose(r: ShiftResult, series: TimeSeries) -> dict[str, Any]:
         "regions": regions,
         "region_labels": [REGION_LABELS.get(k, k) for k in regions],
         "units": {w: u for w, (_, u) in DOSE_UNITS.items()},
-        "ldsa_unit": "µm²/cm³",
+        "ldsa_unit": "um2/cm3",
         "tasks": tasks,
         "total": total,
         "rows": rows,
@@ -414,5 +414,5 @@ def _dose_row(label: str, entry: dict[str, Any], regions: list[str]) -> dict[str
         for k, reg in enumerate(regions):
             q.append({"label": f"{reg} {w}", "value": entry[w][k], "unit": u})
     for k, x in (entry.get("ldsa") or {}).items():
-        q.append({"label": f"LDSA {k}", "value": x, "unit": "µm²/cm³"})
+        q.append({"label": f"LDSA {k}", "value": x, "unit": "um2/cm3"})
     return {"task": label, "protection_factor": entry.get("protection_factor"), "quantities": q}

@@ -39,6 +39,9 @@ UNITS: dict[str, dict[str, float]] = {
     "dimensionless": {"1": 1.0},
     "number_concentration": {"1/m3": 1.0, "1/cm3": 1e6},
     "mass_concentration": {"kg/m3": 1.0, "mg/m3": 1e-6, "ug/m3": 1e-9},
+    "surface_concentration": {"m2/m3": 1.0, "um2/cm3": 1e-6},
+    "area": {"m2": 1.0, "mm2": 1e-6, "um2": 1e-12},
+    "mass": {"kg": 1.0, "mg": 1e-6, "ug": 1e-9},
     "volume": {"m3": 1.0, "L": 1e-3},
     "angle": {"deg": 0.017453292519943295, "rad": 1.0},
     "ventilation": {"m3/h": 1.0 / 3600.0, "L/min": 1e-3 / 60.0, "m3/s": 1.0},
@@ -51,6 +54,15 @@ SI_UNIT: dict[str, str] = {
 _OFFSET = {"degC": 273.15, "degF": 459.67}  # added before scaling: K = (x + offset) * f
 
 _ALIASES = {
+    "m²/m³": "m2/m3",
+    "µm²/cm³": "um2/cm3",
+    "μm²/cm³": "um2/cm3",
+    "m²": "m2",
+    "mm²": "mm2",
+    "µm²": "um2",
+    "μm²": "um2",
+    "µg": "ug",
+    "μg": "ug",
     "µm": "um",
     "μm": "um",
     "µm/s": "um/s",
