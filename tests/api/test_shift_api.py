@@ -382,3 +382,36 @@ def test_channel_without_diameter_names_the_sub_field():
     )
     assert not reply["ok"]
     assert reply["errors"][0]["field"] == "quantity_columns.0.diameter"
+
+
+def test_per_task_and_shift_tables_export_through_the_one_door():
+    req = request(size_source="modes")
+    reply = api.handle(req)
+    assert reply["ok"], reply
+    out = api.handle(
+        {
+            "kind": "export",
+            "inputs": {
+                "calculation": "shift",
+                "part": "results",
+                "inputs": req["inputs"],
+                "reply": reply,
+                "bom": False,
+            },
+        }
+    )
+    assert out["ok"], out
+    text = out["text"]
+    assert text.startswith("Drift & Dose export")
+    # the imported file by size and SHA-256 in the header block, not its text
+    assert "Invented logger for tests" not in text
+    for block in ("\r\nPeriods\r\n", "\r\nShift\r\n", "\r\nDeposited dose per task\r\n"):
+        assert block in text
+    periods = text.split("\r\nPeriods\r\n", 1)[1].split("\r\n\r\n", 1)[0].splitlines()
+    head = periods[0].split(",")
+    assert {"period", "mean", "p95", "peak15", "corrected_mean", "unit"} <= set(head)
+    assert [line.split(",")[head.index("period")] for line in periods[1:]] == [
+        p["label"] for p in PERIODS
+    ]
+    grinding = periods[2].split(",")
+    assert float(grinding[head.index("mean")]) == reply["results"]["tasks"]["rows"][1]["mean"]
