@@ -138,16 +138,29 @@ function quantity(v, path, refused) {
   return out;
 }
 
-/** One item of a list (a mode or a stage) with the keys `allowed` maps to their declarations. */
+/**
+ * One item of a list (a mode or a stage) with the keys `allowed` maps to their declarations.
+ * A key a declaration lists in `formerly` (its name before a rename) is read under the current
+ * name, unless the item also gives the current one.
+ */
 function item(v, allowed, path, refused) {
   if (!isPlain(v)) return leaf(v);
   const out = bare();
+  const former = bare();
+  for (const name of Object.keys(allowed)) {
+    const f = allowed[name];
+    for (const old of (f && Array.isArray(f.formerly)) ? f.formerly : []) {
+      if (typeof old === "string" && !Object.hasOwn(allowed, old)) former[old] = name;
+    }
+  }
   for (const key of Object.keys(v)) {
-    if (!Object.hasOwn(allowed, key)) {
+    const name = Object.hasOwn(allowed, key) ? key : Object.hasOwn(former, key) ? former[key] : null;
+    if (name === null) {
       refused.push(`${path}.${showKey(key)}`);
       continue;
     }
-    out[key] = allowed[key] && allowed[key].kind === "choice" ? leaf(v[key]) : quantity(v[key], `${path}.${key}`, refused);
+    if (name !== key && Object.hasOwn(v, name)) continue; // the current name wins
+    out[name] = allowed[name] && allowed[name].kind === "choice" ? leaf(v[key]) : quantity(v[key], `${path}.${name}`, refused);
   }
   return out;
 }

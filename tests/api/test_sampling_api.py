@@ -41,13 +41,13 @@ BEND = {
     "bend_angle": q(90, "deg"),
     "curvature_radius": q(3, "cm"),
 }
-CYCLONE = {"type": "cyclone", "curve": "lognormal", "d50": q(4, "um"), "steepness": q(1.5, "1")}
+CYCLONE = {"type": "cyclone", "curve": "lognormal", "d50": q(4, "um"), "curve_gsd": q(1.5, "1")}
 IMPACTOR = {
     "type": "impactor",
     "jet": "round",
     "nozzle_diameter": q(1, "mm"),
     "n_nozzles": 1,
-    "steepness": q(1.2, "1"),
+    "efficiency_width": q(1.2, "1"),
 }
 SCREENS = {
     "type": "screens",
@@ -63,6 +63,27 @@ ALL = [TUBE, BEND, CYCLONE, IMPACTOR, SCREENS]
 def errors_by_field(reply):
     assert reply["ok"] is False
     return {e["field"]: e["message"] for e in reply["errors"]}
+
+
+# --- former names -------------------------------------------------------------------------------
+
+
+def test_former_stage_parameter_name_is_read() -> None:
+    """Links and inputs files written before the rename give the cyclone's curve GSD and the
+    impactor's curve width as ``steepness``: read as the current names (which win if both)."""
+    old_cyclone = {k: v for k, v in CYCLONE.items() if k != "curve_gsd"} | {
+        "steepness": q(1.7, "1")
+    }
+    old_impactor = {k: v for k, v in IMPACTOR.items() if k != "efficiency_width"}
+    old_impactor["steepness"] = q(1.4, "1")
+    new_cyclone = {**CYCLONE, "curve_gsd": q(1.7, "1")}
+    new_impactor = {**IMPACTOR, "efficiency_width": q(1.4, "1")}
+    old = handle(request([old_cyclone, old_impactor], flow=q(1.5, "L/min")))
+    new = handle(request([new_cyclone, new_impactor], flow=q(1.5, "L/min")))
+    assert old["ok"] is True, old.get("errors")
+    assert old == new
+    both = handle(request([{**new_cyclone, "steepness": q(9, "1")}], flow=q(1.5, "L/min")))
+    assert both == handle(request([new_cyclone], flow=q(1.5, "L/min")))
 
 
 # --- shape and agreement with the core --------------------------------------------------------
@@ -105,7 +126,7 @@ def test_sampling_curves_match_core_chain() -> None:
             Tube(2.0, 4e-3, Q),
             Bend(4e-3, Q, math.pi / 2, 0.03),
             Cyclone(4e-6, 1.5),
-            Impactor(1e-3, Q, steepness=1.2),
+            Impactor(1e-3, Q, efficiency_width=1.2),
             ScreenStack(50e-6, 0.3, 100e-6, Q, 25e-3, 5),
         )
     )
@@ -336,7 +357,7 @@ def with_param(stage, **params):
             id="sonic-jet",
         ),
         pytest.param([with_param(IMPACTOR, n_nozzles=0)], "stages.0.n_nozzles", id="no-nozzle"),
-        pytest.param([with_param(CYCLONE, steepness=q(1, "1"))], "stages.0.steepness", id="sigma1"),
+        pytest.param([with_param(CYCLONE, curve_gsd=q(1, "1"))], "stages.0.curve_gsd", id="sigma1"),
         pytest.param([{"type": "pipe"}], "stages.0.type", id="unknown-type"),
         pytest.param(["tube"], "stages.0.type", id="not-an-object"),
         pytest.param([], "stages", id="empty-chain"),

@@ -39,7 +39,7 @@ def test_sampling_result_is_frozen_and_ideal_respirable_stage_meets_its_target()
     # A pre-separator with the ideal ISO 7708 respirable curve, unit density: the chain is
     # the convention itself (ISO 7708:1995), so its departure from that target is zero.
     stage = build_stage(
-        "cyclone", {"d50": 4e-6, "steepness": 1.5, "curve": "iso7708_respirable"}, 0.0, "ideal"
+        "cyclone", {"d50": 4e-6, "curve_gsd": 1.5, "curve": "iso7708_respirable"}, 0.0, "ideal"
     )
     r = compose_sampling([stage], 1000.0, 293.15, 101325.0, target="respirable")
     assert dataclasses.is_dataclass(r)
@@ -57,7 +57,7 @@ def test_sampling_result_is_frozen_and_ideal_respirable_stage_meets_its_target()
 
 def test_lognormal_cut_is_where_the_chain_crosses_half() -> None:
     # Definition of the lognormal curve: P(d50) = 0.5 (common practice).
-    stage = build_stage("cyclone", {"d50": 2.5e-6, "steepness": 1.3}, 0.0, "cut")
+    stage = build_stage("cyclone", {"d50": 2.5e-6, "curve_gsd": 1.3}, 0.0, "cut")
     r = compose_sampling([stage], 1000.0, 293.15, 101325.0, names=[""])
     assert r.stages[0].name == ""
     assert r.stages[0].half_penetration_sizes == [pytest.approx(2.5e-6, rel=1e-3)]

@@ -86,7 +86,7 @@ def test_tube_mechanisms_can_be_switched_off() -> None:
         (lambda: Tube(1.0, 4e-3, Q, inclination=2.0), "inclination"),
         (lambda: Bend(4e-3, Q, math.pi / 2, 1.5e-3), "curvature_radius"),
         (lambda: Bend(4e-3, Q, 0.0, 0.05), "bend_angle"),
-        (lambda: Cyclone(4e-6, 1.0), "steepness"),
+        (lambda: Cyclone(4e-6, 1.0), "curve_gsd"),
         (lambda: Cyclone(-1.0, 1.5), "d50"),
         (lambda: Impactor(1e-3, Q, jet="rectangular"), "slit_length"),
         (lambda: Impactor(1e-3, Q, jet="rectangular", slit_length=0.5e-3), "slit_length"),
@@ -153,8 +153,8 @@ def test_stage_kinds_registry_builds_every_kind() -> None:
     parameters = {
         "tube": {"length": 1.0, "tube_diameter": 4e-3, "inclination": 0.3},
         "bend": {"tube_diameter": 4e-3, "bend_angle": math.pi / 2, "curvature_radius": 0.05},
-        "cyclone": {"d50": 4e-6, "steepness": 1.5},
-        "impactor": {"nozzle_diameter": 1e-3, "steepness": 1.2},
+        "cyclone": {"d50": 4e-6, "curve_gsd": 1.5},
+        "impactor": {"nozzle_diameter": 1e-3, "efficiency_width": 1.2},
         "screens": {
             "wire_diameter": 5e-5,
             "solidity": 0.3,

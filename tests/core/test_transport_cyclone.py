@@ -28,7 +28,7 @@ def test_cyclone_penetration_iso7708_respirable_table(d_um, percent) -> None:
     assert p * 100.0 == pytest.approx(percent, abs=0.05)
 
 
-def test_lognormal_penetration_definition_of_steepness() -> None:
+def test_lognormal_penetration_definition_of_curve_gsd() -> None:
     # 50 % at the cut; at d50 * sigma the penetration is 1 - Phi(1) = 0.1587 (standard normal
     # table, Abramowitz & Stegun 1964, Table 26.1; 4 digits).
     assert cyclone.lognormal_penetration(3.5e-6, 3.5e-6, 1.4) == pytest.approx(0.5, abs=1e-15)

@@ -82,7 +82,7 @@ def test_impactor_cut_diameter_density_scaling() -> None:
 
 
 def test_impactor_efficiency_half_at_stk50() -> None:
-    # By construction of the documented sigmoid: E(Stk50) = 0.5; and one "steepness" above
+    # By construction of the documented sigmoid: E(Stk50) = 0.5; and one "efficiency_width" above
     # the cut in sqrt(Stk) it is Phi(1) = 0.8413 (standard normal table, Abramowitz & Stegun
     # 1964, Table 26.1), printed to 4 digits.
     assert impactor.impactor_efficiency(0.24, "round") == pytest.approx(0.5, abs=1e-15)

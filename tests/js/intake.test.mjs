@@ -31,6 +31,27 @@ test("a plain link decodes into declared fields, with units split only where a f
   assert.equal(acceptedNotice(d, "This link"), "");
 });
 
+test("a stage parameter under its former name is read under the current one", () => {
+  // links written before the rename gave a cyclone's curve GSD and an impactor's curve width
+  // both as `steepness`; each now has its own name, declared with `formerly` in forms.json
+  const stages = [
+    { type: "cyclone", d50: { value: "4", unit: "um" }, steepness: { value: "1.6", unit: "1" } },
+    { type: "impactor", nozzle_diameter: { value: "1", unit: "mm" }, steepness: { value: "1.3", unit: "1" } },
+    { type: "cyclone", steepness: { value: "9", unit: "1" }, curve_gsd: { value: "1.4", unit: "1" } },
+  ];
+  const d = decodeFragment(`#v=1&sampling.stages=${encodeURIComponent(`j:${JSON.stringify(stages)}`)}`, SCHEMA);
+  assert.equal(d.ok, true);
+  assert.deepEqual(d.refused, []);
+  const [cyclone, impactor, both] = d.panels.sampling.stages;
+  assert.equal(cyclone.curve_gsd.value, "1.6");
+  assert.equal(impactor.efficiency_width.value, "1.3");
+  assert.equal(both.curve_gsd.value, "1.4"); // the current name wins over the former one
+  for (const stage of [cyclone, impactor, both]) assert.equal(Object.hasOwn(stage, "steepness"), false);
+  const tube = [{ type: "tube", steepness: { value: "1.6", unit: "1" } }]; // not a former name here
+  const t = decodeFragment(`#v=1&sampling.stages=${encodeURIComponent(`j:${JSON.stringify(tube)}`)}`, SCHEMA);
+  assert.deepEqual(t.refused, ["sampling.stages[0].steepness"]);
+});
+
 test("prototype keys in a link are refused and named, and reach no object", () => {
   for (const key of ["__proto__.text", "constructor.name", "constructor.prototype", "__proto__.__proto__", "__proto__.unit", "__proto__.toString", "motion.__proto__", "motion.constructor", "prototype.x"]) {
     const d = decodeFragment(`#v=1&${encodeURIComponent(key)}=${encodeURIComponent("j:{}")}&motion.time=3~s`, SCHEMA);

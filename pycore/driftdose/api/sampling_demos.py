@@ -82,7 +82,7 @@ DEMOS: dict[str, dict[str, Any]] = {
         "label": "Short line with a respirable pre-separator (invented demo)",
         "description": (
             "An invented example: 1 m of 6 mm horizontal tubing to a pre-separator "
-            "with a lognormal curve (cut 4 µm, steepness 1.5), compared with the ISO 7708 "
+            "with a lognormal curve (cut 4 µm, GSD 1.5), compared with the ISO 7708 "
             "respirable convention, at 2.5 L/min."
         ),
         "inputs": {
@@ -103,7 +103,7 @@ DEMOS: dict[str, dict[str, Any]] = {
                     "name": "Pre-separator",
                     "curve": "lognormal",
                     "d50": _q(4.0, "um"),
-                    "steepness": _q(1.5, "1"),
+                    "curve_gsd": _q(1.5, "1"),
                 },
             ],
         },

@@ -16,7 +16,7 @@ from typing import Any
 
 from ..transport import STAGE_KINDS, StageInputError, build_stage
 from ..transport.chain import Stage
-from ..transport.impactor import DEFAULT_STEEPNESS
+from ..transport.impactor import DEFAULT_EFFICIENCY_WIDTH
 from .fields import Field, parse_fields
 
 __all__ = [
@@ -149,7 +149,7 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             "choice",
             "lognormal",
             choices=(
-                ("lognormal", "Lognormal from cut size and steepness"),
+                ("lognormal", "Lognormal from cut size and GSD"),
                 ("iso7708_respirable", "Ideal ISO 7708 respirable curve"),
             ),
         ),
@@ -163,8 +163,8 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             maximum=100e-6,
         ),
         Field(
-            "steepness",
-            "Steepness (GSD of the curve)",
+            "curve_gsd",
+            "GSD of the curve",
             "dimensionless",
             (1.5, "1"),
             ("1",),
@@ -172,6 +172,7 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             maximum=5.0,
             exclusive_min=True,
             help="d50 / d84; smaller is sharper. Above 1.",
+            extra={"formerly": ["steepness"]},
         ),
     ),
     "impactor": (
@@ -211,15 +212,16 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             exclusive_min=True,
         ),
         Field(
-            "steepness",
-            "Steepness of the efficiency curve",
+            "efficiency_width",
+            "Width of the efficiency curve",
             "dimensionless",
-            (DEFAULT_STEEPNESS, "1"),
+            (DEFAULT_EFFICIENCY_WIDTH, "1"),
             ("1",),
             minimum=1.0,
             maximum=5.0,
             exclusive_min=True,
             help="Width in √Stk around the cut; 1.2 is a plain default, not a published value.",
+            extra={"formerly": ["steepness"]},
         ),
         _flow(),
     ),
@@ -352,6 +354,17 @@ def _stage_error(index: int, kind: str | None, field: str, message: str) -> dict
     return {"field": f"stages.{index}.{field}", "message": f"{where}: {message}"}
 
 
+def _current_names(raw: dict[str, Any], fields: tuple[Field, ...]) -> dict[str, Any]:
+    """The stage with a parameter given under a former name (``formerly`` of its field, as in
+    a link or inputs file written before a rename) read under its current name."""
+    out = dict(raw)
+    for f in fields:
+        for old in f.extra.get("formerly", ()):
+            if f.name not in out and old in out:
+                out[f.name] = out.pop(old)
+    return out
+
+
 def _build_stage(
     index: int, raw: Any, flow: float, T: float, P: float
 ) -> tuple[ParsedStage | None, list[dict[str, str]]]:
@@ -363,7 +376,7 @@ def _build_stage(
         return None, [
             _stage_error(index, None, "type", f"type must be one of {', '.join(STAGE_KINDS)}.")
         ]
-    v, errors = parse_fields(STAGE_FIELDS[kind], raw)
+    v, errors = parse_fields(STAGE_FIELDS[kind], _current_names(raw, STAGE_FIELDS[kind]))
     if errors:
         return None, [_stage_error(index, kind, e["field"], e["message"]) for e in errors]
     own_flow = v.get("flow")

@@ -318,12 +318,12 @@ class Bend:
 class Cyclone:
     """Cyclone or other pre-separator described by its penetration curve.
 
-    Attributes: ``d50`` [m] aerodynamic cut size and ``steepness`` [-] of a lognormal curve,
+    Attributes: ``d50`` [m] aerodynamic cut size and ``curve_gsd`` [-] of a lognormal curve,
     or ``curve="iso7708_respirable"`` for the ideal respirable convention.
     """
 
     d50: float = 4.0e-6
-    steepness: float = 1.5
+    curve_gsd: float = 1.5
     curve: str = "lognormal"
     name: str = "Cyclone"
     kind: str = field(default="cyclone", init=False)
@@ -333,19 +333,19 @@ class Cyclone:
             raise StageInputError("curve", "Curve must be lognormal or iso7708_respirable.")
         if self.curve == "lognormal":
             _positive("d50", self.d50, "Cut size")
-            if not (math.isfinite(self.steepness) and self.steepness > 1.0):
-                raise StageInputError("steepness", "Steepness must be greater than 1.")
+            if not (math.isfinite(self.curve_gsd) and self.curve_gsd > 1.0):
+                raise StageInputError("curve_gsd", "The curve's GSD must be greater than 1.")
 
     def penetration(self, d: float, density: float, T: float, P: float) -> float:
         """Penetration at volume-equivalent diameter ``d`` [m]."""
-        return _cyclone.cyclone_penetration(d, self.d50, self.steepness, density, self.curve, T, P)
+        return _cyclone.cyclone_penetration(d, self.d50, self.curve_gsd, density, self.curve, T, P)
 
     def report(self, T: float, P: float) -> StageReport:
-        """Cut size and steepness."""
+        """Cut size and the curve's GSD."""
         q: dict[str, tuple[str, float, str]] = {}
         if self.curve == "lognormal":
             q["d50"] = ("Cut size (aerodynamic)", self.d50, "m")
-            q["steepness"] = ("Steepness (GSD of the curve)", self.steepness, "–")
+            q["curve_gsd"] = ("GSD of the curve", self.curve_gsd, "–")
             sources: tuple[str, ...] = ()  # a user-defined curve: nothing to cite
         else:
             sources = ("iso7708",)
@@ -357,7 +357,7 @@ class Impactor:
     """Impactor stage: cut size from Stk50, sigmoid efficiency around it.
 
     Attributes: ``nozzle_diameter`` [m] (or slit width), ``flow`` [m^3/s], ``n_nozzles``,
-    ``jet`` (``round`` or ``rectangular``), ``slit_length`` [m], ``steepness`` [-].
+    ``jet`` (``round`` or ``rectangular``), ``slit_length`` [m], ``efficiency_width`` [-].
     """
 
     nozzle_diameter: float
@@ -365,7 +365,7 @@ class Impactor:
     n_nozzles: int = 1
     jet: str = "round"
     slit_length: float | None = None
-    steepness: float = _impactor.DEFAULT_STEEPNESS
+    efficiency_width: float = _impactor.DEFAULT_EFFICIENCY_WIDTH
     name: str = "Impactor"
     kind: str = field(default="impactor", init=False)
 
@@ -382,8 +382,10 @@ class Impactor:
             _positive("slit_length", self.slit_length, "Slit length")
             if self.slit_length < self.nozzle_diameter:
                 raise StageInputError("slit_length", "Slit length must be at least the slit width.")
-        if not (math.isfinite(self.steepness) and self.steepness > 1.0):
-            raise StageInputError("steepness", "Steepness must be greater than 1.")
+        if not (math.isfinite(self.efficiency_width) and self.efficiency_width > 1.0):
+            raise StageInputError(
+                "efficiency_width", "The width of the efficiency curve must be greater than 1."
+            )
 
     def velocity(self) -> float:
         """Jet velocity [m/s]."""
@@ -400,7 +402,7 @@ class Impactor:
             self.n_nozzles,
             density,
             self.jet,
-            self.steepness,
+            self.efficiency_width,
             T,
             P,
             self.slit_length,

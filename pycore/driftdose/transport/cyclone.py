@@ -1,6 +1,6 @@
 """Size-selective pre-separators described by a penetration curve (cyclones and the like).
 
-Interfaces: :func:`cyclone_penetration` (a lognormal curve from a cut size and a steepness, or
+Interfaces: :func:`cyclone_penetration` (a lognormal curve from a cut size and its GSD, or
 the ideal ISO 7708 respirable curve, taken from :mod:`driftdose.conventions`, the one home of
 the ISO 7708 curves).
 
@@ -22,7 +22,7 @@ CYCLONE_CURVES = ("lognormal", "iso7708_respirable")
 """Valid ``curve`` keys of :func:`cyclone_penetration`."""
 
 
-def lognormal_penetration(d_ae: float, d50: float, steepness: float) -> float:
+def lognormal_penetration(d_ae: float, d50: float, curve_gsd: float) -> float:
     """Penetration curve falling as a cumulative lognormal through a cut size.
 
     Parameters
@@ -31,14 +31,14 @@ def lognormal_penetration(d_ae: float, d50: float, steepness: float) -> float:
         Aerodynamic diameter. [m]
     d50 : float
         Aerodynamic diameter of 50 % penetration (cut size). [m]
-    steepness : float
+    curve_gsd : float
         Geometric standard deviation of the curve, d50 / d84 = d16 / d50, where dXX is the
         size passed with XX % penetration; must exceed 1 (smaller is sharper). [-]
 
     Returns
     -------
     float
-        P = 1 - Phi(ln(d_ae / d50) / ln(steepness)). [-]
+        P = 1 - Phi(ln(d_ae / d50) / ln(curve_gsd)). [-]
 
     Notes
     -----
@@ -51,13 +51,13 @@ def lognormal_penetration(d_ae: float, d50: float, steepness: float) -> float:
     0.5
 
     """
-    return 1.0 - normal_cdf(math.log(d_ae / d50) / math.log(steepness))
+    return 1.0 - normal_cdf(math.log(d_ae / d50) / math.log(curve_gsd))
 
 
 def cyclone_penetration(
     d: float,
     d50: float = 4.0e-6,
-    steepness: float = 1.5,
+    curve_gsd: float = 1.5,
     density: float = 1000.0,
     curve: str = "lognormal",
     T: float = T_DEFAULT,
@@ -71,7 +71,7 @@ def cyclone_penetration(
         Volume-equivalent particle diameter. [m]
     d50 : float
         Aerodynamic cut size (``lognormal`` only). [m]
-    steepness : float
+    curve_gsd : float
         Geometric standard deviation of the curve (``lognormal`` only). [-]
     density : float
         Particle density, to convert to the aerodynamic diameter. [kg/m^3]
@@ -90,7 +90,7 @@ def cyclone_penetration(
     """
     d_ae = particle.aerodynamic_diameter(d, density, 1.0, T, P)
     if curve == "lognormal":
-        return lognormal_penetration(d_ae, d50, steepness)
+        return lognormal_penetration(d_ae, d50, curve_gsd)
     if curve == "iso7708_respirable":
         return conventions.respirable(d_ae)
     raise ValueError(f"unknown curve {curve!r}; valid: {sorted(CYCLONE_CURVES)}")

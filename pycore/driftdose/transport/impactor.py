@@ -18,7 +18,7 @@ from .._numerics import brent_root, normal_cdf
 from ..constants import P_DEFAULT, T_DEFAULT
 
 __all__ = [
-    "DEFAULT_STEEPNESS",
+    "DEFAULT_EFFICIENCY_WIDTH",
     "JET_RE_RANGE",
     "STK50",
     "impactor_cut_diameter",
@@ -38,8 +38,8 @@ JET_RE_RANGE = (500.0, 3000.0)
 """Jet Reynolds numbers over which Stk50 is nearly constant (Marple & Willeke 1976, via
 Hinds 1999, ch. 5, from memory). [-]"""
 
-DEFAULT_STEEPNESS = 1.2
-"""Default steepness of the efficiency curve, sqrt(Stk50 / Stk16) = sqrt(Stk84 / Stk50).
+DEFAULT_EFFICIENCY_WIDTH = 1.2
+"""Default width of the efficiency curve, sqrt(Stk50 / Stk16) = sqrt(Stk84 / Stk50).
 Our choice, not a published value: sharp enough for a well-designed stage; set it from a
 calibration when one exists. [-]"""
 
@@ -233,7 +233,7 @@ def impactor_cut_diameter(
 
 
 def impactor_efficiency(
-    stk: float, jet: str = "round", steepness: float = DEFAULT_STEEPNESS
+    stk: float, jet: str = "round", efficiency_width: float = DEFAULT_EFFICIENCY_WIDTH
 ) -> float:
     """Return the collection efficiency of an impactor stage at Stokes number ``stk``.
 
@@ -243,18 +243,18 @@ def impactor_efficiency(
         Impactor Stokes number. [-]
     jet : str
         ``round`` or ``rectangular`` (selects Stk50).
-    steepness : float
+    efficiency_width : float
         Geometric width of the curve in sqrt(Stk), > 1 (1.2 default; smaller is sharper). [-]
 
     Returns
     -------
     float
-        E = Phi(ln(sqrt(Stk / Stk50)) / ln(steepness)). [-]
+        E = Phi(ln(sqrt(Stk / Stk50)) / ln(efficiency_width)). [-]
 
     Notes
     -----
     A cumulative normal in ln sqrt(Stk), centred on sqrt(Stk50). In the continuum regime
-    sqrt(Stk) is proportional to d, so ``steepness`` is then the curve's geometric standard
+    sqrt(Stk) is proportional to d, so ``efficiency_width`` is then the curve's geometric standard
     deviation in particle size, d50/d16 = d84/d50. Measured curves of real stages are
     asymmetric; this is a documented idealisation, not a published fit.
 
@@ -266,7 +266,7 @@ def impactor_efficiency(
     """
     if stk <= 0.0:
         return 0.0
-    return normal_cdf(0.5 * math.log(stk / STK50[jet]) / math.log(steepness))
+    return normal_cdf(0.5 * math.log(stk / STK50[jet]) / math.log(efficiency_width))
 
 
 def impactor_penetration(
@@ -276,7 +276,7 @@ def impactor_penetration(
     n_nozzles: int = 1,
     density: float = 1000.0,
     jet: str = "round",
-    steepness: float = DEFAULT_STEEPNESS,
+    efficiency_width: float = DEFAULT_EFFICIENCY_WIDTH,
     T: float = T_DEFAULT,
     P: float = P_DEFAULT,
     slit_length: float | None = None,
@@ -297,7 +297,7 @@ def impactor_penetration(
         Particle density. [kg/m^3]
     jet : str
         ``round`` or ``rectangular`` (see :func:`impactor_cut_diameter`).
-    steepness : float
+    efficiency_width : float
         Width of the efficiency curve, :func:`impactor_efficiency`. [-]
     T, P : float
         Temperature [K], pressure [Pa].
@@ -313,4 +313,4 @@ def impactor_penetration(
     stk = impactor_stokes_number(
         d, nozzle_diameter, flow, n_nozzles, density, jet, T, P, slit_length
     )
-    return 1.0 - impactor_efficiency(stk, jet, steepness)
+    return 1.0 - impactor_efficiency(stk, jet, efficiency_width)

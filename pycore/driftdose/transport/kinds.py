@@ -69,7 +69,7 @@ def _bend(v: Mapping[str, Any], flow: float, name: str) -> Bend:
 
 
 def _cyclone(v: Mapping[str, Any], flow: float, name: str) -> Cyclone:
-    return Cyclone(v["d50"], v["steepness"], v.get("curve", "lognormal"), name=name)
+    return Cyclone(v["d50"], v["curve_gsd"], v.get("curve", "lognormal"), name=name)
 
 
 def _impactor(v: Mapping[str, Any], flow: float, name: str) -> Impactor:
@@ -80,7 +80,7 @@ def _impactor(v: Mapping[str, Any], flow: float, name: str) -> Impactor:
         v.get("n_nozzles", 1),
         jet,
         v.get("slit_length") if jet == "rectangular" else None,
-        v["steepness"],
+        v["efficiency_width"],
         name=name,
     )
 
@@ -121,7 +121,7 @@ STAGE_KINDS: dict[str, StageKind] = {
         StageKind(
             "cyclone",
             "Cyclone or pre-separator",
-            "A penetration curve from a cut size and steepness, or the ideal ISO 7708 "
+            "A penetration curve from a cut size and its GSD, or the ideal ISO 7708 "
             "respirable curve.",
             Cyclone,
             False,

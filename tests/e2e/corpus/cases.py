@@ -295,7 +295,7 @@ def combo_cases() -> list[Case]:
             s,
             "combo-sharpest-smallest-cyclone",
             _q("stages.@cyclone.d50", "0.05"),
-            _q("stages.@cyclone.steepness", "5"),
+            _q("stages.@cyclone.curve_gsd", "5"),
         ),
     ]
 
