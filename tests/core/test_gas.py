@@ -55,7 +55,7 @@ def test_air_viscosity_published(T: float, printed: str, extra: float) -> None:
 
 
 def test_air_viscosity_default_is_20C() -> None:
-    # DESIGN.md: defaults 293.15 K and 101325 Pa.
+    # the core's defaults (constants.T_DEFAULT, P_DEFAULT): 293.15 K and 101325 Pa
     assert gas.air_viscosity() == gas.air_viscosity(293.15)
 
 

@@ -3,7 +3,7 @@
 Published-value checks: the ICRP's own tabulated regional deposition for the reference
 worker (ICRP 66, Table 5 / ICRP 68; values as recalled, "from memory" — see each case),
 and the reference breathing parameters (ICRP 66, Annex B). The tolerance, 3 %, allows for
-the slip-correction set (up to about 3 % in diffusion coefficients, REFERENCES.md) and
+the slip-correction set (up to about 3 % in diffusion coefficients) and
 for the recalled table's four printed digits. The shape factor enters only the aerodynamic
 diameter (ICRP 66 convention, the default); with it in the mobility as well, bb and AI at
 1 um AMAD fall outside the tolerance, which the tests show. Then: the shape of the curves,
