@@ -205,8 +205,10 @@ def curves_csv(reply: dict[str, Any]) -> str:
             unit = metric.get("unit", "")
             header = ["category", _head(metric.get("label", "value"), unit)]
             if isinstance(metric.get("per_hour"), list):
-                base = re.sub(r" in [^,]*$", "", str(metric.get("label", "value")))
-                header.append(_head(f"{base} per hour", f"{unit}/h" if unit else ""))
+                per_hour = str(
+                    metric.get("per_hour_label") or f"{metric.get('label', 'value')}, per hour"
+                )
+                header.append(_head(per_hour, f"{unit}/h" if unit else ""))
             w.writerow(header)
             for i, name in enumerate(categories):
                 row = [name, _num(metric["y"][i])]

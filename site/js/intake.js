@@ -26,6 +26,8 @@ export const LIMITS = Object.freeze({
 });
 
 const REFUSED_SHOWN = 8; // refused keys named in a notice at most
+// former names of each panel's fields (forms.json `formerly`), kept beside the schema
+const FORMER = new WeakMap();
 
 const isPlain = (v) => v !== null && typeof v === "object" && !Array.isArray(v);
 const bare = () => Object.create(null);
@@ -55,7 +57,14 @@ export function schemaFrom(forms, panels, options = {}) {
     const description = forms && forms.calculations && Object.hasOwn(forms.calculations, p.kind || p.id)
       ? forms.calculations[p.kind || p.id] : null;
     const fields = bare();
-    for (const f of (description && description.fields) || []) fields[f.name] = f;
+    const former = bare();
+    for (const f of (description && description.fields) || []) {
+      fields[f.name] = f;
+      for (const old of Array.isArray(f.formerly) ? f.formerly : []) {
+        if (typeof old === "string") former[old] = f.name;
+      }
+    }
+    FORMER.set(fields, former);
     schema[p.id] = fields;
   }
   if (options.survey) {
@@ -64,6 +73,17 @@ export function schemaFrom(forms, panels, options = {}) {
     schema.survey = fields;
   }
   return schema;
+}
+
+/**
+ * The declared name a link or file key stands for: the key itself, or the current name of a
+ * field that was called so in an earlier version (a link written before a rename still
+ * reads); null when the panel declares no such field.
+ */
+export function declaredName(fields, name) {
+  if (Object.hasOwn(fields, name)) return name;
+  const former = FORMER.get(fields);
+  return former && Object.hasOwn(former, name) && Object.hasOwn(fields, former[name]) ? former[name] : null;
 }
 
 /**
@@ -210,8 +230,11 @@ export function cleanPanels(panels, schema) {
       if (name === "demo") {
         if (typeof values.demo === "string") clean.demo = wellFormed(values.demo);
         else refused.push(`${showKey(pid)}.demo`);
-      } else if (Object.hasOwn(fields, name)) {
-        clean[name] = fieldValue(fields[name], values[name], `${pid}.${name}`, refused);
+      } else if (declaredName(fields, name) !== null) {
+        // a former name gives way to the current one when both are present
+        const current = declaredName(fields, name);
+        if (current !== name && Object.hasOwn(values, current)) continue;
+        clean[current] = fieldValue(fields[current], values[name], `${pid}.${current}`, refused);
       } else {
         refused.push(`${showKey(pid)}.${showKey(name)}`);
       }
@@ -273,12 +296,15 @@ export function decodeFragment(hash, schema, limits = LIMITS) {
       const pid = dot > 0 ? key.slice(0, dot) : "";
       const name = dot > 0 ? key.slice(dot + 1) : "";
       const fields = pid && Object.hasOwn(schema, pid) ? schema[pid] : null;
-      if (!fields || !name || !(name === "demo" || Object.hasOwn(fields, name))) {
+      const current = fields && name ? (name === "demo" ? name : declaredName(fields, name)) : null;
+      if (current === null) {
         refused.push(showKey(key));
         continue;
       }
       if (!Object.hasOwn(raw, pid)) raw[pid] = bare();
-      raw[pid][name] = name === "demo" ? value : fragmentValue(fields[name], value).raw;
+      // a former name gives way to the current one, whichever comes first in the link
+      if (current !== name && Object.hasOwn(raw[pid], current)) continue;
+      raw[pid][current] = current === "demo" ? value : fragmentValue(fields[current], value).raw;
     }
   }
   const error = boundsError(raw, { ...limits, depth: limits.depth + 2 });

@@ -193,14 +193,14 @@ def test_deposition_duration_outside_0_24h(duration):
     ],
 )
 def test_deposition_csv_errors(csv_text, text):
-    e = _error(_run(distribution_source="csv", csv_text=csv_text, csv_concentration_type="per_bin"))
+    e = _error(_run(size_source="csv", csv_text=csv_text, csv_concentration_type="per_bin"))
     assert e["field"] == "csv_text"
     assert text in e["message"]
 
 
 def test_deposition_csv_decimal_comma_reported():
     r = _run(
-        distribution_source="csv",
+        size_source="csv",
         csv_text="\ufeffd;n\n10,5;100\n20;200\n40;50\n",
         csv_diameter_column="d",
         csv_concentration_column="n",

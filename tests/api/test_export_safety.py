@@ -47,7 +47,7 @@ def sampling_reply(names: list[str], spectrum: bool = False) -> dict:
     for stage, name in zip(inputs["stages"], names, strict=False):
         stage["name"] = name
     if spectrum:
-        inputs["spectrum_source"] = "csv"
+        inputs["size_source"] = "csv"
         inputs["csv_text"] = "d_nm;dN\n500;100\n1000;200\n2000;150\n5000;20\n"
         inputs["csv_diameter_column"] = "d_nm"
         inputs["csv_concentration_column"] = "dN"

@@ -177,7 +177,7 @@ def test_sampling_ideal_respirable_cyclone_has_no_departure_from_respirable() ->
 
 def csv_spectrum(text, **fields):
     """Inputs that correct a spectrum given as CSV text (the deposition panel's fields)."""
-    return {"spectrum_source": "csv", "csv_text": text, **fields}
+    return {"size_source": "csv", "csv_text": text, **fields}
 
 
 def test_sampling_spectrum_bins_corrected_and_flagged() -> None:
@@ -239,7 +239,7 @@ def test_sampling_spectrum_from_csv() -> None:
 
 
 def test_sampling_spectrum_ignored_unless_chosen() -> None:
-    inputs = csv_spectrum("not, a spectrum\n", spectrum_source="none")
+    inputs = csv_spectrum("not, a spectrum\n", size_source="none")
     reply = handle(request([TUBE], **inputs))
     assert reply["ok"] is True
     assert "spectrum_table" not in reply["results"]
@@ -261,8 +261,8 @@ def test_sampling_spectrum_fields_are_the_deposition_fields() -> None:
     theirs = {f.name: f for f in deposition_api.FIELDS}
     for name in names:
         assert replace(ours[name], applies=None) == replace(theirs[name], applies=None), name
-        assert ours[name].applies == ("spectrum_source", ("csv",)), name
-        assert theirs[name].applies == ("distribution_source", ("csv",)), name
+        assert ours[name].applies == ("size_source", ("csv",)), name
+        assert theirs[name].applies == ("size_source", ("csv",)), name
     assert [f.name for f in sampling_api.FIELDS if f.name in names] == names
 
 
@@ -413,14 +413,14 @@ def test_sampling_reports_several_faulty_stages_at_once() -> None:
             id="unknown-diameter-type",
         ),
         pytest.param(
-            {"csv_text": "10;1\n20;3\n", "spectrum_source": "bins"},
-            "spectrum_source",
+            {"csv_text": "10;1\n20;3\n", "size_source": "bins"},
+            "size_source",
             id="unknown-source",
         ),
     ],
 )
 def test_sampling_bad_spectrum_message_on_field(inputs, field) -> None:
-    errors = errors_by_field(handle(request([TUBE], **{"spectrum_source": "csv", **inputs})))
+    errors = errors_by_field(handle(request([TUBE], **{"size_source": "csv", **inputs})))
     assert field in errors
     assert errors[field]
 
@@ -536,3 +536,28 @@ def test_sampling_regime_named_laminar_and_turbulent_outside_transition() -> Non
     assert slow["results"]["stages_table"]["rows"][0]["regime"] == "laminar"
     assert fast["results"]["stages_table"]["rows"][0]["regime"] == "turbulent"
     assert not any("interpolated" in w for w in slow["warnings"] + fast["warnings"])
+
+
+def test_former_source_names_are_read_as_size_source():
+    # ``spectrum_source`` (sampling) and ``distribution_source`` (deposition) became
+    # ``size_source``; requests, links and saved files with the old names still read.
+    for kind, old in (("sampling", "spectrum_source"), ("deposition", "distribution_source")):
+        fields = {f["name"]: f for f in describe()["calculations"][kind]["fields"]}
+        assert fields["size_source"]["formerly"] == [old]
+        assert old not in fields
+    text = "d_nm;dN\n500;100\n1000;200\n"
+    inputs = {
+        "stages": [TUBE],
+        "csv_text": text,
+        "csv_diameter_column": "d_nm",
+        "csv_concentration_column": "dN",
+    }
+    old = handle({"kind": "sampling", "inputs": {**inputs, "spectrum_source": "csv"}})
+    new = handle({"kind": "sampling", "inputs": {**inputs, "size_source": "csv"}})
+    assert old["ok"] and "spectrum_table" in old["results"]
+    assert old == new
+    # the current name wins when both are given
+    both = handle(
+        {"kind": "sampling", "inputs": {**inputs, "size_source": "none", "spectrum_source": "csv"}}
+    )
+    assert both["ok"] and "spectrum_table" not in both["results"]

@@ -57,8 +57,8 @@ def test_declarations_offer_the_diameter_types_and_density_basis():
         return {k: v for k, v in f.items() if k != "applies_when"}
 
     assert declared(samp["spectrum_diameter_type"]) == declared(dep["spectrum_diameter_type"])
-    assert samp["spectrum_diameter_type"]["applies_when"]["field"] == "spectrum_source"
-    assert dep["spectrum_diameter_type"]["applies_when"]["field"] == "distribution_source"
+    assert samp["spectrum_diameter_type"]["applies_when"]["field"] == "size_source"
+    assert dep["spectrum_diameter_type"]["applies_when"]["field"] == "size_source"
     assert samp["density_basis"]["choices"] == dep["density_basis"]["choices"]
     assert "shape_factor" in samp
 
@@ -188,7 +188,7 @@ def test_effective_density_mmad_converts_to_mobility_median():
 def test_effective_density_csv_spectrum_bins_are_converted():
     text = "d_nm;dN\n50;100\n100;300\n200;50\n"
     base = {
-        "distribution_source": "csv",
+        "size_source": "csv",
         "csv_text": text,
         "csv_concentration_type": "per_bin",
         "particle_density": {"value": 1.2, "unit": "g/cm3"},
@@ -302,7 +302,7 @@ def test_sampling_spectrum_mobility_with_effective_density():
     text = "d_nm;dN\n20;100\n80;300\n400;50\n"
     chi, rho_eff = 1.9, 700.0
     base = {
-        "spectrum_source": "csv",
+        "size_source": "csv",
         "csv_text": text,
         "csv_concentration_type": "per_bin",
         "particle_density": {"value": rho_eff, "unit": "kg/m3"},

@@ -106,7 +106,7 @@ def test_record_names_every_spread():
     [
         ({"gsd_spread": "uniform", "gsd_percent": 60}, "gsd_spread"),
         ({"shape_factor_spread": "uniform", "shape_factor": 1.0}, "shape_factor_spread"),
-        ({"distribution_source": "csv"}, "distribution_source"),
+        ({"size_source": "csv"}, "size_source"),
         ({"model": "simplified"}, "model"),
         ({"samples": 5}, "samples"),
         ({"samples": 5001}, "samples"),
@@ -131,7 +131,7 @@ def test_csv_source_with_a_spectrum_is_refused_by_source():
     spectrum = dict(DEMOS[2]["inputs"])
     r = handle({"kind": "uncertainty", "inputs": {**spectrum, "samples": 50}})
     assert r["ok"] is False
-    assert r["errors"][0]["field"] == "distribution_source"
+    assert r["errors"][0]["field"] == "size_source"
 
 
 def test_exports_hold_bands_and_correlations():

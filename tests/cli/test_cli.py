@@ -796,7 +796,7 @@ def _spectrum(tmp_path: Path, name: str, scale: float) -> Path:
 
 def _deposition_inputs(path: Path) -> dict:
     return {
-        "distribution_source": "csv",
+        "size_source": "csv",
         "csv_text": path.read_text(encoding="utf-8"),
         "csv_diameter_column": "diameter_nm",
         "csv_concentration_column": "dN/dlogDp_per_cm3",
@@ -977,7 +977,9 @@ def test_main_batch_bad_file_keeps_row_and_exits_2(capsys, tmp_path):
     assert "Traceback" not in err
 
 
-def test_main_batch_refuses_other_distribution_source(capsys, tmp_path):
+@pytest.mark.parametrize("flag", ["--size-source", "--distribution-source"])
+def test_main_batch_refuses_other_size_source(capsys, tmp_path, flag):
+    # --distribution-source is the field's former name: still accepted, not listed in --help
     good = _spectrum(tmp_path, "good.csv", 1.0)
     code, _, err = run_main(
         capsys,
@@ -985,11 +987,11 @@ def test_main_batch_refuses_other_distribution_source(capsys, tmp_path):
         "deposition",
         "--spectra",
         str(good),
-        "--distribution-source",
+        flag,
         "lognormal",
     )
     assert code == 2
-    assert err.startswith("distribution_source: ")
+    assert err.startswith("size_source: ")
 
 
 def test_module_batch_deposition(tmp_path):
@@ -1023,7 +1025,7 @@ def test_main_sampling_spectrum_file_equals_api(capsys, tmp_path):
     code, out, err = run_main(capsys, *argv, "--format", "json")
     assert code == 0, err
     inputs = {
-        "spectrum_source": "csv",
+        "size_source": "csv",
         "csv_text": path.read_text(encoding="utf-8"),
         "csv_diameter_column": "diameter_nm",
         "csv_concentration_column": "dN/dlogDp_per_cm3",
@@ -1044,7 +1046,7 @@ def test_main_batch_sampling_is_offered_too(capsys, tmp_path):
     rows = list(csv.reader(io.StringIO(out)))
     assert [r[0] for r in rows[1:]] == [str(f) for f in files]
     reply = api.handle(
-        {"kind": "sampling", "inputs": _deposition_inputs(files[0]) | {"spectrum_source": "csv"}}
+        {"kind": "sampling", "inputs": _deposition_inputs(files[0]) | {"size_source": "csv"}}
     )
     header = rows[0]
     for key, row in reply["results"].items():

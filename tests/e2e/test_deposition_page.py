@@ -145,7 +145,7 @@ def test_csv_file_import_matches_core(page, base_url, tmp_path):
         {
             "kind": "deposition",
             "inputs": {
-                "distribution_source": "csv",
+                "size_source": "csv",
                 "csv_text": text,
                 "csv_diameter_column": "size_nm",
                 "csv_concentration_column": "conc",

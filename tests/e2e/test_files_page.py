@@ -87,7 +87,7 @@ def test_spectrum_in_each_encoding_reads_as_the_cli_reads_it(page, base_url, enc
         {
             "kind": "deposition",
             "inputs": {
-                "distribution_source": "csv",
+                "size_source": "csv",
                 "csv_text": decoded.text,
                 "csv_diameter_column": "Größe [nm]",
                 "csv_concentration_column": "dn [1/CM³]",

@@ -201,7 +201,7 @@ def test_deep_inputs_file_is_refused_and_page_computes(page, base_url, tmp_path)
     path = tmp_path / "deep.json"
     path.write_text(
         '{"format": "drift-and-dose-inputs", "version": 1, "panels": {"deposition": '
-        '{"distribution_source": "lognormal", "modes": ' + _deep(3000) + "}}}"
+        '{"size_source": "lognormal", "modes": ' + _deep(3000) + "}}}"
     )
     page.locator("#load-inputs").set_input_files(str(path))
     page.wait_for_function("() => document.getElementById('tool-message').textContent")
@@ -341,7 +341,7 @@ def test_installed_lock_is_not_served(dist_dir: Path):
 
 
 def test_last_spectrum_file_chosen_wins(page, base_url, tmp_path):
-    _open(page, f"{base_url}#v=1&panel=deposition&deposition.distribution_source=csv")
+    _open(page, f"{base_url}#v=1&panel=deposition&deposition.size_source=csv")
     big = tmp_path / "big.csv"
     rows = "\n".join(f"{10 + i * 0.001:.3f},{1000 + i}" for i in range(335_000))
     big.write_text("diameter_nm,dN\n" + rows + "\n")

@@ -450,7 +450,7 @@ def test_csv_spectrum_corrected_with_unreliable_bins_flagged(page, base_url, tmp
     _import_spectrum(page, tmp_path)
     reply = _request(
         [DEFAULT_TUBE, DEFAULT_BEND],
-        spectrum_source="csv",
+        size_source="csv",
         csv_text=SPECTRUM_CSV,
         csv_diameter_column="diameter_nm",
         csv_concentration_column="dN/dlogDp",
@@ -585,3 +585,23 @@ def test_wide_dark_view(browser, base_url):
     finally:
         context.close()
     assert not watch.errors and not watch.outside
+
+
+def test_link_with_the_former_spectrum_source_name_still_reads(page, base_url):
+    # Links saved before the rename say ``spectrum_source``; they load as ``size_source``.
+    fragment = "#v=1&panel=sampling&" + urllib.parse.urlencode(
+        {
+            "sampling.spectrum_source": "csv",
+            "sampling.csv_text": "j:" + json.dumps(SPECTRUM_CSV),
+            "sampling.csv_diameter_column": "diameter_nm",
+            "sampling.csv_concentration_column": "dN/dlogDp",
+        }
+    )
+    _open(page, base_url, fragment)
+    page.wait_for_function(
+        "() => document.querySelectorAll('#panel-sampling table.spectrum-table tbody tr')"
+        ".length === 10"
+    )
+    assert page.locator(PANEL).get_by_label("Measured spectrum to correct").input_value() == "csv"
+    notice = page.locator("#link-notice")
+    assert not notice.is_visible() or "refused" not in notice.inner_text()

@@ -449,8 +449,8 @@ def _valid_with_payload_text() -> dict[str, dict[str, object]]:
         "csv_concentration_type": "per_bin",
     }
     return {
-        "deposition": {"distribution_source": "csv", **spectrum},
-        "sampling": {"stages": chain, "spectrum_source": "csv", **spectrum},
+        "deposition": {"size_source": "csv", **spectrum},
+        "sampling": {"stages": chain, "size_source": "csv", **spectrum},
     }
 
 
@@ -515,8 +515,7 @@ def test_spectrum_file_payloads(one_page, pid, name):
     p = PAYLOADS[name]
     page.locator(f"#tab-{pid}").click()
     panel = page.locator(f"#panel-{pid}")
-    source = "distribution_source" if pid == "deposition" else "spectrum_source"
-    panel.locator(f".field[data-field={source}] select").select_option("csv")
+    panel.locator(".field[data-field=size_source] select").select_option("csv")
     quoted = p.replace('"', '""')
     files = [
         f'"{quoted}";n\n20;1000\n40;{quoted}\n',  # a data cell: refused, quoted in the message

@@ -5,7 +5,7 @@ import {
   LIMITS, STATE_FORMAT, acceptedNotice, decodeFragment, measure, postRefusal, readInputsFile,
   refusedNotice,
 } from "../../site/js/intake.js";
-import { SCHEMA } from "./schema.mjs";
+import { FORMS, SCHEMA } from "./schema.mjs";
 
 const file = (panels, extra = {}) => JSON.stringify({ format: STATE_FORMAT, version: 1, panels, ...extra });
 
@@ -211,4 +211,34 @@ test("modes, a records field, keep working in links and files: declared sub-fiel
   const f = readInputsFile(file({ deposition: { modes: sent } }), SCHEMA);
   assert.equal(f.ok, true);
   assert.deepEqual(JSON.parse(JSON.stringify(f.panels.deposition.modes)), [sent[0], kept]);
+});
+
+test("links and files written with a field's former name are read under its current name", () => {
+  // deposition's distribution_source and sampling's spectrum_source became size_source
+  assert.deepEqual([...FORMS.calculations.deposition.fields.find((f) => f.name === "size_source").formerly], ["distribution_source"]);
+  const d = decodeFragment("#v=1&panel=sampling&sampling.spectrum_source=csv&deposition.distribution_source=csv", SCHEMA);
+  assert.equal(d.ok, true);
+  assert.deepEqual(d.refused, []);
+  assert.equal(d.panels.sampling.size_source, "csv");
+  assert.equal(d.panels.deposition.size_source, "csv");
+  assert.equal(Object.hasOwn(d.panels.sampling, "spectrum_source"), false);
+  assert.ok(prototypeFree(d.panels));
+  const f = readInputsFile(file({ deposition: { distribution_source: "csv" }, sampling: { spectrum_source: "csv" } }), SCHEMA);
+  assert.equal(f.ok, true);
+  assert.deepEqual(f.refused, []);
+  assert.equal(f.panels.deposition.size_source, "csv");
+  assert.equal(f.panels.sampling.size_source, "csv");
+});
+
+test("a current name wins over its former name, in either order; other panels' former names are refused", () => {
+  for (const hash of ["#v=1&sampling.size_source=none&sampling.spectrum_source=csv", "#v=1&sampling.spectrum_source=csv&sampling.size_source=none"]) {
+    const d = decodeFragment(hash, SCHEMA);
+    assert.equal(d.panels.sampling.size_source, "none", hash);
+    assert.deepEqual(d.refused, [], hash);
+  }
+  const f = readInputsFile(file({ sampling: { spectrum_source: "csv", size_source: "none" } }), SCHEMA);
+  assert.equal(f.panels.sampling.size_source, "none");
+  // a former name belongs to its own panel: sampling never had distribution_source
+  const d = decodeFragment("#v=1&sampling.distribution_source=csv&motion.spectrum_source=csv", SCHEMA);
+  assert.deepEqual(d.refused, ["sampling.distribution_source", "motion.spectrum_source"]);
 });

@@ -70,7 +70,7 @@ DEMOS: tuple[dict[str, Any], ...] = (
         "label": "Invented demo: metal fume, two fine modes",
         "note": "Invented numbers for trying the tool; not a measurement or a typical value.",
         "inputs": {
-            "distribution_source": "lognormal",
+            "size_source": "lognormal",
             "modes": [
                 {
                     "basis": "count",
@@ -100,7 +100,7 @@ DEMOS: tuple[dict[str, Any], ...] = (
         "label": "Invented demo: grinding dust by mass, with a benchmark",
         "note": "Invented numbers, and an invented benchmark; not a legal limit.",
         "inputs": {
-            "distribution_source": "lognormal",
+            "size_source": "lognormal",
             "modes": [
                 {
                     "basis": "mass",
@@ -125,7 +125,7 @@ DEMOS: tuple[dict[str, Any], ...] = (
         "label": "Invented demo: measured spectrum from CSV",
         "note": "An invented spectrum in CSV form, to show the import; not a measurement.",
         "inputs": {
-            "distribution_source": "csv",
+            "size_source": "csv",
             "csv_text": _DEMO_CSV,
             "csv_diameter_column": "diameter_nm",
             "csv_concentration_column": "dN/dlogDp_per_cm3",
@@ -251,13 +251,14 @@ MODE_FIELDS: tuple[Field, ...] = (
 
 FIELDS: tuple[Field, ...] = (
     Field(
-        "distribution_source",
+        "size_source",
         "Size distribution from",
         "choice",
         "lognormal",
         choices=(("lognormal", "Lognormal modes"), ("csv", "Measured spectrum (CSV file)")),
         help="Describe the aerosol by up to four lognormal modes, or import a measured spectrum.",
         extra={"demos": [dict(d) for d in DEMOS]},
+        formerly=("distribution_source",),
     ),
     Field(
         "modes",
@@ -273,7 +274,7 @@ FIELDS: tuple[Field, ...] = (
             }
         ],
         required=False,
-        applies=("distribution_source", ("lognormal",)),
+        applies=("size_source", ("lognormal",)),
         help="Up to four modes, each by count (count median, GSD, number concentration) or "
         "by mass (mass median, GSD, mass concentration); say which diameter each median is.",
         item_fields=MODE_FIELDS,
@@ -282,7 +283,7 @@ FIELDS: tuple[Field, ...] = (
         item_label="Mode",
         extra={"median_names": MEDIAN_NAMES},
     ),
-    *spectrum_fields("distribution_source"),
+    *spectrum_fields("size_source"),
     replace(
         PARTICLE_DENSITY,
         help="Material density, or the effective density if chosen below (applies to every "
@@ -428,7 +429,7 @@ def _aerosol(v: dict[str, Any]) -> tuple[Aerosol, dict[str, Any] | None]:
     desc = ParticleDescription(
         v["particle_density"], v["shape_factor"], v.get("density_basis") or "material"
     )
-    if v["distribution_source"] == "lognormal":
+    if v["size_source"] == "lognormal":
         modes = [ModeSpec(**{**m, "basis": _CORE_BASIS[m["basis"]]}) for m in v["modes"]]
         return aerosol_from_modes(modes, desc), None
     imported, report = import_spectrum(v)
@@ -722,6 +723,7 @@ def _curves(
             "unit": unit,
             "y": [res.doses[r][w] / factor for r in res.regions],
             "per_hour": [res.rates[r][w] * 3600.0 / factor for r in res.regions],
+            "per_hour_label": f"Deposited {_WEIGHT_LABEL[w]} per hour",
         }
     return {
         "x_label": f"Particle diameter ({COORDINATE_WORDS[desc.coordinate]})",

@@ -52,6 +52,9 @@ class Field:
     ``variants`` are alternative declarations of the same sub-field, chosen by their own
     ``applies`` against the record's other values (a concentration by number for a count
     mode, by mass for a mass mode); the field itself describes the union for the forms.
+    ``formerly`` lists names the same input had in earlier versions: a request, link or
+    inputs file that gives only a former name is read as if it gave this one (published by
+    :meth:`describe` as ``formerly``, so the page's link reader maps them too).
     """
 
     name: str
@@ -66,6 +69,7 @@ class Field:
     help: str = ""
     required: bool = True
     applies: tuple[str, tuple[str, ...]] | None = None
+    formerly: tuple[str, ...] = ()
     item_fields: tuple[Field, ...] = ()
     min_items: int = 0
     max_items: int = 0
@@ -96,6 +100,8 @@ class Field:
         if self.applies is not None:
             other, values = self.applies
             out["applies_when"] = {"field": other, "values": list(values)}
+        if self.formerly:
+            out["formerly"] = list(self.formerly)
         if self.kind == "records":
             out["item_fields"] = [f.describe() for f in self.item_fields]
             out["min_items"] = self.min_items
@@ -384,7 +390,9 @@ def format_si(value: float, kind: str, unit: str, digits: int = 3) -> str:
 def parse_fields(fields: tuple[Field, ...], inputs: Any) -> tuple[dict[str, Any], list[dict]]:
     """Validate ``inputs`` against ``fields``; return (values in SI, errors).
 
-    Missing optional inputs take their defaults; unknown input names are ignored. A field
+    Missing optional inputs take their defaults; unknown input names are ignored; an input
+    given only under a former name of its field (``Field.formerly``) is read as that field. A
+    field
     that does not apply to the other inputs (its ``applies``) is not used: a fault in it is
     no error, and its value is then ``None``.
     """
@@ -395,6 +403,8 @@ def parse_fields(fields: tuple[Field, ...], inputs: Any) -> tuple[dict[str, Any]
     failed: dict[str, list[dict]] = {}
     for f in fields:
         raw = inputs.get(f.name)
+        if raw is None:
+            raw = next((inputs[old] for old in f.formerly if inputs.get(old) is not None), None)
         if raw is None:
             raw = f.default_input()
         try:

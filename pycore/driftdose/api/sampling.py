@@ -5,7 +5,7 @@ Inputs: ``stages``, an ordered list of stage objects (declared and parsed in
 ``flow`` used by every stage that gives no flow of its own; air ``temperature`` and
 ``pressure``; ``particle_density`` (material or effective, ``density_basis``); an optional
 ``target`` curve (an ISO 7708 fraction or a regional deposition curve, :data:`TARGETS`); and,
-with ``spectrum_source`` set to ``csv``, a measured spectrum read by the shared spectrum
+with ``size_source`` set to ``csv``, a measured spectrum read by the shared spectrum
 fields and importer.
 
 ``run`` only translates: it parses, calls :func:`driftdose.compose.sampling.compose_sampling`
@@ -111,16 +111,17 @@ average over their own breathing conditions)."""
 
 # The spectrum import: the shared declarations and importer (one declaration, so page,
 # command line and messages agree), applying while the spectrum source is a CSV file.
-_SPECTRUM_FIELDS = {f.name: f for f in spectrum_fields("spectrum_source")}
+_SPECTRUM_FIELDS = {f.name: f for f in spectrum_fields("size_source")}
 
 SPECTRUM_FIELDS: tuple[Field, ...] = (
     Field(
-        "spectrum_source",
+        "size_source",
         "Measured spectrum to correct",
         "choice",
         "none",
         choices=(("none", "None"), ("csv", "Measured spectrum (CSV file)")),
         help="Correct a spectrum measured behind this chain for the chain's losses.",
+        formerly=("spectrum_source",),
     ),
     *(
         _SPECTRUM_FIELDS[name]
@@ -294,7 +295,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     if errors and errors[0]["field"] == "stages":
         raise FieldError("stages", errors[0]["message"])
     spectrum, csv_report = None, None
-    if v["spectrum_source"] == "csv":
+    if v["size_source"] == "csv":
         try:
             spectrum, csv_report = _spectrum(v, desc, T, P)
         except FieldError as exc:

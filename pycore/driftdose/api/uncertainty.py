@@ -302,9 +302,9 @@ def _context(v: dict[str, Any]) -> dict[str, Any]:
             "model",
             "The ranges need the regional deposition of the full ICRP 66 model; choose it.",
         )
-    if v["distribution_source"] != "lognormal":
+    if v["size_source"] != "lognormal":
         raise FieldError(
-            "distribution_source",
+            "size_source",
             "The ranges are computed for lognormal modes; describe the aerosol by modes.",
         )
     dist, subject, _, entered = burden.aerosol_and_subject(v)

@@ -144,6 +144,12 @@ def add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any]
         taken.update(flags)
         fmap.values[dest] = fd
         fmap.options.update(dict.fromkeys(flags, name))
+        for old in fd.get("formerly", []):  # a field's former name still works, unlisted
+            former = flag_name(old)
+            if former not in taken:
+                group.add_argument(former, help=argparse.SUPPRESS, **kwargs)
+                taken.add(former)
+                fmap.options[former] = name
         if is_quantity(fd) and len(fd.get("units", [])) > 1:
             unit_flag = option(name + "_unit")
             offered = ", ".join(u["unit"] for u in fd["units"])

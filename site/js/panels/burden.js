@@ -16,7 +16,7 @@ const QUIET_MS = 250; // the propagation starts once the inputs have been still 
 const CHART_REGIONS = ["AI", "lungs", "LN", "BB", "bb", "ET"];
 const TABLE_REGIONS = ["ET", "BB", "bb", "AI", "LN", "lungs", "GI", "environment", "deposited"];
 // the deposition inputs named on a saved chart image
-const AEROSOL = ["distribution_source", "modes", "particle_density", "density_basis", "shape_factor", "breathing", "activity", "route", "exposure_duration"];
+const AEROSOL = ["size_source", "modes", "particle_density", "density_basis", "shape_factor", "breathing", "activity", "route", "exposure_duration"];
 const DOSE_REGIONS = ["ET1", "ET2", "BB", "bb", "AI", "total"];
 
 const own = (description, exclude) => ({

@@ -17,14 +17,14 @@ const METRICS = [
 const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
 // the inputs named on a saved chart image
 const SCENARIO = [
-  "distribution_source", "modes", "csv_text", "spectrum_diameter_type", "particle_density", "density_basis",
+  "size_source", "modes", "csv_text", "spectrum_diameter_type", "particle_density", "density_basis",
   "shape_factor", "model", "breathing", "activity", "route", "tidal_volume", "breathing_frequency",
   "nasal_fraction", "exposure_duration",
 ];
 
 export function mount(root, { engine, description }) {
   const fields = description.fields.map((f) => (f.name === "modes" ? { ...f, item_label: "a mode" } : f));
-  const demos = (fields.find((f) => f.name === "distribution_source") || {}).demos || [];
+  const demos = (fields.find((f) => f.name === "size_source") || {}).demos || [];
   let fractionChart = null;
   let doseChart = null;
   let doseUnit = ""; // read by the dose chart's readout, which outlives one reply
@@ -165,7 +165,8 @@ export function mount(root, { engine, description }) {
     const data = bars[metric];
     const values = per === "dose" ? data.y : data.per_hour;
     const unit = per === "dose" ? data.unit : `${data.unit}/h`;
-    const yTitle = `${per === "dose" ? data.label : data.label.replace(/ in .*$/, " per hour")} (${unit})`;
+    const label = per === "dose" ? data.label : data.per_hour_label; // both named by the reply
+    const yTitle = `${label} (${unit})`;
     doseUnit = unit;
     if (!doseChart) {
       doseChart = createChart(doseFigure.canvas, {
@@ -175,7 +176,7 @@ export function mount(root, { engine, description }) {
     }
     doseChart.options.scales.y.title.text = yTitle; // the chart is updated in place
     doseChart.data.labels = bars.keys.map((k) => (k === "total" ? "Total" : k));
-    setDatasets(doseChart, [{ label: per === "dose" ? data.label : `${data.label} per hour`, data: values, backgroundColor: bars.keys.map((_, i) => seriesColour(i)) }]);
+    setDatasets(doseChart, [{ label, data: values, backgroundColor: bars.keys.map((_, i) => seriesColour(i)) }]);
     doseFigure.canvas.setAttribute("aria-label", `Bar chart of ${data.label.toLowerCase()} by region: ${bars.keys.map((k, i) => `${k} ${formatNumber(values[i], 3)} ${unit}`).join(", ")}.`);
   }
 

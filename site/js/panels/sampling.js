@@ -341,7 +341,7 @@ export function mount(root, { engine, description }) {
     const types = stagesField.stage_types || {};
     const chainText = stages.map((st, i) => `${i + 1}. ${(st && st.name) || types[st?.type]?.label || st?.type || "stage"}`).join(", ");
     const files = panel.importedFiles().map((f) => `file ${f.name}`);
-    const rest = panel.scenario(["flow", "target", "spectrum_source", "temperature", "pressure", "particle_density", "density_basis", "shape_factor"]);
+    const rest = panel.scenario(["flow", "target", "size_source", "temperature", "pressure", "particle_density", "density_basis", "shape_factor"]);
     return [chainText ? `Chain: ${chainText}` : "", rest, ...files].filter(Boolean).join(" · ");
   }
 

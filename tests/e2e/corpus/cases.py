@@ -473,7 +473,7 @@ def json_cases() -> list[FileCase]:
         FileCase(
             "modes-not-a-list",
             "modes.json",
-            _state({"deposition": {"distribution_source": "lognormal", "modes": "many"}}),
+            _state({"deposition": {"size_source": "lognormal", "modes": "many"}}),
             "fields",
         ),
         FileCase(
@@ -482,7 +482,7 @@ def json_cases() -> list[FileCase]:
             _state(
                 {
                     "deposition": {
-                        "distribution_source": "lognormal",
+                        "size_source": "lognormal",
                         "modes": [{"basis": "count"}] * 1000,
                     }
                 }
@@ -510,7 +510,7 @@ def json_cases() -> list[FileCase]:
         FileCase(
             "spectrum-text-not-text",
             "csvnum.json",
-            _state({"deposition": {"distribution_source": "csv", "csv_text": 12345}}),
+            _state({"deposition": {"size_source": "csv", "csv_text": 12345}}),
             "fields",
         ),
         FileCase(
