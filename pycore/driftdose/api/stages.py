@@ -172,7 +172,7 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             maximum=5.0,
             exclusive_min=True,
             help="d50 / d84; smaller is sharper. Above 1.",
-            extra={"formerly": ["steepness"]},
+            formerly=("steepness",),
         ),
     ),
     "impactor": (
@@ -221,7 +221,7 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             maximum=5.0,
             exclusive_min=True,
             help="Width in √Stk around the cut; 1.2 is a plain default, not a published value.",
-            extra={"formerly": ["steepness"]},
+            formerly=("steepness",),
         ),
         _flow(),
     ),
@@ -354,17 +354,6 @@ def _stage_error(index: int, kind: str | None, field: str, message: str) -> dict
     return {"field": f"stages.{index}.{field}", "message": f"{where}: {message}"}
 
 
-def _current_names(raw: dict[str, Any], fields: tuple[Field, ...]) -> dict[str, Any]:
-    """The stage with a parameter given under a former name (``formerly`` of its field, as in
-    a link or inputs file written before a rename) read under its current name."""
-    out = dict(raw)
-    for f in fields:
-        for old in f.extra.get("formerly", ()):
-            if f.name not in out and old in out:
-                out[f.name] = out.pop(old)
-    return out
-
-
 def _build_stage(
     index: int, raw: Any, flow: float, T: float, P: float
 ) -> tuple[ParsedStage | None, list[dict[str, str]]]:
@@ -376,7 +365,7 @@ def _build_stage(
         return None, [
             _stage_error(index, None, "type", f"type must be one of {', '.join(STAGE_KINDS)}.")
         ]
-    v, errors = parse_fields(STAGE_FIELDS[kind], _current_names(raw, STAGE_FIELDS[kind]))
+    v, errors = parse_fields(STAGE_FIELDS[kind], raw)  # former names read by parse_fields
     if errors:
         return None, [_stage_error(index, kind, e["field"], e["message"]) for e in errors]
     own_flow = v.get("flow")
