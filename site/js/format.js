@@ -40,3 +40,18 @@ export function lengthTick(metres) {
   for (const u of units) if (metres >= u[0] * 0.999) chosen = u;
   return `${formatNumber(metres / chosen[0], 3)} ${chosen[1]}`;
 }
+
+/** Option texts longer than this are shown without their parenthetical parts. */
+export const OPTION_CHARS = 32;
+
+/**
+ * The text of an option in a select: a label longer than OPTION_CHARS loses its parenthetical
+ * parts ("ICRP 66 full regional model (ET1, ET2, BB, bb, AI)" → "ICRP 66 full regional
+ * model"), since a closed select cannot wrap; the full label is shown beside it (forms.js).
+ */
+export function optionText(label) {
+  const text = String(label ?? "");
+  if (text.length <= OPTION_CHARS) return text;
+  const short = text.replace(/\s*\([^()]*\)/g, "").replace(/\s+,/g, ",").replace(/\s{2,}/g, " ").trim();
+  return short || text;
+}

@@ -2,6 +2,7 @@
 // raw inputs back, and show per-field messages. No physical rule lives here: Python validates.
 import { sha256Hex } from "./digest.js";
 import { decodeFile } from "./files.js";
+import { optionText } from "./format.js";
 
 let counter = 0;
 
@@ -50,14 +51,29 @@ export function renderField(container, field, prefix) {
   const errorId = `${id}-error`;
   let input;
   let unitSelect = null;
+  let showChoice = () => {};
   if (field.kind === "choice") {
-    input = el("select", { id, name: field.name, "aria-describedby": `${helpId} ${errorId}` });
+    // a long option text is shortened in the closed select (which cannot wrap); the chosen
+    // option's full text is then shown under it, where it wraps
+    const fullId = `${id}-full`;
+    input = el("select", { id, name: field.name, "aria-describedby": `${helpId} ${errorId} ${fullId}` });
+    const full = new Map();
     for (const choice of field.choices) {
-      const option = el("option", { value: choice.value }, choice.label);
+      const text = optionText(choice.label);
+      const option = el("option", { value: choice.value, ...(text !== choice.label ? { title: choice.label } : {}) }, text);
+      if (text !== choice.label) full.set(choice.value, choice.label);
       input.append(option);
     }
     input.value = field.default;
     row.append(input);
+    const note = el("p", { class: "choice-full", id: fullId, hidden: "" });
+    showChoice = () => {
+      const text = full.get(input.value) || "";
+      note.textContent = text;
+      note.hidden = !text;
+    };
+    input.addEventListener("change", showChoice);
+    wrap.append(row, note);
   } else {
     input = el("input", {
       id, name: field.name, type: "text", inputmode: field.kind === "text" ? "text" : "decimal", autocomplete: "off",
@@ -75,7 +91,8 @@ export function renderField(container, field, prefix) {
       row.append(el("span", { class: "unit" }, field.units[0].label));
     }
   }
-  wrap.append(row);
+  if (row.parentNode !== wrap) wrap.append(row);
+  showChoice();
   const helpText = [field.help, field.range ? `Valid: ${field.range}.` : ""].filter(Boolean).join(" ");
   wrap.append(el("p", { class: "help", id: helpId }, helpText));
   const error = el("p", { class: "error", id: errorId, hidden: "" });
@@ -92,6 +109,7 @@ export function renderField(container, field, prefix) {
     set(raw) {
       if (field.kind === "choice") {
         choose(input, asText(raw));
+        showChoice();
       } else if (raw && typeof raw === "object" && !Array.isArray(raw)) {
         input.value = asText(raw.value);
         if (unitSelect && raw.unit !== undefined) choose(unitSelect, asText(raw.unit));

@@ -127,3 +127,16 @@ test("a NUL in a text cannot end the chunk early; bytes that are not a PNG are r
   assert.throws(() => pngWithText(new Uint8Array(40), { Title: "x" }), /not a PNG/);
   assert.throws(() => pngWithText(new Uint8Array([0x89, 0x50]), { Title: "x" }), /not a PNG/);
 });
+
+test("long option texts lose their parenthetical parts; short ones stay whole", async () => {
+  const { optionText, OPTION_CHARS } = await import("../../site/js/format.js");
+  assert.equal(optionText("ICRP 66 full regional model (ET1, ET2, BB, bb, AI)"), "ICRP 66 full regional model");
+  assert.equal(optionText("ICRP 66 deposition in ET2 (back of nose, mouth, pharynx, larynx), reference worker"),
+    "ICRP 66 deposition in ET2, reference worker");
+  assert.equal(optionText("Volume-equivalent (geometric)"), "Volume-equivalent (geometric)"); // short: whole
+  assert.equal(optionText("(only a parenthetical that is long enough to be cut)"), "(only a parenthetical that is long enough to be cut)");
+  const long = "A label without any parenthesis that runs long";
+  assert.equal(optionText(long), long);
+  assert.ok("Volume-equivalent (geometric)".length <= OPTION_CHARS);
+  assert.equal(optionText(undefined), "");
+});
