@@ -23,12 +23,15 @@ const SECTIONS = [{ id: "burden", kind: "burden" }, { id: "ranges", kind: "uncer
 const INPUTS_FILE_BYTES = 12 * 1024 * 1024;
 
 const root = document.documentElement;
-// the field descriptions and the name of this build's engine (the single-file edition embeds them)
+// the field descriptions and the name of this build's engine (the single-file edition embeds
+// them); boot.js, run before the page's modules, has usually asked for them and started the worker
+const boot = globalThis.driftdoseBoot;
 const formsLoaded = globalThis.driftdoseForms
   ? Promise.resolve(globalThis.driftdoseForms)
-  : fetch("forms.json").then((r) => r.json());
+  : boot ? boot.forms : fetch("forms.json").then((r) => r.json());
 export const engine = new Engine(new URL("./worker.js", import.meta.url), {
   wheel: formsLoaded.then((forms) => forms.wheel, () => undefined),
+  started: boot ? boot.adopt() : null,
 });
 useDecoder((bytes, limit, name, size) => engine.decodeFile(bytes, limit, name, size));
 export const controllers = new Map();

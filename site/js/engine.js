@@ -16,7 +16,9 @@ export class Engine {
   /**
    * @param {URL} workerUrl the module worker
    * @param {object} options {wheel}: the wheel of this build (from forms.json; a value or a
-   *   promise), so the worker never loads another build's engine into this page
+   *   promise), so the worker never loads another build's engine into this page; {started}:
+   *   a worker already started and given its wheel (boot.js), with the events it sent so far,
+   *   used for the first start only
    */
   constructor(workerUrl, options = {}) {
     this.workerUrl = workerUrl;
@@ -37,7 +39,9 @@ export class Engine {
       this._rejectReady = reject;
     });
     this.ready.catch(() => {}); // failures are reported through the status listeners
-    const worker = new Worker(this.workerUrl, { type: "module" });
+    const started = this.options.started;
+    this.options = { ...this.options, started: null }; // a restart starts a fresh worker
+    const worker = started ? started.worker : new Worker(this.workerUrl, { type: "module" });
     this.worker = worker;
     this.lastSign = performance.now();
     worker.addEventListener("message", (event) => {
@@ -55,6 +59,21 @@ export class Engine {
     worker.addEventListener("messageerror", () => {
       if (this.worker === worker) this._died("The calculation engine sent a reply the page could not read.");
     });
+    if (started) {
+      // what the worker said before the page's modules were ready, in order
+      for (const event of started.kept) {
+        if (this.worker !== worker) break;
+        if (event.type === "message") {
+          this.lastSign = performance.now();
+          this._onMessage(event.data);
+        } else if (event.type === "error") {
+          this._failStart(event.message || "the worker stopped with an error");
+        } else {
+          this._died("The calculation engine sent a reply the page could not read.");
+        }
+      }
+      return;
+    }
     Promise.resolve(this.options.wheel).then((wheel) => {
       if (this.worker === worker) worker.postMessage({ op: "init", wheel });
     });

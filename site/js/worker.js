@@ -9,6 +9,10 @@
 // describe a newer deployment) is used for the snapshot only when it names that same wheel;
 // a wheel missing from the server means the server holds another build, and the worker says so.
 //
+// Nothing waits for what it does not need: build-info.json is asked for as the worker starts,
+// the page's wheel is checked while the snapshot loads, and the page (boot.js) sends the wheel
+// before its own modules have loaded. Phase marks (ms since the epoch) go with "ready".
+//
 // Start-up: when build-info.json names a memory snapshot (the engine started at build time with
 // the package imported, see build.py), the engine restores it instead of starting Python. The
 // engine refuses a snapshot of another engine build; this worker refuses one whose stamp differs
@@ -38,6 +42,33 @@ let init;
 const initialised = new Promise((resolve) => {
   init = resolve;
 });
+// The engine's WebAssembly (the same for every build of the page), compiled from the moment the
+// worker starts: Pyodide itself would start compiling only after the snapshot has arrived and
+// been expanded. Pyodide's own instantiateStreaming call for that file is answered with this
+// module (its second download is cancelled); any other call, or a failed early compile, takes
+// the usual path. Served pages only (the single-file edition answers fetch() itself).
+const wasmUrl = new URL("pyodide.asm.wasm", indexURL).href;
+const earlyWasm = /^https?:$/.test(self.location.protocol)
+  ? WebAssembly.compileStreaming(fetch(wasmUrl)).then((module) => {
+    marks.wasmCompiled = stamp();
+    return module;
+  })
+  : null;
+if (earlyWasm) {
+  earlyWasm.catch(() => {}); // falls back to Pyodide's own compile
+  const instantiateStreaming = WebAssembly.instantiateStreaming.bind(WebAssembly);
+  WebAssembly.instantiateStreaming = async (source, imports) => {
+    const response = await source;
+    const module = response && response.url === wasmUrl ? await earlyWasm.catch(() => null) : null;
+    if (!module) return instantiateStreaming(response, imports);
+    if (response.body) response.body.cancel().catch(() => {});
+    return { module, instance: await WebAssembly.instantiate(module, imports) };
+  };
+}
+// the deployed build's description, asked for at once (used only if it names the page's wheel)
+const served = fetch(new URL("build-info.json", base))
+  .then((r) => r.json())
+  .catch(() => ({}));
 
 /** The page's own wheel, checked to be on the server. */
 async function ownWheel(path) {
@@ -45,6 +76,7 @@ async function ownWheel(path) {
     throw new Error("this page does not name its engine; reload the page");
   }
   const response = await fetch(new URL(path, base));
+  marks.wheelAnswered = stamp();
   if (!response.ok) {
     throw new Error(response.status === 404
       ? "the server now holds another version of Drift & Dose than this page; reload the page to use it"
@@ -60,7 +92,10 @@ async function fromSnapshot(info) {
       if (!r.ok) throw new Error(`snapshot: HTTP ${r.status}`);
       return r.arrayBuffer();
     })
-    .then(expandSparse);
+    .then((buffer) => {
+      marks.snapshotFetched = stamp();
+      return expandSparse(buffer);
+    });
   snapshot.catch(() => {}); // handled where loadPyodide awaits it; not an unhandled rejection
   const pyodide = await loadPyodide({
     indexURL,
@@ -96,10 +131,14 @@ async function normalStart(info) {
 async function start() {
   const t0 = performance.now();
   progress(10, "Loading the Python runtime…");
-  const wheel = await ownWheel((await initialised).wheel);
-  const served = await fetch(new URL("build-info.json", base)).then((r) => r.json()).catch(() => ({}));
+  const wheel = (await initialised).wheel;
+  marks.initReceived = stamp();
+  const wheelChecked = ownWheel(wheel);
+  wheelChecked.catch(() => {}); // awaited below, before anything is used
+  const deployed = await served;
+  marks.infoFetched = stamp();
   // the snapshot only when build-info.json describes this page's build (same wheel)
-  const info = served.wheel === wheel ? served : { wheel };
+  const info = typeof wheel === "string" && deployed.wheel === wheel ? deployed : { wheel };
   let pyodide = null;
   let how = "normal";
   let refused = "";
@@ -112,13 +151,16 @@ async function start() {
       console.warn(`Engine snapshot not used (${refused}); starting the engine normally.`);
     }
   }
+  // the page's own engine is on the server, or nothing is used (a missing wheel: the server
+  // holds another build; the page says so)
+  await wheelChecked;
   if (!pyodide) pyodide = await normalStart(info);
   const tRuntime = performance.now() - t0;
   progress(90, "Preparing…");
   const api = pyodide.pyimport("driftdose.api");
   handleJson = api.handle_json;
   textfile = pyodide.pyimport("driftdose.textfile");
-  const version = JSON.parse(handleJson(JSON.stringify({ kind: "describe" }))).version;
+  const version = pyodide.runPython("import driftdose\ndriftdose.__version__");
   marks.packageImported = stamp();
   postMessage({
     type: "ready", version, pyodide: pyodide.version, ms: performance.now() - t0, runtimeMs: tRuntime,
