@@ -60,18 +60,22 @@ export class Engine {
       if (this.worker === worker) this._died("The calculation engine sent a reply the page could not read.");
     });
     if (started) {
-      // what the worker said before the page's modules were ready, in order
-      for (const event of started.kept) {
-        if (this.worker !== worker) break;
-        if (event.type === "message") {
-          this.lastSign = performance.now();
-          this._onMessage(event.data);
-        } else if (event.type === "error") {
-          this._failStart(event.message || "the worker stopped with an error");
-        } else {
-          this._died("The calculation engine sent a reply the page could not read.");
+      // what the worker said before the page's modules were ready, in order; after the
+      // constructor's caller has added its status listeners (a microtask runs before any later
+      // message from the worker)
+      queueMicrotask(() => {
+        for (const event of started.kept) {
+          if (this.worker !== worker) break;
+          if (event.type === "message") {
+            this.lastSign = performance.now();
+            this._onMessage(event.data);
+          } else if (event.type === "error") {
+            this._failStart(event.message || "the worker stopped with an error");
+          } else {
+            this._died("The calculation engine sent a reply the page could not read.");
+          }
         }
-      }
+      });
       return;
     }
     Promise.resolve(this.options.wheel).then((wheel) => {

@@ -24,7 +24,13 @@ Measures in one run, on one server, in the same Chromium:
   period moves (the parsed file is kept between requests), in CPython (`--cpython-only` prints
   these and the other CPython figures without building or starting a browser);
 - the single-file edition: its size, and its time to ready from file:// divided by the served
-  page's (cold, fresh contexts, alternating runs, medians).
+  page's (cold, fresh contexts, alternating runs, medians);
+- before and after, in the same run: the page and the package of an earlier revision
+  (``--before``, default the state before the start-up and recompute work) built beside the
+  current ones; the heaviest deposition request in CPython (alternating processes, wall and CPU
+  time, and the largest difference between the two versions' numbers), input change to chart
+  on every panel and on the heaviest deposition case (alternating blocks of edits), and repeat
+  visits in an on-disk profile. ``--parts`` runs a subset.
 Targets are recorded in the README; this script only reports.
 """
 
@@ -36,6 +42,7 @@ import importlib.util
 import json
 import os
 import statistics
+import subprocess
 import sys
 import tempfile
 import time
@@ -85,12 +92,14 @@ for _ in range(15):
 statistics.median(times)
 """
 
-# (panel id, input label, values to cycle) for the recalculation timing
+# (name, panel id, input label, values to cycle, inputs set first or None) for the
+# recalculation timing; a panel the page does not have is left out
 EDITS = [
-    ("motion", "Particle diameter", ["100", "150", "220", "330", "470", "680"]),
-    ("deposition", "Particle density", ["1", "1.5", "2", "2.5", "3", "4"]),
-    ("sampling", "Sampling flow", ["1.5", "2", "2.5", "3", "4", "5"]),
+    ("motion", "motion", "Particle diameter", ["100", "150", "220", "330", "470", "680"], None),
+    ("deposition", "deposition", "Particle density", ["1", "1.5", "2", "2.5", "3", "4"], None),
+    ("sampling", "sampling", "Sampling flow", ["1.5", "2", "2.5", "3", "4", "5"], None),
 ]
+BEFORE = "54c83b0"  # main before the start-up and recompute work of 2 December 2026
 # heaviest request per calculation, for the CPython-vs-page comparison
 HEAVY = [
     (
@@ -151,6 +160,18 @@ HEAVY = [
         },
     ),
 ]
+
+
+# the heaviest deposition case (two modes, mouth breather) edited in the page
+EDITS.append(
+    (
+        "deposition_heaviest",
+        "deposition",
+        "Particle density",
+        ["3", "3.5", "4", "2.5", "2", "4.5"],
+        HEAVY[1][1],
+    )
+)
 
 
 def _icrp66_curves_ms(repeats: int = 15) -> float:
@@ -217,12 +238,21 @@ def _serve_counting(build, root: Path, counter: _Counter):
     return server
 
 
-def _time_to_ready(context, url: str, phases: bool = False, counter: _Counter | None = None):
+def _time_to_ready(
+    context, url: str, phases: bool = False, counter: _Counter | None = None, in_page: bool = False
+):
     page = context.new_page()
     t0 = time.perf_counter()
     page.goto(url)
     page.wait_for_selector("html[data-engine='ready']", timeout=180_000)
     elapsed = time.perf_counter() - t0
+    if in_page:  # ms from navigation to the engine's ready mark (the page's own clock)
+        ready_ms = page.evaluate(
+            "() => JSON.parse(document.documentElement.dataset.engineMarks || '{}')"
+            ".packageImported - performance.timeOrigin"
+        )
+        page.close()
+        return elapsed, ready_ms
     if counter is not None:  # before the service worker's precaching starts
         counter.until_ready = dict(counter.sent)
     if phases:
@@ -266,6 +296,7 @@ def _gzip_bytes(root: Path, sent: dict[str, int]) -> int:
 def _profile_visits(pw, base: str, variant: str, runs: int, block_sw: bool) -> dict:
     """First and second visit, each in a freshly started browser on the same on-disk profile."""
     first, second = [], []
+    in_page: dict[int, list[float]] = {id(first): [], id(second): []}
     for _ in range(runs):
         with tempfile.TemporaryDirectory() as profile:
             for visit in (first, second):
@@ -275,7 +306,9 @@ def _profile_visits(pw, base: str, variant: str, runs: int, block_sw: bool) -> d
                     args=CHROMIUM_ARGS,
                     service_workers="block" if block_sw else "allow",
                 )
-                visit.append(_time_to_ready(ctx, base + variant + "/"))
+                elapsed, ready_ms = _time_to_ready(ctx, base + variant + "/", in_page=True)
+                visit.append(elapsed)
+                in_page[id(visit)].append(ready_ms)
                 if visit is first and not block_sw:
                     page = ctx.new_page()  # let the service worker finish precaching
                     page.goto(base + variant + "/")
@@ -286,10 +319,16 @@ def _profile_visits(pw, base: str, variant: str, runs: int, block_sw: bool) -> d
                     )
                     page.close()
                 ctx.close()
+    page_first = statistics.median(in_page[id(first)])
+    page_second = statistics.median(in_page[id(second)])
     return {
         "first_s": round(statistics.median(first), 3),
         "second_s": round(statistics.median(second), 3),
         "second_over_first": round(statistics.median(second) / statistics.median(first), 3),
+        # from the page's navigation to the engine's ready mark (browser start-up left out)
+        "in_page_first_ms": round(page_first),
+        "in_page_second_ms": round(page_second),
+        "in_page_second_over_first": round(page_second / page_first, 3),
     }
 
 
@@ -385,6 +424,76 @@ def _ranges_page_ms(page, repeats: int = 3) -> float:
     )
 
 
+CPYTHON_TIMER = """
+import json, statistics, sys, time
+sys.path.insert(0, sys.argv[1])
+from driftdose import api
+request, repeats = json.loads(sys.argv[2]), int(sys.argv[3])
+reply = api.handle(request)
+wall, cpu = [], []
+for _ in range(repeats):
+    t0, c0 = time.perf_counter(), time.process_time()
+    reply = api.handle(request)
+    wall.append((time.perf_counter() - t0) * 1000)
+    cpu.append((time.process_time() - c0) * 1000)
+    assert reply["ok"], reply
+values = {k: v["value"] for k, v in reply["results"].items() if isinstance(v.get("value"), float)}
+print(json.dumps({"wall": wall, "cpu": cpu, "values": values}))
+"""
+
+
+def _before_tree(rev: str, folder: Path) -> Path:
+    """The repository at revision ``rev`` (git archive), sharing this tree's front-end packages."""
+    out = folder / "before-src"
+    out.mkdir()
+    archive = subprocess.run(
+        ["git", "-C", str(ROOT), "archive", rev], check=True, capture_output=True
+    ).stdout
+    subprocess.run(["tar", "-x", "-C", str(out)], input=archive, check=True)
+    (out / "site" / "node_modules").symlink_to(ROOT / "site" / "node_modules")
+    return out
+
+
+def _build_before(src: Path, dist: Path) -> None:
+    code = "import sys; from pathlib import Path; import build; build.build(Path(sys.argv[1]))"
+    subprocess.run([sys.executable, "-c", code, str(dist)], cwd=src, check=True)
+
+
+def _cpython_before_after(src: Path, kind: str, inputs: dict, rounds: int = 6) -> dict:
+    """One request in CPython, before and after, alternating processes (10 timings each)."""
+    request = json.dumps({"kind": kind, "inputs": inputs})
+    times = {"before": {"wall": [], "cpu": []}, "after": {"wall": [], "cpu": []}}
+    values = {}
+    for _ in range(rounds):
+        for name, pycore in (("before", src / "pycore"), ("after", ROOT / "pycore")):
+            done = subprocess.run(
+                [sys.executable, "-c", CPYTHON_TIMER, str(pycore), request, "10"],
+                check=True,
+                capture_output=True,
+                text=True,
+            )
+            got = json.loads(done.stdout)
+            times[name]["wall"] += got["wall"]
+            times[name]["cpu"] += got["cpu"]
+            values[name] = got["values"]
+    out = {}
+    for clock in ("wall", "cpu"):
+        b = statistics.median(times["before"][clock])
+        a = statistics.median(times["after"][clock])
+        out[f"{clock}_ms_before"] = round(b, 2)
+        out[f"{clock}_ms_after"] = round(a, 2)
+        out[f"{clock}_after_over_before"] = round(a / b, 3)
+    common = set(values["before"]) & set(values["after"])
+    diffs = [
+        abs(values["after"][k] - values["before"][k]) / abs(values["before"][k])
+        for k in common
+        if values["before"][k] != 0.0
+    ]
+    out["results_compared"] = len(common)
+    out["largest_relative_difference"] = max(diffs, default=0.0)
+    return out
+
+
 def _single_file_figures(build, browser, root: Path, base: str, runs: int) -> dict:
     """Single-file edition: size, time to ready from file://, ratios to the served pages."""
     with tempfile.TemporaryDirectory() as folder:
@@ -465,6 +574,66 @@ def _shift_figures(moves: int = 20) -> dict:
     }
 
 
+PARTS = ("editions", "repeat", "edits", "heavy", "single")
+
+
+def _open_ready(browser, url: str):
+    ctx = browser.new_context(viewport={"width": 1280, "height": 900})
+    page = ctx.new_page()
+    page.goto(url)
+    page.wait_for_selector("html[data-engine='ready']", timeout=180_000)
+    page.wait_for_function("() => document.querySelector('table.results')")
+    return ctx, page
+
+
+_SET_INPUTS = """async ([pid, inputs]) => {
+  const m = await import('./js/app.js');
+  const section = document.getElementById('panel-' + pid);
+  const before = Number(section.dataset.updates || 0);
+  m.controllers.get(pid).setState(inputs);
+  const t0 = performance.now();
+  while (Number(section.dataset.updates || 0) <= before && performance.now() - t0 < 60000) {
+    await new Promise((r) => setTimeout(r, 20));
+  }
+}"""
+
+
+def _edit_figures(browser, sites: dict[str, str], edits: int, blocks: int = 4) -> dict:
+    """Input change to chart on every panel, per site, in alternating blocks of edits."""
+    pages = {name: _open_ready(browser, url) for name, url in sites.items()}
+    defaults = {
+        name: page.evaluate(
+            "async () => { const m = await import('./js/app.js');"
+            " return Object.fromEntries([...m.controllers].map(([k, c]) => [k, c.getState()])); }"
+        )
+        for name, (_, page) in pages.items()
+    }
+    times: dict[str, dict[str, list[float]]] = {name: {} for name in sites}
+    per_block = max(1, edits // blocks)
+    for _ in range(blocks):
+        for name, (_, page) in pages.items():
+            for key, panel, label, values, setup in EDITS:
+                if not page.locator(f"#panel-{panel}").count():
+                    continue
+                page.evaluate(f"() => document.getElementById('tab-{panel}').click()")
+                page.evaluate(_SET_INPUTS, [panel, setup or defaults[name][panel]])
+                got = _recalc_times(page, panel, label, values, per_block)
+                times[name].setdefault(key, []).extend(got)
+    for ctx, _ in pages.values():
+        ctx.close()
+    out: dict = {}
+    for key in {k for by_site in times.values() for k in by_site}:
+        row = {}
+        for name in sites:
+            if key in times[name]:
+                row[f"median_ms_{name}"] = round(statistics.median(times[name][key]), 1)
+                row[f"p95_ms_{name}"] = round(_pct(times[name][key], 0.95), 1)
+        if "p95_ms_before" in row and "p95_ms_after" in row:
+            row["p95_after_over_before"] = round(row["p95_ms_after"] / row["p95_ms_before"], 3)
+        out[key] = row
+    return out
+
+
 def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--runs", type=int, default=5)
@@ -473,7 +642,10 @@ def main() -> int:
     parser.add_argument(
         "--cpython-only", action="store_true", help="only the CPython figures (no build)"
     )
+    parser.add_argument("--before", default=BEFORE, help="git revision to compare with")
+    parser.add_argument("--parts", default=",".join(PARTS), help="subset of " + ",".join(PARTS))
     args = parser.parse_args()
+    parts = set(args.parts.split(","))
     if args.cpython_only:
         figures = {"load_average_at_start": [round(x, 2) for x in os.getloadavg()]}
         figures["icrp66_curves_200_sizes_cpython_ms"] = round(_icrp66_curves_ms(), 2)
@@ -485,13 +657,23 @@ def main() -> int:
 
     build = _load_build()
     figures: dict = {"load_average_at_start": [round(x, 2) for x in os.getloadavg()]}
+    figures["before_revision"] = args.before
     figures["icrp66_curves_200_sizes_cpython_ms"] = round(_icrp66_curves_ms(), 2)
     figures["shift_24h_1s_cpython"] = _shift_figures()
     with tempfile.TemporaryDirectory() as tmp:
+        src = _before_tree(args.before, Path(tmp))
+        figures["heaviest_deposition_cpython_before_after"] = _cpython_before_after(
+            src, "deposition", HEAVY[1][1]
+        )
         root = Path(tmp) / "site"
         root.mkdir()
-        for name, options in VARIANTS.items():
+        # the bare page loads the unmodified engine of the source edition
+        needs_all = parts & {"editions", "heavy", "single"}
+        variants = VARIANTS if needs_all else {"snapshot": VARIANTS["snapshot"]}
+        for name, options in variants.items():
             build.build(root / name, **options)
+        if parts & {"repeat", "edits"}:
+            _build_before(src, root / "before")
         dist = root / "snapshot"
         bare = root / "bare"
         bare.mkdir()
@@ -511,92 +693,89 @@ def main() -> int:
         base = f"http://{host}:{port}/"
         with sync_playwright() as pw:
             browser = pw.chromium.launch(executable_path=find_chromium(), args=CHROMIUM_ARGS)
-            ready: dict[str, list] = {k: [] for k in ("bare", *VARIANTS)}
-            marks: dict[str, list] = {k: [] for k in VARIANTS}
-            sent: dict[str, dict] = {}
-            for _ in range(args.runs):
-                for name in ready:
-                    ctx = browser.new_context()
-                    counter.sent.clear()
-                    if name == "bare":
-                        ready[name].append(_time_to_ready(ctx, base + "bare/"))
-                    else:
-                        elapsed, m = _time_to_ready(ctx, base + name + "/", phases=True)
-                        ready[name].append(elapsed)
-                        marks[name].append(m)
-                    sent[name] = {k: v for k, v in counter.sent.items() if not k.endswith("sw.js")}
-                    ctx.close()
-            bare_s = statistics.median(ready["bare"])
-            figures["bare_pyodide_ready_s"] = round(bare_s, 3)
-            editions = {}
-            for name in VARIANTS:
-                med = statistics.median(ready[name])
-                editions[name] = {
-                    "ready_s": round(med, 3),
-                    "ready_over_bare": round(med / bare_s, 3),
-                    "phases_ms_after_navigation": _median_marks(marks[name]),
-                    "first_visit_MB_until_ready": round(sum(sent[name].values()) / 1e6, 2),
-                    "first_visit_MB_gzip": round(_gzip_bytes(root, sent[name]) / 1e6, 2),
+            if "editions" in parts:
+                ready: dict[str, list] = {k: [] for k in ("bare", *VARIANTS)}
+                marks: dict[str, list] = {k: [] for k in VARIANTS}
+                sent: dict[str, dict] = {}
+                for _ in range(args.runs):
+                    for name in ready:
+                        ctx = browser.new_context()
+                        counter.sent.clear()
+                        if name == "bare":
+                            ready[name].append(_time_to_ready(ctx, base + "bare/"))
+                        else:
+                            elapsed, m = _time_to_ready(ctx, base + name + "/", phases=True)
+                            ready[name].append(elapsed)
+                            marks[name].append(m)
+                        sent[name] = {
+                            k: v for k, v in counter.sent.items() if not k.endswith("sw.js")
+                        }
+                        ctx.close()
+                bare_s = statistics.median(ready["bare"])
+                figures["bare_pyodide_ready_s"] = round(bare_s, 3)
+                editions = {}
+                for name in VARIANTS:
+                    med = statistics.median(ready[name])
+                    editions[name] = {
+                        "ready_s": round(med, 3),
+                        "ready_over_bare": round(med / bare_s, 3),
+                        "phases_ms_after_navigation": _median_marks(marks[name]),
+                        "first_visit_MB_until_ready": round(sum(sent[name].values()) / 1e6, 2),
+                        "first_visit_MB_gzip": round(_gzip_bytes(root, sent[name]) / 1e6, 2),
+                    }
+                figures["editions"] = editions
+                figures["bare_first_visit_MB"] = round(sum(sent["bare"].values()) / 1e6, 2)
+            if "repeat" in parts:
+                names = ["snapshot", "before"] + (["bytecode"] if "editions" in parts else [])
+                figures["repeat_visit_on_disk_profile"] = {
+                    f"{name}{'' if sw == 'allow' else '_no_service_worker'}": _profile_visits(
+                        pw, base, name, args.profile_runs, sw == "block"
+                    )
+                    for name in names
+                    for sw in ("allow", "block")
                 }
-            figures["editions"] = editions
-            figures["bare_first_visit_MB"] = round(sum(sent["bare"].values()) / 1e6, 2)
-            figures["repeat_visit_on_disk_profile"] = {
-                f"{name}{'' if sw == 'allow' else '_no_service_worker'}": _profile_visits(
-                    pw, base, name, args.profile_runs, sw == "block"
+            if "edits" in parts:
+                figures["input_to_chart"] = _edit_figures(
+                    browser, {"before": base + "before/", "after": base + "snapshot/"}, args.edits
                 )
-                for name in ("snapshot", "bytecode")
-                for sw in ("allow", "block")
-            }
-
-            ctx = browser.new_context(viewport={"width": 1280, "height": 900})
-            page = ctx.new_page()
-            page.goto(base + "snapshot/")
-            page.wait_for_selector("html[data-engine='ready']", timeout=120_000)
-            page.wait_for_function("() => document.querySelector('table.results')")
-            recalc = {}
-            for panel, label, values in EDITS:
-                page.evaluate(f"() => document.getElementById('tab-{panel}').click()")
-                times = _recalc_times(page, panel, label, values, args.edits)
-                recalc[panel] = {
-                    "median_ms": round(statistics.median(times), 1),
-                    "p95_ms": round(_pct(times, 0.95), 1),
-                }
-            figures["input_to_chart"] = recalc
-            heavy = {}
-            for kind, inputs in HEAVY:
-                cpy = _cpython_ms(kind, inputs)
-                web = _page_ms(page, kind, inputs)
-                heavy[kind] = {
+            if "heavy" in parts:
+                ctx, page = _open_ready(browser, base + "snapshot/")
+                heavy = {}
+                for kind, inputs in HEAVY:
+                    cpy = _cpython_ms(kind, inputs)
+                    web = _page_ms(page, kind, inputs)
+                    heavy[kind] = {
+                        "cpython_ms": round(cpy, 2),
+                        "page_ms": round(web, 2),
+                        "page_over_cpython": round(web / cpy, 2),
+                    }
+                figures["heaviest_calculations"] = heavy
+                cpy = _cpython_ms("burden", BURDEN_INPUTS, 5)
+                web = _page_ms(page, "burden", BURDEN_INPUTS, 5)
+                figures["burden_40_years"] = {
                     "cpython_ms": round(cpy, 2),
                     "page_ms": round(web, 2),
                     "page_over_cpython": round(web / cpy, 2),
                 }
-            figures["heaviest_calculations"] = heavy
-            cpy = _cpython_ms("burden", BURDEN_INPUTS, 5)
-            web = _page_ms(page, "burden", BURDEN_INPUTS, 5)
-            figures["burden_40_years"] = {
-                "cpython_ms": round(cpy, 2),
-                "page_ms": round(web, 2),
-                "page_over_cpython": round(web / cpy, 2),
-            }
-            cpy = _ranges_cpython_ms()
-            web = _ranges_page_ms(page)
-            figures["ranges_1000_samples_two_modes"] = {
-                "cpython_ms": round(cpy, 1),
-                "page_ms": round(web, 1),
-                "page_over_cpython": round(web / cpy, 2),
-            }
-            ctx.close()
-            ctx = browser.new_context()
-            page = ctx.new_page()
-            page.goto(base + "bare/bench.html")
-            page.wait_for_selector("html[data-engine='ready']", timeout=120_000)
-            in_page = page.evaluate("code => window.benchInPyodide(code)", ICRP66_CURVES_CODE)
-            cpy = figures["icrp66_curves_200_sizes_cpython_ms"]
-            figures["icrp66_curves_200_sizes_page_ms"] = round(in_page, 2)
-            figures["icrp66_curves_page_over_cpython"] = round(in_page / cpy, 2)
-            ctx.close()
-            figures["single_file"] = _single_file_figures(build, browser, root, base, args.runs)
+                cpy = _ranges_cpython_ms()
+                web = _ranges_page_ms(page)
+                figures["ranges_1000_samples_two_modes"] = {
+                    "cpython_ms": round(cpy, 1),
+                    "page_ms": round(web, 1),
+                    "page_over_cpython": round(web / cpy, 2),
+                }
+                ctx.close()
+                ctx = browser.new_context()
+                page = ctx.new_page()
+                page.goto(base + "bare/bench.html")
+                page.wait_for_selector("html[data-engine='ready']", timeout=120_000)
+                in_page = page.evaluate("code => window.benchInPyodide(code)", ICRP66_CURVES_CODE)
+                cpy = figures["icrp66_curves_200_sizes_cpython_ms"]
+                figures["icrp66_curves_200_sizes_page_ms"] = round(in_page, 2)
+                figures["icrp66_curves_page_over_cpython"] = round(in_page / cpy, 2)
+                ctx.close()
+            if "single" in parts:
+                figures["single_file"] = _single_file_figures(build, browser, root, base, args.runs)
             browser.close()
         server.shutdown()
     figures["load_average_at_end"] = [round(x, 2) for x in os.getloadavg()]
