@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 
 import pytest
 
@@ -12,7 +13,10 @@ from driftdose.deposition import (
     activity,
     icrp66_curves,
     icrp66_lognormal,
+    models,
+    reference_worker,
 )
+from driftdose.deposition.models import deposition_curves
 from driftdose.distribution import BinnedSpectrum, LognormalMode, Multimodal, integrate
 from driftdose.dose import deposited_dose
 
@@ -116,3 +120,49 @@ def test_deposited_fractions_default_step_match_a_fine_grid(cmd, gsd, density, s
                 assert coarse.fractions[region][weight] == pytest.approx(value, rel=0, abs=1e-8)
                 compared += 1
     assert compared >= 6
+
+
+# ---------------------------------------------------------------------------------------------
+# Curve cache of deposition_curves: the same numbers as a fresh evaluation, never shared lists
+# ---------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize("model", ["icrp66", "simplified"])
+def test_deposition_curves_cache_returns_the_models_own_numbers(model, monkeypatch):
+    sizes = [1e-9 * 10 ** (i / 8) for i in range(41)]
+    worker = reference_worker("mouth_breather")
+    first = deposition_curves(model, sizes, 3000.0, 1.5, worker)
+    first["total"][0] = -1.0  # a caller changing its lists must not change the cache
+    calls = []
+    entry = models.DEPOSITION_MODELS[model]
+    counted = replace(entry, curves=lambda *a: calls.append(a) or entry.curves(*a))
+    monkeypatch.setitem(models.DEPOSITION_MODELS, model, counted)
+    again = deposition_curves(model, sizes, 3000.0, 1.5, worker)
+    assert calls == []  # kept: the model was not evaluated again
+    models._curve_cache.clear()
+    fresh = deposition_curves(model, sizes, 3000.0, 1.5, worker)
+    assert len(calls) == 1
+    assert again == fresh  # identical numbers, bit for bit
+    assert again["total"][0] >= 0.0
+
+
+def test_deposition_curves_cache_keys_on_every_argument():
+    sizes = [1e-8, 1e-7, 1e-6, 1e-5]
+    worker = reference_worker("mouth_breather")
+    base = deposition_curves("icrp66", sizes, 3000.0, 1.5, worker)
+    for other in (
+        deposition_curves("icrp66", sizes, 2000.0, 1.5, worker),
+        deposition_curves("icrp66", sizes, 3000.0, 1.2, worker),
+        deposition_curves("icrp66", sizes, 3000.0, 1.5, reference_worker("nose")),
+        deposition_curves("icrp66", sizes, 3000.0, 1.5, worker, "mobility"),
+        deposition_curves("icrp66", [*sizes[:-1], 2e-5], 3000.0, 1.5, worker),
+    ):
+        assert other["total"] != base["total"]
+    assert deposition_curves("icrp66", sizes, 3000.0, 1.5, worker) == base
+
+
+def test_deposition_curves_cache_is_bounded():
+    worker = reference_worker("mouth_breather")
+    for i in range(models.CURVE_CACHE_SIZE + 10):
+        deposition_curves("simplified", [1e-7, 1e-6], 1000.0 + i, 1.0, worker)
+    assert len(models._curve_cache) == models.CURVE_CACHE_SIZE

@@ -11,6 +11,7 @@ warnings for a size range and a breathing pattern. :func:`deposition_curves` and
 
 from __future__ import annotations
 
+from collections import OrderedDict
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
@@ -216,7 +217,14 @@ def deposition_curves(
     -------
     dict
         The model's region keys (``total`` included): lists of fractions of the particles
-        in the ambient air [-], one per diameter.
+        in the ambient air [-], one per diameter (fresh lists the caller may change).
+
+    Notes
+    -----
+    The curves depend only on the arguments, so the last :data:`CURVE_CACHE_SIZE` are kept,
+    keyed by all of them (the diameters as a tuple): a page that changes only the amounts,
+    medians or spreads of an aerosol, or the exposure duration, gets the chart's curve back
+    without evaluating the model again.
 
     """
     if thermodynamic not in THERMODYNAMIC_CONVENTIONS:
@@ -224,4 +232,24 @@ def deposition_curves(
             f"unknown thermodynamic convention {thermodynamic!r}; valid: "
             + ", ".join(THERMODYNAMIC_CONVENTIONS)
         )
-    return deposition_model(model).curves(diameters, density, shape_factor, subject, thermodynamic)
+    entry = deposition_model(model)
+    key: tuple | None = (model, tuple(diameters), density, shape_factor, subject, thermodynamic)
+    try:
+        kept = _curve_cache.get(key)
+    except TypeError:  # a subject with unhashable parts: computed, not kept
+        key = kept = None
+    if kept is not None:
+        _curve_cache.move_to_end(key)
+        return {k: list(v) for k, v in kept.items()}
+    curves = entry.curves(diameters, density, shape_factor, subject, thermodynamic)
+    if key is not None:
+        _curve_cache[key] = {k: tuple(v) for k, v in curves.items()}
+        while len(_curve_cache) > CURVE_CACHE_SIZE:
+            _curve_cache.popitem(last=False)
+    return curves
+
+
+CURVE_CACHE_SIZE = 24
+"""Deposition curves kept by :func:`deposition_curves` (least recently used dropped first)."""
+
+_curve_cache: OrderedDict[tuple, dict[str, tuple[float, ...]]] = OrderedDict()
