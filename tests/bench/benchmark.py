@@ -428,10 +428,12 @@ CPYTHON_TIMER = """
 import json, statistics, sys, time
 sys.path.insert(0, sys.argv[1])
 from driftdose import api
-request, repeats = json.loads(sys.argv[2]), int(sys.argv[3])
+request, repeats, vary = json.loads(sys.argv[2]), int(sys.argv[3]), sys.argv[4] == "vary"
 reply = api.handle(request)
 wall, cpu = [], []
-for _ in range(repeats):
+for i in range(repeats):
+    if vary:  # a new density each time: nothing computed before can be reused
+        request["inputs"]["particle_density"] = {"value": 3 + (i + 1) * 1e-3, "unit": "g/cm3"}
     t0, c0 = time.perf_counter(), time.process_time()
     reply = api.handle(request)
     wall.append((time.perf_counter() - t0) * 1000)
@@ -459,15 +461,30 @@ def _build_before(src: Path, dist: Path) -> None:
     subprocess.run([sys.executable, "-c", code, str(dist)], cwd=src, check=True)
 
 
-def _cpython_before_after(src: Path, kind: str, inputs: dict, rounds: int = 6) -> dict:
-    """One request in CPython, before and after, alternating processes (10 timings each)."""
+def _cpython_before_after(
+    src: Path, kind: str, inputs: dict, rounds: int = 6, vary: bool = False
+) -> dict:
+    """One request in CPython, before and after, alternating processes (10 timings each).
+
+    ``vary``: the density changes with every request (what an edit of the density costs);
+    otherwise the same request is repeated (an edit of anything that leaves the deposition
+    curves as they were: amounts, medians, spreads, exposure).
+    """
     request = json.dumps({"kind": kind, "inputs": inputs})
     times = {"before": {"wall": [], "cpu": []}, "after": {"wall": [], "cpu": []}}
     values = {}
     for _ in range(rounds):
         for name, pycore in (("before", src / "pycore"), ("after", ROOT / "pycore")):
             done = subprocess.run(
-                [sys.executable, "-c", CPYTHON_TIMER, str(pycore), request, "10"],
+                [
+                    sys.executable,
+                    "-c",
+                    CPYTHON_TIMER,
+                    str(pycore),
+                    request,
+                    "10",
+                    "vary" if vary else "same",
+                ],
                 check=True,
                 capture_output=True,
                 text=True,
@@ -662,9 +679,10 @@ def main() -> int:
     figures["shift_24h_1s_cpython"] = _shift_figures()
     with tempfile.TemporaryDirectory() as tmp:
         src = _before_tree(args.before, Path(tmp))
-        figures["heaviest_deposition_cpython_before_after"] = _cpython_before_after(
-            src, "deposition", HEAVY[1][1]
-        )
+        figures["heaviest_deposition_cpython_before_after"] = {
+            "same_request": _cpython_before_after(src, "deposition", HEAVY[1][1]),
+            "density_changed": _cpython_before_after(src, "deposition", HEAVY[1][1], vary=True),
+        }
         root = Path(tmp) / "site"
         root.mkdir()
         # the bare page loads the unmodified engine of the source edition
