@@ -38,9 +38,6 @@ ENGINE_ASSUMPTIONS = {
         "restoreSnapshot(t)",
         'BUILD_ID:"',  # the engine's build id, which a snapshot must carry
         "thisProgram:e._sysExecutable",  # the build-time runner sets it as a browser does
-        # the worker compiles the engine's WebAssembly early and answers this call with it
-        "instantiateStreaming(n,s)",
-        '"pyodide.asm.wasm"',
     ),
     "pyodide.asm.mjs": (
         "_makeSnapshot",  # option needed to make a snapshot

@@ -42,29 +42,6 @@ let init;
 const initialised = new Promise((resolve) => {
   init = resolve;
 });
-// The engine's WebAssembly (the same for every build of the page), compiled from the moment the
-// worker starts: Pyodide itself would start compiling only after the snapshot has arrived and
-// been expanded. Pyodide's own instantiateStreaming call for that file is answered with this
-// module (its second download is cancelled); any other call, or a failed early compile, takes
-// the usual path. Served pages only (the single-file edition answers fetch() itself).
-const wasmUrl = new URL("pyodide.asm.wasm", indexURL).href;
-const earlyWasm = /^https?:$/.test(self.location.protocol)
-  ? WebAssembly.compileStreaming(fetch(wasmUrl)).then((module) => {
-    marks.wasmCompiled = stamp();
-    return module;
-  })
-  : null;
-if (earlyWasm) {
-  earlyWasm.catch(() => {}); // falls back to Pyodide's own compile
-  const instantiateStreaming = WebAssembly.instantiateStreaming.bind(WebAssembly);
-  WebAssembly.instantiateStreaming = async (source, imports) => {
-    const response = await source;
-    const module = response && response.url === wasmUrl ? await earlyWasm.catch(() => null) : null;
-    if (!module) return instantiateStreaming(response, imports);
-    if (response.body) response.body.cancel().catch(() => {});
-    return { module, instance: await WebAssembly.instantiate(module, imports) };
-  };
-}
 // the deployed build's description, asked for at once (used only if it names the page's wheel)
 const served = fetch(new URL("build-info.json", base))
   .then((r) => r.json())
