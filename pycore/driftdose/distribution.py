@@ -22,6 +22,7 @@ Surface area and mass assume spheres of the volume-equivalent diameter.
 
 from __future__ import annotations
 
+import bisect
 import itertools
 import math
 from collections.abc import Callable, Sequence
@@ -424,24 +425,29 @@ class BinnedSpectrum:
     ) -> list[tuple[float, float]]:
         """(mid-point diameter, bin total of the weight) pairs (mid-point rule per bin)."""
         q = _check_weight(weight)
-        out = []
-        for d, n in zip(self.diameters, self.numbers, strict=True):
-            if q == 0:
-                w = n
-            elif q == 2:
-                w = n * math.pi * d * d
-            else:
-                w = n * self.density * math.pi / 6.0 * d**3
-            out.append((d, w))
-        return out
+        return [(d, self._bin_total(i, q)) for i, d in enumerate(self.diameters)]
+
+    def _bin_total(self, i: int, q: int) -> float:
+        """Total of the ``q``-th moment weight in bin ``i`` (at its mid-point)."""
+        d, n = self.diameters[i], self.numbers[i]
+        if q == 0:
+            return n
+        if q == 2:
+            return n * math.pi * d * d
+        return n * self.density * math.pi / 6.0 * d**3
 
     def density_per_ln_d(self, d: float, weight: str = "number") -> float:
-        """dW/dln d, constant across each bin, zero outside the spectrum."""
+        """dW/dln d, constant across each bin, zero outside the spectrum.
+
+        The bin holding ``d`` is found by bisection of the edges, so a spectrum of many
+        rows is looked up in a few steps. [1/m^3, m^2/m^3 or kg/m^3 per unit ln d]
+        """
+        q = _check_weight(weight)
         e = self.edges
-        for i, (_, w) in enumerate(self.quadrature(weight)):
-            if e[i] <= d < e[i + 1]:
-                return w / math.log(e[i + 1] / e[i])
-        return 0.0
+        i = bisect.bisect_right(e, d) - 1
+        if not 0 <= i < len(self.diameters):
+            return 0.0
+        return self._bin_total(i, q) / math.log(e[i + 1] / e[i])
 
 
 def bin_edges(diameters: Sequence[float]) -> tuple[float, ...]:

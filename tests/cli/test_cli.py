@@ -27,7 +27,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from driftdose import api, cli, export
-from driftdose.api.deposition import _DEMO_CSV
+from driftdose.api.demos import _DEMO_CSV
 from driftdose.api.fields import Field, FieldError
 from driftdose.api.registry import CALCULATIONS
 from driftdose.api.units import unit_label

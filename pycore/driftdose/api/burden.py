@@ -15,12 +15,16 @@ from __future__ import annotations
 import math
 from typing import Any
 
+from ..compose.deposition import validity_warnings
 from ..diameters import ParticleDescription
 from ..retention import DAY, YEAR, compartment_inputs, retained_burden
 from ..retention.model import RATE_SETS, exposure_end, single_exposure, work_schedule
 from ..sources import cite
-from . import deposition as dep
+from .demos import BURDEN_DEMOS as DEMOS
+from .exposure_fields import EXPOSURE_FIELDS, aerosol_of, subject_of
 from .fields import Field, FieldError
+from .labels import WEIGHT_WORDS
+from .reply import row
 
 TITLE = "Retained burden over months and years"
 
@@ -41,45 +45,7 @@ UNITS = {  # weight -> (factor to SI, unit, SI unit)
     "surface": (1e-6, "mm²", "m²"),
     "mass": (1e-6, "mg", "kg"),
 }
-WEIGHT_WORDS = {"number": "number", "surface": "surface area", "mass": "mass"}
 SERIES_PER_DECADE = 48
-
-DEMOS: tuple[dict[str, Any], ...] = (
-    {
-        "id": "demo_working_life",
-        "label": "Invented demo: oxide fume over a working life",
-        "note": "Invented numbers for trying the tool: the metal-fume demo aerosol breathed "
-        "8 h a shift, 5 shifts a week, 46 weeks a year for 40 years, with invented ranges "
-        "for the uncertain inputs; not a measurement or a typical value.",
-        "deposition": {**dep.DEMOS[0]["inputs"], "demo": dep.DEMOS[0]["id"]},
-        "burden": {
-            "transport_rates": "icrp66",
-            "exposure_pattern": "work",
-            "shifts_per_week": 5,
-            "weeks_per_year": 46,
-            "working_years": 40,
-            "years_after": 10,
-        },
-        "ranges": {
-            "samples": 1000,
-            "seed": 2026,
-            "sampling_method": "lhs",
-            "median_spread": "triangular",
-            "median_percent": {"value": 25, "unit": "1"},
-            "gsd_spread": "triangular",
-            "gsd_percent": {"value": 10, "unit": "1"},
-            "density_spread": "uniform",
-            "density_percent": {"value": 15, "unit": "1"},
-            "shape_factor_spread": "uniform",
-            "shape_factor_percent": {"value": 10, "unit": "1"},
-            "breathing_spread": "triangular",
-            "breathing_percent": {"value": 25, "unit": "1"},
-            "concentration_spread": "lognormal",
-            "concentration_gsd": {"value": 1.6, "unit": "1"},
-        },
-    },
-)
-"""Invented demo (labelled as invented): inputs for the deposition, burden and ranges parts."""
 
 BURDEN_FIELDS: tuple[Field, ...] = (
     Field(
@@ -144,7 +110,7 @@ BURDEN_FIELDS: tuple[Field, ...] = (
     ),
 )
 
-FIELDS: tuple[Field, ...] = dep.FIELDS + BURDEN_FIELDS
+FIELDS: tuple[Field, ...] = EXPOSURE_FIELDS + BURDEN_FIELDS
 
 
 def particle_description(v: dict[str, Any], f_density: float = 1.0, f_shape: float = 1.0) -> Any:
@@ -159,8 +125,8 @@ def particle_description(v: dict[str, Any], f_density: float = 1.0, f_shape: flo
 def aerosol_and_subject(v: dict[str, Any]) -> tuple[Any, Any, dict | None, tuple]:
     """Distribution, breathing, CSV report and the modes as entered, from the deposition
     inputs (validated SI), read as the deposition calculation reads them."""
-    aerosol, report = dep._aerosol(v)
-    return aerosol.distribution, dep._subject(v), report, aerosol.modes
+    aerosol, report = aerosol_of(v)
+    return aerosol.distribution, subject_of(v), report, aerosol.modes
 
 
 def schedule_of(v: dict[str, Any]) -> Any:
@@ -216,7 +182,8 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             "The retained burden needs the regional deposition of the full ICRP 66 model "
             "(its ET, BB, bb and AI regions); choose that model.",
         )
-    dist, subject, report, _ = aerosol_and_subject(v)
+    aerosol, report = aerosol_of(v)
+    dist, subject = aerosol.distribution, subject_of(v)
     rate_set = v["transport_rates"]
     try:
         inputs = compartment_inputs(
@@ -243,15 +210,13 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             factor, unit, si_unit = UNITS[w]
             for region in (*RETAINED, "GI", "environment", "deposited"):
                 si = res.regions[w][region][i]
-                results[f"burden_{key}_{region}_{w}"] = {
-                    "label": f"{REGION_LABELS[region]}, {WEIGHT_WORDS[w]}, {label}",
-                    "symbol": "",
-                    "value": si / factor,
-                    "unit": unit,
-                    "si": si,
-                    "si_unit": si_unit,
-                    "note": "",
-                }
+                results[f"burden_{key}_{region}_{w}"] = row(
+                    f"{REGION_LABELS[region]}, {WEIGHT_WORDS[w]}, {label}",
+                    si,
+                    factor,
+                    unit,
+                    si_unit,
+                )
     life_index = nm - 2 if marks[-1][0] == "after" else nm - 1
     results["compartments"] = _compartment_table(res, rs, life_index, marks[life_index][1])
     curves: dict[str, Any] = {
@@ -275,7 +240,13 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
                 for r in (*RETAINED, "GI")
             },
         }
-    warnings = dep._warnings(dist, subject, "icrp66", _dose_stub(), v)
+    warnings = validity_warnings(
+        aerosol,
+        subject,
+        "icrp66",
+        v["thermodynamic_convention"],
+        custom_breathing=v["breathing"] == "custom",
+    )
     warnings.append(
         "Insoluble particles assumed: the clearance model moves particles mechanically and "
         "ignores dissolution and absorption to blood, so soluble material is overestimated."
@@ -291,15 +262,6 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "warnings": warnings,
         "sources": cite(*sources),
     }
-
-
-class _NoBenchmark:
-    benchmark: dict[str, float] = {}  # noqa: RUF012 - read-only stand-in
-
-
-def _dose_stub() -> Any:
-    """The deposition warnings read only the benchmark ratios, which do not apply here."""
-    return _NoBenchmark()
 
 
 def _compartment_table(res: Any, rs: Any, i: int, when: str) -> dict[str, Any]:

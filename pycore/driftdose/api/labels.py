@@ -6,7 +6,7 @@ diameter the same way.
 
 from __future__ import annotations
 
-__all__ = ["COORDINATE_WORDS", "DIAMETER_TYPE_WORDS", "REGION_LABELS"]
+__all__ = ["COORDINATE_WORDS", "DIAMETER_TYPE_WORDS", "REGION_LABELS", "WEIGHT_WORDS"]
 
 REGION_LABELS: dict[str, str] = {
     "ET1": "ET1 (front of the nose)",
@@ -34,3 +34,6 @@ COORDINATE_WORDS: dict[str, str] = {
     "mobility": "mobility-equivalent",
 }
 """The size axis the models compute on, in words (``ParticleDescription.coordinate``)."""
+
+WEIGHT_WORDS: dict[str, str] = {"number": "number", "surface": "surface area", "mass": "mass"}
+"""A weight of a distribution (``distribution.WEIGHTS``) in words."""

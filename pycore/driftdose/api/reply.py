@@ -9,7 +9,7 @@ from typing import Any
 
 from .units import SI_UNIT, auto_unit, from_si, unit_label
 
-__all__ = ["quantity", "text_result"]
+__all__ = ["quantity", "row", "text_result"]
 
 
 def quantity(
@@ -44,3 +44,47 @@ def quantity(
 def text_result(label: str, text: str, note: str = "") -> dict[str, Any]:
     """Return a result row whose value is words, not a number."""
     return {"label": label, "text": text, "note": note}
+
+
+def row(
+    label: str,
+    si: float,
+    factor: float,
+    unit: str,
+    si_unit: str,
+    symbol: str = "",
+    note: str = "",
+) -> dict[str, Any]:
+    """One result row in a fixed display unit: ``value = si / factor``.
+
+    Parameters
+    ----------
+    label : str
+        What the value is.
+    si : float
+        The value in SI units (``si_unit``).
+    factor : float
+        Size of one display ``unit`` in SI units.
+    unit : str
+        Label of the display unit.
+    si_unit : str
+        Label of the SI unit.
+    symbol : str
+        Symbol shown beside the label.
+    note : str
+        A short remark.
+
+    Returns
+    -------
+    dict
+        ``label``, ``symbol``, ``value``, ``unit``, ``si``, ``si_unit`` and ``note``.
+    """
+    return {
+        "label": label,
+        "symbol": symbol,
+        "value": si / factor,
+        "unit": unit,
+        "si": si,
+        "si_unit": si_unit,
+        "note": note,
+    }

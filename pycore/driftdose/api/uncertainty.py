@@ -36,8 +36,10 @@ from ..uncertainty import (
     table_nodes,
 )
 from . import burden
-from . import deposition as dep
+from .dose_rows import DOSE_UNITS
 from .fields import Field, FieldError
+from .labels import REGION_LABELS, WEIGHT_WORDS
+from .reply import row
 
 TITLE = "Ranges of dose and retained burden (uncertainty)"
 
@@ -425,15 +427,15 @@ def _reply(
     hours = v["exposure_duration"] / 3600.0
     bands: dict[str, Any] = {
         "keys": list(DOSE_REGIONS),
-        "regions": [dep.REGION_LABELS[r] for r in DOSE_REGIONS],
+        "regions": [REGION_LABELS[r] for r in DOSE_REGIONS],
         "per": f"{hours:g} h",
     }
     for w in WEIGHTS:
-        factor, unit, si_unit = dep._DOSE_UNITS[w]
-        word = dep._WEIGHT_LABEL[w]
+        factor, unit, si_unit = DOSE_UNITS[w]
+        word = WEIGHT_WORDS[w]
         for region in DOSE_REGIONS:
             key = f"dose_{region}_{w}"
-            name = dep.REGION_LABELS[region]
+            name = REGION_LABELS[region]
             _rows(
                 results,
                 f"range_{key}",
@@ -464,8 +466,7 @@ def _reply(
                 _rows(
                     results,
                     f"range_{out_key}",
-                    f"Retained {burden.WEIGHT_WORDS[w]}, {burden.REGION_LABELS[region]}, "
-                    f"{marks[key]}",
+                    f"Retained {WEIGHT_WORDS[w]}, {burden.REGION_LABELS[region]}, {marks[key]}",
                     summary[out_key],
                     ctx["nominal_outputs"][out_key],
                     factor,
@@ -536,24 +537,8 @@ def _rows(
 ) -> None:
     for tag, p in (("p5", 5.0), ("p50", 50.0), ("p95", 95.0)):
         si = entry["percentiles"][p]
-        results[f"{key}_{tag}"] = {
-            "label": f"{label}, {p:g}th percentile",
-            "symbol": "",
-            "value": si / factor,
-            "unit": unit,
-            "si": si,
-            "si_unit": si_unit,
-            "note": "",
-        }
-    results[f"{key}_nominal"] = {
-        "label": f"{label}, as entered",
-        "symbol": "",
-        "value": nominal / factor,
-        "unit": unit,
-        "si": nominal,
-        "si_unit": si_unit,
-        "note": "",
-    }
+        results[f"{key}_{tag}"] = row(f"{label}, {p:g}th percentile", si, factor, unit, si_unit)
+    results[f"{key}_nominal"] = row(f"{label}, as entered", nominal, factor, unit, si_unit)
     lead = entry["leading"]
     results[f"{key}_leading"] = {
         "label": f"{label}: input driving the spread most",
