@@ -134,12 +134,11 @@ MODE_FIELDS: tuple[Field, ...] = (
         applies=None,
         variants=(
             _NUMBER_CONCENTRATION,
-            Field(
-                "concentration",
-                _CONCENTRATION_LABEL,
-                "mass_concentration",
-                (None, "mg/m3"),
-                ("mg/m3", "ug/m3"),
+            replace(
+                _NUMBER_CONCENTRATION,
+                kind="mass_concentration",
+                default=(None, "mg/m3"),
+                units=("mg/m3", "ug/m3"),
                 minimum=MASS_MIN,
                 maximum=MASS_MAX,
                 applies=("basis", ("mass",)),
