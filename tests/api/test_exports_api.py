@@ -122,7 +122,7 @@ def test_curves_part_and_structured_inputs_each_item_field_its_own_row():
 def test_imported_text_is_named_by_size_and_sha256_not_copied():
     text = "diameter_nm,dN/dlogDp\n10,1000\n20,3000\n50,2000\n100,500\n"
     inputs = {
-        "distribution_source": "csv",
+        "size_source": "csv",
         "csv_text": text,
         "csv_diameter_column": "diameter_nm",
         "csv_concentration_column": "dN/dlogDp",

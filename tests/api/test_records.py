@@ -155,7 +155,7 @@ def test_modes_not_used_for_a_spectrum_are_no_error():
     broken mode list is not read."""
     csv = "diameter_nm;dN\n20;1000\n50;3000\n100;1000\n"
     inputs = {
-        "distribution_source": "csv",
+        "size_source": "csv",
         "csv_text": csv,
         "csv_diameter_column": "diameter_nm",
         "csv_concentration_column": "dN",
