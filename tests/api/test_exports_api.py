@@ -136,6 +136,8 @@ def test_imported_text_is_named_by_size_and_sha256_not_copied():
     assert "10,1000" not in out["text"].split("\r\n\r\n")[0]
     assert rows["csv_diameter_column"][3] == "diameter_nm"
     assert "modes[1].median" not in rows  # modes do not apply to an imported spectrum
+    # sent under the former name distribution_source, written under today's name
+    assert rows["size_source"][5] == "csv" and "distribution_source" not in rows
 
 
 def test_header_rows_with_a_fixed_clock():

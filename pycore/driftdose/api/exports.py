@@ -34,7 +34,7 @@ from typing import Any
 
 from .. import __version__
 from ..export import csv_writer, curves_csv, results_csv
-from .fields import Field, applies, parse_fields
+from .fields import Field, applies, entered, parse_fields
 from .units import SI_UNIT, UNITS, unit_label
 
 __all__ = ["EXPORT_KIND", "PARTS", "export_csv", "header_rows"]
@@ -142,11 +142,11 @@ def header_rows(
         ["encoding", "UTF-8 with byte-order mark" if bom else "UTF-8"],
         ["inputs", "name", "label", "value", "unit", "value_si", "si_unit"],
     ]
-    current = {f.name: _plain(inputs.get(f.name), f) for f in calc.FIELDS}
+    current = {f.name: _plain(entered(f, inputs), f) for f in calc.FIELDS}
     for f in calc.FIELDS:
         if not applies(f.describe(), current):
             continue
-        rows.extend(_input_rows(f, inputs.get(f.name), values.get(f.name)))
+        rows.extend(_input_rows(f, entered(f, inputs), values.get(f.name)))
     return rows
 
 

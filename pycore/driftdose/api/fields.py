@@ -13,7 +13,7 @@ from typing import Any
 
 from .units import SI_UNIT, UNITS, auto_unit, canonical_unit, from_si, to_si, unit_label
 
-__all__ = ["Field", "FieldError", "FieldsError", "applies", "format_si", "parse_fields"]
+__all__ = ["Field", "FieldError", "FieldsError", "applies", "entered", "format_si", "parse_fields"]
 
 
 class FieldError(Exception):
@@ -387,6 +387,27 @@ def format_si(value: float, kind: str, unit: str, digits: int = 3) -> str:
     return text if label == "–" else f"{text} {label}"
 
 
+def entered(f: Field, inputs: dict[str, Any]) -> Any:
+    """The input of field ``f`` as sent: under its name, else under a former name, else None.
+
+    Parameters
+    ----------
+    f : Field
+        The field.
+    inputs : dict
+        The inputs as sent.
+
+    Returns
+    -------
+    Any
+        The raw value (``None`` when the input is absent).
+    """
+    raw = inputs.get(f.name)
+    if raw is None:
+        raw = next((inputs[old] for old in f.formerly if inputs.get(old) is not None), None)
+    return raw
+
+
 def parse_fields(fields: tuple[Field, ...], inputs: Any) -> tuple[dict[str, Any], list[dict]]:
     """Validate ``inputs`` against ``fields``; return (values in SI, errors).
 
@@ -402,9 +423,7 @@ def parse_fields(fields: tuple[Field, ...], inputs: Any) -> tuple[dict[str, Any]
     errors: list[dict] = []
     failed: dict[str, list[dict]] = {}
     for f in fields:
-        raw = inputs.get(f.name)
-        if raw is None:
-            raw = next((inputs[old] for old in f.formerly if inputs.get(old) is not None), None)
+        raw = entered(f, inputs)
         if raw is None:
             raw = f.default_input()
         try:
