@@ -136,8 +136,23 @@ def test_imported_text_is_named_by_size_and_sha256_not_copied():
     assert "10,1000" not in out["text"].split("\r\n\r\n")[0]
     assert rows["csv_diameter_column"][3] == "diameter_nm"
     assert "modes[1].median" not in rows  # modes do not apply to an imported spectrum
-    # sent under the former name distribution_source, written under today's name
+    assert rows["size_source"][5] == "csv"
+
+
+def test_input_under_a_former_name_is_written_under_todays_name():
+    text = "diameter_nm,dN/dlogDp\n10,1000\n20,3000\n50,2000\n100,500\n"
+    inputs = {
+        "distribution_source": "csv",  # the name before size_source; links still carry it
+        "csv_text": text,
+        "csv_diameter_column": "diameter_nm",
+        "csv_concentration_column": "dN/dlogDp",
+    }
+    out, _ = _export("deposition", inputs)
+    assert out["ok"], out
+    head, _ = _split(out["text"])
+    rows = {r[1]: r for r in head[6:]}
     assert rows["size_source"][5] == "csv" and "distribution_source" not in rows
+    assert "csv_text" in rows and "modes[1].median" not in rows
 
 
 def test_header_rows_with_a_fixed_clock():
