@@ -216,6 +216,15 @@ def parse_spectrum_csv(
         except tables.TableError as exc:
             raise SpectrumError(exc.message, exc.line, f"{what}_column") from None
     d_col, c_col = picked
+    for col, what in ((d_col, "diameter"), (c_col, "concentration")):
+        head = [cells[col.index] for _, cells in table.rows[:50] if col.index < len(cells)]
+        if not any(tables.cells.is_number(c) for c in head):
+            holds = "text, not numbers" if any(head) else "no values"
+            raise SpectrumError(
+                f"Column {col.index + 1} {col.name!r} holds {holds}; choose the {what} column.",
+                None,
+                f"{what}_column",
+            )
     if d_col.index == c_col.index:
         raise SpectrumError(
             "The diameter and concentration columns are the same.", None, "concentration_column"

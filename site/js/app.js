@@ -3,7 +3,7 @@
 // tools (copy link, save/load inputs, printable report) and the offline service worker.
 import { Engine } from "./engine.js";
 import { el } from "./forms.js";
-import { download, readText, stamp, useDecoder } from "./files.js";
+import { download, readText, stamp, useDecoder, useDescriber } from "./files.js";
 import { buildReport, footerText } from "./report.js";
 import { fingerprint } from "./digest.js";
 import { STATE_FORMAT, STATE_VERSION, acceptedNotice, decodeFragment, readInputsFile, refusedNotice, schemaFrom } from "./intake.js";
@@ -34,6 +34,7 @@ export const engine = new Engine(new URL("./worker.js", import.meta.url), {
   started: boot ? boot.adopt() : null,
 });
 useDecoder((bytes, limit, name, size) => engine.decodeFile(bytes, limit, name, size));
+useDescriber((purpose, text, headerLine) => engine.describeTable(purpose, text, headerLine));
 export const controllers = new Map();
 let active = PANELS[0].id;
 let engineInfo = { version: "", pyodide: "" };

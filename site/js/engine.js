@@ -224,6 +224,14 @@ export class Engine {
   }
 
   /**
+   * Describe a decoded measured file with the core's reader: resolves with {ok, table,
+   * pickers} or {ok: false, field, message, line} (see driftdose.api.files).
+   */
+  describeTable(purpose, text, headerLine) {
+    return this._post({ op: "table", purpose, text, header_line: headerLine });
+  }
+
+  /**
    * Send a request on a named channel; resolves with the reply, or with null when a newer
    * request on the same channel was sent meanwhile (the page keeps only the newest answer).
    */

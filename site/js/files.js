@@ -41,6 +41,21 @@ export async function decodeFile(file, maxBytes = 5 * 1024 * 1024) {
   return { ...(await decoder(bytes, maxBytes, name, file.size)), bytes };
 }
 
+let describer = null;
+
+/** Route the description of decoded files through `fn(purpose, text, headerLine)`: the
+ * engine's measured-file reader (separator, header, preview, column pickers). */
+export function useDescriber(fn) {
+  describer = fn;
+}
+
+/** Describe a decoded file's text; resolves with the reader's reply ({ok: false, message}
+ * while no engine is there). */
+export async function describeText(purpose, text, headerLine = 0) {
+  if (!describer) return { ok: false, field: null, message: "The calculation engine is not available." };
+  return describer(purpose, text, headerLine);
+}
+
 /** Today's date as YYYY-MM-DD, for file names. */
 export function stamp() {
   return new Date().toISOString().slice(0, 10);

@@ -27,6 +27,7 @@ const base = new URL("../", import.meta.url);
 const indexURL = new URL("pyodide/", base).href;
 let handleJson = null;
 let textfile = null;
+let fileDescriber = null;
 // phase marks, in ms since the page's time origin's epoch (performance.timeOrigin + now())
 const marks = { workerStart: stamp() };
 
@@ -137,6 +138,7 @@ async function start() {
   const api = pyodide.pyimport("driftdose.api");
   handleJson = api.handle_json;
   textfile = pyodide.pyimport("driftdose.textfile");
+  fileDescriber = pyodide.pyimport("driftdose.api.files");
   const version = pyodide.runPython("import driftdose\ndriftdose.__version__");
   marks.packageImported = stamp();
   postMessage({
@@ -157,6 +159,12 @@ function decodeFile({ bytes, limit, name, size }) {
   return JSON.parse(textfile.decode_text_json(bytes ?? undefined, limit, name, size));
 }
 
+// A decoded file described for the page (table found, preview, column pickers) by the core's
+// measured-file reader (driftdose.tables, through driftdose.api.files).
+function describeTable({ purpose, text, header_line: headerLine }) {
+  return JSON.parse(fileDescriber.describe_file_json(String(purpose), typeof text === "string" ? text : "", Number(headerLine) || 0));
+}
+
 self.addEventListener("message", async (event) => {
   if (!event.data || typeof event.data !== "object") return;
   const { id, kind, inputs, op } = event.data;
@@ -168,6 +176,7 @@ self.addEventListener("message", async (event) => {
   try {
     await started;
     if (op === "decode") reply = decodeFile(event.data);
+    else if (op === "table") reply = describeTable(event.data);
     else reply = JSON.parse(handleJson(JSON.stringify({ kind, inputs })));
   } catch (err) {
     const message = "The calculation engine is not available.";

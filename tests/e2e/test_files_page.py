@@ -53,8 +53,8 @@ def _pick(page, data: bytes, name: str = "spectrum.csv") -> None:
 
 def _map_columns(page) -> None:
     panel = page.locator(PANEL)
-    panel.get_by_label("Diameter column (header name or number)").fill("Größe [nm]")
-    panel.get_by_label("Concentration column (header name or number)").fill("dn [1/CM³]")
+    panel.get_by_label("Diameter column").select_option("Größe [nm]")
+    panel.get_by_label("Concentration column").select_option("dN [1/cm³]")
     panel.get_by_label("Concentration is given").select_option("per_bin")
     page.wait_for_function("() => location.hash.includes('csv_concentration_type=per_bin')")
     _settled(page)

@@ -291,9 +291,9 @@ def test_sampling_record_with_spectrum_file_fits_and_names_the_file(page, base_u
     data = _spectrum_file(tmp_path / "spectrum-S17.csv")
     panel.get_by_label("Measured spectrum to correct").select_option("csv")
     panel.get_by_label("Spectrum CSV file").set_input_files(str(tmp_path / "spectrum-S17.csv"))
-    panel.get_by_label("Diameter column (header name or number)").fill("diameter_nm")
+    panel.get_by_label("Diameter column").select_option("diameter_nm")
     before = _updates(page, "sampling")
-    panel.get_by_label("Concentration column (header name or number)").fill("dN/dlogDp")
+    panel.get_by_label("Concentration column").select_option("dN/dlogDp")
     _settle(page, "sampling", before)
     assert panel.locator("table.spectrum-table tbody tr").count() == SPECTRUM_BINS
     saved = _saved(page)

@@ -439,9 +439,9 @@ def _import_spectrum(page, tmp_path, text: str = SPECTRUM_CSV) -> None:
     panel = page.locator(PANEL)
     panel.get_by_label("Measured spectrum to correct").select_option("csv")
     panel.get_by_label("Spectrum CSV file").set_input_files(str(path))
-    panel.get_by_label("Diameter column (header name or number)").fill("diameter_nm")
+    panel.get_by_label("Diameter column").select_option("diameter_nm")
     before = _updates(page)
-    panel.get_by_label("Concentration column (header name or number)").fill("dN/dlogDp")
+    panel.get_by_label("Concentration column").select_option("dN/dlogDp")
     _after(page, before)
 
 

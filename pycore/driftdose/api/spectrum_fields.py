@@ -9,9 +9,11 @@ declarations bound to that field.
 
 from __future__ import annotations
 
+import re
 from dataclasses import replace
 from typing import Any
 
+from .. import tables
 from ..spectrum_import import MAX_BYTES, SpectrumError, SpectrumImport, parse_spectrum_csv
 from .fields import Field, FieldError
 from .particle_air_fields import DIAMETER_TYPE_CHOICES
@@ -22,6 +24,7 @@ __all__ = [
     "NUMBER_MAX",
     "NUMBER_MIN",
     "SPECTRUM_FIELD_NAMES",
+    "describe_spectrum_file",
     "import_spectrum",
     "spectrum_fields",
 ]
@@ -31,6 +34,8 @@ D_RANGE = (1e-9, 100e-6)
 NUMBER_MAX = 1e15
 """Largest accepted total number concentration, 1e9 per cm³ [1/m³]; above it an input is
 taken as a mistake."""
+MAX_HEADER_LINE = 1_000_000
+"""Largest header line accepted (a 5 MB file has fewer lines)."""
 NUMBER_MIN = 1.0
 """Smallest accepted total number concentration [1/m³]; below it doses fall under what a
 number can hold."""
@@ -42,24 +47,39 @@ _FIELDS: tuple[Field, ...] = (
         "data",
         None,
         required=False,
-        help="Plain text table, one row per size; commas, semicolons or tabs; at most 5 MB.",
-        extra={"max_bytes": MAX_BYTES, "accept": ".csv,.txt,.tsv"},
+        help="Plain text table, one row per size; commas, semicolons, tabs or blanks; notes "
+        "above the header are set aside; at most 5 MB.",
+        extra={"max_bytes": MAX_BYTES, "accept": ".csv,.txt,.tsv", "describe": "spectrum"},
+    ),
+    Field(
+        "csv_header_line",
+        "Header is on line",
+        "integer",
+        0,
+        minimum=-1,
+        maximum=MAX_HEADER_LINE,
+        required=False,
+        help="0: found in the file (the line is shown under the file); -1: the file has no "
+        "header row.",
+        extra={"file": "csv_text"},
     ),
     Field(
         "csv_diameter_column",
-        "Diameter column (header name or number)",
+        "Diameter column",
         "text",
         "1",
         required=False,
-        extra={"max_length": 80},
+        help="Picked from the file's header; a name, part of one, or a number also works "
+        "in a link or on the command line.",
+        extra={"max_length": 80, "picker": "csv_text"},
     ),
     Field(
         "csv_concentration_column",
-        "Concentration column (header name or number)",
+        "Concentration column",
         "text",
         "2",
         required=False,
-        extra={"max_length": 80},
+        extra={"max_length": 80, "picker": "csv_text"},
     ),
     Field(
         "csv_concentration_type",
@@ -98,6 +118,14 @@ _FIELDS: tuple[Field, ...] = (
         help="For dN/dDp, per diameter unit of the file (e.g. per cm³ per nm).",
     ),
 )
+
+_PART_FIELD = {
+    "file": "csv_text",
+    "header_line": "csv_header_line",
+    "diameter_column": "csv_diameter_column",
+    "concentration_column": "csv_concentration_column",
+}
+"""The input to blame for each part of an import that can be wrong."""
 
 SPECTRUM_FIELD_NAMES: tuple[str, ...] = tuple(f.name for f in _FIELDS)
 """Names of the spectrum inputs, in the order :func:`spectrum_fields` gives them."""
@@ -139,7 +167,10 @@ def import_spectrum(v: dict[str, Any]) -> tuple[SpectrumImport, dict[str, Any]]:
     Raises
     ------
     FieldError
-        On ``csv_text`` for a missing, blank or unreadable file, diameters outside
+        On the input that is wrong: ``csv_header_line`` for a header line that does not
+        hold names, ``csv_diameter_column`` or ``csv_concentration_column`` for a column not
+        found (or a part of a name that matches several), else ``csv_text`` for a missing,
+        blank or unreadable file, diameters outside
         :data:`D_RANGE`, or a total concentration outside ``NUMBER_MIN``–``NUMBER_MAX``.
     """
     text = v.get("csv_text")
@@ -163,9 +194,10 @@ def import_spectrum(v: dict[str, Any]) -> tuple[SpectrumImport, dict[str, Any]]:
             v["csv_concentration_type"],
             d_scale,
             c_scale,
+            v.get("csv_header_line") or 0,
         )
     except SpectrumError as exc:
-        raise FieldError("csv_text", str(exc)) from None
+        raise FieldError(_PART_FIELD.get(exc.part, "csv_text"), str(exc)) from None
     if imported.diameters[0] < D_RANGE[0] * 0.999 or imported.diameters[-1] > D_RANGE[1] * 1.001:
         raise FieldError(
             "csv_text",
@@ -188,3 +220,105 @@ def import_spectrum(v: dict[str, Any]) -> tuple[SpectrumImport, dict[str, Any]]:
             "concentration unit and type.",
         )
     return imported, imported.report
+
+
+_DIAMETER_UNITS = ("nm", "um", "m")
+_CONCENTRATION_UNITS = ("1/cm3", "1/m3")
+_SIZE_NAME = re.compile(r"(^|[^a-z])(d_?p|dm|da|diam|size|gr(ö|oe)(ß|ss)e|midpoint|mid)", re.I)
+
+
+def _suggest(table: tables.Table) -> tuple[int | None, int | None]:
+    """The columns a spectrum most likely uses: the diameter (a length unit, else a size
+    name, else the first column of numbers) and the concentration (a dN/dlogDp or dN/dDp
+    name, else a number concentration unit, else the next column of numbers)."""
+    numeric = [c for c in table.columns if c.kind == "number"]
+
+    def first(rule: Any, among: list[tables.Column]) -> int | None:
+        return next((c.index for c in among if rule(c)), None)
+
+    d = first(lambda c: c.unit.quantity == "length", numeric)
+    if d is None:
+        d = first(lambda c: bool(_SIZE_NAME.search(c.unit.label)), numeric)
+    if d is None and numeric:
+        d = numeric[0].index
+    rest = [c for c in numeric if c.index != d]
+    c = first(lambda c: c.unit.distribution is not None, rest)
+    if c is None:
+        c = first(lambda c: c.unit.quantity == "number_concentration", rest)
+    if c is None:
+        c = first(lambda c: d is None or c.index > d, rest)
+    return d, c
+
+
+def describe_spectrum_file(text: Any, header_line: Any = 0) -> dict[str, Any]:
+    """What the page shows about a spectrum file before any calculation, and how it fills
+    the column pickers and unit choices.
+
+    Parameters
+    ----------
+    text : str
+        The decoded file text.
+    header_line : int
+        The ``csv_header_line`` input: 0 to find the header, -1 for none, else its line.
+
+    Returns
+    -------
+    dict
+        ``{"ok": true, "table": <tables.describe_table reply>, "pickers": {field: {"options":
+        [{"value", "label"}], "suggest": value or null, "fills": {value: {field: choice}}}}}``
+        for ``csv_diameter_column`` and ``csv_concentration_column`` (an option's value is
+        the header as written when it names one column, else the column number; ``fills``
+        are the unit and concentration-type choices its header states); or ``{"ok": false,
+        "field", "message", "line"}`` with the input that is wrong.
+    """
+    try:
+        line = int(header_line or 0)
+    except (TypeError, ValueError):
+        line = 0
+    try:
+        table = tables.read_table(text, max(line, -1))
+    except tables.TableError as exc:
+        field = _PART_FIELD.get(exc.part, "csv_text")
+        return {"ok": False, "field": field, "message": str(exc), "line": exc.line}
+    options = []
+    d_fills: dict[str, dict[str, str]] = {}
+    c_fills: dict[str, dict[str, str]] = {}
+    values: dict[int, str] = {}
+    for col in table.columns:
+        if col.kind == "empty":
+            continue
+        value = str(col.index + 1)
+        if table.header is not None:
+            try:
+                if tables.pick_column(table, col.name).index == col.index:
+                    value = col.name
+            except tables.TableError:
+                pass
+        values[col.index] = value
+        options.append({"value": value, "label": f"{col.index + 1}: {col.name}"})
+        if col.unit.code in _DIAMETER_UNITS:
+            d_fills[value] = {"csv_diameter_unit": col.unit.code}
+        fill = {}
+        if col.unit.code in _CONCENTRATION_UNITS:
+            fill["csv_concentration_unit"] = col.unit.code
+        if col.unit.distribution:
+            fill["csv_concentration_type"] = col.unit.distribution
+        if fill:
+            c_fills[value] = fill
+    d, c = _suggest(table)
+    return {
+        "ok": True,
+        "table": tables.describe_table(table),
+        "pickers": {
+            "csv_diameter_column": {
+                "options": options,
+                "suggest": values.get(d) if d is not None else None,
+                "fills": d_fills,
+            },
+            "csv_concentration_column": {
+                "options": options,
+                "suggest": values.get(c) if c is not None else None,
+                "fills": c_fills,
+            },
+        },
+    }

@@ -382,7 +382,7 @@ def csv_cases() -> list[FileCase]:
             "column-number-pointing-nowhere",
             "numbered.csv",
             u(GOOD_CSV),
-            "line",
+            "error",
             columns=("1", "9"),
         ),
         FileCase("column-number-zero", "zeroth.csv", u(GOOD_CSV), "error", columns=("0", "2")),

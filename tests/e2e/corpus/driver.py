@@ -140,6 +140,14 @@ HELPERS = r"""
           target.value = op[key];
           touched.add(target);
         }
+        if ("value" in op && control.dataset.picker !== undefined
+            && ![...control.options].some((o) => o.value === op.value)) {
+          // a column picker keeps a name or number it does not list, as a link gives it
+          const option = document.createElement("option");
+          option.value = op.value;
+          option.textContent = op.value;
+          control.append(option);
+        }
         if ("value" in op) { control.value = op.value; touched.add(control); }
         if ("unit" in op && unit) { unit.value = op.unit; touched.add(unit); }
       }
