@@ -399,7 +399,7 @@ def test_sampling_reports_several_faulty_stages_at_once() -> None:
         pytest.param({"csv_text": "1e9;1\n2e9;1\n"}, "csv_text", id="beyond-100um"),
         pytest.param(
             {"csv_text": "d;n\n10;1\n20;3\n", "csv_diameter_column": "size"},
-            "csv_text",
+            "csv_diameter_column",  # the column picker is the control that is wrong
             id="unknown-column",
         ),
         pytest.param(

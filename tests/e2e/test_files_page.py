@@ -17,7 +17,7 @@ import pytest
 from driftdose import api, export
 from driftdose.textfile import decode_text, size_text
 
-from .conftest import screenshot
+from .conftest import ARTIFACTS, screenshot
 from .helpers import export_parts
 from .test_deposition_page import PANEL, _assert_cells_match, _open, _settled
 
@@ -48,6 +48,11 @@ def _pick(page, data: bytes, name: str = "spectrum.csv") -> None:
     page.wait_for_function(
         "n => Number(document.getElementById('panel-deposition').dataset.updates || 0) > n",
         arg=before,
+    )
+    # the answer counted may be the one to the source choice: wait for the file's own turn
+    page.wait_for_function(
+        "() => !document.querySelector('#panel-deposition .field[data-field=csv_text]"
+        " .file-status').textContent.startsWith('Reading')"
     )
 
 
@@ -135,6 +140,103 @@ def test_utf16_without_mark_refused_at_the_field(page, base_url):
     _open(page, base_url)
     _pick(page, SPECTRUM.encode("utf-16-le"), "no-mark.csv")
     assert "UTF-16 text without a byte-order mark" in _status(page)
+
+
+# --- notes above the header, the preview and the pickers ------------------------------------
+
+SIZER_EXPORT = (
+    "Instrument;mobility sizer (invented)\r\n"
+    "Serial;0042\r\n"
+    "Date;04.03.2026\r\n"
+    "Sheath flow;3,0 L/min\r\n"
+    "\r\n"
+    "Dp [µm];dN/dlogDp [#/cm³];Remark\r\n"
+    "0,020;1000;\r\n0,030;3000;\r\n0,050;6000;ok\r\n0,080;5000;\r\n"
+    "0,120;2500;\r\n0,200;900;\r\n0,400;150;\r\n"
+    "Total;;18550;\r\n"
+)
+
+
+def _field(page, name: str):
+    return page.locator(f"{PANEL} .field[data-field={name}]")
+
+
+def test_notes_above_the_header_import_through_the_preview_with_the_right_columns(page, base_url):
+    _open(page, base_url)
+    _pick(page, SIZER_EXPORT.encode("latin-1"), "sizer-export.csv")
+    _settled(page)
+    panel = page.locator(PANEL)
+    preview = _field(page, "csv_text").locator(".table-preview")
+    summary = preview.locator(".table-summary").inner_text()
+    assert summary.startswith("Semicolon-separated, decimal comma.")
+    assert "Header found on line 6 (4 lines of notes above it set aside)." in summary
+    assert "7 data rows, lines 7–13." in summary
+    assert "Left out after the data: line 14" in summary
+    header = preview.locator("tr.preview-header th")
+    assert header.all_inner_texts() == ["Line 6", "Dp [µm]", "dN/dlogDp [#/cm³]", "Remark"]
+    first = preview.locator("tr.preview-data").first.locator("th, td").all_inner_texts()
+    assert first == ["Line 7", "0,020", "1000", ""]
+    # the pickers hold the file's columns, the units and kind come from the headers
+    assert panel.get_by_label("Diameter column").input_value() == "Dp [µm]"
+    assert panel.get_by_label("Concentration column").input_value() == "dN/dlogDp [#/cm³]"
+    assert panel.get_by_label("Diameter unit in the file").input_value() == "um"
+    assert panel.get_by_label("Concentration is given").input_value() == "dN/dlogDp"
+    assert panel.get_by_label("Concentration unit in the file").input_value() == "1/cm3"
+    options = panel.get_by_label("Concentration column").locator("option").all_inner_texts()
+    assert options == ["1: Dp [µm]", "2: dN/dlogDp [#/cm³]", "3: Remark"]
+    assert page.locator(PANEL).get_attribute("data-state") == "ok"
+    reply = api.handle(
+        {
+            "kind": "deposition",
+            "inputs": {
+                "distribution_source": "csv",
+                "csv_text": decode_text(SIZER_EXPORT.encode("latin-1")).text,
+                "csv_diameter_column": "1",
+                "csv_concentration_column": "2",
+                "csv_diameter_unit": "um",
+                "csv_concentration_type": "dN/dlogDp",
+            },
+        }
+    )
+    assert reply["ok"], reply
+    assert _assert_cells_match(page, reply) == 36
+    for width in (375, 1280):
+        page.set_viewport_size({"width": width, "height": 900})
+        preview.scroll_into_view_if_needed()
+        screenshot(page, f"files-preview-{width}")
+        _field(page, "csv_text").screenshot(
+            path=str(ARTIFACTS / f"files-preview-field-{width}.png")
+        )
+        overflow = page.evaluate("() => document.documentElement.scrollWidth > innerWidth + 1")
+        assert not overflow, f"the page scrolls sideways at {width} px"
+
+
+def test_a_wrong_header_line_is_shown_beside_the_control_that_is_wrong(page, base_url):
+    _open(page, base_url)
+    _pick(page, SIZER_EXPORT.encode("latin-1"), "sizer-export.csv")
+    _settled(page)
+    panel = page.locator(PANEL)
+    before = int(panel.get_attribute("data-updates") or 0)
+    panel.get_by_label("Header is on line").fill("40")
+    panel.get_by_label("Header is on line").blur()
+    error = _field(page, "csv_header_line").locator(".error")
+    error.filter(has_text="Line 40 does not exist").wait_for(state="visible")
+    assert int(panel.get_attribute("data-updates") or 0) > before
+    assert _field(page, "csv_text").locator(".error").is_hidden()
+    # line 2 as the header: the pickers' columns are not there, so the picker says so
+    panel.get_by_label("Header is on line").fill("2")
+    panel.get_by_label("Header is on line").blur()
+    picker_error = _field(page, "csv_diameter_column").locator(".error")
+    picker_error.filter(has_text="No column named").wait_for(state="visible")
+    summary = _field(page, "csv_text").locator(".table-summary").inner_text()
+    assert "Header on line 2" in summary
+    # back to "find it": valid again
+    panel.get_by_label("Header is on line").fill("0")
+    panel.get_by_label("Header is on line").blur()
+    page.wait_for_function(
+        "() => document.getElementById('panel-deposition').dataset.state === 'ok'"
+    )
+    assert picker_error.is_hidden()
 
 
 # --- exports ------------------------------------------------------------------------------------
