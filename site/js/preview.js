@@ -30,7 +30,11 @@ export function tableSummary(table) {
   } else {
     parts.push("No header row: columns are numbered.");
   }
-  parts.push(`${plural(table.rows, "data row")}, lines ${table.first_line}–${table.last_line}.`);
+  if (table.examined_lines) {
+    parts.push(`The first ${plural(table.examined_lines, "line")} of ${table.total_lines.toLocaleString("en")} were examined here (the calculation reads them all): ${plural(table.rows, "data row")} from line ${table.first_line}.`);
+  } else {
+    parts.push(`${plural(table.rows, "data row")}, lines ${table.first_line}–${table.last_line}.`);
+  }
   for (const gap of table.gaps || []) {
     const lines = gap.lines.slice(0, 5).join(", ") + (gap.count > 5 ? ", …" : "");
     parts.push(`Empty cells in column ${gap.number} ${quoted(gap.name)}: ${plural(gap.count, "row")} (line ${lines}).`);

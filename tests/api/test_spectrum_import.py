@@ -191,3 +191,12 @@ def test_description_refusals_name_the_input_and_never_raise(purpose, text, line
         return
     assert got["ok"] is False and got["message"]
     assert got["field"] == field
+
+
+def test_a_long_file_is_described_from_its_first_lines_and_says_so():
+    rows = "".join(f"{10 + i * 0.001:.3f};{i % 97}\n" for i in range(5000))
+    got = json.loads(describe_file_json("spectrum", "Dp [nm];N [1/cm3]\n" + rows))
+    table = got["table"]
+    assert (table["examined_lines"], table["total_lines"]) == (2000, 5001)
+    assert (table["rows"], table["last_line"]) == (1999, 2000)
+    assert got["pickers"]["csv_diameter_column"]["suggest"] == "Dp [nm]"

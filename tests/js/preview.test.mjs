@@ -59,3 +59,8 @@ test("a column number from a link becomes that column's option, by its number no
   assert.equal(pickValue("", PICKER, false), "N [1/cm³]");
   assert.equal(pickValue("7", null, false), "7");
 });
+
+test("a long file: the summary says how many of its lines were examined", () => {
+  const s = tableSummary({ ...TABLE, examined_lines: 2000, total_lines: 100001, rows: 1999, first_line: 2 });
+  assert.match(s, /The first 2,000 lines of 100,001 were examined here \(the calculation reads them all\): 1,999 data rows from line 2\./);
+});

@@ -250,6 +250,18 @@ def _suggest(table: tables.Table) -> tuple[int | None, int | None]:
     return d, c
 
 
+DESCRIBE_LINES = 2000
+"""Lines of a longer file that its description for the page examines."""
+
+
+def _nth_line_end(text: str, n: int) -> int:
+    """The position just after the ``n``-th line break of ``text``."""
+    at = -1
+    for _ in range(n):
+        at = text.index("\n", at + 1)
+    return at + 1
+
+
 def describe_spectrum_file(text: Any, header_line: Any = 0) -> dict[str, Any]:
     """What the page shows about a spectrum file before any calculation, and how it fills
     the column pickers and unit choices.
@@ -266,6 +278,8 @@ def describe_spectrum_file(text: Any, header_line: Any = 0) -> dict[str, Any]:
     dict
         ``{"ok": true, "table": <tables.describe_table reply>, "pickers": {field: {"options":
         [{"value", "label"}], "suggest": value or null, "fills": {value: {field: choice}}}}}``
+        (for a file of more than :data:`DESCRIBE_LINES` lines, only those are examined and the
+        table says so: ``examined_lines``, ``total_lines``)
         for ``csv_diameter_column`` and ``csv_concentration_column`` (an option's value is
         the header as written when it names one column, else the column number; ``fills``
         are the unit and concentration-type choices its header states); or ``{"ok": false,
@@ -275,6 +289,12 @@ def describe_spectrum_file(text: Any, header_line: Any = 0) -> dict[str, Any]:
         line = int(header_line or 0)
     except (TypeError, ValueError):
         line = 0
+    total = None
+    if isinstance(text, str) and text.count("\n", 0, 4 * 1024 * 1024) >= DESCRIBE_LINES:
+        # a long file: its first lines show the layout and columns quickly; the calculation
+        # reads every line
+        total = text.count("\n") + (not text.endswith("\n"))
+        text = text[: _nth_line_end(text, DESCRIBE_LINES)]
     try:
         table = tables.read_table(text, max(line, -1))
     except tables.TableError as exc:
@@ -306,9 +326,13 @@ def describe_spectrum_file(text: Any, header_line: Any = 0) -> dict[str, Any]:
         if fill:
             c_fills[value] = fill
     d, c = _suggest(table)
+    described = tables.describe_table(table)
+    if total is not None:
+        described["examined_lines"] = DESCRIBE_LINES
+        described["total_lines"] = total
     return {
         "ok": True,
-        "table": tables.describe_table(table),
+        "table": described,
         "pickers": {
             "csv_diameter_column": {
                 "options": options,

@@ -334,7 +334,8 @@ def csv_cases() -> list[FileCase]:
         FileCase("png-image", "picture.csv", b"\x89PNG\r\n\x1a\n" + bytes(500), "error"),
         FileCase("twenty-megabytes", "huge.csv", b"", "refused", size=20 * 1024 * 1024),
         FileCase("pipe-delimiter", "pipes.csv", u("d|n\n10|100\n20|200\n"), "error"),
-        FileCase("space-delimiter", "spaces.csv", u("d n\n10 100\n20 200\n"), "error"),
+        # columns separated by blanks (aligned columns) are read
+        FileCase("space-delimiter", "spaces.csv", u("d n\n10 100\n20 200\n"), "ok"),
         FileCase("byte-order-mark", "bom.csv", codecs.BOM_UTF8 + u(GOOD_CSV), "ok"),
         FileCase(
             "decimal-commas", "commas.csv", u("d;n\n10,5;100,25\n20,5;200,5\n40,5;50\n"), "ok"
