@@ -145,7 +145,7 @@ class Session:
         self.page.evaluate(
             "([p, n, t]) => { window.__dd.last[p] = null;"
             " window.__dd.wait(p, n, t).then(r => { window.__dd.last[p] = r; }); }",
-            [pid, before, 3000],
+            [pid, before, SLOW_MS],  # a hang check: a 20 000-row file takes seconds under load
         )
         self.page.wait_for_function("pid => window.__dd.last[pid]", arg=pid)
         out = self.page.evaluate("pid => window.__dd.last[pid]", pid)
