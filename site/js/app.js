@@ -14,9 +14,10 @@ import { setUnitTable } from "./units.js";
 import * as motion from "./panels/motion.js";
 import * as deposition from "./panels/deposition.js";
 import * as sampling from "./panels/sampling.js";
+import * as shift from "./panels/shift.js";
 import { mountSections } from "./panels/burden.js";
 
-export const PANELS = [motion, deposition, sampling];
+export const PANELS = [motion, deposition, sampling, shift];
 // sections shown with the deposition tab, with their own inputs in links and files
 const SECTIONS = [{ id: "burden", kind: "burden" }, { id: "ranges", kind: "uncertainty" }];
 // an inputs file holds at most two imported spectra at their own limit (5 MB each) and the rest
@@ -305,6 +306,8 @@ async function start() {
   setUnitTable(forms.units);
   document.getElementById("app-version").textContent = forms.version;
   setToolVersion(forms.version);
+  // a panel whose calculation this build's engine does not describe is left out
+  PANELS.splice(0, PANELS.length, ...PANELS.filter((p) => forms.calculations[p.kind || p.id]));
   const tabs = document.getElementById("panel-tabs");
   const panels = document.getElementById("panels");
   for (const p of PANELS) {
@@ -320,7 +323,7 @@ async function start() {
     tabs.append(tab);
     const section = el("section", { id: `panel-${p.id}`, role: "tabpanel", "aria-labelledby": `tab-${p.id}`, class: "panel" });
     panels.append(section);
-    const controller = p.mount(section, { engine, description: forms.calculations[p.kind || p.id] });
+    const controller = p.mount(section, { engine, description: forms.calculations[p.kind || p.id], forms });
     controller.onChange(() => writeState());
     controllers.set(p.id, controller);
   }

@@ -57,16 +57,17 @@ function scaleOptions(axis) {
 /**
  * Create a chart on `canvas`. `axes` = {x: {title, type, tick, readout}, y: {...}}; datasets are
  * given later through setDatasets(), axes changed later through setAxes(): a chart is created
- * once per canvas and updated in place. Returns the Chart.js instance.
+ * once per canvas and updated in place; `plugins` are drawn with this chart only. Returns the
+ * Chart.js instance.
  */
-export function createChart(canvas, axes, { legendLabel, readout, type = "line" } = {}) {
+export function createChart(canvas, axes, { legendLabel, readout, type = "line", plugins = [] } = {}) {
   const Chart = window.Chart;
   Chart.defaults.font.family = cssVar("--font-body") || "system-ui, sans-serif";
   const scales = {};
   for (const [key, axis] of Object.entries(axes)) scales[key] = scaleOptions(axis);
   const chart = new Chart(canvas, {
     type,
-    plugins: [backgroundPlugin],
+    plugins: [backgroundPlugin, ...plugins],
     data: { datasets: [] },
     options: {
       animation: false,

@@ -1,0 +1,250 @@
+// Panel "shift": a logged shift from instrument files to the exposure and dose of each task.
+// The files are read by the core's decoder and parsed by the engine; the page shows the series
+// as a chart with the periods as bands (drag their edges, or type times in the periods table),
+// the per-task table, the shift summary with its 8-h TWA, and the dose per region stacked by
+// task. Presentation only: every number and message comes from driftdose.api ("shift").
+import { CalcPanel } from "../panel.js";
+import { el } from "../forms.js";
+import { chartFigure } from "../charts.js";
+import { createTimeChart } from "../timechart.js";
+import { overlaps, spans } from "../periods.js";
+import { periodTable } from "../periodtable.js";
+import { importBlock } from "../shiftimport.js";
+import { doseView, shiftSummary, taskTable } from "./shiftresults.js";
+
+export const id = "shift";
+export const kind = "shift";
+export const title = "Shift from logged data";
+
+// inputs drawn by this panel itself rather than by the generic form
+const NEAR = { text: "series_text", file: "series_file", header: "series_header_line", time: "time_column", date: "date_column", columns: "quantity_columns" };
+const FAR = {
+  text: "background_text", file: "background_file", header: "background_header_line", time: "background_time_column",
+  date: "background_date_column", columns: "background_quantity_columns",
+};
+const OWN = new Set([...Object.values(NEAR), ...Object.values(FAR), "periods"]);
+
+export function mount(root, { engine, description, forms }) {
+  const all = description.fields;
+  const byName = Object.fromEntries(all.map((f) => [f.name, f]));
+  const generic = all.filter((f) => !OWN.has(f.name));
+  const deposition = forms?.calculations?.deposition?.fields || [];
+  const fallback = {
+    activity: deposition.find((f) => f.name === "activity")?.choices,
+    route: deposition.find((f) => f.name === "route")?.choices,
+  };
+  let lastReply = null;
+  let demo = null; // the generated demo shift, once asked for
+  let seriesInfo = { start: "", total: 0 };
+
+  const panel = new CalcPanel(root, {
+    id, kind: "shift", title: description.title || "Shift exposure and dose from logged data",
+    intro: "Import the file a direct-reading instrument logged over a shift (and, if you have one, a far-field or background monitor's file), mark the tasks, breaks and background periods, and read each task's exposure, the shift's 8-hour time-weighted average and the dose deposited in each region of the respiratory tract.",
+    legend: "Choices",
+    engine, description: { ...description, fields: generic },
+    render: (reply) => render(reply),
+  });
+  panel.demoId = "";
+
+  // --- demo ------------------------------------------------------------------------------
+  const demoBox = el("div", { class: "demos", role: "group", "aria-label": "Invented demo shift" });
+  demoBox.append(el("p", { class: "help" }, "Try an invented demo shift (generated, not a measurement):"));
+  const demoButton = el("button", { type: "button", class: "secondary" }, "Invented demo: a workshop shift (three tasks, breaks, background)");
+  demoBox.append(demoButton);
+  const demoNote = el("p", { class: "demo-note", role: "status", hidden: "" });
+  panel.output.prepend(demoNote);
+
+  // --- files -----------------------------------------------------------------------------
+  const filesBox = el("div", { class: "shift-files" });
+  panel.fieldsBox.before(demoBox, filesBox);
+  const near = importBlock(filesBox, {
+    names: NEAR, fields: byName, title: "Logged file (near field)",
+    intro: "The instrument's export: notes may stand above the header row; units are read from the header where written.",
+    onFile: () => fileChanged(),
+  });
+  const farDetails = el("details", { class: "import-more" });
+  farDetails.append(el("summary", {}, "Second file: far field or background monitor (optional)"));
+  filesBox.append(farDetails);
+  const far = importBlock(farDetails, {
+    names: FAR, fields: byName, title: "Background file",
+    intro: "Aligned with the first file by time; used when the background method is the concurrent far field.",
+    onFile: () => fileChanged(),
+  });
+
+  // --- chart and periods -----------------------------------------------------------------
+  const periodsBox = el("section", { class: "shift-periods", "aria-labelledby": "shift-periods-title" });
+  periodsBox.append(el("h3", { id: "shift-periods-title" }, "Series and periods"));
+  panel.fieldsBox.after(periodsBox);
+  const logToggle = el("input", { type: "checkbox", id: "shift-log-y" });
+  const chartControls = el("div", { class: "view-controls" });
+  chartControls.append(logToggle, el("label", { for: "shift-log-y" }, "Logarithmic concentration axis"));
+  const seriesFigure = chartFigure("shift-series",
+    "Logged concentration against clock time (thinned for drawing: each stretch keeps its lowest and highest reading, so peaks stay). Bands: tasks (solid edges), breaks (dashed edges), background periods (grey); hatching marks overlapping periods. Drag a band's edge to move it, or drag the band to move it whole.",
+    "Save series chart image", "drift-dose-shift-series.png", () => timeChart?.chart);
+  const chartEmpty = el("p", { class: "help chart-empty" }, "The chart appears once a file is read.");
+  periodsBox.append(chartControls, chartEmpty, seriesFigure.figure);
+  let timeChart = null;
+  const table = periodTable(periodsBox, byName.periods || { name: "periods", label: "Periods" }, {
+    fallback, getStart: () => seriesInfo.start, getTotal: () => seriesInfo.total,
+  });
+
+  function ensureChart() {
+    if (timeChart) return timeChart;
+    timeChart = createTimeChart(seriesFigure.canvas, {
+      onDrag: (i, span) => table.setSpan(i, span),
+      onCommit: (i, span) => {
+        table.setSpan(i, span);
+        table.changed();
+      },
+    });
+    return timeChart;
+  }
+
+  function drawBands() {
+    if (!timeChart || !seriesInfo.start) return;
+    const list = table.get();
+    timeChart.setBands(spans(list, seriesInfo.start), overlaps(list, seriesInfo.start));
+  }
+
+  logToggle.addEventListener("change", () => timeChart?.setLog(logToggle.checked));
+
+  // --- the form's handles ----------------------------------------------------------------
+  for (const block of [near, far]) {
+    for (const [name, handle] of block.handles) if (byName[name]) panel.fields.handles.set(name, handle);
+  }
+  panel.fields.handles.set("periods", table);
+  for (const [name, handle] of panel.fields.handles) {
+    if (OWN.has(name) && handle.listen) handle.listen(() => {
+      if (name === "periods") drawBands();
+      panel.schedule();
+    });
+  }
+
+  // errors: "periods.2.end" in its row; "quantity_columns.0.column" by the column list
+  const baseShow = panel.fields.showErrors.bind(panel.fields);
+  panel.fields.showErrors = (errors) => {
+    const list = errors || [];
+    const mine = list.filter((e) => /^periods[.[]/.test(e.field || ""));
+    const rest = list.filter((e) => !mine.includes(e)).map((e) => {
+      const base = String(e.field || "").split(/[.[]/)[0];
+      return !panel.fields.handles.has(e.field) && panel.fields.handles.has(base) ? { ...e, field: base } : e;
+    });
+    const stray = table.showPartErrors(mine);
+    return [...baseShow(rest), ...stray];
+  };
+
+  function fileChanged() {
+    // the invented demo stays marked while its file is in use
+    const s = near.source();
+    if (!s || s.from !== "generated") clearDemo();
+  }
+
+  function clearDemo() {
+    panel.demoLabel = "";
+    panel.demoId = "";
+    demoNote.hidden = true;
+  }
+
+  async function loadDemo(keep = null) {
+    demoButton.disabled = true;
+    try {
+      demo = demo || (await engine.shiftDemo());
+    } finally {
+      demoButton.disabled = false;
+    }
+    if (!demo || !demo.ok) return;
+    const values = {
+      ...(demo.inputs || {}),
+      periods: demo.periods,
+      ...(keep || {}),
+    };
+    near.handles.get(NEAR.text).set(demo.series.text, demo.series.name);
+    if (demo.background && far.handles.get(FAR.text)) far.handles.get(FAR.text).set(demo.background.text, demo.background.name);
+    panel.demoLabel = demo.label;
+    panel.demoId = demo.id;
+    demoNote.textContent = `Showing: ${demo.label}. ${demo.note}`;
+    demoNote.hidden = false;
+    const rest = { ...values };
+    for (const name of [NEAR.text, FAR.text, "demo"]) delete rest[name];
+    panel.fields.setValues(rest);
+    table.check();
+    panel.schedule();
+  }
+  demoButton.addEventListener("click", () => loadDemo());
+
+  // links and saved inputs: the demo travels as its id (its files are generated again)
+  const baseGet = panel.getState.bind(panel);
+  panel.getState = () => {
+    const values = baseGet();
+    if (panel.demoId) {
+      delete values[NEAR.text];
+      delete values[FAR.text];
+      values.demo = panel.demoId;
+    }
+    return values;
+  };
+  panel.setState = (values) => {
+    const v = { ...values };
+    if (v.demo === "shift_workshop" || (typeof v.demo === "string" && v.demo && !v[NEAR.text])) {
+      const keep = { ...v };
+      delete keep.demo;
+      loadDemo(keep);
+      return;
+    }
+    clearDemo();
+    delete v.demo;
+    for (const [name, handle] of panel.fields.handles) {
+      if (!Object.hasOwn(v, name)) continue;
+      if (name === NEAR.text || name === FAR.text) handle.set(typeof v[name] === "string" ? v[name] : null, "file text from the link or inputs file");
+    }
+    delete v[NEAR.text];
+    delete v[FAR.text];
+    panel.fields.setValues(v);
+    table.check();
+    panel.schedule();
+  };
+
+  panel.importedFiles = () => [near, far].map((b) => b.source()).filter(Boolean);
+  panel.describeInputs = describeInputs;
+
+  function describeInputs(inputs) {
+    const rows = CalcPanel.prototype.describeInputs.call(panel, inputs);
+    const cols = (list) => (Array.isArray(list) ? list.map((c) => `${c.column} (${c.quantity})`).join(", ") : "");
+    const extra = [
+      ["Time column", inputs?.[NEAR.time] || "found by the engine"],
+      ["Columns summarised", cols(inputs?.[NEAR.columns])],
+      ["Background file columns", cols(inputs?.[FAR.columns])],
+    ];
+    for (const [label, value] of extra) if (value) rows.push({ label, value: String(value), unit: "" });
+    return rows;
+  }
+
+  // --- results ---------------------------------------------------------------------------
+  const summaryBox = el("div", { class: "shift-summary" });
+  const tasksBox = el("div", { class: "table-box", "data-part": "tasks" });
+  const dose = doseView();
+  panel.body.append(summaryBox, tasksBox, dose.box);
+
+  function render(reply) {
+    lastReply = reply;
+    const r = reply.results || {};
+    near.showImport(r.import, r.preview);
+    if (r.background_import) far.showImport(r.background_import, r.background_preview);
+    const series = reply.curves?.series;
+    if (series && Array.isArray(series.t_s) && series.t_s.length) {
+      seriesInfo = { start: series.start, total: series.t_s[series.t_s.length - 1] - series.t_s[0] };
+      chartEmpty.hidden = true;
+      ensureChart().setSeries(series, reply.curves.background || null);
+      timeChart.setLog(logToggle.checked);
+      table.check();
+      drawBands();
+    }
+    summaryBox.replaceChildren(...shiftSummary(r));
+    tasksBox.replaceChildren(taskTable(r.tasks, r.shift));
+    dose.show(r.dose);
+  }
+
+  // before any file: say what to do, and leave the engine's "required" message by the file
+  panel.fieldsBox.prepend();
+  return Object.assign(panel, { lastReplyOf: () => lastReply });
+}
