@@ -3,9 +3,10 @@
 // it directly); the engine validates every period again and has the last word.
 //
 // Times are local wall-clock times without a zone, as instruments log them. A time is either
-// "HH:MM" / "HH:MM:SS" (on the shift's first date, the date of the series start) or an ISO local
-// date-time "YYYY-MM-DDTHH:MM[:SS]" (a space may stand for the T). Inside the page a time is a
-// number of seconds from the series start, computed on a naive (zone-free) calendar.
+// "HH:MM" / "HH:MM:SS" (on the date of the series start; a clock time before the first reading
+// is the next day's, as the engine reads it, so a night shift can be typed as clock times) or an
+// ISO local date-time "YYYY-MM-DDTHH:MM[:SS]" (a space may stand for the T). Inside the page a
+// time is a number of seconds from the series start, on a naive (zone-free) calendar.
 
 export const KINDS = Object.freeze(["task", "background", "break"]);
 const DAY = 86_400;
@@ -73,7 +74,8 @@ function startOf(startIso) {
 
 /**
  * A typed time as seconds from the series start: {ok: true, seconds} or {ok: false, error}.
- * "HH:MM[:SS]" counts on the date of `startIso`; a date-time counts as written.
+ * "HH:MM[:SS]" counts on the date of `startIso`, or on the next day when it is earlier than
+ * the start; a date-time counts as written.
  */
 export function parseTime(text, startIso) {
   const raw = String(text ?? "").trim();
@@ -82,7 +84,8 @@ export function parseTime(text, startIso) {
   const clock = parseClock(raw);
   if (clock !== null) {
     if (origin === null) return { ok: true, seconds: null, clock };
-    return { ok: true, seconds: Math.floor(origin / DAY) * DAY + clock - origin };
+    const seconds = Math.floor(origin / DAY) * DAY + clock - origin;
+    return { ok: true, seconds: seconds < 0 ? seconds + DAY : seconds };
   }
   const absolute = isoSeconds(raw);
   if (absolute !== null) {
@@ -93,14 +96,18 @@ export function parseTime(text, startIso) {
 }
 
 /**
- * Seconds from the series start as the text a person types: "HH:MM[:SS]" on the first date,
- * otherwise the ISO local date-time.
+ * Seconds from the series start as the text a person types: "HH:MM[:SS]" where the clock time
+ * reads back to the same moment (the first date from the start on, the next day before the
+ * start's clock time), otherwise the ISO local date-time.
  */
 export function formatTime(seconds, startIso) {
   const origin = startOf(startIso);
   if (origin === null || !Number.isFinite(seconds)) return "";
-  const at = origin + Math.round(seconds);
-  if (Math.floor(at / DAY) === Math.floor(origin / DAY)) return clockText(at % DAY);
+  const s = Math.round(seconds);
+  const at = origin + s;
+  const day = Math.floor(at / DAY) - Math.floor(origin / DAY);
+  const clock = at - Math.floor(at / DAY) * DAY;
+  if ((day === 0 && s >= 0) || (day === 1 && clock < origin - Math.floor(origin / DAY) * DAY)) return clockText(clock);
   return isoText(at).replace(/:00$/, "");
 }
 
@@ -187,19 +194,17 @@ export function order(periods, startIso) {
 }
 
 /**
- * Overlaps between periods that cannot share time: two tasks, a task and a break, two breaks,
- * or two background periods. A background period may lie inside a task (it marks the
- * concurrent far field there). Returns [{a, b, start, end}] (indices, overlap in seconds).
+ * Overlaps between periods: no two periods may share time, whatever their kinds (as the engine
+ * rules: a moment is a task, a break or background, never two). Returns [{a, b, start, end}]
+ * (indices in the order entered, the shared time in seconds from the series start).
  */
 export function overlaps(periods, startIso) {
   const list = spans(periods, startIso).filter((s) => !s.error && s.start !== null && s.end !== null);
-  const clash = (k1, k2) => (k1 === "background") === (k2 === "background");
   const out = [];
   for (let i = 0; i < list.length; i++) {
     for (let j = i + 1; j < list.length; j++) {
       const p = list[i];
       const q = list[j];
-      if (!clash(p.kind, q.kind)) continue;
       const start = Math.max(p.start, q.start);
       const end = Math.min(p.end, q.end);
       if (end > start) out.push({ a: p.index, b: q.index, start, end });

@@ -3,7 +3,7 @@
 // first rows as the engine read them, and the column pickers (time, optional date, and the
 // columns to summarise with what each holds). Each control is a field handle of the panel's
 // form (get, set, showError, listen), so links, saved inputs and errors reach it by its name.
-import { el } from "./forms.js";
+import { el, renderField } from "./forms.js";
 import { decodeFile } from "./files.js";
 import { sha256Hex } from "./digest.js";
 
@@ -14,6 +14,25 @@ const QUANTITIES = [
   ["channel", "Size channel"],
 ];
 const PREVIEW_ROWS = 8;
+const clock = (iso) => String(iso || "").replace("T", " ");
+
+/** What the engine read, in words: readings, interval, span, gaps. */
+export function importSummary(info) {
+  const parts = [];
+  if (Number.isFinite(info.rows)) parts.push(`${info.rows.toLocaleString("en")} readings`);
+  if (Number.isFinite(info.interval_s)) parts.push(`every ${info.interval_s} s`);
+  if (info.start && info.end) parts.push(`from ${clock(info.start)} to ${clock(info.end)}`);
+  const gaps = Array.isArray(info.gaps) ? info.gaps : [];
+  const count = Number.isFinite(info.gap_count) ? info.gap_count : gaps.length;
+  let text = `${parts.join(" ")}.`;
+  if (count) {
+    const shown = gaps.slice(0, 3).map((g) => `${clock(g.start)} (${g.seconds} s)`).join(", ");
+    text += ` ${count} ${count === 1 ? "gap" : "gaps"} in the readings: ${shown}${count > 3 ? ", …" : ""}.`;
+  } else {
+    text += " No gaps.";
+  }
+  return text;
+}
 let counter = 0;
 
 function shell(container, name, label, helpText) {
@@ -34,11 +53,14 @@ function shell(container, name, label, helpText) {
 }
 
 /**
- * Build one import block into `container`. `names`: {text, file, header, time, date, columns}
- * (field names; missing ones are left out), `fields`: the field descriptions by name, `title`:
- * the legend. Returns {handles: Map(name -> handle), showImport(importInfo, preview)}.
+ * Build one import block into `container`. `names`: {text, file, header, time, date, columns,
+ * column} (field names; missing ones are left out: `columns` is a list of value columns with
+ * what each holds, `column` a single column of the same quantity), `extra`: more field names
+ * drawn by the form's own renderer (time format, start time, unit), `fields`: the field
+ * descriptions by name, `title`: the legend. Returns {handles: Map(name -> handle),
+ * showImport(importInfo, preview), source()}.
  */
-export function importBlock(container, { names, fields, title, intro, limit, onFile }) {
+export function importBlock(container, { names, extra = [], fields, title, intro, limit, onFile }) {
   const box = el("fieldset", { class: "import-block" });
   box.append(el("legend", {}, title));
   if (intro) box.append(el("p", { class: "help" }, intro));
@@ -136,8 +158,17 @@ export function importBlock(container, { names, fields, title, intro, limit, onF
       showError: s.showError, listen(cb) { listeners.push(cb); },
     });
   }
+  for (const name of extra) {
+    if (!fields[name]) continue;
+    const h = renderField(box, fields[name], "shift");
+    h.input.addEventListener("input", notify);
+    h.input.addEventListener("change", notify);
+    h.listen = (cb) => listeners.push(cb);
+    handles.set(name, h);
+  }
+  const summary = el("p", { class: "import-summary", hidden: "" });
   const previewBox = el("div", { class: "table-box import-preview", hidden: "" });
-  box.append(previewBox);
+  box.append(summary, previewBox);
   const columnsBox = el("div", { class: "column-pickers" });
   box.append(columnsBox);
 
@@ -150,10 +181,12 @@ export function importBlock(container, { names, fields, title, intro, limit, onF
     s.wrap.append(sel, s.help, s.error);
     let value = typeof f.default === "string" ? f.default : "";
     const fill = () => {
-      const options = [[optional ? "" : "", optional ? "(none)" : "(found by the engine)"], ...detected.map((c) => [c.name, c.unit ? `${c.name}` : c.name])];
-      if (value && !options.some(([v]) => v === value)) options.push([value, value]);
+      // a column given by its number ("1") shows as that column of the file
+      const byNumber = /^\d+$/.test(value) && detected[Number(value) - 1] ? detected[Number(value) - 1].name : null;
+      const options = [...(optional ? [["", "(none)"]] : []), ...detected.map((c, i) => [c.name, `${c.name}${c.unit ? ` (${c.unit})` : ""} — column ${i + 1}`])];
+      if (!byNumber && (value || !optional) && !options.some(([v]) => v === value)) options.push([value, value ? `${value} (as given)` : "(first column)"]);
       sel.replaceChildren(...options.map(([v, l]) => el("option", { value: v }, l)));
-      sel.value = value;
+      sel.value = byNumber || value;
     };
     sel.addEventListener("change", () => {
       value = sel.value;
@@ -169,6 +202,7 @@ export function importBlock(container, { names, fields, title, intro, limit, onF
   };
   pick(names.time, "Time column", false);
   pick(names.date, "Date column (when date and time are apart)", true);
+  pick(names.column, "Column", false);
 
   let chosen = []; // [{column, quantity, unit}]
   if (names.columns && fields[names.columns]) {
@@ -186,7 +220,7 @@ export function importBlock(container, { names, fields, title, intro, limit, onF
       if (!names_.length) list.append(el("p", { class: "help" }, "The columns appear here once a file is read."));
       names_.forEach((name, i) => {
         const info = detected.find((c) => c.name === name) || {};
-        const mine = chosen.find((c) => c.column === name);
+        const mine = chosen.find((c) => c.column === name || (detected.length && c.column === String(i + 1)));
         const row = el("div", { class: "column-item" });
         const idBase = `${s.id}-${i}`;
         const check = el("input", { type: "checkbox", id: `${idBase}-use` });
@@ -196,19 +230,31 @@ export function importBlock(container, { names, fields, title, intro, limit, onF
         for (const [v, l] of QUANTITIES) what.append(el("option", { value: v }, l));
         what.value = mine?.quantity || info.quantity || "number";
         what.disabled = !check.checked;
+        // a size channel carries its diameter (nm)
+        const diameter = el("input", { type: "text", inputmode: "decimal", id: `${idBase}-d`, size: "5", autocomplete: "off", "aria-label": `Diameter of ${name} (nm)` });
+        const dBox = el("span", { class: "channel-diameter" });
+        dBox.append(diameter, el("span", { class: "unit" }, "nm"));
+        const d0 = mine?.diameter;
+        diameter.value = d0 && typeof d0 === "object" ? String(d0.value ?? "") : d0 === undefined || d0 === null ? "" : String(d0);
+        const showD = () => { dBox.hidden = !(check.checked && what.value === "channel"); };
+        showD();
         const update = () => {
           what.disabled = !check.checked;
-          const others = chosen.filter((c) => c.column !== name);
-          chosen = check.checked
-            ? [...others, { column: name, quantity: what.value, unit: mine?.unit || info.unit || "" }]
-            : others;
+          showD();
+          const others = chosen.filter((c) => c !== mine && c.column !== name);
+          const rec = { column: name, quantity: what.value, unit: mine && mine.quantity === what.value ? mine.unit || "" : "" };
+          if (what.value === "channel") rec.diameter = { value: diameter.value, unit: "nm" };
+          chosen = check.checked ? [...others, rec] : others;
           // keep the file's column order
           chosen.sort((a, b) => names_.indexOf(a.column) - names_.indexOf(b.column));
           notify();
+          fill();
+          list.querySelector(`#${CSS.escape(document.activeElement?.id || "none")}`)?.focus();
         };
         check.addEventListener("change", update);
         what.addEventListener("change", update);
-        row.append(check, label, what);
+        diameter.addEventListener("change", update);
+        row.append(check, label, what, dBox);
         list.append(row);
       });
     };
@@ -222,7 +268,7 @@ export function importBlock(container, { names, fields, title, intro, limit, onF
           try { items = JSON.parse(raw); } catch { items = []; }
         }
         chosen = Array.isArray(items) ? items.filter((c) => c && typeof c === "object" && typeof c.column === "string")
-          .map((c) => ({ column: c.column, quantity: String(c.quantity || "number"), unit: String(c.unit ?? "") })) : [];
+          .map((c) => ({ column: c.column, quantity: String(c.quantity || "number"), unit: String(c.unit ?? ""), ...(c.diameter !== undefined ? { diameter: c.diameter } : {}) })) : [];
         fill();
       },
       showError: s.showError, listen(cb) { listeners.push(cb); },
@@ -235,13 +281,20 @@ export function importBlock(container, { names, fields, title, intro, limit, onF
       detected = info.columns.map((c) => (typeof c === "string" ? { name: c, unit: "" } : { name: String(c.name), unit: String(c.unit || ""), quantity: c.quantity }));
       for (const h of handles.values()) if (h.fill) h.fill();
     }
+    summary.textContent = info ? importSummary(info) : "";
+    summary.hidden = !info;
+    const header = preview && Array.isArray(preview.header) ? preview.header : null;
+    if (preview && !Array.isArray(preview) && Array.isArray(preview.rows)) preview = preview.rows;
     if (Array.isArray(preview) && preview.length) {
       const table = el("table", { class: "results preview-table" });
       table.append(el("caption", {}, info && info.header_line
-        ? `First rows as read (header on line ${info.header_line}${info.delimiter ? `, ${info.delimiter}` : ""}${info.decimal ? `, decimal ${info.decimal}` : ""})`
+        ? `First rows as read (header on line ${info.header_line}${info.delimiter ? `, ${info.delimiter} separated` : ""}${info.decimal ? `, decimal mark “${info.decimal}”` : ""})`
         : "First rows as read"));
       const headRow = el("tr");
-      for (const c of detected) headRow.append(el("th", { scope: "col" }, c.unit ? `${c.name} (${c.unit})` : c.name));
+      (header || detected.map((c) => c.name)).forEach((name, i) => {
+        const unit = detected[i]?.unit;
+        headRow.append(el("th", { scope: "col" }, unit ? `${name} (${unit})` : String(name)));
+      });
       const thead = el("thead");
       thead.append(headRow);
       const tbody = el("tbody");

@@ -235,9 +235,10 @@ export function createTimeChart(canvas, { onDrag, onCommit } = {}) {
         const data = new Array(s.t_s.length);
         for (let k = 0; k < s.t_s.length; k++) data[k] = { x: s.t_s[k], y: one.y[k] };
         const colour = seriesColour(sets.length);
+        const used = one.key === "background"; // the background the engine used, per reading
         sets.push({
-          label: dashed ? `${one.label} (background file)` : one.label, data, borderColor: colour, backgroundColor: colour,
-          pointRadius: 0, borderWidth: dashed ? 1 : 1.2, borderDash: dashed ? [5, 3] : [], spanGaps: false, yAxisID: "y",
+          label: dashed ? `${one.label} (far-field file)` : one.label, data, borderColor: used ? cssVar("--ink") : colour, backgroundColor: colour,
+          pointRadius: 0, borderWidth: dashed || used ? 1.5 : 1.2, borderDash: dashed ? [5, 3] : used ? [2, 2] : [], spanGaps: false, yAxisID: "y",
         });
         if (i === 0) state.unit = one.unit || "";
       });

@@ -34,15 +34,18 @@ test("ISO local date-times count naive days: leap day and month ends", () => {
   assert.equal(isoText(isoSeconds("2026-12-31T23:59:59") + 1), "2027-01-01T00:00:00");
 });
 
-test("a clock time counts on the first date of the series; a date-time as written", () => {
+test("a clock time counts on the first date of the series, or the next day before its start", () => {
   assert.deepEqual(parseTime("07:30", START), { ok: true, seconds: 1800 });
-  assert.deepEqual(parseTime("06:59:30", START), { ok: true, seconds: -30 });
+  // before 07:00 it is the next morning (a night shift typed as clock times): 24 h less 30 s
+  assert.deepEqual(parseTime("06:59:30", START), { ok: true, seconds: 86_400 - 30 });
+  assert.deepEqual(parseTime("01:00", START), { ok: true, seconds: 18 * 3600 });
   // the next morning of a night shift: 2026-03-11 01:00 is 18 h after 07:00 the day before
   assert.deepEqual(parseTime("2026-03-11 01:00", START), { ok: true, seconds: 18 * 3600 });
   assert.deepEqual(parseTime("2026-03-10T15:00:00", START), { ok: true, seconds: 8 * 3600 });
   // a start with fractional seconds or a zone-free date only
   assert.equal(parseTime("07:00:01", "2026-03-10T07:00:00.250").seconds, 1);
   assert.equal(parseTime("01:00", "2026-03-10").seconds, 3600);
+  assert.equal(parseTime("00:00", "2026-03-10").seconds, 0);
 });
 
 test("unreadable times say what to write; without a start the clock is kept", () => {
@@ -60,9 +63,14 @@ test("formatting is the inverse of reading, on the first date and after midnight
   }
   assert.equal(formatTime(1800, START), "07:30");
   assert.equal(formatTime(1805, START), "07:30:05");
-  assert.equal(formatTime(18 * 3600, START), "2026-03-11T01:00");
-  assert.equal(formatTime(18 * 3600 + 7, START), "2026-03-11T01:00:07");
-  assert.equal(parseTime(formatTime(18 * 3600 + 7, START), START).seconds, 18 * 3600 + 7);
+  // the next morning before 07:00 reads back as a clock time; from 07:00 on it needs the date
+  assert.equal(formatTime(18 * 3600, START), "01:00");
+  assert.equal(formatTime(18 * 3600 + 7, START), "01:00:07");
+  assert.equal(formatTime(24 * 3600, START), "2026-03-11T07:00");
+  assert.equal(formatTime(-60, START), "2026-03-10T06:59");
+  for (const s of [18 * 3600 + 7, 24 * 3600, 30 * 3600 + 1, -60, 50 * 3600]) {
+    assert.equal(parseTime(formatTime(s, START), START).seconds, s, String(s));
+  }
   assert.equal(formatTime(NaN, START), "");
   assert.equal(formatTime(10, "not a date"), "");
 });
@@ -121,17 +129,19 @@ test("ordering by start keeps ties and puts unreadable times last", () => {
   assert.deepEqual(order(periods, START), [2, 3, 0, 1]);
 });
 
-test("overlaps: tasks and breaks exclude each other; background may lie inside a task", () => {
+test("overlaps: no two periods share time, whatever their kinds; abutting is no overlap", () => {
   const periods = [
     { kind: "task", start: "08:00", end: "10:00" },
     { kind: "break", start: "09:30", end: "10:15" },
-    { kind: "background", start: "08:30", end: "08:45" },
-    { kind: "background", start: "08:40", end: "09:00" },
-    { kind: "task", start: "10:15", end: "11:00" }, // abuts the break: no overlap
+    { kind: "background", start: "10:20", end: "10:45" },
+    { kind: "background", start: "10:40", end: "11:00" },
+    { kind: "task", start: "10:15", end: "10:20" }, // abuts the break and the background
+    { kind: "background", start: "08:10", end: "08:20" }, // inside the first task
   ];
   assert.deepEqual(overlaps(periods, START), [
     { a: 0, b: 1, start: 9000, end: 10_800 },
-    { a: 2, b: 3, start: 6000, end: 6300 },
+    { a: 0, b: 5, start: 4200, end: 4800 },
+    { a: 2, b: 3, start: 13_200, end: 13_500 },
   ]);
   assert.deepEqual(overlaps([{ kind: "task", start: "x", end: "08:00" }, { kind: "task", start: "07:00", end: "09:00" }], START), []);
 });

@@ -207,7 +207,8 @@ def demo_shift() -> dict[str, Any]:
         near-field file (one reading a second over 8 h, with metadata lines above the header
         and a 90-s gap) and of the far-field file (every 10 s); ``periods``: the three tasks,
         two breaks and two background periods as page inputs (times as ``HH:MM`` on the
-        file's date, protection factors invented for the demo).
+        file's date, protection factors invented for the demo); ``inputs``: the column and
+        method choices that go with the files (inputs of the ``shift`` calculation).
 
     Examples
     --------
@@ -229,6 +230,22 @@ def demo_shift() -> dict[str, Any]:
         }
         for p in PHASES
     ]
+    inputs = {
+        "series_time_format": "iso",
+        "series_time_column": "Time",
+        "quantity_columns": [
+            {"column": "Number", "quantity": "number", "unit": ""},
+            {"column": "LDSA", "quantity": "ldsa", "unit": ""},
+            {"column": "Mass", "quantity": "mass", "unit": ""},
+        ],
+        "quantity": "Number",
+        "background_time_format": "iso",
+        "background_time_column": "Time",
+        "background_column": "Number",
+        "background_method": "pre_post",
+        "unmeasured_as": "background",
+        "size_source": "modes",
+    }
     return {
         "id": DEMO_ID,
         "label": DEMO_LABEL,
@@ -236,6 +253,7 @@ def demo_shift() -> dict[str, Any]:
         "series": {"name": "invented-demo-shift-near-field.csv", "text": _near_text()},
         "background": {"name": "invented-demo-shift-far-field.csv", "text": _far_text()},
         "periods": periods,
+        "inputs": inputs,
     }
 
 

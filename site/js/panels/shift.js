@@ -10,6 +10,7 @@ import { createTimeChart } from "../timechart.js";
 import { overlaps, spans } from "../periods.js";
 import { periodTable } from "../periodtable.js";
 import { importBlock } from "../shiftimport.js";
+import { benchmarkInput, modesInput, quantityPicker } from "../shiftchoices.js";
 import { doseView, shiftSummary, taskTable } from "./shiftresults.js";
 
 export const id = "shift";
@@ -17,12 +18,28 @@ export const kind = "shift";
 export const title = "Shift from logged data";
 
 // inputs drawn by this panel itself rather than by the generic form
-const NEAR = { text: "series_text", file: "series_file", header: "series_header_line", time: "time_column", date: "date_column", columns: "quantity_columns" };
+const NEAR = {
+  text: "series_text", file: "series_file", header: "series_header_line", time: "series_time_column",
+  date: "series_date_column", columns: "quantity_columns",
+};
+const NEAR_EXTRA = ["series_time_format", "series_start_time"];
 const FAR = {
   text: "background_text", file: "background_file", header: "background_header_line", time: "background_time_column",
-  date: "background_date_column", columns: "background_quantity_columns",
+  date: "background_date_column", column: "background_column",
 };
-const OWN = new Set([...Object.values(NEAR), ...Object.values(FAR), "periods"]);
+const FAR_EXTRA = ["background_time_format", "background_start_time", "background_unit"];
+const OWN = new Set([...Object.values(NEAR), ...NEAR_EXTRA, ...Object.values(FAR), ...FAR_EXTRA, "periods", "quantity", "benchmark", "modes"]);
+// which dose inputs apply to which size source (presentation only; the engine checks)
+const DOSE_RULES = {
+  channel_type: ["channels"],
+  modes: ["modes"],
+  spectrum_text: ["spectrum"], spectrum_diameter_column: ["spectrum"], spectrum_concentration_column: ["spectrum"],
+  spectrum_concentration_type: ["spectrum"], spectrum_diameter_unit: ["spectrum"],
+  scale_column: ["modes", "spectrum"],
+  dose_basis: ["channels", "modes", "spectrum"], particle_density: ["channels", "modes", "spectrum"],
+  density_basis: ["channels", "modes", "spectrum"], shape_factor: ["channels", "modes", "spectrum"],
+  model: ["channels", "modes", "spectrum"],
+};
 
 export function mount(root, { engine, description, forms }) {
   const all = description.fields;
@@ -58,7 +75,7 @@ export function mount(root, { engine, description, forms }) {
   const filesBox = el("div", { class: "shift-files" });
   panel.fieldsBox.before(demoBox, filesBox);
   const near = importBlock(filesBox, {
-    names: NEAR, fields: byName, title: "Logged file (near field)",
+    names: NEAR, extra: NEAR_EXTRA, fields: byName, title: "Logged file (near field)",
     intro: "The instrument's export: notes may stand above the header row; units are read from the header where written.",
     onFile: () => fileChanged(),
   });
@@ -66,7 +83,7 @@ export function mount(root, { engine, description, forms }) {
   farDetails.append(el("summary", {}, "Second file: far field or background monitor (optional)"));
   filesBox.append(farDetails);
   const far = importBlock(farDetails, {
-    names: FAR, fields: byName, title: "Background file",
+    names: FAR, extra: FAR_EXTRA, fields: byName, title: "Background file",
     intro: "Aligned with the first file by time; used when the background method is the concurrent far field.",
     onFile: () => fileChanged(),
   });
@@ -76,8 +93,11 @@ export function mount(root, { engine, description, forms }) {
   periodsBox.append(el("h3", { id: "shift-periods-title" }, "Series and periods"));
   panel.fieldsBox.after(periodsBox);
   const logToggle = el("input", { type: "checkbox", id: "shift-log-y" });
+  const seriesSelect = el("select", { id: "shift-series-shown" });
   const chartControls = el("div", { class: "view-controls" });
-  chartControls.append(logToggle, el("label", { for: "shift-log-y" }, "Logarithmic concentration axis"));
+  const logLabel = el("span", { class: "check" });
+  logLabel.append(logToggle, el("label", { for: "shift-log-y" }, "Logarithmic axis"));
+  chartControls.append(el("label", { for: "shift-series-shown" }, "Show"), seriesSelect, logLabel);
   const seriesFigure = chartFigure("shift-series",
     "Logged concentration against clock time (thinned for drawing: each stretch keeps its lowest and highest reading, so peaks stay). Bands: tasks (solid edges), breaks (dashed edges), background periods (grey); hatching marks overlapping periods. Drag a band's edge to move it, or drag the band to move it whole.",
     "Save series chart image", "drift-dose-shift-series.png", () => timeChart?.chart);
@@ -107,12 +127,62 @@ export function mount(root, { engine, description, forms }) {
   }
 
   logToggle.addEventListener("change", () => timeChart?.setLog(logToggle.checked));
+  seriesSelect.addEventListener("change", () => lastReply && drawSeries(lastReply));
+
+  /** The chosen column with the background used (same unit), and far-field columns in that unit. */
+  function drawSeries(reply) {
+    const series = reply.curves?.series;
+    if (!series || !Array.isArray(series.t_s) || !series.t_s.length) return;
+    const own = (series.series || []).filter((x) => x.key !== "background");
+    const before = seriesSelect.value;
+    seriesSelect.replaceChildren(...own.map((x) => el("option", { value: x.key }, x.label)));
+    seriesSelect.value = own.some((x) => x.key === before) ? before : own[0]?.key || "";
+    const chosen = own.find((x) => x.key === seriesSelect.value) || own[0];
+    const same = (x) => chosen && x.unit === chosen.unit;
+    const shown = { ...series, series: (series.series || []).filter((x) => x === chosen || (x.key === "background" && same(x))) };
+    const farSeries = reply.curves.background;
+    const extra = farSeries && Array.isArray(farSeries.series) ? { ...farSeries, series: farSeries.series.filter(same) } : null;
+    seriesInfo = { start: series.start, total: series.t_s[series.t_s.length - 1] - series.t_s[0] };
+    chartEmpty.hidden = true;
+    ensureChart().setSeries(shown, extra && extra.series.length ? extra : null);
+    timeChart.setLog(logToggle.checked);
+  }
+
+  // --- the choices that follow the chosen columns ----------------------------------------
+  const columnsHandle = near.handles.get(NEAR.columns);
+  const summaryChoices = el("div", { class: "summary-choices" });
+  panel.fieldsBox.querySelector("legend").after(summaryChoices);
+  const quantity = byName.quantity ? quantityPicker(summaryChoices, byName.quantity, () => columnsHandle?.get() || []) : null;
+  const benchmark = byName.benchmark ? benchmarkInput(summaryChoices, byName.benchmark, () => quantity?.quantity() || "number") : null;
+  const modesAt = panel.fields.handles.get("size_source")?.wrap;
+  const modesBox = el("div");
+  if (modesAt) modesAt.after(modesBox);
+  else panel.fieldsBox.append(modesBox);
+  const modes = byName.modes ? modesInput(modesBox, byName.modes) : null;
+  columnsHandle?.listen(() => {
+    quantity?.fill();
+    benchmark?.fill();
+  });
+  quantity?.listen(() => benchmark?.fill());
 
   // --- the form's handles ----------------------------------------------------------------
   for (const block of [near, far]) {
     for (const [name, handle] of block.handles) if (byName[name]) panel.fields.handles.set(name, handle);
   }
   panel.fields.handles.set("periods", table);
+  if (quantity) panel.fields.handles.set("quantity", quantity);
+  if (benchmark) panel.fields.handles.set("benchmark", benchmark);
+  if (modes) panel.fields.handles.set("modes", modes);
+  // dose inputs shown for the size source they serve (declared rules first, where given)
+  const declared = new Set(all.filter((f) => f.applies_when).map((f) => f.name));
+  const rules = {};
+  for (const [name, values] of Object.entries(DOSE_RULES)) if (byName[name] && !declared.has(name)) rules[name] = ["size_source", values];
+  const applyDeclared = panel.fields.showDeclared(all.filter((f) => panel.fields.handles.has(f.name)));
+  const applyRules = panel.fields.showWhen(rules);
+  const applyVisibility = () => {
+    applyDeclared();
+    applyRules();
+  };
   for (const [name, handle] of panel.fields.handles) {
     if (OWN.has(name) && handle.listen) handle.listen(() => {
       if (name === "periods") drawBands();
@@ -167,6 +237,7 @@ export function mount(root, { engine, description, forms }) {
     const rest = { ...values };
     for (const name of [NEAR.text, FAR.text, "demo"]) delete rest[name];
     panel.fields.setValues(rest);
+    applyVisibility();
     table.check();
     panel.schedule();
   }
@@ -200,6 +271,7 @@ export function mount(root, { engine, description, forms }) {
     delete v[NEAR.text];
     delete v[FAR.text];
     panel.fields.setValues(v);
+    applyVisibility();
     table.check();
     panel.schedule();
   };
@@ -230,21 +302,13 @@ export function mount(root, { engine, description, forms }) {
     const r = reply.results || {};
     near.showImport(r.import, r.preview);
     if (r.background_import) far.showImport(r.background_import, r.background_preview);
-    const series = reply.curves?.series;
-    if (series && Array.isArray(series.t_s) && series.t_s.length) {
-      seriesInfo = { start: series.start, total: series.t_s[series.t_s.length - 1] - series.t_s[0] };
-      chartEmpty.hidden = true;
-      ensureChart().setSeries(series, reply.curves.background || null);
-      timeChart.setLog(logToggle.checked);
-      table.check();
-      drawBands();
-    }
+    drawSeries(reply);
+    table.check();
+    drawBands();
     summaryBox.replaceChildren(...shiftSummary(r));
     tasksBox.replaceChildren(taskTable(r.tasks, r.shift));
     dose.show(r.dose);
   }
 
-  // before any file: say what to do, and leave the engine's "required" message by the file
-  panel.fieldsBox.prepend();
   return Object.assign(panel, { lastReplyOf: () => lastReply });
 }

@@ -4,6 +4,7 @@
 import { el } from "../forms.js";
 import { chartFigure, createChart, seriesColour, setDatasets } from "../charts.js";
 import { formatNumber } from "../format.js";
+import { resultsTable } from "../panel.js";
 
 const isObject = (v) => v !== null && typeof v === "object" && !Array.isArray(v);
 /** A reply value: a number, or {value, unit}, or {text}; shown with its unit. */
@@ -17,99 +18,135 @@ function shown(v, unit = "") {
   return String(v);
 }
 
-/** The shift summary: what the 8-h TWA is and how it was reached, in words, then the numbers. */
+const SUMMARY_KEYS = ["twa8h", "twa8h_corrected", "twa_ratio", "shift_mean", "shift_peak15", "shift_max", "coverage", "twa_rule", "background_method"];
+const clock = (iso) => String(iso || "").replace(/^\d{4}-\d{2}-\d{2}T/, "").replace(/:00$/, "");
+
+/** The shift summary: the 8-h TWA and how it was reached, in words, then the numbers. */
 export function shiftSummary(results) {
-  const shift = results?.shift;
-  if (!isObject(shift)) return [];
+  if (!isObject(results) || !isObject(results.twa8h)) return [];
   const out = [];
-  if (shift.words || shift.summary) out.push(el("p", { class: "shift-words" }, String(shift.words || shift.summary)));
-  const table = el("table", { class: "results shift-table" });
-  table.append(el("caption", {}, "Shift summary"));
-  const body = el("tbody");
-  for (const [key, row] of Object.entries(shift)) {
-    if (!isObject(row) || row.label === undefined) continue;
-    const tr = el("tr", { "data-key": key });
-    tr.append(el("th", { scope: "row" }, String(row.label)));
-    if (row.text !== undefined) {
-      tr.append(el("td", { class: "value wrap", colspan: "2" }, String(row.text)));
-    } else {
-      tr.append(el("td", { class: "value" }, formatNumber(row.value)));
-      tr.append(el("td", { class: "unit" }, row.unit === "–" ? "" : String(row.unit || "")));
-    }
-    body.append(tr);
-  }
-  table.append(body);
-  out.push(table);
+  const twa = results.twa8h;
+  const words = [`8-h time-weighted average: ${shown(twa)}`];
+  if (isObject(results.twa8h_corrected) && Number.isFinite(results.twa8h_corrected.value)) words.push(`${shown(results.twa8h_corrected)} with the background taken out`);
+  let text = `${words.join("; ")}.`;
+  if (results.twa_rule?.text) text += ` The ${results.twa_rule.text.replace(/^the /i, "")}.`.replace(/^ The u/, " U");
+  if (results.background_method?.text) text += ` Background: ${results.background_method.text}.`;
+  out.push(el("p", { class: "shift-words", "data-key": "words" }, text.replace(" The unmeasured", " Unmeasured")));
+  out.push(resultsTable(results, "Shift summary", SUMMARY_KEYS.filter((k) => isObject(results[k]))));
   return out;
 }
 
+const percent = (x) => (typeof x === "number" && Number.isFinite(x) ? `${formatNumber(100 * x, 3)} %` : "—");
+const number = (x) => (typeof x === "number" && Number.isFinite(x) ? formatNumber(x) : "—");
+const minutes = (s) => (typeof s === "number" && Number.isFinite(s) ? formatNumber(s / 60, 4) : "—");
+
 /**
- * The per-task table: one row per period. `tasks`: {columns: [{key, label, unit}], rows:
- * [{label, kind, ...values}]} or a list of rows (columns then from the first row's keys).
+ * The per-period table: one row per period in the order entered, then the shift.
+ * `tasks` and `shift`: the reply's tables {label, unit, rows}.
  */
 export function taskTable(tasks, shift) {
+  const unit = tasks?.unit || shift?.unit || "";
+  const columns = [
+    ["kind", "Kind", (r) => String(r.kind || "shift")],
+    ["time", "From – to", (r) => `${clock(r.start)}–${clock(r.end)}`],
+    ["duration_s", "Duration (min)", (r) => minutes(r.duration_s)],
+    ["coverage", "Measured", (r) => percent(r.coverage)],
+    ["mean", `Mean (${unit})`, (r) => number(r.mean)],
+    ["median", "Median", (r) => number(r.median)],
+    ["p95", "95th percentile", (r) => number(r.p95)],
+    ["max", "Maximum", (r) => number(r.max)],
+    ["peak15", "Highest 15-min mean", (r) => number(r.peak15)],
+    ["background", "Background", (r) => number(r.background)],
+    ["corrected_mean", "Mean less background", (r) => number(r.corrected_mean)],
+    ["below_background_share", "Below background", (r) => percent(r.below_background_share)],
+    ["ratio", "Mean ÷ benchmark", (r) => number(r.ratio)],
+    ["share_above", "Time above benchmark", (r) => percent(r.share_above)],
+  ];
+  const rows = Array.isArray(tasks?.rows) ? tasks.rows : [];
+  const all = [...rows, ...(Array.isArray(shift?.rows) ? shift.rows.map((r) => ({ ...r, kind: "shift" })) : [])];
+  // columns with nothing to show (no background, no benchmark) are left out
+  const used = columns.filter(([key]) => key === "kind" || key === "time" || all.some((r) => r[key] !== null && r[key] !== undefined));
   const table = el("table", { class: "results task-table" });
-  table.append(el("caption", {}, "Per period: exposure statistics"));
-  const columns = tasks?.columns || [];
-  const rows = Array.isArray(tasks) ? tasks : tasks?.rows || [];
+  table.append(el("caption", {}, `Per period and for the shift (concentrations in ${unit})`));
   const head = el("thead");
   const hr = el("tr");
   hr.append(el("th", { scope: "col" }, "Period"));
-  for (const c of columns) hr.append(el("th", { scope: "col" }, c.unit && c.unit !== "–" ? `${c.label} (${c.unit})` : c.label));
+  for (const [, label] of used) hr.append(el("th", { scope: "col" }, label));
   head.append(hr);
   const body = el("tbody");
-  for (const row of [...rows, ...(isObject(shift?.row) ? [shift.row] : [])]) {
-    const tr = el("tr", { "data-period": String(row.index ?? ""), "data-kind": String(row.kind || "") });
-    tr.append(el("th", { scope: "row" }, String(row.label ?? "")));
-    for (const c of columns) tr.append(el("td", { class: "value", "data-key": c.key }, shown(row[c.key])));
+  for (const row of all) {
+    const tr = el("tr", { "data-period": row.index === undefined ? "shift" : String(row.index), "data-kind": String(row.kind || "") });
+    tr.append(el("th", { scope: "row" }, String(row.period ?? row.label ?? "")));
+    for (const [key, , cell] of used) tr.append(el("td", { class: key === "kind" || key === "time" ? "" : "value", "data-key": key }, cell(row)));
     body.append(tr);
   }
   table.append(head, body);
   return table;
 }
 
-/** The dose per region stacked by task: a metric choice, a stacked bar chart and a table. */
+const METRICS = [["mass", "Deposited mass"], ["surface", "Deposited surface area"], ["number", "Deposited number"]];
+
+/** The dose per region stacked by task: a metric choice, a table and a stacked bar chart. */
 export function doseView() {
   const box = el("div", { class: "shift-dose" });
   const controls = el("div", { class: "view-controls" });
   const metric = el("select", { id: "shift-dose-metric" });
+  for (const [v, l] of METRICS) metric.append(el("option", { value: v }, l));
+  metric.value = "mass";
   controls.append(el("label", { for: "shift-dose-metric" }, "Dose as"), metric);
   const tableBox = el("div", { class: "table-box", "data-part": "dose" });
+  const ldsaBox = el("div", { class: "table-box", "data-part": "dose-ldsa" });
   let chart = null;
   let unit = "";
   const figure = chartFigure("shift-dose",
-    "Deposited dose per region of the respiratory tract over the shift, stacked by task (protection factor applied to what is inhaled).",
+    "Deposited dose per region of the respiratory tract over the shift, stacked by task (the protection factor divides what is inhaled).",
     "Save dose chart image", "drift-dose-shift-dose.png", () => chart);
-  box.append(el("h3", {}, "Dose per region, by task"), controls, tableBox, figure.figure);
+  box.append(el("h3", {}, "Dose per region, by task"), controls, tableBox, figure.figure, ldsaBox);
   box.hidden = true;
   let last = null;
 
   function draw() {
     const dose = last;
-    const m = (dose.metrics || []).find((x) => x.key === metric.value) || dose.metrics?.[0];
-    if (!m) return;
-    unit = m.unit || "";
+    const key = metric.value;
+    const label = METRICS.find(([v]) => v === key)[1];
+    unit = dose.units?.[key] || "";
     const regions = dose.regions || [];
+    const names = dose.region_labels || regions;
     const tasks = dose.tasks || [];
-    // table: regions down, tasks across, total last
     const table = el("table", { class: "results dose-table" });
-    table.append(el("caption", {}, `${m.label}${unit ? ` (${unit})` : ""}`));
+    table.append(el("caption", {}, `${label} over the shift (${unit}), by task`));
     const head = el("thead");
     const hr = el("tr");
     hr.append(el("th", { scope: "col" }, "Region"));
-    for (const t of tasks) hr.append(el("th", { scope: "col" }, t.label));
+    for (const t of tasks) hr.append(el("th", { scope: "col" }, `${t.period}${t.protection_factor > 1 ? ` (protection factor ${formatNumber(t.protection_factor)})` : ""}`));
     hr.append(el("th", { scope: "col" }, "All tasks"));
     head.append(hr);
     const body = el("tbody");
     regions.forEach((region, ri) => {
-      const tr = el("tr", { "data-region": region.key });
-      tr.append(el("th", { scope: "row" }, region.label));
-      tasks.forEach((t, ti) => tr.append(el("td", { class: "value", "data-task": String(ti) }, formatNumber(m.values?.[ti]?.[ri]))));
-      tr.append(el("td", { class: "value total", "data-key": `${m.key}_${region.key}` }, formatNumber(m.totals?.[ri])));
+      const tr = el("tr", { "data-region": region });
+      tr.append(el("th", { scope: "row" }, names[ri]));
+      tasks.forEach((t) => tr.append(el("td", { class: "value", "data-task": String(t.index) }, formatNumber(t[key]?.[ri]))));
+      tr.append(el("td", { class: "value total", "data-key": `${key}_${region}` }, formatNumber(dose.total?.[key]?.[ri])));
       body.append(tr);
     });
     table.append(head, body);
     tableBox.replaceChildren(table);
+    // LDSA of the air each task breathed
+    const ldsa = el("table", { class: "results dose-ldsa" });
+    ldsa.append(el("caption", {}, `Lung-deposited surface area of the inhaled air, per task (${dose.ldsa_unit || "µm²/cm³"})`));
+    const lh = el("thead");
+    const lr = el("tr");
+    for (const h of ["Task", "Alveolar", "Tracheobronchial", "Total"]) lr.append(el("th", { scope: "col" }, h));
+    lh.append(lr);
+    const lb = el("tbody");
+    for (const t of tasks) {
+      const tr = el("tr", { "data-task": String(t.index) });
+      tr.append(el("th", { scope: "row" }, t.period));
+      for (const k of ["alveolar", "tracheobronchial", "total"]) tr.append(el("td", { class: "value" }, formatNumber(t.ldsa?.[k])));
+      lb.append(tr);
+    }
+    ldsa.append(lh, lb);
+    ldsaBox.replaceChildren(ldsa);
     if (!chart) {
       chart = createChart(figure.canvas, {
         x: { title: "Region", type: "category" },
@@ -118,28 +155,22 @@ export function doseView() {
       chart.options.scales.x.stacked = true;
       chart.options.scales.y.stacked = true;
     }
-    const drawn = regions.filter((r) => r.key !== "total");
-    const at = drawn.map((r) => regions.indexOf(r));
-    chart.options.scales.y.title.text = `${m.label}${unit ? ` (${unit})` : ""}`;
-    chart.data.labels = drawn.map((r) => r.key);
+    const drawn = regions.map((r, i) => [r, i]).filter(([r]) => r !== "total");
+    chart.options.scales.y.title.text = `${label} (${unit})`;
+    chart.data.labels = drawn.map(([r]) => r);
     setDatasets(chart, tasks.map((t, ti) => ({
-      label: t.label, data: at.map((ri) => m.values?.[ti]?.[ri] ?? 0), backgroundColor: seriesColour(ti), stack: "tasks",
+      label: t.period, data: drawn.map(([, ri]) => t[key]?.[ri] ?? 0), backgroundColor: seriesColour(ti), stack: "tasks",
     })));
-    figure.canvas.setAttribute("aria-label", `Stacked bar chart of ${m.label.toLowerCase()} by region and task: ${drawn.map((r, k) => `${r.key} ${formatNumber(m.totals?.[at[k]], 3)} ${unit}`).join(", ")}.`);
+    figure.canvas.setAttribute("aria-label", `Stacked bar chart of ${label.toLowerCase()} by region, stacked by task: ${drawn.map(([r, ri]) => `${r} ${formatNumber(dose.total?.[key]?.[ri], 3)} ${unit}`).join(", ")}.`);
   }
 
   metric.addEventListener("change", () => last && draw());
   return {
     box,
     show(dose) {
-      last = isObject(dose) ? dose : null;
+      last = isObject(dose) && Array.isArray(dose.tasks) ? dose : null;
       box.hidden = !last;
-      if (!last) return;
-      const before = metric.value;
-      metric.replaceChildren(...(last.metrics || []).map((m) => el("option", { value: m.key }, m.label)));
-      if ([...metric.options].some((o) => o.value === before)) metric.value = before;
-      else if ([...metric.options].some((o) => o.value === "mass")) metric.value = "mass";
-      draw();
+      if (last) draw();
     },
   };
 }

@@ -1,0 +1,211 @@
+// Three inputs of the shift panel that depend on the chosen columns: which column is
+// summarised, the benchmark (value and a unit of that column's quantity), and the lognormal
+// modes that give each task's size distribution its shape. Each is a field handle of the
+// panel's form (get, set, showError, listen). Presentation only: the engine checks them.
+import { el } from "./forms.js";
+
+// units the engine accepts for a benchmark of each quantity (the first is the default)
+export const BENCHMARK_UNITS = {
+  number: [["1/cm3", "1/cm³"], ["1/m3", "1/m³"]],
+  ldsa: [["um2/cm3", "µm²/cm³"], ["m2/m3", "m²/m³"]],
+  mass: [["ug/m3", "µg/m³"], ["mg/m3", "mg/m³"], ["kg/m3", "kg/m³"]],
+};
+const NAMES = { number: "number concentration", ldsa: "LDSA", mass: "mass concentration" };
+let counter = 0;
+
+function shell(container, field, labelText) {
+  const id = `shift-${field.name}-${++counter}`;
+  const wrap = el("div", { class: "field", "data-field": field.name });
+  wrap.append(el("label", { for: id }, labelText || field.label));
+  const help = el("p", { class: "help", id: `${id}-help` }, field.help || "");
+  const error = el("p", { class: "error", id: `${id}-error`, hidden: "" });
+  container.append(wrap);
+  return {
+    id, wrap, help, error,
+    showError(message) {
+      error.textContent = message || "";
+      error.hidden = !message;
+      wrap.classList.toggle("invalid", Boolean(message));
+    },
+  };
+}
+
+/**
+ * The summarised column: a choice among the value columns (not size channels). `getColumns()`
+ * gives the value-column records. Blank: the engine takes the first that is not a channel.
+ */
+export function quantityPicker(container, field, getColumns) {
+  const s = shell(container, field);
+  const sel = el("select", { id: s.id, "aria-describedby": `${s.id}-help ${s.id}-error` });
+  s.wrap.append(sel, s.help, s.error);
+  const listeners = [];
+  let value = typeof field.default === "string" ? field.default : "";
+  const fill = () => {
+    const cols = getColumns().filter((c) => c.quantity !== "channel");
+    const options = [["", cols.length ? `First value column (${cols[0].column})` : "First value column"], ...cols.map((c) => [c.column, `${c.column} (${NAMES[c.quantity] || c.quantity})`])];
+    if (value && !options.some(([v]) => v === value)) options.push([value, `${value} (as given)`]);
+    sel.replaceChildren(...options.map(([v, l]) => el("option", { value: v }, l)));
+    sel.value = value;
+  };
+  sel.addEventListener("change", () => {
+    value = sel.value;
+    for (const cb of listeners) cb();
+  });
+  fill();
+  return {
+    field, wrap: s.wrap, input: sel, unitSelect: null, fill,
+    get: () => value,
+    set(raw) { value = typeof raw === "string" ? raw : ""; fill(); },
+    /** The quantity (number, ldsa, mass) of the summarised column, or "". */
+    quantity() {
+      const cols = getColumns().filter((c) => c.quantity !== "channel");
+      const c = value ? cols.find((x) => x.column.toLowerCase() === value.toLowerCase()) : cols[0];
+      return c ? c.quantity : "";
+    },
+    showError: s.showError,
+    listen(cb) { listeners.push(cb); },
+  };
+}
+
+/** The benchmark: an optional value with a unit of the summarised quantity. */
+export function benchmarkInput(container, field, getQuantity) {
+  const s = shell(container, field);
+  const row = el("div", { class: "field-row" });
+  const input = el("input", { id: s.id, type: "text", inputmode: "decimal", autocomplete: "off", "aria-describedby": `${s.id}-help ${s.id}-error` });
+  const unit = el("select", { "aria-label": `${field.label} unit` });
+  row.append(input, unit);
+  s.wrap.append(row, s.help, s.error);
+  const listeners = [];
+  let wanted = "";
+  const fill = () => {
+    const units = BENCHMARK_UNITS[getQuantity()] || BENCHMARK_UNITS.number;
+    const keep = wanted || unit.value;
+    unit.replaceChildren(...units.map(([v, l]) => el("option", { value: v }, l)));
+    if (keep && !units.some(([v]) => v === keep)) unit.append(el("option", { value: keep }, keep));
+    unit.value = keep && [...unit.options].some((o) => o.value === keep) ? keep : units[0][0];
+  };
+  const notify = () => {
+    wanted = unit.value;
+    for (const cb of listeners) cb();
+  };
+  input.addEventListener("input", notify);
+  unit.addEventListener("change", notify);
+  fill();
+  return {
+    field, wrap: s.wrap, input, unitSelect: unit, fill,
+    get: () => (input.value.trim() ? { value: input.value, unit: unit.value } : null),
+    set(raw) {
+      if (raw && typeof raw === "object") {
+        input.value = raw.value === undefined || raw.value === null ? "" : String(raw.value);
+        wanted = typeof raw.unit === "string" ? raw.unit : "";
+      } else {
+        input.value = raw === undefined || raw === null ? "" : String(raw);
+        wanted = "";
+      }
+      fill();
+    },
+    showError(message) {
+      s.showError(message);
+      if (message) input.setAttribute("aria-invalid", "true");
+      else input.removeAttribute("aria-invalid");
+    },
+    listen(cb) { listeners.push(cb); },
+  };
+}
+
+/** Lognormal modes giving the shape of each task's size distribution: median, GSD, share. */
+export function modesInput(container, field, maxModes = 4) {
+  const wrap = el("div", { class: "field", "data-field": field.name });
+  const group = el("fieldset", { class: "item-list shift-modes" });
+  group.append(el("legend", {}, field.label));
+  if (field.help) group.append(el("p", { class: "help" }, field.help));
+  const list = el("div", { class: "items" });
+  const add = el("button", { type: "button", class: "secondary" }, "Add a mode");
+  const error = el("p", { class: "error", hidden: "" });
+  group.append(list, add, error);
+  wrap.append(group);
+  container.append(wrap);
+  const listeners = [];
+  const notify = () => {
+    for (const cb of listeners) cb();
+  };
+  let rows = [];
+  const text = (v) => (v === undefined || v === null ? "" : typeof v === "object" ? String(v.value ?? "") : String(v));
+
+  function addRow(m) {
+    const i = rows.length + 1;
+    const box = el("fieldset", { class: "item" });
+    box.append(el("legend", {}, `Mode ${i}`));
+    const mk = (label, value, size) => {
+      const id = `shift-mode-${++counter}`;
+      const f = el("div", { class: "field" });
+      const input = el("input", { id, type: "text", inputmode: "decimal", autocomplete: "off", size });
+      input.value = value;
+      f.append(el("label", { for: id }, label));
+      const r = el("div", { class: "field-row" });
+      r.append(input);
+      f.append(r);
+      box.append(f);
+      input.addEventListener("input", notify);
+      return { input, row: r };
+    };
+    const median = mk("Count median", text(m.median), "6");
+    const unit = el("select", { "aria-label": "Count median unit" });
+    for (const u of ["nm", "µm"]) unit.append(el("option", { value: u === "µm" ? "um" : u }, u));
+    unit.value = m.median && typeof m.median === "object" && m.median.unit === "um" ? "um" : "nm";
+    unit.addEventListener("change", notify);
+    median.row.append(unit);
+    const gsd = mk("GSD", text(m.gsd), "4");
+    const share = mk("Share of the number", text(m.share ?? 1), "4");
+    const remove = el("button", { type: "button", class: "secondary" }, `Remove mode ${i}`);
+    remove.addEventListener("click", () => {
+      rows = rows.filter((r) => r !== row);
+      box.remove();
+      relabel();
+      notify();
+    });
+    box.append(remove);
+    list.append(box);
+    const row = { box, median, unit, gsd, share, remove };
+    rows.push(row);
+    relabel();
+  }
+
+  function relabel() {
+    rows.forEach((r, i) => {
+      r.box.querySelector("legend").textContent = `Mode ${i + 1}`;
+      r.remove.textContent = `Remove mode ${i + 1}`;
+      r.remove.hidden = rows.length <= 1;
+    });
+    add.hidden = rows.length >= maxModes;
+  }
+
+  function set(raw) {
+    let items = raw;
+    if (typeof raw === "string") {
+      try { items = JSON.parse(raw); } catch { items = []; }
+    }
+    list.replaceChildren();
+    rows = [];
+    for (const m of (Array.isArray(items) ? items : []).slice(0, maxModes)) addRow(m && typeof m === "object" ? m : {});
+    if (!rows.length) addRow({});
+  }
+
+  add.addEventListener("click", () => {
+    addRow({ median: { value: "", unit: "nm" }, gsd: "", share: "" });
+    rows[rows.length - 1].median.input.focus();
+    notify();
+  });
+  set(field.default || []);
+  return {
+    field, wrap, input: add, unitSelect: null,
+    get: () => rows.map((r) => ({ median: { value: r.median.input.value, unit: r.unit.value }, gsd: r.gsd.input.value, share: r.share.input.value })),
+    set,
+    showError(message) {
+      error.textContent = message || "";
+      error.hidden = !message;
+      wrap.classList.toggle("invalid", Boolean(message));
+    },
+    listen(cb) { listeners.push(cb); },
+  };
+}
