@@ -45,7 +45,7 @@ export function periodTable(container, field, { fallback = {}, getStart, getTota
   const group = el("fieldset", { class: "periods-box" });
   group.append(el("legend", {}, field.label || "Periods"));
   group.append(el("p", { class: "help", id: "shift-periods-help" },
-    field.help || "Times as HH:MM or HH:MM:SS on the first date of the file, or as a date and time (YYYY-MM-DD HH:MM). Drag a band's edges on the chart to move them."));
+    `${field.help ? `${field.help} ` : ""}Times as HH:MM or HH:MM:SS (on the date of the first reading; a clock time earlier than the first reading is the next day's) or as a date and time, YYYY-MM-DD HH:MM. Or drag a band's edges on the chart.`));
   const tableBox = el("div", { class: "table-box periods-scroll" });
   const table = el("table", { class: "periods-table" });
   table.append(el("caption", { class: "visually-hidden" }, "Periods of the shift"));

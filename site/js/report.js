@@ -149,7 +149,7 @@ function panelRecord(controller, reply) {
     }
   }
   if (details.childElementCount) parts.push(el("h3", {}, "Stage details"), details);
-  for (const node of controller.body.querySelectorAll(".spectrum-summary")) {
+  for (const node of controller.body.querySelectorAll(".spectrum-summary, .record-note")) {
     if (!node.closest("[hidden]")) parts.push(el("p", { class: "report-note" }, node.textContent));
   }
   const charts = el("div", { class: "report-charts" });

@@ -258,7 +258,6 @@ export function importBlock(container, { names, extra = [], fields, title, intro
         list.append(row);
       });
     };
-    fill();
     handles.set(names.columns, {
       field: f, wrap: s.wrap, input: list, unitSelect: null, fill,
       get: () => chosen.map((c) => ({ ...c })),
@@ -273,6 +272,7 @@ export function importBlock(container, { names, extra = [], fields, title, intro
       },
       showError: s.showError, listen(cb) { listeners.push(cb); },
     });
+    handles.get(names.columns).set(f.default ?? []); // the declared first value column
   }
 
   /** Show the engine's reading of the file: columns for the pickers, the first rows. */

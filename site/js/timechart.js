@@ -233,7 +233,8 @@ export function createTimeChart(canvas, { onDrag, onCommit } = {}) {
       const sets = [];
       const add = (s, list, dashed) => list.forEach((one, i) => {
         const data = new Array(s.t_s.length);
-        for (let k = 0; k < s.t_s.length; k++) data[k] = { x: s.t_s[k], y: one.y[k] };
+        const offset = Number(s.offset_s) || 0; // a far-field file's start after the near-field one
+        for (let k = 0; k < s.t_s.length; k++) data[k] = { x: s.t_s[k] + offset, y: one.y[k] };
         const colour = seriesColour(sets.length);
         const used = one.key === "background"; // the background the engine used, per reading
         sets.push({

@@ -177,6 +177,9 @@ export function mount(root, { engine, description, forms }) {
   const declared = new Set(all.filter((f) => f.applies_when).map((f) => f.name));
   const rules = {};
   for (const [name, values] of Object.entries(DOSE_RULES)) if (byName[name] && !declared.has(name)) rules[name] = ["size_source", values];
+  for (const prefix of ["series_", "background_"]) {
+    if (byName[`${prefix}start_time`] && !declared.has(`${prefix}start_time`)) rules[`${prefix}start_time`] = [`${prefix}time_format`, ["elapsed_seconds"]];
+  }
   const applyDeclared = panel.fields.showDeclared(all.filter((f) => panel.fields.handles.has(f.name)));
   const applyRules = panel.fields.showWhen(rules);
   const applyVisibility = () => {
@@ -282,10 +285,14 @@ export function mount(root, { engine, description, forms }) {
   function describeInputs(inputs) {
     const rows = CalcPanel.prototype.describeInputs.call(panel, inputs);
     const cols = (list) => (Array.isArray(list) ? list.map((c) => `${c.column} (${c.quantity})`).join(", ") : "");
+    const periods = Array.isArray(inputs?.periods) ? inputs.periods : [];
+    const said = periods.map((p, i) => `${i + 1}. ${p.label} (${p.kind}) ${p.start}–${p.end}${p.kind === "task"
+      ? `, ${String(p.activity).replace("_", " ")}, ${p.route}, protection factor ${p.protection_factor}` : ""}`).join("; ");
     const extra = [
-      ["Time column", inputs?.[NEAR.time] || "found by the engine"],
-      ["Columns summarised", cols(inputs?.[NEAR.columns])],
-      ["Background file columns", cols(inputs?.[FAR.columns])],
+      ["Time column", inputs?.[NEAR.time] || ""],
+      ["Value columns", cols(inputs?.[NEAR.columns])],
+      ["Far-field column", inputs?.[FAR.text] ? inputs?.[FAR.column] : ""],
+      ["Periods", said],
     ];
     for (const [label, value] of extra) if (value) rows.push({ label, value: String(value), unit: "" });
     return rows;

@@ -31,7 +31,8 @@ export function shiftSummary(results) {
   let text = `${words.join("; ")}.`;
   if (results.twa_rule?.text) text += ` The ${results.twa_rule.text.replace(/^the /i, "")}.`.replace(/^ The u/, " U");
   if (results.background_method?.text) text += ` Background: ${results.background_method.text}.`;
-  out.push(el("p", { class: "shift-words", "data-key": "words" }, text.replace(" The unmeasured", " Unmeasured")));
+  // in the printed record too (report.js copies a .record-note as a paragraph)
+  out.push(el("p", { class: "shift-words record-note", "data-key": "words" }, text.replace(" The unmeasured", " Unmeasured")));
   out.push(resultsTable(results, "Shift summary", SUMMARY_KEYS.filter((k) => isObject(results[k]))));
   return out;
 }
