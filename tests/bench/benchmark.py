@@ -23,6 +23,8 @@ Measures in one run, on one server, in the same Chromium:
   two value columns): the first request (read, parse, summarise) and re-summarising after a
   period moves (the parsed file is kept between requests), in CPython (`--cpython-only` prints
   these and the other CPython figures without building or starting a browser);
+- the shift panel (``shift_bench.py``): a 24-h file at 1 s (86 400 rows) picked, read,
+  summarised and drawn; re-summarising after moving a period (median, 95th percentile);
 - the single-file edition: its size, and its time to ready from file:// divided by the served
   page's (cold, fresh contexts, alternating runs, medians);
 - before and after, in the same run: the page and the package of an earlier revision
@@ -52,6 +54,7 @@ ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT / "pycore"))
 sys.path.insert(0, str(ROOT / "tests"))
 
+from bench.shift_bench import day_file, shift_figures  # noqa: E402
 from e2e.conftest import CHROMIUM_ARGS, find_chromium  # noqa: E402
 
 from driftdose import api  # noqa: E402
@@ -782,6 +785,8 @@ def main() -> int:
                     "page_ms": round(web, 1),
                     "page_over_cpython": round(web / cpy, 2),
                 }
+                # the shift panel: a 24-h file at 1 s read, summarised and drawn; periods moved
+                figures["shift_24h_1s_page"] = shift_figures(page, day_file(), min(args.edits, 20))
                 ctx.close()
                 ctx = browser.new_context()
                 page = ctx.new_page()

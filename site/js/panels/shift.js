@@ -16,6 +16,7 @@ import { doseView, shiftSummary, taskTable } from "./shiftresults.js";
 export const id = "shift";
 export const kind = "shift";
 export const title = "Shift from logged data";
+const DEMO_ID = "shift_workshop"; // driftdose.shift.demo.DEMO_ID: its files are generated again
 
 // inputs drawn by this panel itself rather than by the generic form
 const NEAR = {
@@ -259,7 +260,7 @@ export function mount(root, { engine, description, forms }) {
   };
   panel.setState = (values) => {
     const v = { ...values };
-    if (v.demo === "shift_workshop" || (typeof v.demo === "string" && v.demo && !v[NEAR.text])) {
+    if (v.demo === DEMO_ID) {
       const keep = { ...v };
       delete keep.demo;
       loadDemo(keep);

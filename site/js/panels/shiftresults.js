@@ -33,7 +33,9 @@ export function shiftSummary(results) {
   if (results.background_method?.text) text += ` Background: ${results.background_method.text}.`;
   // in the printed record too (report.js copies a .record-note as a paragraph)
   out.push(el("p", { class: "shift-words record-note", "data-key": "words" }, text.replace(" The unmeasured", " Unmeasured")));
-  out.push(resultsTable(results, "Shift summary", SUMMARY_KEYS.filter((k) => isObject(results[k]))));
+  const box = el("div", { class: "table-box", "data-part": "shift" });
+  box.append(resultsTable(results, "Shift summary", SUMMARY_KEYS.filter((k) => isObject(results[k]))));
+  out.push(box);
   return out;
 }
 
