@@ -14,6 +14,13 @@ const QUANTITIES = [
   ["channel", "Size channel"],
 ];
 const PREVIEW_ROWS = 8;
+/** A column's name with its unit, unless the name already shows it. */
+const withUnit = (c) => (c.unit && !String(c.name).includes(c.unit) ? `${c.name} (${c.unit})` : String(c.name));
+/** Whether a column given as `spec` (a whole header, its name without the unit, or a number) is column i. */
+const sameColumn = (spec, c, i) => {
+  const s = String(spec ?? "").trim().toLowerCase();
+  return s !== "" && (s === String(c.name).toLowerCase() || s === String(c.label || "").toLowerCase() || s === String(i + 1));
+};
 const clock = (iso) => String(iso || "").replace("T", " ");
 
 /** What the engine read, in words: readings, interval, span, gaps. */
@@ -167,7 +174,7 @@ export function importBlock(container, { names, extra = [], fields, title, intro
     handles.set(name, h);
   }
   const summary = el("p", { class: "import-summary", hidden: "" });
-  const previewBox = el("div", { class: "table-box import-preview", hidden: "" });
+  const previewBox = el("div", { class: "table-box import-preview", hidden: "", tabindex: "0", role: "region", "aria-label": "First rows of the file" });
   box.append(summary, previewBox);
   const columnsBox = el("div", { class: "column-pickers" });
   box.append(columnsBox);
@@ -182,8 +189,9 @@ export function importBlock(container, { names, extra = [], fields, title, intro
     let value = typeof f.default === "string" ? f.default : "";
     const fill = () => {
       // a column given by its number ("1") shows as that column of the file
-      const byNumber = /^\d+$/.test(value) && detected[Number(value) - 1] ? detected[Number(value) - 1].name : null;
-      const options = [...(optional ? [["", "(none)"]] : []), ...detected.map((c, i) => [c.name, `${c.name}${c.unit ? ` (${c.unit})` : ""} — column ${i + 1}`])];
+      const hit = detected.find((c, i) => sameColumn(value, c, i));
+      const byNumber = hit && hit.name !== value ? hit.name : null;
+      const options = [...(optional ? [["", "(none)"]] : []), ...detected.map((c, i) => [c.name, `${withUnit(c)} — column ${i + 1}`])];
       if (!byNumber && (value || !optional) && !options.some(([v]) => v === value)) options.push([value, value ? `${value} (as given)` : "(first column)"]);
       sel.replaceChildren(...options.map(([v, l]) => el("option", { value: v }, l)));
       sel.value = byNumber || value;
@@ -216,16 +224,16 @@ export function importBlock(container, { names, extra = [], fields, title, intro
     const fill = () => {
       list.replaceChildren();
       const names_ = detected.map((c) => c.name);
-      for (const c of chosen) if (!names_.includes(c.column)) names_.push(c.column);
+      for (const c of chosen) if (!detected.some((d, i) => sameColumn(c.column, d, i)) && !names_.includes(c.column)) names_.push(c.column);
       if (!names_.length) list.append(el("p", { class: "help" }, "The columns appear here once a file is read."));
       names_.forEach((name, i) => {
         const info = detected.find((c) => c.name === name) || {};
-        const mine = chosen.find((c) => c.column === name || (detected.length && c.column === String(i + 1)));
+        const mine = chosen.find((c) => c.column === name || (info.name !== undefined && sameColumn(c.column, info, detected.indexOf(info))));
         const row = el("div", { class: "column-item" });
         const idBase = `${s.id}-${i}`;
         const check = el("input", { type: "checkbox", id: `${idBase}-use` });
         check.checked = Boolean(mine);
-        const label = el("label", { for: `${idBase}-use` }, `${name}${info.unit ? ` (${info.unit})` : ""}`);
+        const label = el("label", { for: `${idBase}-use` }, info.name !== undefined ? withUnit(info) : name);
         const what = el("select", { id: `${idBase}-what`, "aria-label": `What ${name} holds` });
         for (const [v, l] of QUANTITIES) what.append(el("option", { value: v }, l));
         what.value = mine?.quantity || info.quantity || "number";
@@ -242,11 +250,13 @@ export function importBlock(container, { names, extra = [], fields, title, intro
           what.disabled = !check.checked;
           showD();
           const others = chosen.filter((c) => c !== mine && c.column !== name);
+          // the column is named as the file names it (whole header)
           const rec = { column: name, quantity: what.value, unit: mine && mine.quantity === what.value ? mine.unit || "" : "" };
           if (what.value === "channel") rec.diameter = { value: diameter.value, unit: "nm" };
           chosen = check.checked ? [...others, rec] : others;
           // keep the file's column order
-          chosen.sort((a, b) => names_.indexOf(a.column) - names_.indexOf(b.column));
+          const at = (c) => { const k = detected.findIndex((d, j) => sameColumn(c.column, d, j)); return k >= 0 ? k : names_.indexOf(c.column); };
+          chosen.sort((a, b) => at(a) - at(b));
           notify();
           fill();
           list.querySelector(`#${CSS.escape(document.activeElement?.id || "none")}`)?.focus();
@@ -278,7 +288,9 @@ export function importBlock(container, { names, extra = [], fields, title, intro
   /** Show the engine's reading of the file: columns for the pickers, the first rows. */
   function showImport(info, preview) {
     if (info && Array.isArray(info.columns)) {
-      detected = info.columns.map((c) => (typeof c === "string" ? { name: c, unit: "" } : { name: String(c.name), unit: String(c.unit || ""), quantity: c.quantity }));
+      const labels = Array.isArray(info.table?.columns) ? info.table.columns : [];
+      detected = info.columns.map((c, i) => (typeof c === "string" ? { name: c, unit: "" }
+        : { name: String(c.name), unit: String(c.unit || ""), label: labels[i]?.label || "" }));
       for (const h of handles.values()) if (h.fill) h.fill();
     }
     summary.textContent = info ? importSummary(info) : "";
@@ -292,15 +304,15 @@ export function importBlock(container, { names, extra = [], fields, title, intro
         : "First rows as read"));
       const headRow = el("tr");
       (header || detected.map((c) => c.name)).forEach((name, i) => {
-        const unit = detected[i]?.unit;
-        headRow.append(el("th", { scope: "col" }, unit ? `${name} (${unit})` : String(name)));
+        headRow.append(el("th", { scope: "col" }, withUnit({ name, unit: detected[i]?.unit || "" })));
       });
       const thead = el("thead");
       thead.append(headRow);
       const tbody = el("tbody");
       for (const cells of preview.slice(0, PREVIEW_ROWS)) {
         const tr = el("tr");
-        for (const cell of Array.isArray(cells) ? cells : []) tr.append(el("td", {}, String(cell)));
+        const row = Array.isArray(cells) ? cells : Array.isArray(cells?.cells) ? cells.cells : [];
+        for (const cell of row) tr.append(el("td", {}, String(cell)));
         tbody.append(tr);
       }
       table.append(thead, tbody);

@@ -18,6 +18,7 @@ import math
 import re
 import shutil
 import subprocess
+import urllib.parse
 from pathlib import Path
 
 import pytest
@@ -137,6 +138,7 @@ def test_logged_file_periods_typed_and_dragged_match_the_core(watched, base_url,
     preview.wait_for(state="visible")
     assert "Date time" in preview.inner_text()
     assert "07:00:00" in preview.inner_text()
+    assert "3000,0" in preview.inner_text()  # cells as written in the file
     assert "header on line 5" in preview.locator("caption").inner_text()
     summary = page.locator("#panel-shift .import-summary").first.inner_text()
     assert "28,800 readings every 1 s" in summary, summary
@@ -149,7 +151,7 @@ def test_logged_file_periods_typed_and_dragged_match_the_core(watched, base_url,
         if box.is_checked():  # the default first value column: chosen again by name
             box.uncheck()
         box.check()
-        columns.get_by_label(f"What {name} holds").select_option(what)
+        columns.get_by_label(re.compile(f"^What {name}")).select_option(what)
     page.locator("#panel-shift [data-field=background_method] select").select_option("marked_mean")
     page.locator("#panel-shift [data-field=size_source] select").select_option("modes")
 
@@ -311,3 +313,46 @@ def test_shift_demo_layout_at_width(browser, base_url, width):
         context.close()
     assert not watch.outside, watch.outside
     assert not watch.errors, watch.errors
+
+
+def test_hostile_shift_link_is_shown_as_text_and_the_panel_still_computes(watched, base_url):
+    """Payloads and wrong shapes in every structured input of the shift panel's link."""
+    page, _watch = watched
+    payload = "<img src=x onerror=alert(1)>"
+    pairs = {
+        "shift.periods": "j:"
+        + json.dumps(
+            [
+                {"label": payload, "kind": "task", "start": "<b>", "end": "99:99"},
+                {"label": "__proto__", "kind": "<svg onload=alert(2)>", "start": {"a": 1}},
+                "not a period",
+            ]
+        ),
+        "shift.quantity_columns": 'j:"junk"',
+        "shift.benchmark": "j:" + json.dumps({"value": payload, "unit": "<x>"}),
+        "shift.modes": "j:[1,2,3]",
+        "shift.series_file": "j:" + json.dumps({"name": payload, "sha256": "zz", "bytes": "1e99"}),
+        "shift.demo": "__proto__",
+    }
+    fragment = "#v=1&panel=shift&" + "&".join(
+        f"{k}={urllib.parse.quote(v, safe='')}" for k, v in pairs.items()
+    )
+    page.goto(base_url + fragment)
+    wait_ready(page)
+    page.wait_for_function(
+        "() => Number(document.getElementById('panel-shift').dataset.updates || 0) >= 1"
+        " && !document.getElementById('panel-shift').hasAttribute('aria-busy')"
+    )
+    # the payload stays text: in the label field, in the file status line; nothing ran
+    assert _row(page, 0).locator("td[data-part=label] input").input_value() == payload
+    assert payload in page.locator("#panel-shift .file-status").first.inner_text()
+    assert page.locator("#panel-shift img").count() == 0
+    assert page.evaluate("() => ({}).a === undefined && !('polluted' in Object.prototype)")
+    # and the panel computes once a file is given
+    before = _updates(page)
+    page.locator("#panel-shift [data-field=series_text] input[type=file]").set_input_files(
+        {"name": "x.csv", "mimeType": "text/csv", "buffer": logged_file().encode("utf-8")}
+    )
+    _settle(page, before)
+    assert page.locator("#panel-shift").get_attribute("data-state") in ("ok", "invalid")
+    assert page.locator("#panel-shift tr.period-error:visible").count() >= 1

@@ -301,7 +301,8 @@ export function mount(root, { engine, description, forms }) {
 
   // --- results ---------------------------------------------------------------------------
   const summaryBox = el("div", { class: "shift-summary" });
-  const tasksBox = el("div", { class: "table-box", "data-part": "tasks" });
+  // boxes that scroll sideways on a phone are reachable by keyboard
+  const tasksBox = el("div", { class: "table-box", "data-part": "tasks", tabindex: "0", role: "region", "aria-label": "Per period and for the shift" });
   const dose = doseView();
   panel.body.append(summaryBox, tasksBox, dose.box);
 

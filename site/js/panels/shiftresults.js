@@ -33,7 +33,7 @@ export function shiftSummary(results) {
   if (results.background_method?.text) text += ` Background: ${results.background_method.text}.`;
   // in the printed record too (report.js copies a .record-note as a paragraph)
   out.push(el("p", { class: "shift-words record-note", "data-key": "words" }, text.replace(" The unmeasured", " Unmeasured")));
-  const box = el("div", { class: "table-box", "data-part": "shift" });
+  const box = el("div", { class: "table-box", "data-part": "shift", tabindex: "0", role: "region", "aria-label": "Shift summary" });
   box.append(resultsTable(results, "Shift summary", SUMMARY_KEYS.filter((k) => isObject(results[k]))));
   out.push(box);
   return out;
@@ -97,8 +97,8 @@ export function doseView() {
   for (const [v, l] of METRICS) metric.append(el("option", { value: v }, l));
   metric.value = "mass";
   controls.append(el("label", { for: "shift-dose-metric" }, "Dose as"), metric);
-  const tableBox = el("div", { class: "table-box", "data-part": "dose" });
-  const ldsaBox = el("div", { class: "table-box", "data-part": "dose-ldsa" });
+  const tableBox = el("div", { class: "table-box", "data-part": "dose", tabindex: "0", role: "region", "aria-label": "Dose per region by task" });
+  const ldsaBox = el("div", { class: "table-box", "data-part": "dose-ldsa", tabindex: "0", role: "region", "aria-label": "LDSA per task" });
   let chart = null;
   let unit = "";
   const figure = chartFigure("shift-dose",
