@@ -142,6 +142,9 @@ export function importBlock(container, { names, extra = [], fields, title, intro
       field: fields[names.file] || { name: names.file }, wrap: el("div", { hidden: "" }), input: null, unitSelect: null,
       get: () => (source ? { name: source.name, sha256: source.sha256, bytes: source.size } : null),
       set(raw) {
+        if (typeof raw === "string" && raw.startsWith("{")) {
+          try { raw = JSON.parse(raw); } catch { raw = null; } // a link carries it as JSON text
+        }
         if (text || !raw || typeof raw !== "object") return;
         named = { name: String(raw.name || "").slice(0, 200), sha256: String(raw.sha256 || "").slice(0, 64), bytes: Number(raw.bytes) || 0 };
         status.textContent = `This link names the file ${named.name} (${named.bytes.toLocaleString("en")} bytes, SHA-256 ${named.sha256.slice(0, 16)}…), which is too large to travel in a link: choose it again, or load the saved inputs file.`;
