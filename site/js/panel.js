@@ -6,6 +6,7 @@ import { formatNumber } from "./format.js";
 import { download, stamp } from "./files.js";
 import { failureReply } from "./engine.js";
 import { scenarioLine } from "./chartparts.js";
+import { unitText } from "./units.js";
 
 const describeError = (err) => String(err && err.message ? err.message : err).slice(0, 120);
 
@@ -304,7 +305,7 @@ export function resultsTable(results, caption, keys) {
       tr.append(el("td", { class: "value", colspan: "2" }, r.text));
     } else {
       tr.append(el("td", { class: "value" }, formatNumber(r.value)));
-      tr.append(el("td", { class: "unit" }, r.unit === "–" ? "" : r.unit));
+      tr.append(el("td", { class: "unit" }, unitText(r.unit)));
     }
     body.append(tr);
   }

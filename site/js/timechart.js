@@ -5,6 +5,7 @@
 // drawing from the engine (each bucket's minimum and maximum, so peaks survive).
 import { createChart, cssVar, seriesColour, setDatasets } from "./charts.js";
 import { formatNumber } from "./format.js";
+import { unitText } from "./units.js";
 import { moveEdge, moveSpan, snapEdge, snapStep, tickText } from "./periods.js";
 
 const KIND_VARS = { task: "--band-task", background: "--band-background", break: "--band-break" };
@@ -241,7 +242,7 @@ export function createTimeChart(canvas, { onDrag, onCommit } = {}) {
           label: dashed ? `${one.label} (far-field file)` : one.label, data, borderColor: used ? cssVar("--ink") : colour, backgroundColor: colour,
           pointRadius: 0, borderWidth: dashed || used ? 1.5 : 1.2, borderDash: dashed ? [5, 3] : used ? [2, 2] : [], spanGaps: false, yAxisID: "y",
         });
-        if (i === 0) state.unit = one.unit || "";
+        if (i === 0) state.unit = unitText(one.unit || "");
       });
       add(series, series.series || [], false);
       if (extra && Array.isArray(extra.series) && Array.isArray(extra.t_s)) add(extra, extra.series, true);

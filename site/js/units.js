@@ -26,6 +26,12 @@ export function unitLabel(code) {
   return spec ? spec.label : String(code ?? "");
 }
 
+/** The label to print after a number: as unitLabel, but nothing for a dimensionless unit. */
+export function unitText(code) {
+  const label = unitLabel(code);
+  return label === "–" || label === "1" ? "" : label;
+}
+
 /** A value in the unit `code` converted to SI (x in µm -> metres); unknown codes throw. */
 export function toSI(value, code) {
   const spec = table[code];

@@ -3,7 +3,7 @@
 import { test } from "node:test";
 import assert from "node:assert/strict";
 import { readFileSync } from "node:fs";
-import { fromSI, setUnitTable, toSI, unitLabel } from "../../site/js/units.js";
+import { fromSI, setUnitTable, toSI, unitLabel, unitText } from "../../site/js/units.js";
 
 const forms = JSON.parse(readFileSync(process.env.DRIFTDOSE_FORMS, "utf-8"));
 // equal to the last bits of a double (1e-15 relative): a scale factor is one multiplication
@@ -37,4 +37,11 @@ test("a malformed table leaves no usable entry", () => {
   assert.throws(() => toSI(1, "m"), /unknown unit code/);
   setUnitTable(null);
   assert.equal(unitLabel("um"), "um");
+});
+
+test("unitText: the label after a number, nothing for a dimensionless code", () => {
+  setUnitTable({ "1": { label: "–", factor: 1 }, "um2/cm3": { label: "µm²/cm³", factor: 1e-6 } });
+  assert.equal(unitText("1"), "");
+  assert.equal(unitText("um2/cm3"), "µm²/cm³");
+  assert.equal(unitText("µm"), "µm"); // a label that is no code passes unchanged
 });

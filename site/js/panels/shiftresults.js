@@ -5,6 +5,7 @@ import { el } from "../forms.js";
 import { chartFigure, createChart, seriesColour, setDatasets } from "../charts.js";
 import { formatNumber } from "../format.js";
 import { resultsTable } from "../panel.js";
+import { unitText } from "../units.js";
 
 const isObject = (v) => v !== null && typeof v === "object" && !Array.isArray(v);
 /** A reply value: a number, or {value, unit}, or {text}; shown with its unit. */
@@ -12,7 +13,7 @@ function shown(v, unit = "") {
   if (v === null || v === undefined) return "—";
   if (isObject(v)) {
     if (v.text !== undefined) return String(v.text);
-    return shown(v.value, v.unit === "–" ? "" : v.unit || unit);
+    return shown(v.value, v.unit === undefined ? unit : unitText(v.unit));
   }
   if (typeof v === "number") return `${formatNumber(v)}${unit ? ` ${unit}` : ""}`;
   return String(v);
@@ -48,7 +49,7 @@ const minutes = (s) => (typeof s === "number" && Number.isFinite(s) ? formatNumb
  * `tasks` and `shift`: the reply's tables {label, unit, rows}.
  */
 export function taskTable(tasks, shift) {
-  const unit = tasks?.unit || shift?.unit || "";
+  const unit = unitText(tasks?.unit || shift?.unit || "");
   const columns = [
     ["kind", "Kind", (r) => String(r.kind || "shift")],
     ["time", "From – to", (r) => `${clock(r.start)}–${clock(r.end)}`],
@@ -112,12 +113,12 @@ export function doseView() {
     const dose = last;
     const key = metric.value;
     const label = METRICS.find(([v]) => v === key)[1];
-    unit = dose.units?.[key] || "";
+    unit = unitText(dose.units?.[key] || "");
     const regions = dose.regions || [];
     const names = dose.region_labels || regions;
     const tasks = dose.tasks || [];
     const table = el("table", { class: "results dose-table" });
-    table.append(el("caption", {}, `${label} over the shift (${unit}), by task`));
+    table.append(el("caption", {}, `${label} over the shift${unit ? ` (${unit})` : ""}, by task`));
     const head = el("thead");
     const hr = el("tr");
     hr.append(el("th", { scope: "col" }, "Region"));
@@ -136,7 +137,7 @@ export function doseView() {
     tableBox.replaceChildren(table);
     // LDSA of the air each task breathed
     const ldsa = el("table", { class: "results dose-ldsa" });
-    ldsa.append(el("caption", {}, `Lung-deposited surface area of the inhaled air, per task (${dose.ldsa_unit || "µm²/cm³"})`));
+    ldsa.append(el("caption", {}, `Lung-deposited surface area of the inhaled air, per task (${unitText(dose.ldsa_unit || "um2/cm3")})`));
     const lh = el("thead");
     const lr = el("tr");
     for (const h of ["Task", "Alveolar", "Tracheobronchial", "Total"]) lr.append(el("th", { scope: "col" }, h));
@@ -159,7 +160,7 @@ export function doseView() {
       chart.options.scales.y.stacked = true;
     }
     const drawn = regions.map((r, i) => [r, i]).filter(([r]) => r !== "total");
-    chart.options.scales.y.title.text = `${label} (${unit})`;
+    chart.options.scales.y.title.text = unit ? `${label} (${unit})` : label;
     chart.data.labels = drawn.map(([r]) => r);
     setDatasets(chart, tasks.map((t, ti) => ({
       label: t.period, data: drawn.map(([, ri]) => t[key]?.[ri] ?? 0), backgroundColor: seriesColour(ti), stack: "tasks",
