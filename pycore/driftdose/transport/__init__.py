@@ -12,9 +12,9 @@ Stable interfaces (SI units; defaults 293.15 K and 101325 Pa):
 Modules: :mod:`.tube` (diffusion, laminar and turbulent), :mod:`.settling` (gravitational
 settling in horizontal and inclined tubes), :mod:`.bend` (inertial loss in bends),
 :mod:`.cyclone` (penetration curves; the ISO 7708 curves come from
-:mod:`driftdose.conventions`), :mod:`.impactor`,
-:mod:`.screen`, :mod:`.chain` (stages composed in order; spectrum correction), :mod:`.kinds`
-(the registry of stage kinds, from which stages are built by key).
+:mod:`driftdose.conventions`), :mod:`.impactor`, :mod:`.screen`, :mod:`.stages` and
+:mod:`.selectors` (the stage classes), :mod:`.chain` (stages composed in order; spectrum
+correction), :mod:`.kinds` (the registry of stage kinds, from which stages are built by key).
 """
 
 from __future__ import annotations
