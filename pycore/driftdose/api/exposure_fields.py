@@ -148,6 +148,18 @@ MODE_FIELDS: tuple[Field, ...] = (
 )
 """What each lognormal mode holds; parsed as every other field is."""
 
+DEPOSITION_MODEL = Field(
+    "model",
+    "Deposition model",
+    "choice",
+    "icrp66",
+    choices=(
+        ("icrp66", "ICRP 66 full regional model (ET1, ET2, BB, bb, AI)"),
+        ("simplified", "Simplified fits to ICRP 66 (Hinds 1999)"),
+    ),
+)
+"""The choice of deposition model, shared by every calculation that gives a dose."""
+
 EXPOSURE_FIELDS: tuple[Field, ...] = (
     Field(
         "size_source",
@@ -190,16 +202,7 @@ EXPOSURE_FIELDS: tuple[Field, ...] = (
     ),
     DENSITY_BASIS,
     replace(SHAPE_FACTOR, help="1 for spheres; ICRP's default worker aerosol uses 1.5."),
-    Field(
-        "model",
-        "Deposition model",
-        "choice",
-        "icrp66",
-        choices=(
-            ("icrp66", "ICRP 66 full regional model (ET1, ET2, BB, bb, AI)"),
-            ("simplified", "Simplified fits to ICRP 66 (Hinds 1999)"),
-        ),
-    ),
+    DEPOSITION_MODEL,
     Field(
         "thermodynamic_convention",
         "Shape factor in diffusion",

@@ -8,6 +8,7 @@ from dataclasses import replace
 
 from .. import textfile
 from ..shift.periods import MAX_PERIODS
+from .exposure_fields import DEPOSITION_MODEL
 from .fields import Field
 from .particle_air_fields import PARTICLE_DENSITY, SHAPE_FACTOR
 from .shift_inputs import COLUMN_FIELDS, MAX_COLUMNS, MODE_FIELDS, PERIOD_FIELDS
@@ -270,15 +271,5 @@ FIELDS: tuple[Field, ...] = (
     ),
     replace(PARTICLE_DENSITY, applies=_DOSE),
     replace(SHAPE_FACTOR, applies=_DOSE),
-    Field(
-        "model",
-        "Deposition model",
-        "choice",
-        "icrp66",
-        choices=(
-            ("icrp66", "ICRP 66 full regional model (ET1, ET2, BB, bb, AI)"),
-            ("simplified", "Simplified fits to ICRP 66 (Hinds 1999)"),
-        ),
-        applies=_DOSE,
-    ),
+    replace(DEPOSITION_MODEL, applies=_DOSE),
 )
