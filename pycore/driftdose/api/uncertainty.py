@@ -35,7 +35,7 @@ from ..uncertainty import (
     propagate,
     table_nodes,
 )
-from . import burden
+from . import burden_inputs
 from .dose_rows import DOSE_UNITS
 from .fields import Field, FieldError
 from .labels import REGION_LABELS, WEIGHT_WORDS
@@ -48,7 +48,7 @@ DOSE_REGIONS = ("ET1", "ET2", "BB", "bb", "AI", "total")
 BURDEN_REGIONS = ("AI", "lungs", "LN")
 PERCENTILES = (5.0, 50.0, 95.0)
 
-FIELDS: tuple[Field, ...] = burden.FIELDS + RANGE_FIELDS
+FIELDS: tuple[Field, ...] = burden_inputs.FIELDS + RANGE_FIELDS
 
 _CACHE: dict[str, Any] = {}
 
@@ -84,7 +84,9 @@ def _builder(v: dict[str, Any], entered: tuple[ModeSpec, ...]) -> Any:
     calculation converts what was entered (diameter type, density basis)."""
 
     def build(f: dict[str, float]) -> Multimodal:
-        desc = burden.particle_description(v, f.get("density", 1.0), f.get("shape_factor", 1.0))
+        desc = burden_inputs.particle_description(
+            v, f.get("density", 1.0), f.get("shape_factor", 1.0)
+        )
         modes = scaled_modes(
             entered, f.get("median", 1.0), f.get("gsd", 1.0), f.get("concentration", 1.0)
         )
@@ -121,8 +123,8 @@ def _check_ranges(v: dict[str, Any], spreads: dict[str, Spread], nominal: Multim
 def _milestone_responses(v: dict[str, Any]) -> dict[str, tuple[float, list[float]]]:
     """Modal responses g_k(t) at the reported moments of the burden ranges."""
     net = network(v["transport_rates"])
-    schedule = burden.schedule_of(v)
-    marks = {k: t for k, _, t in burden.milestones(v)}
+    schedule = burden_inputs.schedule_of(v)
+    marks = {k: t for k, _, t in burden_inputs.milestones(v)}
     keep = ("life", "after") if v["exposure_pattern"] == "work" else ("year", "after")
     return {k: (marks[k], net.responses(schedule, marks[k])) for k in keep if k in marks}
 
@@ -202,7 +204,7 @@ def _context(v: dict[str, Any]) -> dict[str, Any]:
             "size_source",
             "The ranges are computed for lognormal modes; describe the aerosol by modes.",
         )
-    dist, subject, _, entered = burden.aerosol_and_subject(v)
+    dist, subject, _, entered = burden_inputs.aerosol_and_subject(v)
     spreads = spreads_of(v)
     _check_ranges(v, spreads, dist)
     n, seed, method = v["samples"], v["seed"], v["sampling_method"]
@@ -211,10 +213,10 @@ def _context(v: dict[str, Any]) -> dict[str, Any]:
     span = {}
     for name, key in (("density", "model_density"), ("shape_factor", "model_shape_factor")):
         fs = factors[name]
-        lo = burden.particle_description(
+        lo = burden_inputs.particle_description(
             v, min(fs) if name == "density" else 1.0, min(fs) if name == "shape_factor" else 1.0
         )
-        hi = burden.particle_description(
+        hi = burden_inputs.particle_description(
             v, max(fs) if name == "density" else 1.0, max(fs) if name == "shape_factor" else 1.0
         )
         span[name] = (getattr(lo, key), getattr(hi, key))
@@ -350,16 +352,17 @@ def _reply(
             "unit": unit,
             "y": [ctx["nominal_outputs"][f"dose_{r}_{w}"] / factor for r in DOSE_REGIONS],
         }
-    marks = {k: lab for k, lab, _ in burden.milestones(v)}
+    marks = {k: lab for k, lab, _ in burden_inputs.milestones(v)}
     for key in ctx["rows"]:
         for w in WEIGHTS:
-            factor, unit, si_unit = burden.UNITS[w]
+            factor, unit, si_unit = burden_inputs.UNITS[w]
             for region in BURDEN_REGIONS:
                 out_key = f"burden_{key}_{region}_{w}"
                 _rows(
                     results,
                     f"range_{out_key}",
-                    f"Retained {WEIGHT_WORDS[w]}, {burden.REGION_LABELS[region]}, {marks[key]}",
+                    f"Retained {WEIGHT_WORDS[w]}, {burden_inputs.REGION_LABELS[region]}, "
+                    f"{marks[key]}",
                     summary[out_key],
                     ctx["nominal_outputs"][out_key],
                     factor,
