@@ -523,8 +523,21 @@ def test_spectrum_file_payloads(one_page, pid, name):
     ]
     for i, text in enumerate(files):
         for field, value in (("csv_diameter_column", p[:80]), ("csv_concentration_column", "2")):
-            box = panel.locator(f".field[data-field={field}] input")
-            box.fill(value)
+            # a column picker (a select of the file's headers) keeps a name it does not list,
+            # as a link gives it: the payload is offered as its own option and chosen
+            panel.locator(f".field[data-field={field}] select").evaluate(
+                """(select, value) => {
+                  if (![...select.options].some((o) => o.value === value)) {
+                    const option = document.createElement("option");
+                    option.value = value;
+                    option.textContent = value;
+                    select.append(option);
+                  }
+                  select.value = value;
+                  select.dispatchEvent(new Event("change", { bubbles: true }));
+                }""",
+                value,
+            )
         before = _updates(page, pid)
         panel.locator(".field[data-field=csv_text] input[type=file]").set_input_files(
             {"name": f"{p[:100]}-{i}.csv", "mimeType": "text/csv", "buffer": text.encode()}
