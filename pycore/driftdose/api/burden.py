@@ -30,6 +30,7 @@ from .burden_inputs import (
     schedule_of,
     series_times,
 )
+from .demos import BURDEN_DEMOS as DEMOS
 from .exposure_fields import aerosol_of, subject_of
 from .fields import FieldError
 from .labels import WEIGHT_WORDS
@@ -37,6 +38,7 @@ from .reply import row
 
 __all__ = [
     "BURDEN_FIELDS",
+    "DEMOS",
     "FIELDS",
     "TITLE",
     "exposure_end_of",
