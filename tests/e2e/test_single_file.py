@@ -208,6 +208,18 @@ def test_single_file_every_panel_computes_and_link_reopens(opened):
         page.wait_for_function(
             "id => Number(document.getElementById(id).dataset.updates || 0) >= 1", arg=panel
         )
+        if panel == "panel-shift":
+            # the shift panel has results only once a logged file is read: its invented demo
+            before = page.evaluate(
+                "() => Number(document.getElementById('panel-shift').dataset.updates)"
+            )
+            page.get_by_role("button", name="Invented demo: a workshop shift").click()
+            page.wait_for_function(
+                "n => { const s = document.getElementById('panel-shift');"
+                " return Number(s.dataset.updates) > n && s.dataset.state === 'ok'; }",
+                arg=before,
+                timeout=120_000,
+            )
         assert page.locator(f"#{panel} table.results").first.is_visible()
     tabs.nth(0).click()
     motion = page.locator("#panel-motion")
