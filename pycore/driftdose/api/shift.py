@@ -52,6 +52,7 @@ from __future__ import annotations
 import functools
 from typing import Any
 
+from ..diameters import ParticleDescription
 from ..distribution import LognormalMode, Multimodal
 from ..shift.background import BACKGROUND_METHODS, BackgroundError
 from ..shift.clock import ClockError, TimeParser, parse_iso
@@ -177,12 +178,20 @@ def _summarised(v: dict[str, Any], columns: list[dict[str, Any]]) -> int:
     raise FieldError("quantity_columns", "Add a number, LDSA or mass column to summarise.")
 
 
-def _modes(raw: Any, density: float, shape_factor: float) -> Multimodal:
-    """The modes (records already in SI) as the shape of the task's distribution."""
+def _modes(raw: Any, desc: ParticleDescription) -> Multimodal:
+    """The modes (records already in SI; count medians volume-equivalent) as the shape of the
+    task's distribution, on the models' size axis (a mobility median with an effective
+    density, as the deposition calculation converts a mode)."""
     if not isinstance(raw, list) or not raw:
         raise FieldError("modes", "Give at least one lognormal mode.")
+    rho, chi = desc.model_density, desc.model_shape_factor
     return Multimodal(
-        tuple(LognormalMode(m["median"], m["gsd"], m["share"], density, shape_factor) for m in raw)
+        tuple(
+            LognormalMode(
+                desc.to_model(m["median"], "volume_equivalent"), m["gsd"], m["share"], rho, chi
+            )
+            for m in raw
+        )
     )
 
 

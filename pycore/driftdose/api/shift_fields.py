@@ -10,8 +10,9 @@ from .. import textfile
 from ..shift.periods import MAX_PERIODS
 from .exposure_fields import DEPOSITION_MODEL
 from .fields import Field
-from .particle_air_fields import PARTICLE_DENSITY, SHAPE_FACTOR
+from .particle_air_fields import DENSITY_BASIS, PARTICLE_DENSITY, SHAPE_FACTOR
 from .shift_inputs import COLUMN_FIELDS, MAX_COLUMNS, MODE_FIELDS, PERIOD_FIELDS
+from .spectrum_fields import SPECTRUM_DIAMETER_TYPE
 
 __all__ = ["FIELDS", "MAX_BYTES"]
 
@@ -269,7 +270,18 @@ FIELDS: tuple[Field, ...] = (
         ),
         applies=_DOSE,
     ),
-    replace(PARTICLE_DENSITY, applies=_DOSE),
+    replace(
+        SPECTRUM_DIAMETER_TYPE,
+        label="Diameters of the size channels or spectrum are",
+        applies=("size_source", ("channels", "spectrum")),
+    ),
+    replace(
+        PARTICLE_DENSITY,
+        help="Material density, or the effective density if chosen below (applies to every "
+        "channel, bin or mode).",
+        applies=_DOSE,
+    ),
+    replace(DENSITY_BASIS, applies=_DOSE),
     replace(SHAPE_FACTOR, applies=_DOSE),
     replace(DEPOSITION_MODEL, applies=_DOSE),
 )

@@ -8,8 +8,10 @@ import itertools
 from collections.abc import Callable
 from typing import Any
 
+from ..compose.aerosol import aerosol_from_spectrum
 from ..compose.shift import DoseSetup, ShiftResult
-from ..distribution import BinnedSpectrum
+from ..diameters import ParticleDescription
+from ..distribution import BinnedSpectrum, Multimodal
 from ..shift.periods import Period
 from ..shift.series import TimeSeries
 from ..shift.stats import PeriodStats
@@ -44,13 +46,16 @@ def dose_setup(
     columns: list[dict[str, Any]],
     units: tuple[str, ...],
     q_index: int,
-    parse_modes: Callable[[Any, float, float], Any],
+    parse_modes: Callable[[Any, ParticleDescription], Any],
 ) -> DoseSetup | None:
     """The dose choices as the composer takes them (None for no dose)."""
     source = v["size_source"]
     if source == "none":
         return None
-    rho, chi = v["particle_density"], v["shape_factor"]
+    desc = ParticleDescription(
+        v["particle_density"], v["shape_factor"], v.get("density_basis") or "material"
+    )
+    diameter_type = v.get("spectrum_diameter_type") or "volume_equivalent"
     corrected = v["dose_basis"] == "corrected"
     if source == "channels":
         chans = sorted(
@@ -68,8 +73,8 @@ def dose_setup(
             channel_keys=tuple(k for _, k in chans),
             channel_diameters=tuple(d for d, _ in chans),
             channel_per_log10=v["channel_type"] == "dN/dlogDp",
-            density=rho,
-            shape_factor=chi,
+            description=desc,
+            diameter_type=diameter_type,
             model=v["model"],
             corrected=corrected,
         )
@@ -84,9 +89,9 @@ def dose_setup(
     if s_quantity == "channel":
         raise FieldError("scale_column", "Scale to a number, mass or LDSA column.")
     if source == "modes":
-        shape = parse_modes(v.get("modes"), rho, chi)
+        shape = parse_modes(v.get("modes"), desc)
     else:
-        shape = _spectrum(v, rho, chi)
+        shape = _spectrum(v, desc, diameter_type)
     return DoseSetup(
         source,
         shape=shape,
@@ -97,7 +102,9 @@ def dose_setup(
     )
 
 
-def _spectrum(v: dict[str, Any], rho: float, chi: float) -> BinnedSpectrum:
+def _spectrum(
+    v: dict[str, Any], desc: ParticleDescription, diameter_type: str
+) -> Multimodal | BinnedSpectrum:
     text = v.get("spectrum_text")
     if not isinstance(text, str) or not text.strip():
         raise FieldError("spectrum_text", "Choose a CSV file with the spectrum.")
@@ -116,7 +123,15 @@ def _spectrum(v: dict[str, Any], rho: float, chi: float) -> BinnedSpectrum:
         raise FieldError("spectrum_text", "The diameters must lie from 1 nm to 100 µm.")
     if sum(imported.numbers) <= 0.0:
         raise FieldError("spectrum_text", "All concentrations in the spectrum are zero.")
-    return imported.to_distribution(rho, chi)
+    try:
+        aerosol = aerosol_from_spectrum(imported.diameters, imported.numbers, diameter_type, desc)
+    except ValueError:
+        raise FieldError(
+            "spectrum_text",
+            "Two bins of the spectrum fall on the same size after conversion to the models' "
+            "diameter; merge them.",
+        ) from None
+    return aerosol.distribution
 
 
 def _q(x: float | None, f: float) -> float | None:

@@ -23,6 +23,7 @@ __all__ = [
     "D_RANGE",
     "NUMBER_MAX",
     "NUMBER_MIN",
+    "SPECTRUM_DIAMETER_TYPE",
     "SPECTRUM_FIELD_NAMES",
     "describe_spectrum_file",
     "import_spectrum",
@@ -39,6 +40,19 @@ MAX_HEADER_LINE = 1_000_000
 NUMBER_MIN = 1.0
 """Smallest accepted total number concentration [1/m³]; below it doses fall under what a
 number can hold."""
+
+SPECTRUM_DIAMETER_TYPE = Field(
+    "spectrum_diameter_type",
+    "Diameters in the file are",
+    "choice",
+    "volume_equivalent",
+    choices=DIAMETER_TYPE_CHOICES,
+    help="The instrument's diameter: mobility for differential mobility sizers, "
+    "aerodynamic for impactors and time-of-flight sizers, optical for light-scattering "
+    "counters.",
+)
+"""Which equivalent diameter a measured spectrum's sizes are (also the size channels of a
+logged shift)."""
 
 _FIELDS: tuple[Field, ...] = (
     Field(
@@ -99,16 +113,7 @@ _FIELDS: tuple[Field, ...] = (
         "nm",
         choices=(("nm", "nm"), ("um", "µm"), ("m", "m")),
     ),
-    Field(
-        "spectrum_diameter_type",
-        "Diameters in the file are",
-        "choice",
-        "volume_equivalent",
-        choices=DIAMETER_TYPE_CHOICES,
-        help="The instrument's diameter: mobility for differential mobility sizers, "
-        "aerodynamic for impactors and time-of-flight sizers, optical for light-scattering "
-        "counters.",
-    ),
+    SPECTRUM_DIAMETER_TYPE,
     Field(
         "csv_concentration_unit",
         "Concentration unit in the file",

@@ -19,6 +19,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
+from ..diameters import ParticleDescription
 from ..distribution import WEIGHTS
 from ..shift.background import Background, background_values
 from ..shift.periods import Period, check_periods
@@ -27,6 +28,9 @@ from ..shift.stats import PeriodStats, mean_over, stats_over, twa8h
 from ..shift.taskdose import TaskDose, channel_spectrum, scaled, shape_amount, task_dose
 
 __all__ = ["DoseSetup", "ShiftDose", "ShiftResult", "compose_shift"]
+
+UNIT_DENSITY = ParticleDescription(1000.0)
+"""Unit-density spheres, the description of channels when none is given."""
 
 
 @dataclass(frozen=True)
@@ -50,10 +54,12 @@ class DoseSetup:
         Their mid-point diameters. [m]
     channel_per_log10 : bool
         Channels hold dN/dlog10 d rather than particles per bin.
-    density : float
-        Particle density for ``channels``. [kg/m^3]
-    shape_factor : float
-        Dynamic shape factor for ``channels``. [-]
+    description : ParticleDescription
+        The particles of ``channels``: density [kg/m^3], dynamic shape factor [-] and density
+        basis (material or effective); unit-density spheres when left out.
+    diameter_type : str
+        Which equivalent diameter the channels are: ``volume_equivalent``, ``optical``,
+        ``mobility`` or ``aerodynamic`` (converted to the models' diameter).
     model : str
         ``icrp66`` or ``simplified``.
     corrected : bool
@@ -69,8 +75,8 @@ class DoseSetup:
     channel_keys: tuple[str, ...] = ()
     channel_diameters: tuple[float, ...] = ()
     channel_per_log10: bool = False
-    density: float = 1000.0
-    shape_factor: float = 1.0
+    description: ParticleDescription = UNIT_DENSITY
+    diameter_type: str = "volume_equivalent"
     model: str = "icrp66"
     corrected: bool = False
 
@@ -278,8 +284,8 @@ def _dose(
                 setup.channel_diameters,
                 [float(m) for m in means if m is not None],
                 setup.channel_per_log10,
-                setup.density,
-                setup.shape_factor,
+                setup.description,
+                setup.diameter_type,
             )
             if ambient.total("number") <= 0.0:
                 skipped.append((i, "every size channel is zero in the task"))

@@ -3,7 +3,11 @@ behind the protection worn.
 
 Each task's aerosol is a size distribution whose amount comes from the task's measurements:
 
-- ``channels``: the task-period mean of the logged size channels, as a binned spectrum;
+- ``channels``: the task-period mean of the logged size channels, as a binned spectrum whose
+  channel diameters, of the type the instrument measures (optical, mobility, aerodynamic or
+  volume-equivalent), are converted to the diameter of the sphere the models compute with by
+  :class:`driftdose.diameters.ParticleDescription` (DeCarlo et al. 2004; at 20 °C and 1 atm,
+  where the aerosol was measured), as the deposition calculation converts a spectrum;
 - ``spectrum`` or ``modes``: an imported spectrum or lognormal modes that give the *shape*,
   scaled so that its number concentration, mass concentration or alveolar LDSA equals the
   task's measured mean of that quantity.
@@ -18,12 +22,14 @@ concentration and the duration, doses of tasks add up.
 
 from __future__ import annotations
 
+import functools
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
 from typing import Any
 
 from ..deposition import REFERENCE_WORKER, Subject, activity
+from ..diameters import ParticleDescription
 from ..distribution import BinnedSpectrum, LognormalMode, Multimodal, bin_edges
 from ..dose import DoseResult, deposited_dose
 from ..ldsa import lung_deposited_surface_area
@@ -31,6 +37,7 @@ from ..ldsa import lung_deposited_surface_area
 __all__ = [
     "SCALE_QUANTITIES",
     "channel_spectrum",
+    "model_diameters",
     "scaled",
     "shape_amount",
     "task_dose",
@@ -40,42 +47,74 @@ SCALE_QUANTITIES = ("number", "mass", "ldsa")
 """Measured quantities a size distribution's shape can be scaled to."""
 
 
+@functools.lru_cache(maxsize=16)
+def model_diameters(
+    diameters: tuple[float, ...], description: ParticleDescription, diameter_type: str
+) -> tuple[float, ...]:
+    """Measured channel diameters as diameters of the models' sphere.
+
+    Parameters
+    ----------
+    diameters : tuple of float
+        Channel mid-point diameters as measured, increasing. [m]
+    description : ParticleDescription
+        The particles: density [kg/m^3], dynamic shape factor [-], density basis.
+    diameter_type : str
+        What the instrument measures: ``volume_equivalent``, ``optical`` (taken as
+        volume-equivalent), ``mobility`` or ``aerodynamic``.
+
+    Returns
+    -------
+    tuple of float
+        :meth:`ParticleDescription.to_model` of each diameter at 20 °C and 1 atm (the
+        relations of DeCarlo et al. 2004, monotone in size, so the channels stay in order);
+        kept for the next task (the same channels serve every task). [m]
+
+    """
+    return tuple(description.to_model(d, diameter_type) for d in diameters)
+
+
 def channel_spectrum(
     diameters: Sequence[float],
     means: Sequence[float],
     per_log10: bool,
-    density: float = 1000.0,
-    shape_factor: float = 1.0,
+    description: ParticleDescription | None = None,
+    diameter_type: str = "volume_equivalent",
 ) -> BinnedSpectrum:
     """A binned spectrum from the mean of each size channel over a task.
 
     Parameters
     ----------
     diameters : sequence of float
-        Channel mid-point diameters, increasing. [m]
+        Channel mid-point diameters as measured, increasing. [m]
     means : sequence of float
         Task mean of each channel: particles per bin [1/m^3], or dN/dlog10 d [1/m^3].
     per_log10 : bool
-        Whether the channels are dN/dlog10 d (converted to per bin with the bin widths of
-        :func:`driftdose.distribution.bin_edges`).
-    density : float
-        Particle density. [kg/m^3]
-    shape_factor : float
-        Dynamic shape factor. [-]
+        Whether the channels are dN/dlog10 d (converted to per bin with the widths of the
+        measured channels, :func:`driftdose.distribution.bin_edges`).
+    description : ParticleDescription, optional
+        The particles (density [kg/m^3], shape factor [-], density basis); unit-density
+        spheres when left out.
+    diameter_type : str
+        Which equivalent diameter the channels are (see :func:`model_diameters`).
 
     Returns
     -------
     BinnedSpectrum
-        Negative means (instrument noise) are taken as zero.
+        On the models' size axis (volume-equivalent with a material density, mobility with
+        an effective density), with the model sphere's density and shape factor. Negative
+        means (instrument noise) are taken as zero.
 
     """
+    desc = description if description is not None else ParticleDescription(1000.0)
     numbers = [max(0.0, m) for m in means]
     if per_log10:
         edges = bin_edges(diameters)
         numbers = [
             n * math.log10(b / a) for n, a, b in zip(numbers, edges, edges[1:], strict=False)
         ]
-    return BinnedSpectrum(tuple(diameters), tuple(numbers), density, shape_factor)
+    d = model_diameters(tuple(diameters), desc, diameter_type)
+    return BinnedSpectrum(d, tuple(numbers), desc.model_density, desc.model_shape_factor)
 
 
 def shape_amount(dist: Any, quantity: str, model: str = "icrp66") -> float:
