@@ -26,11 +26,15 @@ from .particle_air_fields import (
 from .spectrum_fields import D_RANGE, NUMBER_MAX, NUMBER_MIN, import_spectrum, spectrum_fields
 
 __all__ = [
+    "ACTIVITY",
     "CORE_BASIS",
     "EXPOSURE_FIELDS",
     "MEDIAN_NAMES",
     "MEDIAN_WORDS",
     "MODE_FIELDS",
+    "MODE_GSD",
+    "MODE_MEDIAN",
+    "ROUTE",
     "aerosol_of",
     "subject_of",
 ]
@@ -87,6 +91,30 @@ _NUMBER_CONCENTRATION = Field(
     applies=("basis", ("count",)),
 )
 
+MODE_MEDIAN = Field(
+    "median",
+    "Median diameter: count median (count mode) or mass median (mass mode)",
+    "length",
+    (None, "nm"),
+    ("nm", "um"),
+    minimum=D_RANGE[0],
+    maximum=D_RANGE[1],
+)
+"""A lognormal mode's median diameter (the shift's modes reuse it with their own label)."""
+MODE_GSD = Field(
+    "gsd",
+    "Geometric standard deviation",
+    "dimensionless",
+    (None, "1"),
+    ("1",),
+    minimum=1.0,
+    exclusive_min=True,
+    maximum=GSD_MAX,
+    help="Above 1 (1 would mean all particles share one size; e.g. 1.05 for a nearly "
+    f"uniform aerosol); above {GSD_MAX:g} is implausible for one mode: use several modes.",
+)
+"""A lognormal mode's geometric standard deviation."""
+
 MODE_FIELDS: tuple[Field, ...] = (
     Field(
         "basis",
@@ -98,15 +126,7 @@ MODE_FIELDS: tuple[Field, ...] = (
             ("mass", "Mass (mass median, mass concentration)"),
         ),
     ),
-    Field(
-        "median",
-        "Median diameter: count median (count mode) or mass median (mass mode)",
-        "length",
-        (None, "nm"),
-        ("nm", "um"),
-        minimum=D_RANGE[0],
-        maximum=D_RANGE[1],
-    ),
+    MODE_MEDIAN,
     replace(
         _DIAMETER_TYPE,
         variants=(
@@ -114,18 +134,7 @@ MODE_FIELDS: tuple[Field, ...] = (
             replace(_DIAMETER_TYPE, default="aerodynamic", applies=("basis", ("mass",))),
         ),
     ),
-    Field(
-        "gsd",
-        "Geometric standard deviation",
-        "dimensionless",
-        (None, "1"),
-        ("1",),
-        minimum=1.0,
-        exclusive_min=True,
-        maximum=GSD_MAX,
-        help="Above 1 (1 would mean all particles share one size; e.g. 1.05 for a nearly "
-        f"uniform aerosol); above {GSD_MAX:g} is implausible for one mode: use several modes.",
-    ),
+    MODE_GSD,
     replace(
         _NUMBER_CONCENTRATION,
         units=("1/cm3", "1/m3", "mg/m3", "ug/m3"),
@@ -159,6 +168,35 @@ DEPOSITION_MODEL = Field(
     ),
 )
 """The choice of deposition model, shared by every calculation that gives a dose."""
+
+ACTIVITY = Field(
+    "activity",
+    "Activity level",
+    "choice",
+    "light_exercise",
+    choices=(
+        ("sleep", "Sleep"),
+        ("sitting", "Sitting awake"),
+        ("light_exercise", "Light exercise"),
+        ("heavy_exercise", "Heavy exercise"),
+    ),
+    applies=("breathing", ("activity",)),
+)
+"""One activity level of the ICRP breathing rates (the shift's task periods reuse it)."""
+ROUTE = Field(
+    "route",
+    "Breathing route",
+    "choice",
+    "mixed",
+    choices=(
+        ("mixed", "Normal nose breather (ICRP: mouth joins at heavy exercise)"),
+        ("nose", "Nose only"),
+        ("mouth", "Mouth only"),
+        ("mouth_breather", "Habitual mouth breather (ICRP)"),
+    ),
+    applies=("breathing", ("reference_worker", "activity")),
+)
+"""The breathing route of the ICRP model."""
 
 EXPOSURE_FIELDS: tuple[Field, ...] = (
     Field(
@@ -230,32 +268,8 @@ EXPOSURE_FIELDS: tuple[Field, ...] = (
             ("custom", "Custom breathing parameters"),
         ),
     ),
-    Field(
-        "activity",
-        "Activity level",
-        "choice",
-        "light_exercise",
-        choices=(
-            ("sleep", "Sleep"),
-            ("sitting", "Sitting awake"),
-            ("light_exercise", "Light exercise"),
-            ("heavy_exercise", "Heavy exercise"),
-        ),
-        applies=("breathing", ("activity",)),
-    ),
-    Field(
-        "route",
-        "Breathing route",
-        "choice",
-        "mixed",
-        choices=(
-            ("mixed", "Normal nose breather (ICRP: mouth joins at heavy exercise)"),
-            ("nose", "Nose only"),
-            ("mouth", "Mouth only"),
-            ("mouth_breather", "Habitual mouth breather (ICRP)"),
-        ),
-        applies=("breathing", ("reference_worker", "activity")),
-    ),
+    ACTIVITY,
+    ROUTE,
     Field(
         "tidal_volume",
         "Tidal volume (custom)",

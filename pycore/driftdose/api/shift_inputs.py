@@ -10,10 +10,12 @@ says the place in words (period 3).
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 from typing import Any
 
 from ..shift.clock import DAY, ClockError, parse_clock_time, parse_iso
 from ..shift.periods import MAX_PERIODS, PERIOD_KINDS, Period
+from .exposure_fields import ACTIVITY, MODE_GSD, MODE_MEDIAN, ROUTE
 from .fields import Field, FieldError
 from .units import unit_label
 
@@ -118,6 +120,8 @@ COLUMN_FIELDS: tuple[Field, ...] = (
 )
 """Sub-fields of a value-column record."""
 
+_TASK = ("kind", ("task",))
+
 PERIOD_FIELDS: tuple[Field, ...] = (
     Field("label", "Label", "text", "", required=False, extra={"max_length": 80}),
     Field(
@@ -135,32 +139,12 @@ PERIOD_FIELDS: tuple[Field, ...] = (
         extra={"max_length": 40},
     ),
     Field("end", "End (hh:mm[:ss] or 2026-03-05T08:00)", "text", None, extra={"max_length": 40}),
-    Field(
-        "activity",
-        "Activity level",
-        "choice",
-        "light_exercise",
-        choices=(
-            ("sitting", "Sitting awake"),
-            ("light_exercise", "Light exercise"),
-            ("heavy_exercise", "Heavy exercise"),
-            ("sleep", "Sleep"),
-        ),
-        applies=("kind", ("task",)),
+    replace(
+        ACTIVITY,
+        choices=tuple(sorted(ACTIVITY.choices, key=lambda c: c[0] == "sleep")),
+        applies=_TASK,
     ),
-    Field(
-        "route",
-        "Breathing route",
-        "choice",
-        "mixed",
-        choices=(
-            ("mixed", "Normal nose breather (ICRP: mouth joins at heavy exercise)"),
-            ("nose", "Nose only"),
-            ("mouth", "Mouth only"),
-            ("mouth_breather", "Habitual mouth breather (ICRP)"),
-        ),
-        applies=("kind", ("task",)),
-    ),
+    replace(ROUTE, applies=_TASK),
     Field(
         "protection_factor",
         "Assigned protection factor of the respiratory protection worn (1: none)",
@@ -170,31 +154,14 @@ PERIOD_FIELDS: tuple[Field, ...] = (
         minimum=1.0,
         maximum=100_000.0,
         help="The factor that applies to the device worn, from your own source; none is built in.",
-        applies=("kind", ("task",)),
+        applies=_TASK,
     ),
 )
 """Sub-fields of a period record."""
 
 MODE_FIELDS: tuple[Field, ...] = (
-    Field(
-        "median",
-        "Count median diameter (volume-equivalent)",
-        "length",
-        (50.0, "nm"),
-        ("nm", "um"),
-        minimum=1e-9,
-        maximum=100e-6,
-    ),
-    Field(
-        "gsd",
-        "Geometric standard deviation",
-        "dimensionless",
-        (1.8, "1"),
-        ("1",),
-        minimum=1.0,
-        maximum=5.0,
-        exclusive_min=True,
-    ),
+    replace(MODE_MEDIAN, label="Count median diameter (volume-equivalent)", default=(50.0, "nm")),
+    replace(MODE_GSD, default=(1.8, "1"), help=""),
     Field(
         "share",
         "Share of the particle number",
