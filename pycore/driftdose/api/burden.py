@@ -26,12 +26,11 @@ from .burden_inputs import (
     UNITS,
     exposure_end_of,
     milestones,
-    particle_description,
     schedule_of,
     series_times,
 )
 from .demos import BURDEN_DEMOS as DEMOS
-from .exposure_fields import aerosol_of, subject_of
+from .exposure_fields import aerosol_of, particle_description, subject_of
 from .fields import FieldError
 from .labels import WEIGHT_WORDS
 from .reply import row

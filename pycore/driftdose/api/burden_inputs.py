@@ -11,9 +11,9 @@ from __future__ import annotations
 import math
 from typing import Any
 
-from ..diameters import ParticleDescription
 from ..retention import DAY, YEAR
 from ..retention.model import exposure_end, single_exposure, work_schedule
+from .declare import whole
 from .demos import BURDEN_DEMOS as DEMOS
 from .exposure_fields import EXPOSURE_FIELDS, aerosol_of, subject_of
 from .fields import Field
@@ -36,6 +36,8 @@ UNITS = {  # weight -> (factor to SI, unit, SI unit)
     "mass": (1e-6, "mg", "kg"),
 }
 SERIES_PER_DECADE = 48
+
+_AT_WORK = ("exposure_pattern", ("work",))
 
 BURDEN_FIELDS: tuple[Field, ...] = (
     Field(
@@ -61,56 +63,29 @@ BURDEN_FIELDS: tuple[Field, ...] = (
         ),
         help="The exposure duration above is one shift; a working life repeats it.",
     ),
-    Field(
+    whole(
         "shifts_per_week",
         "Shifts per week",
-        "integer",
         5,
-        minimum=1,
-        maximum=7,
-        applies=("exposure_pattern", ("work",)),
+        1,
+        7,
+        applies=_AT_WORK,
         help="On consecutive days, each shift starting at the same time of day.",
     ),
-    Field(
-        "weeks_per_year",
-        "Working weeks per year",
-        "integer",
-        48,
-        minimum=1,
-        maximum=52,
-        applies=("exposure_pattern", ("work",)),
-    ),
-    Field(
-        "working_years",
-        "Working years",
-        "integer",
-        40,
-        minimum=1,
-        maximum=50,
-        applies=("exposure_pattern", ("work",)),
-    ),
-    Field(
+    whole("weeks_per_year", "Working weeks per year", 48, 1, 52, applies=_AT_WORK),
+    whole("working_years", "Working years", 40, 1, 50, applies=_AT_WORK),
+    whole(
         "years_after",
         "Follow-up after exposure ends (years)",
-        "integer",
         10,
-        minimum=0,
-        maximum=50,
+        0,
+        50,
         help="How long after the last exposure the retained amounts are followed.",
     ),
 )
 
 FIELDS: tuple[Field, ...] = EXPOSURE_FIELDS + BURDEN_FIELDS
 """Every input of the burden calculation."""
-
-
-def particle_description(v: dict[str, Any], f_density: float = 1.0, f_shape: float = 1.0) -> Any:
-    """The particle description of the deposition inputs, density and shape scaled."""
-    return ParticleDescription(
-        v["particle_density"] * f_density,
-        v["shape_factor"] * f_shape,
-        v.get("density_basis") or "material",
-    )
 
 
 def aerosol_and_subject(v: dict[str, Any]) -> tuple[Any, Any, dict | None, tuple]:

@@ -15,6 +15,7 @@ from ..compose.deposition import breathing_subject
 from ..deposition import Subject
 from ..diameters import ParticleDescription
 from ..distribution import GSD_MAX, MAX_MODES
+from .declare import bounded, spread
 from .demos import DEMOS
 from .fields import Field, FieldError
 from .particle_air_fields import (
@@ -36,6 +37,7 @@ __all__ = [
     "MODE_MEDIAN",
     "ROUTE",
     "aerosol_of",
+    "particle_description",
     "subject_of",
 ]
 
@@ -80,36 +82,53 @@ _DIAMETER_TYPE = Field(
     help="Mass mode: aerodynamic gives the MMAD, volume-equivalent the geometric mass median. "
     "Left out: volume-equivalent for a count mode, aerodynamic for a mass mode.",
 )
-_NUMBER_CONCENTRATION = Field(
+_CONCENTRATION_UNITS = {
+    "number_concentration": ("1/cm3", "1/m3"),
+    "mass_concentration": ("mg/m3", "ug/m3"),
+}
+"""Units offered for a number and for a mass concentration, the default's first."""
+
+
+def _concentration(
+    name: str, label: str, kind: str, minimum: float, maximum: float, **more: Any
+) -> Field:
+    """A number or mass concentration (``kind``) with no default value, in its own units."""
+    units = _CONCENTRATION_UNITS[kind]
+    return bounded(name, label, kind, (None, units[0]), units, minimum, maximum, **more)
+
+
+_BY_COUNT = ("basis", ("count",))
+_NUMBER_CONCENTRATION = _concentration(
     "concentration",
     _CONCENTRATION_LABEL,
     "number_concentration",
-    (None, "1/cm3"),
-    ("1/cm3", "1/m3"),
-    minimum=NUMBER_MIN,
-    maximum=NUMBER_MAX,
-    applies=("basis", ("count",)),
+    NUMBER_MIN,
+    NUMBER_MAX,
+    applies=_BY_COUNT,
+)
+_MASS_CONCENTRATION = _concentration(
+    "concentration",
+    _CONCENTRATION_LABEL,
+    "mass_concentration",
+    MASS_MIN,
+    MASS_MAX,
+    applies=("basis", ("mass",)),
 )
 
-MODE_MEDIAN = Field(
+MODE_MEDIAN = bounded(
     "median",
     "Median diameter: count median (count mode) or mass median (mass mode)",
     "length",
     (None, "nm"),
     ("nm", "um"),
-    minimum=D_RANGE[0],
-    maximum=D_RANGE[1],
+    *D_RANGE,
 )
 """A lognormal mode's median diameter (the shift's modes reuse it with their own label)."""
-MODE_GSD = Field(
+MODE_GSD = spread(
     "gsd",
     "Geometric standard deviation",
-    "dimensionless",
-    (None, "1"),
-    ("1",),
-    minimum=1.0,
-    exclusive_min=True,
-    maximum=GSD_MAX,
+    None,
+    GSD_MAX,
     help="Above 1 (1 would mean all particles share one size; e.g. 1.05 for a nearly "
     f"uniform aerosol); above {GSD_MAX:g} is implausible for one mode: use several modes.",
 )
@@ -130,29 +149,18 @@ MODE_FIELDS: tuple[Field, ...] = (
     replace(
         _DIAMETER_TYPE,
         variants=(
-            replace(_DIAMETER_TYPE, applies=("basis", ("count",))),
+            replace(_DIAMETER_TYPE, applies=_BY_COUNT),
             replace(_DIAMETER_TYPE, default="aerodynamic", applies=("basis", ("mass",))),
         ),
     ),
     MODE_GSD,
     replace(
         _NUMBER_CONCENTRATION,
-        units=("1/cm3", "1/m3", "mg/m3", "ug/m3"),
+        units=_NUMBER_CONCENTRATION.units + _MASS_CONCENTRATION.units,
         minimum=None,
         maximum=None,
         applies=None,
-        variants=(
-            _NUMBER_CONCENTRATION,
-            replace(
-                _NUMBER_CONCENTRATION,
-                kind="mass_concentration",
-                default=(None, "mg/m3"),
-                units=("mg/m3", "ug/m3"),
-                minimum=MASS_MIN,
-                maximum=MASS_MAX,
-                applies=("basis", ("mass",)),
-            ),
-        ),
+        variants=(_NUMBER_CONCENTRATION, _MASS_CONCENTRATION),
     ),
 )
 """What each lognormal mode holds; parsed as every other field is."""
@@ -197,6 +205,11 @@ ROUTE = Field(
     applies=("breathing", ("reference_worker", "activity")),
 )
 """The breathing route of the ICRP model."""
+
+_CUSTOM = ("breathing", ("custom",))
+_BENCHMARK_HELP = "A value you choose to compare with, with its source; none is built in."
+_LONGEST = 24 * 3600.0
+"""Longest exposure, a day [s]."""
 
 EXPOSURE_FIELDS: tuple[Field, ...] = (
     Field(
@@ -270,68 +283,84 @@ EXPOSURE_FIELDS: tuple[Field, ...] = (
     ),
     ACTIVITY,
     ROUTE,
-    Field(
+    bounded(
         "tidal_volume",
         "Tidal volume (custom)",
         "volume",
         (1.25, "L"),
         ("L", "m3"),
-        minimum=0.1e-3,
-        maximum=4e-3,
-        applies=("breathing", ("custom",)),
+        0.1e-3,
+        4e-3,
+        applies=_CUSTOM,
     ),
-    Field(
+    bounded(
         "breathing_frequency",
         "Breathing frequency (custom), breaths per minute",
         "dimensionless",
         (20.0, "1"),
         ("1",),
-        minimum=4.0,
-        maximum=60.0,
-        applies=("breathing", ("custom",)),
+        4.0,
+        60.0,
+        applies=_CUSTOM,
     ),
-    Field(
+    bounded(
         "nasal_fraction",
         "Share of air through the nose (custom)",
         "dimensionless",
         (1.0, "1"),
         ("1",),
-        minimum=0.0,
-        maximum=1.0,
-        applies=("breathing", ("custom",)),
+        0.0,
+        1.0,
+        applies=_CUSTOM,
     ),
-    Field(
-        "exposure_duration",
-        "Exposure duration",
-        "time",
-        (8.0, "h"),
-        ("h", "min"),
-        minimum=1.0,
-        maximum=24 * 3600.0,
+    bounded(
+        "exposure_duration", "Exposure duration", "time", (8.0, "h"), ("h", "min"), 1.0, _LONGEST
     ),
-    Field(
+    _concentration(
         "benchmark_number",
         "Benchmark number concentration (optional)",
         "number_concentration",
-        (None, "1/cm3"),
-        ("1/cm3", "1/m3"),
-        minimum=BENCHMARK_NUMBER_MIN,
-        maximum=NUMBER_MAX,
+        BENCHMARK_NUMBER_MIN,
+        NUMBER_MAX,
         required=False,
-        help="A value you choose to compare with, with its source; none is built in.",
+        help=_BENCHMARK_HELP,
     ),
-    Field(
+    _concentration(
         "benchmark_mass",
         "Benchmark mass concentration (optional)",
         "mass_concentration",
-        (None, "mg/m3"),
-        ("mg/m3", "ug/m3"),
-        minimum=BENCHMARK_MASS_MIN,
-        maximum=MASS_MAX,
+        BENCHMARK_MASS_MIN,
+        MASS_MAX,
         required=False,
-        help="A value you choose to compare with, with its source; none is built in.",
+        help=_BENCHMARK_HELP,
     ),
 )
+
+
+def particle_description(
+    v: dict[str, Any], f_density: float = 1.0, f_shape: float = 1.0
+) -> ParticleDescription:
+    """The particle of the validated inputs, its density and shape factor scaled.
+
+    Parameters
+    ----------
+    v : dict
+        Inputs validated by :data:`EXPOSURE_FIELDS` (SI).
+    f_density : float
+        Factor on the particle density [-] (the ranges vary it).
+    f_shape : float
+        Factor on the dynamic shape factor [-].
+
+    Returns
+    -------
+    ParticleDescription
+        Density [kg/m³], shape factor and the density's basis.
+    """
+    return ParticleDescription(
+        v["particle_density"] * f_density,
+        v["shape_factor"] * f_shape,
+        v.get("density_basis") or "material",
+    )
 
 
 def aerosol_of(v: dict[str, Any]) -> tuple[Aerosol, dict[str, Any] | None]:
@@ -348,9 +377,7 @@ def aerosol_of(v: dict[str, Any]) -> tuple[Aerosol, dict[str, Any] | None]:
         The :class:`~driftdose.compose.aerosol.Aerosol` and the import report (None for
         lognormal modes).
     """
-    desc = ParticleDescription(
-        v["particle_density"], v["shape_factor"], v.get("density_basis") or "material"
-    )
+    desc = particle_description(v)
     if v["size_source"] == "lognormal":
         modes = [ModeSpec(**{**m, "basis": CORE_BASIS[m["basis"]]}) for m in v["modes"]]
         return aerosol_from_modes(modes, desc), None

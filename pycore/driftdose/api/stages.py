@@ -17,6 +17,7 @@ from typing import Any
 from ..transport import STAGE_KINDS, StageInputError, build_stage
 from ..transport.chain import Stage
 from ..transport.impactor import DEFAULT_EFFICIENCY_WIDTH
+from .declare import bounded, positive, spread, whole
 from .fields import Field, parse_fields
 
 __all__ = [
@@ -40,66 +41,43 @@ WIRE_MIN = 1e-7
 """Thinnest screen wire accepted [m], 0.1 um."""
 
 
-def _name() -> Field:
-    return Field(
-        "name",
-        "Stage name",
-        "text",
-        "",
-        required=False,
-        help="Your label for this stage.",
-        extra={"max_length": 60},
-    )
-
-
-def _flow() -> Field:
-    return Field(
-        "flow",
-        "Flow through this stage",
-        "flow",
-        (None, "L/min"),
-        ("L/min", "m3/h", "cm3/s", "m3/s"),
-        minimum=FLOW_MIN,
-        maximum=0.1,
-        required=False,
-        help="Leave empty to use the sampling flow.",
-    )
-
-
-def _tube_diameter() -> Field:
-    return Field(
-        "tube_diameter",
-        "Tube inner diameter",
-        "length",
-        (4.0, "mm"),
-        ("mm", "cm", "m"),
-        minimum=BORE_MIN,
-        maximum=1.0,
-    )
-
+_NAME = Field(
+    "name",
+    "Stage name",
+    "text",
+    "",
+    required=False,
+    help="Your label for this stage.",
+    extra={"max_length": 60},
+)
+_FLOW = bounded(
+    "flow",
+    "Flow through this stage",
+    "flow",
+    (None, "L/min"),
+    ("L/min", "m3/h", "cm3/s", "m3/s"),
+    FLOW_MIN,
+    0.1,
+    required=False,
+    help="Leave empty to use the sampling flow.",
+)
+_BORE = bounded(
+    "tube_diameter", "Tube inner diameter", "length", (4.0, "mm"), ("mm", "cm", "m"), BORE_MIN, 1.0
+)
 
 STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
     "tube": (
-        _name(),
-        Field(
-            "length",
-            "Tube length",
-            "length",
-            (1.0, "m"),
-            ("m", "cm", "mm"),
-            minimum=0.0,
-            maximum=1000.0,
-            exclusive_min=True,
-        ),
-        _tube_diameter(),
-        Field(
+        _NAME,
+        positive("length", "Tube length", "length", (1.0, "m"), ("m", "cm", "mm"), 1000.0),
+        _BORE,
+        bounded(
             "inclination",
             "Inclination from horizontal",
             "angle",
             (0.0, "deg"),
             ("deg",),
-            minimum=-math.pi / 2,
-            maximum=math.pi / 2,
+            -math.pi / 2,
+            math.pi / 2,
             help="0° horizontal, 90° vertical.",
         ),
         Field(
@@ -113,36 +91,25 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
                 ("settling", "Settling only"),
             ),
         ),
-        _flow(),
+        _FLOW,
     ),
     "bend": (
-        _name(),
-        _tube_diameter(),
-        Field(
-            "bend_angle",
-            "Bend angle",
-            "angle",
-            (90.0, "deg"),
-            ("deg",),
-            minimum=0.0,
-            maximum=2 * math.pi,
-            exclusive_min=True,
-        ),
-        Field(
+        _NAME,
+        _BORE,
+        positive("bend_angle", "Bend angle", "angle", (90.0, "deg"), ("deg",), 2 * math.pi),
+        positive(
             "curvature_radius",
             "Bend radius (to the tube axis)",
             "length",
             (5.0, "cm"),
             ("cm", "mm", "m"),
-            minimum=0.0,
-            maximum=10.0,
-            exclusive_min=True,
+            10.0,
             help="Must exceed half the tube's inner diameter.",
         ),
-        _flow(),
+        _FLOW,
     ),
     "cyclone": (
-        _name(),
+        _NAME,
         Field(
             "curve",
             "Penetration curve",
@@ -153,30 +120,26 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
                 ("iso7708_respirable", "Ideal ISO 7708 respirable curve"),
             ),
         ),
-        Field(
+        bounded(
             "d50",
             "Cut size (aerodynamic, 50 % penetration)",
             "length",
             (4.0, "um"),
             ("um",),
-            minimum=0.05e-6,
-            maximum=100e-6,
+            0.05e-6,
+            100e-6,
         ),
-        Field(
+        spread(
             "curve_gsd",
             "GSD of the curve",
-            "dimensionless",
-            (1.5, "1"),
-            ("1",),
-            minimum=1.0,
-            maximum=5.0,
-            exclusive_min=True,
+            1.5,
+            5.0,
             help="d50 / d84; smaller is sharper. Above 1.",
             formerly=("steepness",),
         ),
     ),
     "impactor": (
-        _name(),
+        _NAME,
         Field(
             "jet",
             "Jet shape",
@@ -184,98 +147,61 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             "round",
             choices=(("round", "Round nozzles"), ("rectangular", "Rectangular slits")),
         ),
-        Field(
+        bounded(
             "nozzle_diameter",
             "Nozzle diameter or slit width",
             "length",
             (1.0, "mm"),
             ("mm", "um", "cm"),
-            minimum=BORE_MIN,
-            maximum=0.1,
+            BORE_MIN,
+            0.1,
         ),
-        Field(
-            "n_nozzles",
-            "Number of nozzles",
-            "integer",
-            1,
-            minimum=1,
-            maximum=10000,
-        ),
-        Field(
+        whole("n_nozzles", "Number of nozzles", 1, 1, 10000),
+        positive(
             "slit_length",
             "Slit length (rectangular jets)",
             "length",
             (10.0, "mm"),
             ("mm", "cm"),
-            minimum=0.0,
-            maximum=1.0,
-            exclusive_min=True,
+            1.0,
         ),
-        Field(
+        spread(
             "efficiency_width",
             "Width of the efficiency curve",
-            "dimensionless",
-            (DEFAULT_EFFICIENCY_WIDTH, "1"),
-            ("1",),
-            minimum=1.0,
-            maximum=5.0,
-            exclusive_min=True,
+            DEFAULT_EFFICIENCY_WIDTH,
+            5.0,
             help="Width in √Stk around the cut; 1.2 is a plain default, not a published value.",
             formerly=("steepness",),
         ),
-        _flow(),
+        _FLOW,
     ),
     "screens": (
-        _name(),
-        Field(
-            "wire_diameter",
-            "Wire diameter",
-            "length",
-            (50.0, "um"),
-            ("um", "mm"),
-            minimum=WIRE_MIN,
-            maximum=5e-3,
+        _NAME,
+        bounded(
+            "wire_diameter", "Wire diameter", "length", (50.0, "um"), ("um", "mm"), WIRE_MIN, 5e-3
         ),
-        Field(
+        positive(
             "solidity",
             "Solidity (solid volume fraction)",
             "dimensionless",
             (0.3, "1"),
             ("1",),
-            minimum=0.0,
-            maximum=1.0,
-            exclusive_min=True,
+            1.0,
             help="Between 0 and 1; ordinary mesh screens are about 0.2 to 0.4.",
         ),
-        Field(
+        positive(
             "thickness",
             "Thickness of one screen",
             "length",
             (100.0, "um"),
             ("um", "mm"),
-            minimum=0.0,
-            maximum=0.05,
-            exclusive_min=True,
+            0.05,
             help="About twice the wire diameter for plain-woven screens.",
         ),
-        Field(
-            "screen_diameter",
-            "Exposed screen diameter",
-            "length",
-            (25.0, "mm"),
-            ("mm", "cm"),
-            minimum=0.0,
-            maximum=1.0,
-            exclusive_min=True,
+        positive(
+            "screen_diameter", "Exposed screen diameter", "length", (25.0, "mm"), ("mm", "cm"), 1.0
         ),
-        Field(
-            "n_screens",
-            "Number of screens",
-            "integer",
-            1,
-            minimum=1,
-            maximum=500,
-        ),
+        whole("n_screens", "Number of screens", 1, 1, 500),
         Field(
             "impaction",
             "Impaction on the wires",
@@ -284,7 +210,7 @@ STAGE_FIELDS: dict[str, tuple[Field, ...]] = {
             choices=(("off", "Not included"), ("on", "Isolated-cylinder estimate")),
             help="The fan-model fit covers diffusion and interception.",
         ),
-        _flow(),
+        _FLOW,
     ),
 }
 """Parameters of each stage type, validated with :func:`~driftdose.api.fields.parse_fields`."""

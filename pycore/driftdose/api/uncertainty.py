@@ -37,6 +37,7 @@ from ..uncertainty import (
 )
 from . import burden_inputs
 from .dose_rows import DOSE_UNITS
+from .exposure_fields import particle_description
 from .fields import Field, FieldError
 from .labels import REGION_LABELS, WEIGHT_WORDS
 from .range_fields import BLOCK, INPUT_LABELS, RANGE_FIELDS
@@ -84,9 +85,7 @@ def _builder(v: dict[str, Any], entered: tuple[ModeSpec, ...]) -> Any:
     calculation converts what was entered (diameter type, density basis)."""
 
     def build(f: dict[str, float]) -> Multimodal:
-        desc = burden_inputs.particle_description(
-            v, f.get("density", 1.0), f.get("shape_factor", 1.0)
-        )
+        desc = particle_description(v, f.get("density", 1.0), f.get("shape_factor", 1.0))
         modes = scaled_modes(
             entered, f.get("median", 1.0), f.get("gsd", 1.0), f.get("concentration", 1.0)
         )
@@ -213,10 +212,10 @@ def _context(v: dict[str, Any]) -> dict[str, Any]:
     span = {}
     for name, key in (("density", "model_density"), ("shape_factor", "model_shape_factor")):
         fs = factors[name]
-        lo = burden_inputs.particle_description(
+        lo = particle_description(
             v, min(fs) if name == "density" else 1.0, min(fs) if name == "shape_factor" else 1.0
         )
-        hi = burden_inputs.particle_description(
+        hi = particle_description(
             v, max(fs) if name == "density" else 1.0, max(fs) if name == "shape_factor" else 1.0
         )
         span[name] = (getattr(lo, key), getattr(hi, key))
