@@ -1,4 +1,4 @@
-"""Short forms of the commonest field declarations: bounded quantities and whole numbers.
+"""Short forms of the commonest field declarations: bounded quantities, numbers and text.
 
 A calculation with many inputs of one pattern (a length above zero, a width of a curve above
 one, a count from 1 to N) declares each on one line through these; the result is a plain
@@ -12,7 +12,7 @@ from typing import Any
 
 from .fields import Field
 
-__all__ = ["bounded", "positive", "spread", "whole"]
+__all__ = ["bounded", "positive", "ratio", "spread", "text", "whole"]
 
 
 def bounded(
@@ -111,17 +111,7 @@ def spread(name: str, label: str, default: float | None, maximum: float, **more:
     Field
         The declaration.
     """
-    return Field(
-        name,
-        label,
-        "dimensionless",
-        (default, "1"),
-        ("1",),
-        minimum=1.0,
-        maximum=maximum,
-        exclusive_min=True,
-        **more,
-    )
+    return ratio(name, label, default, 1.0, maximum, exclusive_min=True, **more)
 
 
 def whole(name: str, label: str, default: int, minimum: int, maximum: int, **more: Any) -> Field:
@@ -148,3 +138,55 @@ def whole(name: str, label: str, default: int, minimum: int, maximum: int, **mor
         The declaration.
     """
     return Field(name, label, "integer", default, minimum=minimum, maximum=maximum, **more)
+
+
+def ratio(
+    name: str, label: str, default: float | None, minimum: float, maximum: float, **more: Any
+) -> Field:
+    """A dimensionless number from ``minimum`` to ``maximum``, both included.
+
+    Parameters
+    ----------
+    name : str
+        The input's name in requests, links and flags.
+    label : str
+        What the form and the command line call it.
+    default : float or None
+        The default [-]; None for an input without a default.
+    minimum : float
+        Smallest valid value [-].
+    maximum : float
+        Largest valid value [-].
+    **more : any
+        Other :class:`~driftdose.api.fields.Field` attributes (help, applies, ...).
+
+    Returns
+    -------
+    Field
+        The declaration.
+    """
+    return bounded(name, label, "dimensionless", (default, "1"), ("1",), minimum, maximum, **more)
+
+
+def text(name: str, label: str, default: str | None, max_length: int, **more: Any) -> Field:
+    """Free text of at most ``max_length`` characters (a column's name, a unit, a time).
+
+    Parameters
+    ----------
+    name : str
+        The input's name in requests, links and flags.
+    label : str
+        What the form and the command line call it.
+    default : str or None
+        The default text; None for an input without a default.
+    max_length : int
+        Most characters accepted [-].
+    **more : any
+        Other :class:`~driftdose.api.fields.Field` attributes (required, help, applies, ...).
+
+    Returns
+    -------
+    Field
+        The declaration.
+    """
+    return Field(name, label, "text", default, extra={"max_length": max_length}, **more)

@@ -15,6 +15,7 @@ from typing import Any
 
 from ..compose.motion import CURVE_POINTS, CURVE_RANGE, MotionResult, compose_motion
 from ..sources import cite
+from .declare import bounded, positive
 from .fields import Field, FieldError
 from .particle_air_fields import PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
 from .reply import quantity, text_result
@@ -23,15 +24,17 @@ TITLE = "Particle motion: diffusion versus settling"
 
 __all__ = ["CURVE_POINTS", "CURVE_RANGE", "FIELDS", "TITLE", "run"]
 
+_TIME = "Time over which displacements are compared."
+
 FIELDS: tuple[Field, ...] = (
-    Field(
+    bounded(
         "particle_diameter",
         "Particle diameter",
         "length",
         (100.0, "nm"),
         ("nm", "um"),
-        minimum=0.5e-9,
-        maximum=1e-3,
+        0.5e-9,
+        1e-3,
         help="Diameter of the particle, of the type chosen below.",
     ),
     Field(
@@ -52,35 +55,24 @@ FIELDS: tuple[Field, ...] = (
     SHAPE_FACTOR,
     TEMPERATURE,
     PRESSURE,
-    Field(
-        "time",
-        "Time",
-        "time",
-        (1.0, "s"),
-        ("s", "min", "h"),
-        minimum=1e-3,
-        maximum=86400.0,
-        help="Time over which displacements are compared.",
-    ),
-    Field(
+    bounded("time", "Time", "time", (1.0, "s"), ("s", "min", "h"), 1e-3, 86400.0, help=_TIME),
+    bounded(
         "reference_distance",
         "Reference distance",
         "length",
         (0.2, "mm"),
         ("um", "mm", "m"),
-        minimum=1e-7,
-        maximum=10.0,
+        1e-7,
+        10.0,
         help="A length to compare with, e.g. about 0.2 mm, a typical alveolus diameter.",
     ),
-    Field(
+    positive(
         "initial_velocity",
         "Initial velocity",
         "velocity",
         (1.0, "m/s"),
         ("m/s", "cm/s"),
-        minimum=0.0,
-        maximum=100.0,
-        exclusive_min=True,
+        100.0,
         help="Speed at which the particle is projected, for its stopping distance.",
     ),
 )

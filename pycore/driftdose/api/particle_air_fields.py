@@ -5,6 +5,7 @@ A calculation that needs its own help text uses ``dataclasses.replace(FIELD, hel
 
 from __future__ import annotations
 
+from .declare import bounded, ratio
 from .fields import Field
 
 __all__ = [
@@ -16,14 +17,14 @@ __all__ = [
     "TEMPERATURE",
 ]
 
-PARTICLE_DENSITY = Field(
+PARTICLE_DENSITY = bounded(
     "particle_density",
     "Particle density",
     "density",
     (1.0, "g/cm3"),
     ("g/cm3", "kg/m3"),
-    minimum=100.0,
-    maximum=25000.0,
+    100.0,
+    25000.0,
     help="Material density of the particles (1 g/cm³ for unit-density spheres).",
 )
 
@@ -49,33 +50,25 @@ DIAMETER_TYPE_CHOICES: tuple[tuple[str, str], ...] = (
 )
 """Which equivalent diameter a measured size is (keys of ``diameters.DIAMETER_TYPES``)."""
 
-SHAPE_FACTOR = Field(
+SHAPE_FACTOR = ratio(
     "shape_factor",
     "Dynamic shape factor",
-    "dimensionless",
-    (1.0, "1"),
-    ("1",),
-    minimum=1.0,
-    maximum=5.0,
+    1.0,
+    1.0,
+    5.0,
     help="1 for spheres; about 1.1 to 2 for irregular dust.",
 )
 
-TEMPERATURE = Field(
-    "temperature",
-    "Air temperature",
-    "temperature",
-    (20.0, "degC"),
-    ("degC", "K"),
-    minimum=223.15,
-    maximum=773.15,
+TEMPERATURE = bounded(
+    "temperature", "Air temperature", "temperature", (20.0, "degC"), ("degC", "K"), 223.15, 773.15
 )
 
-PRESSURE = Field(
+PRESSURE = bounded(
     "pressure",
     "Air pressure",
     "pressure",
     (101.325, "kPa"),
     ("kPa", "atm", "hPa", "Pa"),
-    minimum=10e3,
-    maximum=200e3,
+    10e3,
+    200e3,
 )

@@ -8,6 +8,7 @@ a lognormal factor, each applying only to its own spread (``applies``).
 from __future__ import annotations
 
 from ..uncertainty import INPUTS
+from .declare import ratio, whole
 from .fields import Field
 
 __all__ = ["BLOCK", "DEFAULT_SPREADS", "INPUT_LABELS", "RANGE_FIELDS"]
@@ -54,27 +55,23 @@ def _spread_fields() -> tuple[Field, ...]:
             )
         )
         out.append(
-            Field(
+            ratio(
                 f"{name}_percent",
                 f"± percentage of the {label}",
-                "dimensionless",
-                (pct, "1"),
-                ("1",),
-                minimum=0.0,
-                maximum=90.0,
+                pct,
+                0.0,
+                90.0,
                 applies=(f"{name}_spread", ("uniform", "triangular")),
                 help="Half-width of a uniform or triangular range, in per cent.",
             )
         )
         out.append(
-            Field(
+            ratio(
                 f"{name}_gsd",
                 f"GSD of the lognormal factor on the {label}",
-                "dimensionless",
-                (gsd, "1"),
-                ("1",),
-                minimum=1.0,
-                maximum=5.0,
+                gsd,
+                1.0,
+                5.0,
                 applies=(f"{name}_spread", ("lognormal",)),
                 help="1 means no spread; 1.5 puts 90 % of the factors between 0.51 and 1.95.",
             )
@@ -83,22 +80,20 @@ def _spread_fields() -> tuple[Field, ...]:
 
 
 RANGE_FIELDS: tuple[Field, ...] = (
-    Field(
+    whole(
         "samples",
         "Number of samples",
-        "integer",
         1000,
-        minimum=10,
-        maximum=5000,
+        10,
+        5000,
         help="More samples give steadier percentiles and take longer.",
     ),
-    Field(
+    whole(
         "seed",
         "Random seed",
-        "integer",
         1,
-        minimum=0,
-        maximum=2**31 - 1,
+        0,
+        2**31 - 1,
         help="The same seed and inputs give the same sample, here and in the command line.",
     ),
     Field(
@@ -109,13 +104,12 @@ RANGE_FIELDS: tuple[Field, ...] = (
         choices=(("lhs", "Latin hypercube"), ("mc", "Plain Monte Carlo")),
     ),
     *_spread_fields(),
-    Field(
+    whole(
         "block",
         "Propagation step (0: all samples at once)",
-        "integer",
         0,
-        minimum=0,
-        maximum=5000 // BLOCK,
+        0,
+        5000 // BLOCK,
         help=f"The page computes {BLOCK} samples per step to show progress; the result is "
         "the same.",
     ),

@@ -8,11 +8,12 @@ from dataclasses import replace
 
 from .. import textfile
 from ..shift.periods import MAX_PERIODS
+from .declare import text
 from .exposure_fields import DEPOSITION_MODEL
 from .fields import Field
 from .particle_air_fields import DENSITY_BASIS, PARTICLE_DENSITY, SHAPE_FACTOR
 from .shift_inputs import COLUMN_FIELDS, MAX_COLUMNS, MODE_FIELDS, PERIOD_FIELDS
-from .spectrum_fields import SPECTRUM_DIAMETER_TYPE
+from .spectrum_fields import CONCENTRATION_TYPES, SPECTRUM_DIAMETER_TYPE
 
 __all__ = ["FIELDS", "MAX_BYTES"]
 
@@ -28,8 +29,11 @@ _TIME_FORMATS = (
 )
 
 
+_FAR = ("background_method", ("far_field",))
+
+
 def _file_fields(prefix: str, label: str, far: bool) -> tuple[Field, ...]:
-    when = ("background_method", ("far_field",)) if far else None
+    when = _FAR if far else None
     fields = (
         Field(
             f"{prefix}text",
@@ -110,23 +114,21 @@ FIELDS: tuple[Field, ...] = (
         extra={"max_length": 80},
     ),
     *_file_fields("background_", "Far-field (background) time series file", True),
-    Field(
+    text(
         "background_column",
         "Far-field column of the same quantity",
-        "text",
         "2",
+        80,
         required=False,
-        extra={"max_length": 80},
-        applies=("background_method", ("far_field",)),
+        applies=_FAR,
     ),
-    Field(
+    text(
         "background_unit",
         "Its unit (blank: from its header, else the near-field unit)",
-        "text",
         "",
+        20,
         required=False,
-        extra={"max_length": 20},
-        applies=("background_method", ("far_field",)),
+        applies=_FAR,
     ),
     Field(
         "periods",
@@ -234,11 +236,7 @@ FIELDS: tuple[Field, ...] = (
         "Spectrum concentration is given",
         "choice",
         "dN/dlogDp",
-        choices=(
-            ("per_bin", "per size bin (dN)"),
-            ("dN/dlogDp", "per log10 of diameter (dN/dlogDp)"),
-            ("dN/dDp", "per unit diameter (dN/dDp)"),
-        ),
+        choices=CONCENTRATION_TYPES,
         applies=("size_source", ("spectrum",)),
     ),
     Field(

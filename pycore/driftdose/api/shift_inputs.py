@@ -15,6 +15,7 @@ from typing import Any
 
 from ..shift.clock import DAY, ClockError, parse_clock_time, parse_iso
 from ..shift.periods import MAX_PERIODS, PERIOD_KINDS, Period
+from .declare import positive, ratio
 from .exposure_fields import ACTIVITY, MODE_GSD, MODE_MEDIAN, ROUTE
 from .fields import Field, FieldError
 from .units import unit_label
@@ -145,14 +146,12 @@ PERIOD_FIELDS: tuple[Field, ...] = (
         applies=_TASK,
     ),
     replace(ROUTE, applies=_TASK),
-    Field(
+    ratio(
         "protection_factor",
         "Assigned protection factor of the respiratory protection worn (1: none)",
-        "dimensionless",
-        (1.0, "1"),
-        ("1",),
-        minimum=1.0,
-        maximum=100_000.0,
+        1.0,
+        1.0,
+        100_000.0,
         help="The factor that applies to the device worn, from your own source; none is built in.",
         applies=_TASK,
     ),
@@ -162,16 +161,7 @@ PERIOD_FIELDS: tuple[Field, ...] = (
 MODE_FIELDS: tuple[Field, ...] = (
     replace(MODE_MEDIAN, label="Count median diameter (volume-equivalent)", default=(50.0, "nm")),
     replace(MODE_GSD, default=(1.8, "1"), help=""),
-    Field(
-        "share",
-        "Share of the particle number",
-        "dimensionless",
-        (1.0, "1"),
-        ("1",),
-        minimum=0.0,
-        maximum=1e6,
-        exclusive_min=True,
-    ),
+    positive("share", "Share of the particle number", "dimensionless", (1.0, "1"), ("1",), 1e6),
 )
 """Sub-fields of a lognormal mode giving the shape of a task's size distribution."""
 

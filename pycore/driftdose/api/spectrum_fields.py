@@ -20,6 +20,7 @@ from .particle_air_fields import DIAMETER_TYPE_CHOICES
 from .units import to_si
 
 __all__ = [
+    "CONCENTRATION_TYPES",
     "D_RANGE",
     "NUMBER_MAX",
     "NUMBER_MIN",
@@ -53,6 +54,13 @@ SPECTRUM_DIAMETER_TYPE = Field(
 )
 """Which equivalent diameter a measured spectrum's sizes are (also the size channels of a
 logged shift)."""
+
+CONCENTRATION_TYPES: tuple[tuple[str, str], ...] = (
+    ("per_bin", "per size bin (dN)"),
+    ("dN/dlogDp", "per log10 of diameter (dN/dlogDp)"),
+    ("dN/dDp", "per unit diameter (dN/dDp)"),
+)
+"""How a spectrum's concentration column is given (the shift's spectrum offers the same)."""
 
 _FIELDS: tuple[Field, ...] = (
     Field(
@@ -100,11 +108,7 @@ _FIELDS: tuple[Field, ...] = (
         "Concentration is given",
         "choice",
         "dN/dlogDp",
-        choices=(
-            ("per_bin", "per size bin (dN)"),
-            ("dN/dlogDp", "per log10 of diameter (dN/dlogDp)"),
-            ("dN/dDp", "per unit diameter (dN/dDp)"),
-        ),
+        choices=CONCENTRATION_TYPES,
     ),
     Field(
         "csv_diameter_unit",
