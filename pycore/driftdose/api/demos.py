@@ -10,6 +10,28 @@ from typing import Any
 
 __all__ = ["BURDEN_DEMOS", "DEMOS", "demo_scenarios"]
 
+
+def _q(value: float, unit: str) -> dict[str, Any]:
+    return {"value": value, "unit": unit}
+
+
+def _mode(
+    basis: str,
+    median: tuple[float, str],
+    diameter_type: str,
+    gsd: float,
+    concentration: tuple[float, str],
+) -> dict[str, Any]:
+    """One lognormal mode of a demo, as the ``modes`` field takes it."""
+    return {
+        "basis": basis,
+        "median": _q(*median),
+        "diameter_type": diameter_type,
+        "gsd": gsd,
+        "concentration": _q(*concentration),
+    }
+
+
 _DEMO_CSV = (
     "# invented demo spectrum, not a measurement\n"
     "diameter_nm;dN/dlogDp_per_cm3\n"
@@ -25,27 +47,15 @@ DEMOS: tuple[dict[str, Any], ...] = (
         "inputs": {
             "size_source": "lognormal",
             "modes": [
-                {
-                    "basis": "count",
-                    "median": {"value": 40, "unit": "nm"},
-                    "diameter_type": "volume_equivalent",
-                    "gsd": 1.7,
-                    "concentration": {"value": 150000, "unit": "1/cm3"},
-                },
-                {
-                    "basis": "count",
-                    "median": {"value": 250, "unit": "nm"},
-                    "diameter_type": "volume_equivalent",
-                    "gsd": 1.6,
-                    "concentration": {"value": 8000, "unit": "1/cm3"},
-                },
+                _mode("count", (40, "nm"), "volume_equivalent", 1.7, (150000, "1/cm3")),
+                _mode("count", (250, "nm"), "volume_equivalent", 1.6, (8000, "1/cm3")),
             ],
-            "particle_density": {"value": 5.0, "unit": "g/cm3"},
-            "shape_factor": {"value": 1.2, "unit": "1"},
+            "particle_density": _q(5.0, "g/cm3"),
+            "shape_factor": _q(1.2, "1"),
             "model": "icrp66",
             "breathing": "reference_worker",
             "route": "mixed",
-            "exposure_duration": {"value": 8, "unit": "h"},
+            "exposure_duration": _q(8, "h"),
         },
     },
     {
@@ -54,23 +64,15 @@ DEMOS: tuple[dict[str, Any], ...] = (
         "note": "Invented numbers, and an invented benchmark; not a legal limit.",
         "inputs": {
             "size_source": "lognormal",
-            "modes": [
-                {
-                    "basis": "mass",
-                    "median": {"value": 6, "unit": "um"},
-                    "diameter_type": "aerodynamic",
-                    "gsd": 2.2,
-                    "concentration": {"value": 2.0, "unit": "mg/m3"},
-                }
-            ],
-            "particle_density": {"value": 2.6, "unit": "g/cm3"},
-            "shape_factor": {"value": 1.4, "unit": "1"},
+            "modes": [_mode("mass", (6, "um"), "aerodynamic", 2.2, (2.0, "mg/m3"))],
+            "particle_density": _q(2.6, "g/cm3"),
+            "shape_factor": _q(1.4, "1"),
             "model": "icrp66",
             "breathing": "activity",
             "activity": "heavy_exercise",
             "route": "mixed",
-            "exposure_duration": {"value": 4, "unit": "h"},
-            "benchmark_mass": {"value": 1.0, "unit": "mg/m3"},
+            "exposure_duration": _q(4, "h"),
+            "benchmark_mass": _q(1.0, "mg/m3"),
         },
     },
     {
@@ -85,13 +87,13 @@ DEMOS: tuple[dict[str, Any], ...] = (
             "csv_concentration_type": "dN/dlogDp",
             "csv_diameter_unit": "nm",
             "csv_concentration_unit": "1/cm3",
-            "particle_density": {"value": 1.5, "unit": "g/cm3"},
-            "shape_factor": {"value": 1.0, "unit": "1"},
+            "particle_density": _q(1.5, "g/cm3"),
+            "shape_factor": _q(1.0, "1"),
             "model": "icrp66",
             "breathing": "reference_worker",
             "route": "mixed",
-            "exposure_duration": {"value": 8, "unit": "h"},
-            "benchmark_number": {"value": 20000, "unit": "1/cm3"},
+            "exposure_duration": _q(8, "h"),
+            "benchmark_number": _q(20000, "1/cm3"),
         },
     },
 )
@@ -124,17 +126,17 @@ BURDEN_DEMOS: tuple[dict[str, Any], ...] = (
             "seed": 2026,
             "sampling_method": "lhs",
             "median_spread": "triangular",
-            "median_percent": {"value": 25, "unit": "1"},
+            "median_percent": _q(25, "1"),
             "gsd_spread": "triangular",
-            "gsd_percent": {"value": 10, "unit": "1"},
+            "gsd_percent": _q(10, "1"),
             "density_spread": "uniform",
-            "density_percent": {"value": 15, "unit": "1"},
+            "density_percent": _q(15, "1"),
             "shape_factor_spread": "uniform",
-            "shape_factor_percent": {"value": 10, "unit": "1"},
+            "shape_factor_percent": _q(10, "1"),
             "breathing_spread": "triangular",
-            "breathing_percent": {"value": 25, "unit": "1"},
+            "breathing_percent": _q(25, "1"),
             "concentration_spread": "lognormal",
-            "concentration_gsd": {"value": 1.6, "unit": "1"},
+            "concentration_gsd": _q(1.6, "1"),
         },
     },
 )

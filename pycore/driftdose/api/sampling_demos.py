@@ -15,6 +15,18 @@ def _q(value: float, unit: str) -> dict[str, Any]:
     return {"value": value, "unit": unit}
 
 
+def _tube(name: str, length: dict[str, Any], bore_mm: float) -> dict[str, Any]:
+    """A horizontal tube stage losing particles by diffusion and settling."""
+    return {
+        "type": "tube",
+        "name": name,
+        "length": length,
+        "tube_diameter": _q(bore_mm, "mm"),
+        "inclination": _q(0.0, "deg"),
+        "mechanisms": "both",
+    }
+
+
 DEMOS: dict[str, dict[str, Any]] = {
     "long_narrow_tube": {
         "label": "Long narrow sampling tube (invented demo)",
@@ -27,14 +39,7 @@ DEMOS: dict[str, dict[str, Any]] = {
             "particle_density": _q(1.0, "g/cm3"),
             "target": "none",
             "stages": [
-                {
-                    "type": "tube",
-                    "name": "10 m of 4 mm tubing",
-                    "length": _q(10.0, "m"),
-                    "tube_diameter": _q(4.0, "mm"),
-                    "inclination": _q(0.0, "deg"),
-                    "mechanisms": "both",
-                },
+                _tube("10 m of 4 mm tubing", _q(10.0, "m"), 4.0),
                 {
                     "type": "bend",
                     "name": "90° bend",
@@ -57,14 +62,7 @@ DEMOS: dict[str, dict[str, Any]] = {
             "particle_density": _q(1.0, "g/cm3"),
             "target": "none",
             "stages": [
-                {
-                    "type": "tube",
-                    "name": "Inlet tube",
-                    "length": _q(30.0, "cm"),
-                    "tube_diameter": _q(6.0, "mm"),
-                    "inclination": _q(0.0, "deg"),
-                    "mechanisms": "both",
-                },
+                _tube("Inlet tube", _q(30.0, "cm"), 6.0),
                 {
                     "type": "screens",
                     "name": "20 screens",
@@ -90,14 +88,7 @@ DEMOS: dict[str, dict[str, Any]] = {
             "particle_density": _q(2.0, "g/cm3"),
             "target": "respirable",
             "stages": [
-                {
-                    "type": "tube",
-                    "name": "Inlet tube",
-                    "length": _q(1.0, "m"),
-                    "tube_diameter": _q(6.0, "mm"),
-                    "inclination": _q(0.0, "deg"),
-                    "mechanisms": "both",
-                },
+                _tube("Inlet tube", _q(1.0, "m"), 6.0),
                 {
                     "type": "cyclone",
                     "name": "Pre-separator",
