@@ -10,7 +10,7 @@ from __future__ import annotations
 from dataclasses import replace
 from typing import Any
 
-from ..compose.aerosol import Aerosol, ModeSpec, aerosol_from_modes, aerosol_from_spectrum
+from ..compose.aerosol import Aerosol, ModeSpec, aerosol_from_modes
 from ..compose.deposition import breathing_subject
 from ..deposition import Subject
 from ..diameters import ParticleDescription
@@ -24,7 +24,14 @@ from .particle_air_fields import (
     PARTICLE_DENSITY,
     SHAPE_FACTOR,
 )
-from .spectrum_fields import D_RANGE, NUMBER_MAX, NUMBER_MIN, import_spectrum, spectrum_fields
+from .spectrum_fields import (
+    D_RANGE,
+    NUMBER_MAX,
+    NUMBER_MIN,
+    import_spectrum,
+    spectrum_aerosol,
+    spectrum_fields,
+)
 
 __all__ = [
     "ACTIVITY",
@@ -382,20 +389,8 @@ def aerosol_of(v: dict[str, Any]) -> tuple[Aerosol, dict[str, Any] | None]:
         modes = [ModeSpec(**{**m, "basis": CORE_BASIS[m["basis"]]}) for m in v["modes"]]
         return aerosol_from_modes(modes, desc), None
     imported, report = import_spectrum(v)
-    try:
-        aerosol = aerosol_from_spectrum(
-            imported.diameters,
-            imported.numbers,
-            v.get("spectrum_diameter_type") or "volume_equivalent",
-            desc,
-        )
-    except ValueError:
-        raise FieldError(
-            "csv_text",
-            "Two bins of the spectrum fall on the same size after conversion to the models' "
-            "diameter; merge them.",
-        ) from None
-    return aerosol, report
+    diameter_type = v.get("spectrum_diameter_type") or "volume_equivalent"
+    return spectrum_aerosol(imported, diameter_type, desc), report
 
 
 def subject_of(v: dict[str, Any]) -> Subject:

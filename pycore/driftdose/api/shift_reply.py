@@ -8,7 +8,6 @@ import itertools
 from collections.abc import Callable
 from typing import Any
 
-from ..compose.aerosol import aerosol_from_spectrum
 from ..compose.shift import DoseSetup, ShiftResult
 from ..diameters import ParticleDescription
 from ..distribution import BinnedSpectrum, Multimodal
@@ -17,11 +16,11 @@ from ..shift.series import TimeSeries
 from ..shift.stats import PeriodStats
 from ..shift.thin import thin_minmax
 from ..sources import cite
-from ..spectrum_import import SpectrumError, parse_spectrum_csv
 from ..tables import Table, describe_table
 from .deposition import REGION_LABELS
 from .fields import FieldError
 from .shift_inputs import SI_UNITS, quantity_scale, unit_text
+from .spectrum_fields import import_spectrum, spectrum_aerosol
 
 __all__ = ["dose_setup", "shape"]
 
@@ -102,36 +101,21 @@ def dose_setup(
     )
 
 
+_SHAPE_INPUTS = {
+    "file": "spectrum_text",
+    "diameter_column": "spectrum_diameter_column",
+    "concentration_column": "spectrum_concentration_column",
+    "concentration_type": "spectrum_concentration_type",
+    "diameter_unit": "spectrum_diameter_unit",
+}
+"""The shift's inputs of a spectrum shape, read by the shared spectrum importer."""
+
+
 def _spectrum(
     v: dict[str, Any], desc: ParticleDescription, diameter_type: str
 ) -> Multimodal | BinnedSpectrum:
-    text = v.get("spectrum_text")
-    if not isinstance(text, str) or not text.strip():
-        raise FieldError("spectrum_text", "Choose a CSV file with the spectrum.")
-    try:
-        imported = parse_spectrum_csv(
-            text,
-            v.get("spectrum_diameter_column") or "1",
-            v.get("spectrum_concentration_column") or "2",
-            v.get("spectrum_concentration_type") or "dN/dlogDp",
-            1e-9 if v["spectrum_diameter_unit"] == "nm" else 1e-6,
-            1e6,
-        )
-    except SpectrumError as exc:
-        raise FieldError("spectrum_text", str(exc)) from None
-    if not (1e-9 * 0.999 <= imported.diameters[0] and imported.diameters[-1] <= 100e-6 * 1.001):
-        raise FieldError("spectrum_text", "The diameters must lie from 1 nm to 100 µm.")
-    if sum(imported.numbers) <= 0.0:
-        raise FieldError("spectrum_text", "All concentrations in the spectrum are zero.")
-    try:
-        aerosol = aerosol_from_spectrum(imported.diameters, imported.numbers, diameter_type, desc)
-    except ValueError:
-        raise FieldError(
-            "spectrum_text",
-            "Two bins of the spectrum fall on the same size after conversion to the models' "
-            "diameter; merge them.",
-        ) from None
-    return aerosol.distribution
+    imported, _ = import_spectrum(v, _SHAPE_INPUTS, shape_only=True)
+    return spectrum_aerosol(imported, diameter_type, desc, "spectrum_text").distribution
 
 
 def _q(x: float | None, f: float) -> float | None:

@@ -10,10 +10,13 @@ declarations bound to that field.
 from __future__ import annotations
 
 import re
+from collections.abc import Mapping
 from dataclasses import replace
 from typing import Any
 
 from .. import tables
+from ..compose.aerosol import Aerosol, aerosol_from_spectrum
+from ..diameters import ParticleDescription
 from ..spectrum_import import MAX_BYTES, SpectrumError, SpectrumImport, parse_spectrum_csv
 from .fields import Field, FieldError
 from .particle_air_fields import DIAMETER_TYPE_CHOICES
@@ -21,6 +24,7 @@ from .units import to_si
 
 __all__ = [
     "CONCENTRATION_TYPES",
+    "CSV_INPUTS",
     "D_RANGE",
     "NUMBER_MAX",
     "NUMBER_MIN",
@@ -28,6 +32,7 @@ __all__ = [
     "SPECTRUM_FIELD_NAMES",
     "describe_spectrum_file",
     "import_spectrum",
+    "spectrum_aerosol",
     "spectrum_fields",
 ]
 
@@ -128,13 +133,19 @@ _FIELDS: tuple[Field, ...] = (
     ),
 )
 
-_PART_FIELD = {
+CSV_INPUTS: dict[str, str] = {
     "file": "csv_text",
     "header_line": "csv_header_line",
     "diameter_column": "csv_diameter_column",
     "concentration_column": "csv_concentration_column",
+    "concentration_type": "csv_concentration_type",
+    "diameter_unit": "csv_diameter_unit",
+    "concentration_unit": "csv_concentration_unit",
 }
-"""The input to blame for each part of an import that can be wrong."""
+"""The input holding each part of an import, in the fields of :func:`spectrum_fields`."""
+_BLAMED = ("file", "header_line", "diameter_column", "concentration_column")
+"""The parts of an import that can be wrong, each blamed on its own input."""
+_PART_FIELD = {part: CSV_INPUTS[part] for part in _BLAMED}
 
 SPECTRUM_FIELD_NAMES: tuple[str, ...] = tuple(f.name for f in _FIELDS)
 """Names of the spectrum inputs, in the order :func:`spectrum_fields` gives them."""
@@ -158,7 +169,9 @@ def spectrum_fields(source: str, value: str = "csv") -> tuple[Field, ...]:
     return tuple(replace(f, applies=(source, (value,))) for f in _FIELDS)
 
 
-def import_spectrum(v: dict[str, Any]) -> tuple[SpectrumImport, dict[str, Any]]:
+def import_spectrum(
+    v: dict[str, Any], inputs: Mapping[str, str] = CSV_INPUTS, shape_only: bool = False
+) -> tuple[SpectrumImport, dict[str, Any]]:
     """Read the spectrum from the validated CSV inputs, as given in the file.
 
     Parameters
@@ -166,6 +179,14 @@ def import_spectrum(v: dict[str, Any]) -> tuple[SpectrumImport, dict[str, Any]]:
     v : dict
         Validated inputs holding the fields of :func:`spectrum_fields` (units as the file's
         unit codes).
+    inputs : mapping
+        The input holding each part of the import (keys of :data:`CSV_INPUTS`); a calculation
+        with its own names for them (the shift's spectrum shape) gives its own. Without a
+        ``header_line`` input the header is found in the file; without a
+        ``concentration_unit`` the concentrations are read per cm³.
+    shape_only : bool
+        True when only the spectrum's shape is used (it is scaled to a measurement
+        afterwards): its total is then not checked against ``NUMBER_MIN``–``NUMBER_MAX``.
 
     Returns
     -------
@@ -176,59 +197,98 @@ def import_spectrum(v: dict[str, Any]) -> tuple[SpectrumImport, dict[str, Any]]:
     Raises
     ------
     FieldError
-        On the input that is wrong: ``csv_header_line`` for a header line that does not
-        hold names, ``csv_diameter_column`` or ``csv_concentration_column`` for a column not
-        found (or a part of a name that matches several), else ``csv_text`` for a missing,
-        blank or unreadable file, diameters outside
-        :data:`D_RANGE`, or a total concentration outside ``NUMBER_MIN``–``NUMBER_MAX``.
+        On the input that is wrong: the header line's input for a header line that does not
+        hold names, the column's input for a column not found (or a part of a name that
+        matches several), else the file's input for a missing, blank or unreadable file,
+        diameters outside :data:`D_RANGE`, or a total concentration outside
+        ``NUMBER_MIN``–``NUMBER_MAX``.
     """
-    text = v.get("csv_text")
+    file = inputs["file"]
+    text = v.get(file)
     if text is None:
-        raise FieldError("csv_text", "Choose a CSV file with the measured spectrum.")
+        raise FieldError(file, "Choose a CSV file with the measured spectrum.")
     if isinstance(text, str) and not text.strip():
         raise FieldError(
-            "csv_text",
+            file,
             f"The file is {'empty' if not text else 'blank'}. Choose a CSV file with the "
             "measured spectrum.",
         )
     if not isinstance(text, str):
-        raise FieldError("csv_text", "The spectrum must be sent as text.")
-    d_scale = to_si(1.0, "length", v["csv_diameter_unit"])
-    c_scale = to_si(1.0, "number_concentration", v["csv_concentration_unit"])
+        raise FieldError(file, "The spectrum must be sent as text.")
+    d_scale = to_si(1.0, "length", v[inputs["diameter_unit"]])
+    c_unit = v.get(inputs.get("concentration_unit", "")) or "1/cm3"
+    c_scale = to_si(1.0, "number_concentration", c_unit)
     try:
         imported = parse_spectrum_csv(
             text,
-            v.get("csv_diameter_column") or "1",
-            v.get("csv_concentration_column") or "2",
-            v["csv_concentration_type"],
+            v.get(inputs["diameter_column"]) or "1",
+            v.get(inputs["concentration_column"]) or "2",
+            v.get(inputs["concentration_type"]) or "dN/dlogDp",
             d_scale,
             c_scale,
-            v.get("csv_header_line") or 0,
+            v.get(inputs.get("header_line", "")) or 0,
         )
     except SpectrumError as exc:
-        raise FieldError(_PART_FIELD.get(exc.part, "csv_text"), str(exc)) from None
+        blamed = inputs.get(exc.part, file) if exc.part in _BLAMED else file
+        raise FieldError(blamed, str(exc)) from None
     if imported.diameters[0] < D_RANGE[0] * 0.999 or imported.diameters[-1] > D_RANGE[1] * 1.001:
         raise FieldError(
-            "csv_text",
+            file,
             f"Diameters run from {imported.diameters[0] * 1e9:.3g} nm to "
             f"{imported.diameters[-1] * 1e6:.3g} µm; the models cover 1 nm to 100 µm. Check "
             "the diameter unit.",
         )
-    if sum(imported.numbers) <= 0.0:
-        raise FieldError("csv_text", "All concentrations in the spectrum are zero.")
-    if sum(imported.numbers) < NUMBER_MIN:
+    total = sum(imported.numbers)
+    if total <= 0.0:
+        raise FieldError(file, "All concentrations in the spectrum are zero.")
+    if total < NUMBER_MIN and not shape_only:
         raise FieldError(
-            "csv_text",
+            file,
             "The spectrum adds up to less than 10⁻⁶ particles per cm³ (1 per m³); check the "
             "concentration unit and type.",
         )
-    if sum(imported.numbers) > NUMBER_MAX:
+    if total > NUMBER_MAX and not shape_only:
         raise FieldError(
-            "csv_text",
+            file,
             "The spectrum adds up to more than 10⁹ particles per cm³; check the "
             "concentration unit and type.",
         )
     return imported, imported.report
+
+
+def spectrum_aerosol(
+    imported: SpectrumImport,
+    diameter_type: str,
+    desc: ParticleDescription,
+    field: str = "csv_text",
+) -> Aerosol:
+    """The aerosol of an imported spectrum in the models' diameters.
+
+    Parameters
+    ----------
+    imported : SpectrumImport
+        The spectrum as :func:`import_spectrum` read it (diameters [m], particles per bin
+        [1/m³]).
+    diameter_type : str
+        What the file's diameters are (a key of ``diameters.DIAMETER_TYPES``).
+    desc : ParticleDescription
+        The particles' density [kg/m³], shape factor and density basis.
+    field : str
+        The file's input, blamed when two bins fall on one size after the conversion.
+
+    Returns
+    -------
+    Aerosol
+        The spectrum as the deposition models take it.
+    """
+    try:
+        return aerosol_from_spectrum(imported.diameters, imported.numbers, diameter_type, desc)
+    except ValueError:
+        raise FieldError(
+            field,
+            "Two bins of the spectrum fall on the same size after conversion to the models' "
+            "diameter; merge them.",
+        ) from None
 
 
 _DIAMETER_UNITS = ("nm", "um", "m")
