@@ -3,7 +3,10 @@
 // HH:MM[:SS] or as a date and time; the chart's bands write them when dragged. Errors arrive
 // from the engine as "periods.<index>.<part>" and are shown in the row, beside the cell at
 // fault; times that do not read and overlaps are shown at once, before the engine answers.
+// A task log kept in a spreadsheet (CSV or TSV) can replace the rows: the engine reads it
+// (the field's `table_file` names its describer) and a file it refuses changes nothing.
 import { el } from "./forms.js";
+import { decodeFile, describeText } from "./files.js";
 import { KINDS, formatTime, nextPeriod, overlaps, spans } from "./periods.js";
 
 const KIND_LABELS = { task: "Task", background: "Background", break: "Break" };
@@ -40,6 +43,9 @@ export function periodTable(container, field, { fallback = {}, getStart, getTota
   choices.kind = choices.kind || KINDS.map((k) => ({ value: k, label: KIND_LABELS[k] }));
   choices.activity = choices.activity || fallback.activity || [];
   choices.route = choices.route || fallback.route || [];
+  // a choice a record leaves out takes the declared default (as the engine does), not the first option
+  const defaults = {};
+  for (const f of field.item_fields || []) if (f.choices && typeof f.default === "string") defaults[f.name] = f.default;
 
   const wrap = el("div", { class: "field periods-field", "data-field": field.name });
   const group = el("fieldset", { class: "periods-box" });
@@ -76,6 +82,7 @@ export function periodTable(container, field, { fallback = {}, getStart, getTota
   const overlapNote = el("p", { class: "error periods-overlap", role: "status", hidden: "" });
   const listError = el("p", { class: "error", hidden: "" });
   group.append(tableBox, overlapNote, tools, listError);
+  const fromFile = field.table_file ? periodFile(group, field.table_file) : null;
   wrap.append(group);
   container.append(wrap);
 
@@ -87,6 +94,56 @@ export function periodTable(container, field, { fallback = {}, getStart, getTota
     check();
     for (const cb of listeners) cb();
   };
+
+  /** The file control beside the table: a task log's rows replace the periods, or nothing changes. */
+  function periodFile(box, spec) {
+    const fid = "shift-periods-file";
+    const shellBox = el("div", { class: "field periods-file", "data-field": "periods_file" });
+    const input = el("input", { id: fid, type: "file", accept: spec.accept || ".csv,.txt,.tsv",
+      "aria-describedby": `${fid}-help ${fid}-status ${fid}-error` });
+    const help = el("p", { class: "help", id: `${fid}-help` },
+      "Columns found by their headers: label, kind, start, end, activity, route, protection factor (start and end needed; notes above the header row, semicolons and decimal commas are read). Its rows replace the periods above.");
+    const status = el("p", { class: "file-status", id: `${fid}-status`, role: "status" }, "");
+    const error = el("p", { class: "error", id: `${fid}-error`, hidden: "" });
+    shellBox.append(el("label", { for: fid }, "Read the periods from a task log (CSV or TSV)"), input, help, status, error);
+    box.append(shellBox);
+    let mine = 0;
+    const refuse = (message) => {
+      error.textContent = `${message} The periods were not changed.`;
+      error.hidden = false;
+      status.textContent = "";
+      shellBox.classList.add("invalid");
+    };
+    input.addEventListener("change", async () => {
+      const file = input.files[0];
+      if (!file) return;
+      const turn = ++mine;
+      const name = file.name.slice(0, 80);
+      status.textContent = `Reading ${name}…`;
+      let got;
+      try {
+        got = await decodeFile(file, spec.max_bytes || 256 * 1024);
+      } catch (err) {
+        got = { ok: false, message: `could not be read (${String(err && err.name ? err.name : err).slice(0, 60)})` };
+      }
+      let read = got.ok ? await describeText(spec.describe || "periods", got.text, 0) : got;
+      if (turn !== mine) return;
+      input.value = ""; // the same file can be chosen again after it is fixed
+      if (!read || !read.ok || !Array.isArray(read.records)) {
+        refuse(`${name}: ${String(read?.message || "could not be read.").slice(0, 400)}`);
+        return;
+      }
+      if (read.records.length > maxRows) read = { ...read, records: read.records.slice(0, maxRows) };
+      error.hidden = true;
+      shellBox.classList.remove("invalid");
+      const lines = read.lines || [];
+      const span = lines.length ? ` (lines ${lines[0]}–${lines[lines.length - 1]})` : "";
+      status.textContent = `Read ${read.records.length} ${read.records.length === 1 ? "period" : "periods"} from ${name}${span}.`;
+      setItems(read.records);
+      notify();
+    });
+    return { input, status, error };
+  }
 
   function select(list, value, label) {
     const s = el("select", { "aria-label": label });
@@ -107,7 +164,7 @@ export function periodTable(container, field, { fallback = {}, getStart, getTota
       td.append(el("span", { class: "cell-label", "aria-hidden": "true" }, HEADS[part]));
       let input;
       if (part === "kind" || part === "activity" || part === "route") {
-        input = select(choices[part], values[part], "");
+        input = select(choices[part], values[part] ?? defaults[part], "");
       } else {
         input = el("input", {
           type: "text", autocomplete: "off", spellcheck: "false",
@@ -261,5 +318,7 @@ export function periodTable(container, field, { fallback = {}, getStart, getTota
     listen(cb) { listeners.push(cb); },
     /** The row (tr) of period i, for tests and focus. */
     row: (i) => rows[i]?.tr,
+    /** The task-log file control (input, status, error), when the field declares one. */
+    fromFile,
   };
 }

@@ -111,3 +111,98 @@ def test_batch_folder_without_logs_is_refused(capsys, tmp_path):
     empty.mkdir()
     code, _, err = run_main(capsys, "batch", "shift", "--files", str(empty))
     assert code == 2 and "no file" in err
+
+
+PERIODS_CSV = (
+    "Task log (invented)\n"
+    "Label;Kind;Start;End;Activity;Route;Protection factor\n"
+    "Before;Background;06:00;06:30;;;\n"
+    "Task;task;06:30;12:00;light exercise;nose;2,5\n"
+    "After;background;12:00;13:00;;;\n"
+)
+PERIODS_FROM_CSV = [
+    {"label": "Before", "kind": "background", "start": "06:00", "end": "06:30"},
+    {
+        "label": "Task",
+        "kind": "task",
+        "start": "06:30",
+        "end": "12:00",
+        "activity": "light_exercise",
+        "route": "nose",
+        "protection_factor": 2.5,
+    },
+    {"label": "After", "kind": "background", "start": "12:00", "end": "13:00"},
+]
+
+
+def test_periods_from_a_csv_task_log_equal_the_same_periods_in_json(capsys, tmp_path):
+    log = tmp_path / "day.csv"
+    log.write_text(invented_day(1000.0), encoding="utf-8")
+    periods = tmp_path / "periods.csv"
+    periods.write_bytes(PERIODS_CSV.encode("latin-1"))
+    args = ["shift", "--series-text", str(log), "--quantity-columns", json.dumps(COLUMNS)]
+    args += ["--background-method", "marked_mean", "--format", "json"]
+    code, out, err = run_main(capsys, *args, "--periods", f"@{periods}")
+    assert code == 0, err
+    inputs = {
+        "series_text": invented_day(1000.0),
+        "quantity_columns": COLUMNS,
+        "periods": PERIODS_FROM_CSV,
+        "background_method": "marked_mean",
+    }
+    assert json.loads(out) == api.handle({"kind": "shift", "inputs": inputs})
+    assert json.loads(out)["results"]["tasks"]["rows"][1]["protection_factor"] == 2.5
+
+
+def test_batch_takes_one_csv_task_log_for_every_file(capsys, tmp_path):
+    folder = tmp_path / "survey"
+    folder.mkdir()
+    for i, level in enumerate((1000.0, 3000.0)):
+        (folder / f"day{i}.csv").write_text(invented_day(level, f"2026-03-0{5 + i}"), "utf-8")
+    periods = tmp_path / "periods.tsv"
+    periods.write_text(PERIODS_CSV.replace(";", "\t"), encoding="utf-8")
+    code, out, err = run_main(
+        capsys,
+        "batch",
+        "shift",
+        "--files",
+        str(folder),
+        "--quantity-columns",
+        json.dumps(COLUMNS),
+        "--periods",
+        f"@{periods}",
+        "--format",
+        "json",
+    )
+    assert code == 0, err
+    for row in json.loads(out):
+        inputs = {
+            "series_text": (folder / row["file"].rsplit("/", 1)[-1]).read_text("utf-8"),
+            "quantity_columns": COLUMNS,
+            "periods": PERIODS_FROM_CSV,
+        }
+        expected = api.handle({"kind": "shift", "inputs": inputs})
+        assert {k: v for k, v in row.items() if k != "file"} == expected
+
+
+def test_a_malformed_task_log_is_refused_with_its_line_and_nothing_runs(capsys, tmp_path):
+    log = tmp_path / "day.csv"
+    log.write_text(invented_day(1000.0), encoding="utf-8")
+    periods = tmp_path / "periods.csv"
+    periods.write_text(PERIODS_CSV.replace("12:00;light", "noon;light"), encoding="utf-8")
+    out_file = tmp_path / "out.json"
+    code, out, err = run_main(
+        capsys,
+        "shift",
+        "--series-text",
+        str(log),
+        "--quantity-columns",
+        json.dumps(COLUMNS),
+        "--periods",
+        f"@{periods}",
+        "--out",
+        str(out_file),
+    )
+    assert code == 2
+    assert out == "" and not out_file.exists()
+    assert "periods" in err and "Line 4: column 4 ('End')" in err and "'noon'" in err

@@ -356,3 +356,99 @@ def test_hostile_shift_link_is_shown_as_text_and_the_panel_still_computes(watche
     _settle(page, before)
     assert page.locator("#panel-shift").get_attribute("data-state") in ("ok", "invalid")
     assert page.locator("#panel-shift tr.period-error:visible").count() >= 1
+
+
+TASK_LOG = (
+    "Task log of an invented survey\n"
+    "Label;Kind;Start;End;Activity;Route;Protection factor\n"
+    "Before work;background;06:45;07:15;;;\n"
+    "Schweißen am Tisch;task;07:15;09:30;light exercise;mixed;2,5\n"
+    "Break;break;09:30;09:50;;;\n"
+    "Grinding seams;task;09:50;11:45;heavy exercise;nose;\n"
+)
+
+
+def test_periods_read_from_a_task_log_file(watched, base_url):
+    """A task log (Latin-1, notes above the header, semicolons, a decimal comma) replaces the
+    periods and the shift is computed with them, as the core computes it; a malformed log is
+    refused beside the file control with its line and nothing changes."""
+    from driftdose.api.period_file import describe_period_file
+    from driftdose.shift.demo import demo_shift
+
+    page, _watch = watched
+    page.goto(base_url + "#v=1&panel=shift")
+    wait_ready(page)
+    page.wait_for_function(
+        "() => Number(document.getElementById('panel-shift').dataset.updates || 0) >= 1"
+    )
+    before = _updates(page)
+    page.get_by_role("button", name=re.compile("Invented demo: a workshop shift")).click()
+    _settle(page, before)
+    _quiet(page)
+    _ok(page)
+    rows = page.locator("#panel-shift tr.period-row")
+    shown_before = [rows.nth(i).inner_text() for i in range(rows.count())]
+    values_before = page.evaluate(
+        "() => [...document.querySelectorAll('#panel-shift tr.period-row input, "
+        "#panel-shift tr.period-row select')].map(e => e.value)"
+    )
+    file_input = page.locator("#shift-periods-file")
+
+    # a malformed log: refused beside the control, with its line; the periods stay
+    updates = _updates(page)
+    bad = TASK_LOG.replace("11:45;heavy", "noon;heavy")
+    file_input.set_input_files(
+        {"name": "tasks.csv", "mimeType": "text/csv", "buffer": bad.encode("latin-1")}
+    )
+    error = page.locator("#shift-periods-file-error")
+    error.wait_for(state="visible")
+    assert "tasks.csv: Line 6: column 4 ('End')" in error.inner_text()
+    assert "'noon'" in error.inner_text() and "not changed" in error.inner_text()
+    page.wait_for_timeout(500)
+    assert _updates(page) == updates
+    assert [rows.nth(i).inner_text() for i in range(rows.count())] == shown_before
+    assert (
+        page.evaluate(
+            "() => [...document.querySelectorAll('#panel-shift tr.period-row input, "
+            "#panel-shift tr.period-row select')].map(e => e.value)"
+        )
+        == values_before
+    )
+
+    # the good log replaces the periods and the shift is computed with them
+    before = _updates(page)
+    file_input.set_input_files(
+        {"name": "tasks.csv", "mimeType": "text/csv", "buffer": TASK_LOG.encode("latin-1")}
+    )
+    _settle(page, before)
+    _quiet(page)
+    _ok(page)
+    assert error.is_hidden()
+    status = page.locator("#shift-periods-file-status").inner_text()
+    assert "Read 4 periods from tasks.csv (lines 3–6)" in status
+    assert rows.count() == 4
+    assert _row(page, 1).locator("td[data-part=label] input").input_value() == (
+        "Schweißen am Tisch"
+    )
+    assert _row(page, 1).locator("td[data-part=protection_factor] input").input_value() == "2.5"
+    # a route the log leaves blank takes the declared default, as in the engine
+    assert _row(page, 0).locator("td[data-part=activity] select").input_value() == (
+        "light_exercise"
+    )
+    assert _row(page, 3).locator("td[data-part=route] select").input_value() == "nose"
+
+    demo = demo_shift()
+    records = describe_period_file(TASK_LOG)["records"]
+    inputs = {
+        **demo["inputs"],
+        "series_text": demo["series"]["text"],
+        "background_text": demo["background"]["text"],
+        "periods": records,
+    }
+    reply = api.handle({"kind": "shift", "inputs": inputs})
+    assert reply["ok"], reply.get("errors")
+    twa = reply["results"]["twa8h"]
+    shown = page.locator("#panel-shift table.results tr[data-key=twa8h] td.value").inner_text()
+    assert parse_shown(shown) == pytest.approx(round_sig(twa["value"]), rel=1e-9)
+    page.locator("#shift-periods-file").scroll_into_view_if_needed()
+    screenshot(page, "shift-periods-file-1280")

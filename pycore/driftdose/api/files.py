@@ -11,12 +11,14 @@ import json
 from collections.abc import Callable
 from typing import Any
 
+from .period_file import describe_period_file
 from .spectrum_fields import describe_spectrum_file
 
 __all__ = ["DESCRIBERS", "describe_file_json"]
 
 DESCRIBERS: dict[str, Callable[[Any, Any], dict[str, Any]]] = {
     "spectrum": describe_spectrum_file,
+    "periods": describe_period_file,
 }
 """Describer of each kind of measured file, by the name a file field gives."""
 

@@ -12,6 +12,7 @@ from .declare import text
 from .exposure_fields import DEPOSITION_MODEL
 from .fields import Field
 from .particle_air_fields import DENSITY_BASIS, PARTICLE_DENSITY, SHAPE_FACTOR
+from .period_file import PERIOD_FILE
 from .shift_inputs import COLUMN_FIELDS, MAX_COLUMNS, MODE_FIELDS, PERIOD_FIELDS
 from .spectrum_fields import CONCENTRATION_TYPES, SPECTRUM_DIAMETER_TYPE
 
@@ -136,9 +137,12 @@ FIELDS: tuple[Field, ...] = (
         "records",
         [],
         required=False,
+        help="Typed, dragged on the chart, or read from a task log (CSV or TSV with columns "
+        "label, kind, start, end, activity, route, protection factor; start and end needed).",
         item_fields=PERIOD_FIELDS,
         max_items=MAX_PERIODS,
         item_label="Period",
+        extra={"table_file": PERIOD_FILE},
     ),
     Field(
         "background_method",

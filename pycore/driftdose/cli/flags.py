@@ -250,6 +250,9 @@ def data_value(
     list of items (lognormal modes), pairs make the items instead: see :func:`_item_list`.
     """
     if len(args) == 1 and not _KEY_VALUE.match(args[0]):
+        records = table_file_records(args[0], name, fd, origins)
+        if records is not None:
+            return records
         return parse_json_text(args[0], name)
     pairs = []
     for arg in args:
@@ -276,6 +279,34 @@ def data_value(
         if obj[key] is None or json_depth_over(obj[key], MAX_JSON_DEPTH):
             raise too_deep(name, f"{key}= is ")
     return obj
+
+
+def table_file_records(
+    arg: str, name: str, fd: dict[str, Any] | None, origins: dict[str, str]
+) -> list[dict[str, Any]] | None:
+    """The records of a list field read from a table file (``@periods.csv``), or None.
+
+    A field whose description has ``table_file`` (``{describe, accept, max_bytes}``) takes a
+    file of one of the ``accept`` types as the page's file control beside it does: the
+    file's text goes to the describer the field names (the worker's door,
+    :func:`driftdose.api.files.describe_file_json`), and its records are the value. Any other
+    ``@FILE`` is JSON.
+    """
+    spec = fd.get("table_file") if fd is not None else None
+    if not (isinstance(spec, dict) and arg.startswith("@")):
+        return None
+    path = arg[1:]
+    suffixes = tuple(s.strip().lower() for s in str(spec.get("accept", "")).split(",") if s)
+    if not (suffixes and path.lower().endswith(suffixes)):
+        return None
+    from ..api.files import describe_file_json
+
+    text = read_text_file(path, name, spec.get("max_bytes"))
+    reply = json.loads(describe_file_json(spec.get("describe"), text, 0))
+    if not reply.get("ok"):
+        raise UserError(name, f"{path!r}: {reply.get('message', 'cannot be read.')}")
+    origins[name] = path
+    return reply["records"]
 
 
 def _item_list(pairs: list[tuple[str, str]], fd: dict[str, Any], name: str) -> list[dict[str, Any]]:
