@@ -220,6 +220,19 @@ def _curve(series: TimeSeries, cols: list[tuple[str, str, str, Any, float]]) -> 
     }
 
 
+_NEGATIVE: list[tuple[TimeSeries, str, int]] = []
+
+
+def _negatives(series: TimeSeries, key: str) -> int:
+    """Readings below zero in a column (counted once per series read)."""
+    hit = next((n for s, k, n in _NEGATIVE if s is series and k == key), None)
+    if hit is None:
+        hit = sum(1 for x in series.values[key] if x is not None and x < 0)
+        _NEGATIVE.insert(0, (series, key, hit))
+        del _NEGATIVE[4:]
+    return hit
+
+
 def _at_points(series: TimeSeries, values: Any, ts: list[float], f: float) -> list[float | None]:
     """Values per reading taken at drawing times (the reading in force at each), in display
     units; None inside gaps."""
@@ -321,7 +334,7 @@ def shape(
             f"{len(series.gaps)} gap(s) in the logging, {total / 60:.3g} min in all (a gap: a "
             "spacing over twice the logging interval)."
         )
-    negative = sum(1 for x in series.values[str(q_index)] if x is not None and x < 0)
+    negative = _negatives(series, str(q_index))
     if negative:
         warnings.append(f"{negative} reading(s) below zero are used as logged.")
     if series.end > 24 * 3600.0:

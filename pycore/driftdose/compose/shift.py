@@ -22,7 +22,7 @@ from typing import Any
 from ..diameters import ParticleDescription
 from ..distribution import WEIGHTS
 from ..shift.background import Background, background_values
-from ..shift.periods import Period, check_periods
+from ..shift.periods import MAX_PERIODS, Period, check_periods
 from ..shift.series import TimeSeries
 from ..shift.stats import PeriodStats, mean_over, stats_over, twa8h
 from ..shift.taskdose import TaskDose, channel_spectrum, scaled, shape_amount, task_dose
@@ -160,6 +160,64 @@ def _minus_breaks(
     return out
 
 
+_recent: dict[str, list[tuple[tuple[Any, ...], Any, Any]]] = {"background": [], "stats": []}
+"""The last backgrounds and period statistics found, so that moving one period redoes only
+what depends on it (objects in a key compared by identity, the rest by value)."""
+
+
+def _remembered(kind: str, objects: tuple[Any, ...], values: Any, build: Any, keep: int) -> Any:
+    kept = _recent[kind]
+    for objs, vals, result in kept:
+        if vals == values and all(a is b for a, b in zip(objs, objects, strict=True)):
+            return result
+    result = build()
+    kept.insert(0, (objects, values, result))
+    del kept[keep:]
+    return result
+
+
+def _background(
+    method: str,
+    series: TimeSeries,
+    values: Sequence[float | None],
+    periods: Sequence[Period],
+    far: TimeSeries | None,
+    far_key: str | None,
+) -> Background:
+    """:func:`background_values`, kept for the periods it reads (background periods; every
+    period for ``pre_post``, whose notes name the tasks)."""
+    if method == "far_field":
+        used: tuple[Any, ...] = (far_key,)
+    elif method == "pre_post":
+        used = tuple((p.kind, p.label, p.start, p.end) for p in periods)
+    else:
+        used = tuple((p.kind, p.label, p.start, p.end) for p in periods if p.kind == "background")
+    return _remembered(  # type: ignore[no-any-return]
+        "background",
+        (series, values, far),
+        (method, used),
+        lambda: background_values(method, series, values, periods, far, far_key),
+        2,
+    )
+
+
+def _stats(
+    series: TimeSeries,
+    values: Sequence[float | None],
+    intervals: list[tuple[float, float]],
+    background: Sequence[float | None] | None,
+    benchmark: float | None,
+) -> PeriodStats:
+    """:func:`stats_over`, kept per period bounds (a period that did not move is not redone)."""
+    return _remembered(  # type: ignore[no-any-return]
+        "stats",
+        (series, values, background),
+        (tuple(intervals), benchmark),
+        lambda: stats_over(series, values, intervals, background, benchmark),
+        3 * MAX_PERIODS,
+    )
+
+
 def compose_shift(
     series: TimeSeries,
     key: str,
@@ -208,15 +266,15 @@ def compose_shift(
     """
     check_periods(periods, 0.0, series.end, series.start)
     values = series.values[key]
-    bg = background_values(background_method, series, values, periods, far, far_key)
+    bg = _background(background_method, series, values, periods, far, far_key)
     b = bg.values
-    rows = tuple((p, stats_over(series, values, [(p.start, p.end)], b, benchmark)) for p in periods)
+    rows = tuple((p, _stats(series, values, [(p.start, p.end)], b, benchmark)) for p in periods)
     span = (
         (min(p.start for p in periods), max(p.end for p in periods))
         if periods
         else (0.0, series.end)
     )
-    shift = stats_over(series, values, _minus_breaks(span, periods), b, benchmark)
+    shift = _stats(series, values, _minus_breaks(span, periods), b, benchmark)
     notes: list[str] = list(bg.notes)
     if unmeasured_as == "background" and shift.background_mean is None:
         raise ValueError("counting unmeasured time as background needs a background method")

@@ -16,8 +16,10 @@ from __future__ import annotations
 import bisect
 import itertools
 import math
+import operator
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
+from functools import cached_property
 
 from ..tables import CellError, Table
 from ..tables import number as read_number
@@ -126,6 +128,16 @@ class TimeSeries:
     def end(self) -> float:
         """End of the last reading's interval. [s from start]"""
         return self.t[-1] + self.hold[-1]
+
+    @cached_property
+    def ends(self) -> tuple[float, ...]:
+        """End of each reading's interval, ``t + hold`` (computed once). [s from start]"""
+        return tuple(map(operator.add, self.t, self.hold))
+
+    @cached_property
+    def lengths(self) -> tuple[float, ...]:
+        """Each reading's interval as ``ends - t`` (the rounding the statistics use). [s]"""
+        return tuple(map(operator.sub, self.ends, self.t))
 
     def clock(self, t: float) -> str:
         """Clock time of ``t`` [s from start] as ISO 8601 text."""

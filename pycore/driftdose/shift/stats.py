@@ -29,7 +29,10 @@ import bisect
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
+from itertools import accumulate, compress, repeat
+from operator import gt, mul, sub
 
+from .segments import against_background, clipped
 from .series import TimeSeries
 
 __all__ = [
@@ -39,6 +42,7 @@ __all__ = [
     "PeriodStats",
     "mean_over",
     "percentile",
+    "stats_each",
     "stats_over",
     "twa8h",
 ]
@@ -142,51 +146,6 @@ def percentile(sorted_values: Sequence[float], q: float) -> float:
     return sorted_values[lo] + (h - lo) * (sorted_values[lo + 1] - sorted_values[lo])
 
 
-def _segments(
-    series: TimeSeries,
-    values: Sequence[float | None],
-    intervals: Sequence[tuple[float, float]],
-) -> tuple[list[float], list[float], list[float], list[int]]:
-    """Clipped reading intervals inside ``intervals``: starts, ends, values, reading index."""
-    t, hold = series.t, series.hold
-    s_out: list[float] = []
-    e_out: list[float] = []
-    v_out: list[float] = []
-    i_out: list[int] = []
-    for a, b in intervals:
-        i = max(0, bisect.bisect_right(t, a) - 1)
-        j = bisect.bisect_left(t, b)
-        if j <= i:
-            continue
-        ks = range(i, j)
-        vs = values[i:j]
-        if None in vs:
-            ks = [k for k in range(i, j) if values[k] is not None]
-            if not ks:
-                continue
-            starts = [t[k] for k in ks]
-            ends = [t[k] + hold[k] for k in ks]
-            vals = [values[k] for k in ks]
-        else:
-            starts = list(t[i:j])
-            ends = [x + h for x, h in zip(starts, hold[i:j], strict=True)]
-            vals = list(vs)
-        # clip the first and last readings to the interval; drop one left with no time
-        for k in {0, len(starts) - 1}:
-            starts[k] = max(starts[k], a)
-            ends[k] = min(ends[k], b)
-        ks = list(ks)
-        if ends[-1] <= starts[-1]:
-            del starts[-1], ends[-1], vals[-1], ks[-1]
-        if starts and ends[0] <= starts[0]:
-            del starts[0], ends[0], vals[0], ks[0]
-        s_out += starts
-        e_out += ends
-        v_out += vals
-        i_out += ks
-    return s_out, e_out, v_out, i_out
-
-
 def _peak(
     starts: list[float], ends: list[float], vals: list[float], lo: float, hi: float
 ) -> float | None:
@@ -257,15 +216,16 @@ def _regular_peak(
     if m < 1 or m > n or abs(m * d - SHORT_TERM) > 1e-9 * SHORT_TERM:
         return None
     tol = 1e-9 * d
-    for k in range(1, n):
-        if abs(starts[k] - ends[k - 1]) > tol or abs(ends[k] - starts[k] - d) > tol:
+    if n > 1:
+        # every reading starts where the one before ends and lasts d (within tol); the
+        # largest departure decides, as it would reading by reading
+        if max(map(abs, map(sub, starts[1:], ends[:-1]))) > tol:
             return None
-    cum = [0.0] * (n + 1)
-    acc = 0.0
-    for k, v in enumerate(vals):
-        acc += v
-        cum[k + 1] = acc
-    return max(cum[k + m] - cum[k] for k in range(n - m + 1)) / m
+        lengths = map(sub, ends[1:], starts[1:])
+        if max(map(abs, map(sub, lengths, repeat(d)))) > tol:
+            return None
+    cum = list(accumulate(vals, initial=0.0))
+    return max(map(sub, cum[m:], cum[: n - m + 1])) / m
 
 
 def mean_over(
@@ -290,9 +250,9 @@ def mean_over(
         Mean [SI], integral [SI × s], measured time [s].
 
     """
-    starts, ends, vals, _ = _segments(series, values, intervals)
-    measured = math.fsum(e - s for s, e in zip(starts, ends, strict=True))
-    integral = math.fsum(v * (e - s) for v, s, e in zip(vals, starts, ends, strict=True))
+    _, _, vals, _, dts, _ = clipped(series, values, intervals)
+    measured = math.fsum(dts)
+    integral = math.fsum(map(mul, vals, dts))
     return (integral / measured if measured > 0.0 else None), integral, measured
 
 
@@ -324,11 +284,47 @@ def stats_over(
         The statistics; the values are None where nothing was measured.
 
     """
-    starts, ends, vals, idx = _segments(series, values, intervals)
+    from .rangestats import indexed_stats  # prepared columns: a moved period costs little
+
+    fast = indexed_stats(series, values, intervals, background, benchmark)
+    if fast is not None:
+        return fast  # type: ignore[no-any-return]
+    return stats_each(series, values, intervals, background, benchmark)
+
+
+def stats_each(
+    series: TimeSeries,
+    values: Sequence[float | None],
+    intervals: Sequence[tuple[float, float]],
+    background: Sequence[float | None] | None = None,
+    benchmark: float | None = None,
+) -> PeriodStats:
+    """:func:`stats_over` reading by reading: the general path, for columns with missing
+    values (and the reference of the prepared path in the tests).
+
+    Parameters
+    ----------
+    series : TimeSeries
+        Reading times and intervals.
+    values : sequence of float or None
+        One value per reading (None: missing). [SI]
+    intervals : sequence of (float, float)
+        Disjoint, increasing time intervals [start, end). [s from start]
+    background : sequence of float or None, optional
+        Background value per reading (None: no background for it). [SI]
+    benchmark : float, optional
+        Value to compare with, > 0. [SI]
+
+    Returns
+    -------
+    PeriodStats
+        The statistics; the values are None where nothing was measured.
+
+    """
+    starts, ends, vals, _, dts, bvals = clipped(series, values, intervals, background)
     duration = sum(b - a for a, b in intervals)
-    dts = [e - s for s, e in zip(starts, ends, strict=True)]
     measured = math.fsum(dts)
-    integral = math.fsum(c * d for c, d in zip(vals, dts, strict=True))
+    integral = math.fsum(map(mul, vals, dts))
     readings = len(vals)
     mean = median = p95 = maximum = None
     if measured > 0.0:
@@ -346,20 +342,7 @@ def stats_over(
     b_mean = corrected = below = None
     corr_int = b_time = 0.0
     if background is not None:
-        b_sum = below_t = 0.0
-        corr_terms: list[float] = []
-        for k, c, d in zip(idx, vals, dts, strict=True):
-            b = background[k]
-            if b is None:
-                continue
-            b_time += d
-            b_sum += b * d
-            diff = c - b
-            if diff > 0.0:
-                corr_terms.append(diff * d)
-            elif diff < 0.0:
-                below_t += d
-        corr_int = math.fsum(corr_terms)
+        b_time, b_sum, corr_int, below_t = against_background(vals, dts, bvals)
         if b_time > 0.0:
             b_mean = b_sum / b_time
             corrected = corr_int / b_time
@@ -367,7 +350,7 @@ def stats_over(
     ratio = share = None
     if benchmark is not None and mean is not None:
         ratio = mean / benchmark
-        share = math.fsum(d for c, d in zip(vals, dts, strict=True) if c > benchmark) / measured
+        share = math.fsum(compress(dts, map(gt, vals, repeat(benchmark)))) / measured
     return PeriodStats(
         duration,
         measured,
