@@ -23,7 +23,7 @@ import math
 
 from .. import particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from .flow import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
+from .flow import blend_regimes, regime_weight, tube_velocity
 
 __all__ = [
     "PUI1987_RE_RANGE",
@@ -215,16 +215,8 @@ def bend_penetration(
 
     """
     stk = bend_stokes_number(d, flow, tube_diameter, density, T, P)
-    if regime == "auto":
-        w = transition_weight(tube_reynolds_number(flow, tube_diameter, T, P))
-    elif regime == "laminar":
-        w = 0.0
-    elif regime == "turbulent":
-        w = 1.0
-    else:
-        raise ValueError(f"unknown regime {regime!r}; valid: auto, laminar, turbulent")
-    return interpolate_regimes(
-        penetration_pui1987_laminar(stk, bend_angle),
-        penetration_pui1987_turbulent(stk, bend_angle),
-        w,
+    return blend_regimes(
+        lambda: penetration_pui1987_laminar(stk, bend_angle),
+        lambda: penetration_pui1987_turbulent(stk, bend_angle),
+        regime_weight(regime, flow, tube_diameter, T, P),
     )

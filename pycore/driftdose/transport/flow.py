@@ -9,6 +9,7 @@ angles are in radians.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 
 from .. import gas
 from ..constants import AIR_MOLAR_MASS, GAS_CONSTANT, P_DEFAULT, T_DEFAULT
@@ -17,12 +18,15 @@ __all__ = [
     "HEAT_CAPACITY_RATIO",
     "MACH_ERROR",
     "MACH_WARNING",
+    "REGIMES",
     "RE_LAMINAR_MAX",
     "RE_SWITCH",
     "RE_TURBULENT_MIN",
+    "blend_regimes",
     "flow_regime",
     "interpolate_regimes",
     "mach_number",
+    "regime_weight",
     "speed_of_sound",
     "transition_weight",
     "tube_reynolds_number",
@@ -42,6 +46,10 @@ RE_SWITCH = 2300.0
 """The critical Reynolds number of pipe flow usually quoted (common practice). The models no
 longer switch there: between :data:`RE_LAMINAR_MAX` and :data:`RE_TURBULENT_MIN` they are
 interpolated (:func:`transition_weight`). [-]"""
+
+REGIMES = ("auto", "laminar", "turbulent")
+"""Regime choices of the tube and bend models: ``auto`` from the flow Reynolds number
+(interpolated in the transition range, :func:`regime_weight`), or one form throughout."""
 
 MACH_WARNING = 0.3
 """Mach number above which compressibility is no longer negligible (common practice); the
@@ -157,6 +165,55 @@ def interpolate_regimes(laminar: float, turbulent: float, weight: float) -> floa
     if weight >= 1.0:
         return turbulent
     return (1.0 - weight) * laminar + weight * turbulent
+
+
+def regime_weight(
+    regime: str, flow: float, tube_diameter: float, T: float = T_DEFAULT, P: float = P_DEFAULT
+) -> float:
+    """Weight of the turbulent form for a regime choice of :data:`REGIMES`.
+
+    Parameters
+    ----------
+    regime : str
+        ``auto`` (the :func:`transition_weight` of the tube's Reynolds number), ``laminar``
+        (0) or ``turbulent`` (1).
+    flow : float
+        Volumetric flow rate. [m^3/s]
+    tube_diameter : float
+        Inner diameter of the tube. [m]
+    T, P : float
+        Temperature [K], pressure [Pa].
+
+    Returns
+    -------
+    float
+        Weight w of the turbulent form, 0 to 1. [-]
+
+    """
+    if regime == "auto":
+        return transition_weight(tube_reynolds_number(flow, tube_diameter, T, P))
+    if regime == "laminar":
+        return 0.0
+    if regime == "turbulent":
+        return 1.0
+    raise ValueError(f"unknown regime {regime!r}; valid: {', '.join(REGIMES)}")
+
+
+def blend_regimes(
+    laminar: Callable[[], float], turbulent: Callable[[], float], weight: float
+) -> float:
+    """:func:`interpolate_regimes` of two forms, each computed only if it carries weight. [-]
+
+    Parameters
+    ----------
+    laminar, turbulent : callable
+        The penetration in laminar and in turbulent flow, computed on call [-].
+    weight : float
+        Weight of the turbulent form, 0 to 1 (:func:`regime_weight`) [-].
+    """
+    return interpolate_regimes(
+        laminar() if weight < 1.0 else 1.0, turbulent() if weight > 0.0 else 1.0, weight
+    )
 
 
 def speed_of_sound(T: float = T_DEFAULT) -> float:

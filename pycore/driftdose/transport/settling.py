@@ -17,7 +17,7 @@ import math
 
 from .. import particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from .flow import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
+from .flow import blend_regimes, regime_weight, tube_velocity
 
 __all__ = [
     "penetration_heyder_gebhart1977",
@@ -234,26 +234,9 @@ def tube_settling_penetration(
         Penetration. [-]
 
     """
-    if regime == "auto":
-        w = transition_weight(tube_reynolds_number(flow, tube_diameter, T, P))
-    elif regime == "laminar":
-        w = 0.0
-    elif regime == "turbulent":
-        w = 1.0
-    else:
-        raise ValueError(f"unknown regime {regime!r}; valid: auto, laminar, turbulent")
-    lam = (
-        tube_settling_penetration_heyder_gebhart1977(
-            d, length, flow, tube_diameter, density, inclination, T, P
-        )
-        if w < 1.0
-        else 1.0
+    args = (d, length, flow, tube_diameter, density, inclination, T, P)
+    return blend_regimes(
+        lambda: tube_settling_penetration_heyder_gebhart1977(*args),
+        lambda: tube_settling_penetration_schwendiman1975(*args),
+        regime_weight(regime, flow, tube_diameter, T, P),
     )
-    turb = (
-        tube_settling_penetration_schwendiman1975(
-            d, length, flow, tube_diameter, density, inclination, T, P
-        )
-        if w > 0.0
-        else 1.0
-    )
-    return interpolate_regimes(lam, turb, w)

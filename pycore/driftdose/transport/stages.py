@@ -26,6 +26,7 @@ from .flow import (
     MACH_WARNING,
     RE_LAMINAR_MAX,
     RE_TURBULENT_MIN,
+    REGIMES,
     flow_regime,
     mach_number,
     transition_weight,
@@ -88,6 +89,16 @@ def _check_speed(parameter: str, velocity: float, T: float, what: str) -> list[s
     return []
 
 
+def _check_regime(regime: str) -> None:
+    if regime not in REGIMES:
+        raise StageInputError("regime", "Regime must be auto, laminar or turbulent.")
+
+
+def _shown_regime(regime: str, re: float) -> str:
+    """The regime a stage reports: the one chosen, or for ``auto`` the flow's at ``re``."""
+    return regime if regime != "auto" else flow_regime(re)
+
+
 def _regime_warnings(re: float, what: str, models: str, regime: str) -> list[str]:
     if regime == "auto" and RE_LAMINAR_MAX <= re <= RE_TURBULENT_MIN:
         w = transition_weight(re)
@@ -125,13 +136,7 @@ class Tube:
         _positive("flow", self.flow, "Flow")
         if not (-math.pi / 2 <= self.inclination <= math.pi / 2):
             raise StageInputError("inclination", "Inclination must be between -90° and 90°.")
-        if self.regime not in ("auto", "laminar", "turbulent"):
-            raise StageInputError("regime", "Regime must be auto, laminar or turbulent.")
-
-    def _regime(self, T: float, P: float) -> str:
-        if self.regime != "auto":
-            return self.regime
-        return flow_regime(tube_reynolds_number(self.flow, self.tube_diameter, T, P))
+        _check_regime(self.regime)
 
     def penetration(self, d: float, density: float, T: float, P: float) -> float:
         """Penetration at diameter ``d`` [m]: product of the diffusion and settling parts."""
@@ -159,7 +164,7 @@ class Tube:
         """Reynolds number, mean velocity, residence time and warnings."""
         u = tube_velocity(self.flow, self.tube_diameter)
         re = tube_reynolds_number(self.flow, self.tube_diameter, T, P)
-        regime = self._regime(T, P)
+        regime = _shown_regime(self.regime, re)
         warnings = _check_speed("flow", u, T, "Mean air speed in the tube")
         models = []
         if self.diffusion:
@@ -250,8 +255,7 @@ class Bend:
                 "Bend radius must be larger than the tube's radius (half its inner "
                 "diameter); a smaller radius is geometrically impossible.",
             )
-        if self.regime not in ("auto", "laminar", "turbulent"):
-            raise StageInputError("regime", "Regime must be auto, laminar or turbulent.")
+        _check_regime(self.regime)
 
     def penetration(self, d: float, density: float, T: float, P: float) -> float:
         """Penetration at diameter ``d`` [m]."""
@@ -263,7 +267,7 @@ class Bend:
         """Reynolds and Dean numbers, curvature ratio and warnings."""
         u = tube_velocity(self.flow, self.tube_diameter)
         re = tube_reynolds_number(self.flow, self.tube_diameter, T, P)
-        regime = self.regime if self.regime != "auto" else flow_regime(re)
+        regime = _shown_regime(self.regime, re)
         ratio = self.curvature_radius / (self.tube_diameter / 2)
         warnings = _check_speed("flow", u, T, "Mean air speed in the bend")
         warnings += _regime_warnings(

@@ -19,7 +19,7 @@ import math
 
 from .. import gas, particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from .flow import interpolate_regimes, transition_weight, tube_reynolds_number, tube_velocity
+from .flow import blend_regimes, regime_weight, tube_reynolds_number, tube_velocity
 
 __all__ = [
     "LAMINAR_MODELS",
@@ -278,18 +278,8 @@ def tube_diffusion_penetration_any(
         Penetration. [-]
 
     """
-    if regime == "auto":
-        w = transition_weight(tube_reynolds_number(flow, tube_diameter, T, P))
-    elif regime == "laminar":
-        w = 0.0
-    elif regime == "turbulent":
-        w = 1.0
-    else:
-        raise ValueError(f"unknown regime {regime!r}; valid: auto, laminar, turbulent")
-    lam = tube_diffusion_penetration(d, length, flow, T, P) if w < 1.0 else 1.0
-    turb = (
-        tube_diffusion_penetration_friedlander1977(d, length, flow, tube_diameter, T, P)
-        if w > 0.0
-        else 1.0
+    return blend_regimes(
+        lambda: tube_diffusion_penetration(d, length, flow, T, P),
+        lambda: tube_diffusion_penetration_friedlander1977(d, length, flow, tube_diameter, T, P),
+        regime_weight(regime, flow, tube_diameter, T, P),
     )
-    return interpolate_regimes(lam, turb, w)
