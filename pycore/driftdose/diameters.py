@@ -40,11 +40,12 @@ temperature and pressure.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from . import particle
-from ._numerics import brent_root
 from .constants import P_DEFAULT, T_DEFAULT
+from .particle.equivalent import equal_mobility_diameter
 
 __all__ = [
     "DENSITY_BASES",
@@ -64,11 +65,6 @@ volume-equivalent), electrical mobility, aerodynamic."""
 DENSITY_BASES = ("material", "effective")
 """``material``: particle (material) density with a dynamic shape factor; ``effective``:
 mass-mobility effective density (DeCarlo et al. 2004)."""
-
-
-def _solve_ln(f, d: float, lo: float, hi: float) -> float:
-    """Root in ln d of ``f`` bracketed by [d lo, d hi]."""
-    return math.exp(brent_root(f, math.log(d * lo), math.log(d * hi), xtol=1e-13))
 
 
 def mobility_diameter(
@@ -137,14 +133,8 @@ def volume_equivalent_from_mobility(
     """
     if shape_factor == 1.0:
         return d_m
-    target = d_m / particle.slip_correction(d_m, T, P)
-
-    def f(ln_d: float) -> float:
-        d = math.exp(ln_d)
-        return math.log(shape_factor * d / particle.slip_correction(d, T, P) / target)
-
-    lo = 1.0 / max(shape_factor, math.sqrt(shape_factor), 1.0)
-    return _solve_ln(f, d_m, lo * 0.5, 2.0)
+    # the relation of mobility_diameter, solved once in particle
+    return equal_mobility_diameter(d_m, 1.0 / shape_factor, T, P)
 
 
 def effective_density(
@@ -246,6 +236,11 @@ def mobility_from_aerodynamic(
     return particle.volume_equivalent_diameter(d_a, effective_density, 1.0, T, P)
 
 
+def _same(d: float) -> float:
+    """The diameter itself [m]: the measured type is the model sphere's."""
+    return d
+
+
 @dataclass(frozen=True)
 class ParticleDescription:
     """How the user describes the particles, and the sphere the models compute with.
@@ -299,39 +294,47 @@ class ParticleDescription:
         monotone in size, so a median of a distribution converts to the median of the
         converted distribution exactly.
         """
-        if diameter_type not in DIAMETER_TYPES:
-            raise ValueError(f"unknown diameter type {diameter_type!r}; valid: {DIAMETER_TYPES}")
-        chi = self.shape_factor
-        if self.basis == "material":
-            if diameter_type == "aerodynamic":
-                return particle.volume_equivalent_diameter(d, self.density, chi, T, P)
-            if diameter_type == "mobility":
-                return volume_equivalent_from_mobility(d, chi, T, P)
-            return d
-        if diameter_type == "aerodynamic":
-            return mobility_from_aerodynamic(d, self.density, T, P)
-        if diameter_type == "mobility":
-            return d
-        return mobility_diameter(d, chi, T, P)
+        return self._conversions(diameter_type, T, P)[0](d)
 
     def from_model(
         self, d: float, diameter_type: str, T: float = T_DEFAULT, P: float = P_DEFAULT
     ) -> float:
         """Diameter of ``diameter_type`` [m] of the particle whose model diameter is ``d``."""
+        return self._conversions(diameter_type, T, P)[1](d)
+
+    def _conversions(
+        self, diameter_type: str, T: float, P: float
+    ) -> tuple[Callable[[float], float], Callable[[float], float]]:
+        """(measured to model, model to measured) diameter [m] for ``diameter_type``.
+
+        One table for both directions, so that each pair stays a pair of inverses.
+        """
         if diameter_type not in DIAMETER_TYPES:
             raise ValueError(f"unknown diameter type {diameter_type!r}; valid: {DIAMETER_TYPES}")
-        chi = self.shape_factor
-        if self.basis == "material":
-            if diameter_type == "aerodynamic":
-                return particle.aerodynamic_diameter(d, self.density, chi, T, P)
-            if diameter_type == "mobility":
-                return mobility_diameter(d, chi, T, P)
-            return d
+        rho, chi = self.density, self.shape_factor
         if diameter_type == "aerodynamic":
-            return aerodynamic_from_mobility(d, self.density, T, P)
-        if diameter_type == "mobility":
-            return d
-        return volume_equivalent_from_mobility(d, chi, T, P)
+            if self.basis == "material":
+                return (
+                    lambda d: particle.volume_equivalent_diameter(d, rho, chi, T, P),
+                    lambda d: particle.aerodynamic_diameter(d, rho, chi, T, P),
+                )
+            return (
+                lambda d: mobility_from_aerodynamic(d, rho, T, P),
+                lambda d: aerodynamic_from_mobility(d, rho, T, P),
+            )
+        measured = "mobility" if diameter_type == "mobility" else "volume_equivalent"
+        if measured == self.coordinate:
+            return _same, _same
+
+        def to_mobility(d: float) -> float:
+            return mobility_diameter(d, chi, T, P)
+
+        def to_volume_equivalent(d: float) -> float:
+            return volume_equivalent_from_mobility(d, chi, T, P)
+
+        if self.basis == "material":
+            return to_volume_equivalent, to_mobility
+        return to_mobility, to_volume_equivalent
 
     def implied_material_density(
         self, d: float, T: float = T_DEFAULT, P: float = P_DEFAULT

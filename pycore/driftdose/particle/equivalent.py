@@ -133,16 +133,44 @@ def mobility_diameter(
     """
     if shape_factor == 1.0:
         return d
-    target = slip_correction(d, T, P) / (d * shape_factor)
+    return equal_mobility_diameter(d, shape_factor, T, P)
 
-    def f(log_dm: float) -> float:
-        dm = math.exp(log_dm)
-        return math.log(slip_correction(dm, T, P) / dm / target)
 
-    r = shape_factor
-    lo = min(r, math.sqrt(r), 1.0)
-    hi = max(r, math.sqrt(r), 1.0)
-    return math.exp(brent_root(f, math.log(d * lo * 0.5), math.log(d * hi * 2.0), xtol=1e-13))
+def equal_mobility_diameter(
+    d: float, ratio: float, T: float = T_DEFAULT, P: float = P_DEFAULT
+) -> float:
+    """Diameter whose d / Cc(d) is ``ratio`` times that of a sphere of diameter ``d``.
+
+    Parameters
+    ----------
+    d : float
+        Diameter of the given sphere. [m]
+    ratio : float
+        Wanted ratio of d_x / Cc(d_x) to d / Cc(d): the shape factor chi for the mobility
+        diameter of a particle of volume-equivalent diameter ``d``, 1 / chi for the
+        volume-equivalent diameter of a particle of mobility diameter ``d``. [-]
+    T : float
+        Temperature. [K]
+    P : float
+        Pressure. [Pa]
+
+    Returns
+    -------
+    float
+        d_x with Cc(d_x) / d_x = Cc(d) / (ratio d): spheres of equal mechanical mobility
+        B = Cc / (3 pi mu d chi) (Hinds 1999, eqs. 3.16 and 3.25) when ``ratio`` carries the
+        shape factor. d ratio in the continuum limit, d sqrt(ratio) in the free-molecular
+        one; found by Brent's method in ln d_x inside :func:`_ratio_bracket`. [m]
+
+    """
+    target = slip_correction(d, T, P) / (d * ratio)
+
+    def f(log_dx: float) -> float:
+        dx = math.exp(log_dx)
+        return math.log(slip_correction(dx, T, P) / dx / target)
+
+    lo, hi = _ratio_bracket(d, ratio)
+    return math.exp(brent_root(f, lo, hi, xtol=1e-13))
 
 
 def _solve_equal_settling(d: float, r: float, T: float, P: float) -> float:
@@ -167,9 +195,10 @@ def _solve_equal_settling(d: float, r: float, T: float, P: float) -> float:
 
 
 def _ratio_bracket(d: float, r: float) -> tuple[float, float]:
-    """Bracket (in ln d) the solution of d_x^2 Cc(d_x) = r d^2 Cc(d).
+    """Bracket (in ln d) the solution of d_x^2 Cc(d_x) = r d^2 Cc(d) or d_x / Cc(d_x) = r d / Cc(d).
 
-    Between the continuum limit (factor sqrt(r)) and the free-molecular one (factor r).
+    Between the limits of the two relations, continuum (Cc = 1) and free-molecular
+    (Cc proportional to 1 / d): factors sqrt(r) and r of ``d``.
     """
     lo = min(r, math.sqrt(r), 1.0)
     hi = max(r, math.sqrt(r), 1.0)
