@@ -33,8 +33,8 @@ _SEED = "a seed of the random generator, not a quantity"
 _DATE = "a field of a calendar date, not a quantity"
 _INDEX = "a position in a file (column or line number), not a quantity"
 NO_UNIT: dict[tuple[str, str], str] = {
-    ("driftdose.uncertainty.design", "seed"): _SEED,
-    ("driftdose.uncertainty.propagate", "seed"): _SEED,
+    ("driftdose.uncertainty.spreads.design", "seed"): _SEED,
+    ("driftdose.uncertainty.propagation.propagate", "seed"): _SEED,
     ("driftdose.shift.clock.days_from_civil", "year"): _DATE,
     ("driftdose.shift.clock.days_from_civil", "month"): _DATE,
     ("driftdose.shift.clock.days_from_civil", "day"): _DATE,
