@@ -216,7 +216,7 @@ FIELDS: tuple[Field, ...] = (
         "data",
         None,
         required=False,
-        extra={"max_bytes": 5 * 1024 * 1024, "accept": ".csv,.txt,.tsv"},
+        extra={"max_bytes": MAX_BYTES, "accept": ".csv,.txt,.tsv"},
         applies=("size_source", ("spectrum",)),
     ),
     Field(

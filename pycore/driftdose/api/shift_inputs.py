@@ -18,6 +18,7 @@ from ..shift.periods import MAX_PERIODS, PERIOD_KINDS, Period
 from .declare import positive, ratio
 from .exposure_fields import ACTIVITY, MODE_GSD, MODE_MEDIAN, ROUTE
 from .fields import Field, FieldError
+from .spectrum_fields import D_RANGE
 from .units import unit_label
 
 __all__ = [
@@ -113,8 +114,8 @@ COLUMN_FIELDS: tuple[Field, ...] = (
         "length",
         (None, "nm"),
         ("nm", "um"),
-        minimum=1e-9,
-        maximum=100e-6,
+        minimum=D_RANGE[0],
+        maximum=D_RANGE[1],
         required=False,
         applies=("quantity", ("channel",)),
     ),
@@ -282,7 +283,7 @@ def column_records(raw: Any, field: str = "quantity_columns") -> list[dict[str, 
             if diameter is None:
                 raise FieldError(f"{path}.diameter", f"{where}: a size channel needs its diameter.")
             diameter = _number(diameter, f"{path}.diameter", f"{where} diameter")
-            if not 1e-9 <= diameter <= 100e-6:
+            if not D_RANGE[0] <= diameter <= D_RANGE[1]:
                 raise FieldError(
                     f"{path}.diameter", f"{where}: the diameter must be from 1 nm to 100 µm."
                 )
