@@ -297,7 +297,33 @@ function setupServiceWorker(build) {
     if (hadController && !reloading) {
       reloading = true;
       location.reload();
+    } else if (!hadController) {
+      warmEngineCode();
     }
+  });
+}
+
+/**
+ * The first time the service worker takes control (the first visit, once everything is cached):
+ * load the engine's script once through it in a short-lived worker, so that the browser keeps
+ * its compiled code with the cached copy and the next visit does not compile it again.
+ * `data-engine-code="warm"` on the root says it is done.
+ */
+function warmEngineCode() {
+  let worker;
+  try {
+    worker = new Worker(new URL("./warm.js", import.meta.url), { type: "module" });
+  } catch {
+    return;
+  }
+  const done = () => {
+    worker.terminate();
+    root.dataset.engineCode = "warm";
+  };
+  worker.addEventListener("message", done);
+  worker.addEventListener("error", (event) => {
+    event.preventDefault();
+    worker.terminate();
   });
 }
 

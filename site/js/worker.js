@@ -11,8 +11,11 @@
 // a wheel missing from the server means the server holds another build, and the worker says so.
 //
 // Nothing waits for what it does not need: build-info.json is asked for as the worker starts,
-// the page's wheel is checked while the snapshot loads, and the page (boot.js) sends the wheel
-// before its own modules have loaded. Phase marks (ms since the epoch) go with "ready".
+// and the snapshot and the engine's files as soon as it answers, before the page has named its
+// wheel (the page, boot.js, sends it before its own modules have loaded); the wheel is checked
+// while the snapshot loads, and the snapshot is restored only once the page's wheel is the one
+// build-info.json names (otherwise the fetched snapshot is dropped: the page is of another
+// build). Phase marks (ms since the epoch) go with "ready".
 //
 // Start-up: when build-info.json names a memory snapshot (the engine started at build time with
 // the package imported, see build.py), the engine restores it instead of starting Python. The
@@ -66,7 +69,7 @@ async function ownWheel(path) {
   return path;
 }
 
-async function fromSnapshot(info) {
+async function fromSnapshot(info, pageWheel) {
   const snapshot = fetch(new URL(info.snapshot.file, base))
     .then((r) => {
       if (!r.ok) throw new Error(`snapshot: HTTP ${r.status}`);
@@ -76,11 +79,16 @@ async function fromSnapshot(info) {
       marks.snapshotFetched = stamp();
       return expandSparse(buffer);
     });
-  snapshot.catch(() => {}); // handled where loadPyodide awaits it; not an unhandled rejection
+  // restored only once the page has named its wheel and it is the one the snapshot holds
+  const memory = Promise.all([snapshot, pageWheel]).then(([bytes, wheel]) => {
+    if (wheel !== info.wheel) throw new OtherBuild();
+    return bytes;
+  });
+  memory.catch(() => {}); // handled where loadPyodide awaits it; not an unhandled rejection
   const pyodide = await loadPyodide({
     indexURL,
     packages: [],
-    _loadSnapshot: snapshot,
+    _loadSnapshot: memory,
     fsInit: async () => { marks.engineStarted = stamp(); },
   });
   marks.bootstrapped = stamp();
@@ -93,6 +101,9 @@ async function fromSnapshot(info) {
   pyodide.runPython("import sys\nif 'random' in sys.modules: sys.modules['random'].seed()");
   return pyodide;
 }
+
+/** build-info.json describes another build than this page's: its snapshot is not for us. */
+class OtherBuild extends Error {}
 
 async function normalStart(info) {
   const pyodide = await loadPyodide({
@@ -111,30 +122,34 @@ async function normalStart(info) {
 async function start() {
   const t0 = performance.now();
   progress(10, "Loading the Python runtime…");
-  const wheel = (await initialised).wheel;
-  marks.initReceived = stamp();
-  const wheelChecked = ownWheel(wheel);
+  // the page's wheel arrives with "init"; the snapshot's files are asked for before that (the
+  // snapshot is restored only once the page's wheel is known to be the one it holds)
+  const pageWheel = initialised.then((data) => {
+    marks.initReceived = stamp();
+    return data.wheel;
+  });
+  const wheelChecked = pageWheel.then(ownWheel);
   wheelChecked.catch(() => {}); // awaited below, before anything is used
   const deployed = await served;
   marks.infoFetched = stamp();
-  // the snapshot only when build-info.json describes this page's build (same wheel)
-  const info = typeof wheel === "string" && deployed.wheel === wheel ? deployed : { wheel };
   let pyodide = null;
   let how = "normal";
   let refused = "";
-  if (info.snapshot) {
+  if (deployed.snapshot && typeof deployed.wheel === "string") {
     try {
-      pyodide = await fromSnapshot(info);
+      pyodide = await fromSnapshot(deployed, pageWheel);
       how = "snapshot";
     } catch (err) {
-      refused = String(err && err.message ? err.message : err);
-      console.warn(`Engine snapshot not used (${refused}); starting the engine normally.`);
+      if (!(err instanceof OtherBuild)) {
+        refused = String(err && err.message ? err.message : err);
+        console.warn(`Engine snapshot not used (${refused}); starting the engine normally.`);
+      }
     }
   }
   // the page's own engine is on the server, or nothing is used (a missing wheel: the server
   // holds another build; the page says so)
-  await wheelChecked;
-  if (!pyodide) pyodide = await normalStart(info);
+  const wheel = await wheelChecked;
+  if (!pyodide) pyodide = await normalStart({ wheel });
   const tRuntime = performance.now() - t0;
   progress(90, "Preparing…");
   const api = pyodide.pyimport("driftdose.api");

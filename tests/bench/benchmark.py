@@ -13,7 +13,9 @@ Measures in one run, on one server, in the same Chromium:
   first chart drawn, and the bytes a first visit downloads before ready (as sent, and gzip);
 - repeat visits in an on-disk browser profile (closed and reopened between visits): the second
   visit's time to ready divided by the first's, with the service worker answering and with
-  service workers blocked (HTTP cache only);
+  service workers blocked (HTTP cache only); and (part ``repeat_throttled``) the same for the
+  default build served over a shared 50 Mbit/s link with 20 ms per response, where a first visit
+  pays its download;
 - input change to updated chart, per panel: median and 95th percentile over many edits;
 - the app's own assets (everything but Pyodide's core), gzip-compressed size;
 - the heaviest core calculations in CPython, and the same requests in the page, with ratios;
@@ -223,15 +225,45 @@ class _Counter:
         self.until_ready: dict[str, int] = {}
 
 
-def _serve_counting(build, root: Path, counter: _Counter):
+class _Link:
+    """A shared network link for the bench server: every response waits ``latency_ms`` before
+    its headers, and all bodies together go at most ``mbit`` Mbit/s (64 KB slices, in turn)."""
+
+    def __init__(self, mbit: float, latency_ms: float) -> None:
+        import threading
+
+        self.mbit, self.latency_ms = mbit, latency_ms
+        self.bytes_per_s = mbit * 1e6 / 8
+        self.lock = threading.Lock()
+        self.free_at = 0.0
+
+    def wait_for(self, size: int) -> None:
+        with self.lock:
+            now = time.monotonic()
+            self.free_at = max(now, self.free_at) + size / self.bytes_per_s
+            wait = self.free_at - now
+        time.sleep(wait)
+
+
+def _serve_counting(build, root: Path, counter: _Counter, link: _Link | None = None):
     import functools
     import http.server
     import threading
 
     class Handler(build._Handler):
+        def end_headers(self) -> None:
+            if link is not None:
+                time.sleep(link.latency_ms / 1000)
+            super().end_headers()
+
         def copyfile(self, source, outputfile) -> None:
             start = source.tell()
-            super().copyfile(source, outputfile)
+            if link is None:
+                super().copyfile(source, outputfile)
+            else:
+                while chunk := source.read(65536):
+                    link.wait_for(len(chunk))
+                    outputfile.write(chunk)
             path = self.path.split("?")[0]
             counter.sent[path] = counter.sent.get(path, 0) + source.tell() - start
 
@@ -296,8 +328,14 @@ def _gzip_bytes(root: Path, sent: dict[str, int]) -> int:
     return total
 
 
-def _profile_visits(pw, base: str, variant: str, runs: int, block_sw: bool) -> dict:
-    """First and second visit, each in a freshly started browser on the same on-disk profile."""
+def _profile_visits(
+    pw, base: str, variant: str, runs: int, block_sw: bool, warms: bool = False
+) -> dict:
+    """First and second visit, each in a freshly started browser on the same on-disk profile.
+
+    With the service worker, the first visit ends once it has cached the build and, where the
+    page does so (``warms``: its ``js/warm.js``), loaded the engine's script once through it.
+    """
     first, second = [], []
     in_page: dict[int, list[float]] = {id(first): [], id(second): []}
     for _ in range(runs):
@@ -320,6 +358,8 @@ def _profile_visits(pw, base: str, variant: str, runs: int, block_sw: bool) -> d
                         "async () => { const r = await navigator.serviceWorker.ready;"
                         " return r.active && r.active.state; }"
                     )
+                    if warms:  # and the engine's script compiled once through it (app.js)
+                        page.wait_for_selector("html[data-engine-code='warm']", timeout=180_000)
                     page.close()
                 ctx.close()
     page_first = statistics.median(in_page[id(first)])
@@ -333,6 +373,35 @@ def _profile_visits(pw, base: str, variant: str, runs: int, block_sw: bool) -> d
         "in_page_second_ms": round(page_second),
         "in_page_second_over_first": round(page_second / page_first, 3),
     }
+
+
+# the link of the throttled first visit: a good 4G connection or a modest office line (a chosen
+# figure, not a measured one); the local server alone pays almost no download
+LINK_MBIT, LINK_LATENCY_MS = 50.0, 20.0
+
+
+def _throttled_visits(pw, build, root: Path, runs: int) -> dict:
+    """First and repeat visit of the default build over a shared 50 Mbit/s, 20 ms link.
+
+    The link is the bench server's own (``_Link``): Chrome's network emulation applies to the
+    page's target and would leave out the requests of the calculation worker and the service
+    worker, which carry nearly all the bytes.
+    """
+    link = _Link(LINK_MBIT, LINK_LATENCY_MS)
+    server = _serve_counting(build, root, _Counter(), link)
+    host, port = server.server_address[:2]
+    try:
+        out = _profile_visits(
+            pw,
+            f"http://{host}:{port}/",
+            "snapshot",
+            runs,
+            False,
+            (root / "snapshot" / "js" / "warm.js").exists(),
+        )
+    finally:
+        server.shutdown()
+    return {"link": f"{LINK_MBIT:g} Mbit/s down, {LINK_LATENCY_MS:g} ms per response", **out}
 
 
 def _recalc_times(page, panel: str, label: str, values: list[str], edits: int) -> list[float]:
@@ -594,7 +663,7 @@ def _shift_figures(moves: int = 20) -> dict:
     }
 
 
-PARTS = ("editions", "repeat", "edits", "heavy", "single")
+PARTS = ("editions", "repeat", "repeat_throttled", "edits", "heavy", "single")
 
 
 def _open_ready(browser, url: str):
@@ -682,10 +751,11 @@ def main() -> int:
     figures["shift_24h_1s_cpython"] = _shift_figures()
     with tempfile.TemporaryDirectory() as tmp:
         src = _before_tree(args.before, Path(tmp))
-        figures["heaviest_deposition_cpython_before_after"] = {
-            "same_request": _cpython_before_after(src, "deposition", HEAVY[1][1]),
-            "density_changed": _cpython_before_after(src, "deposition", HEAVY[1][1], vary=True),
-        }
+        if parts & {"heavy", "edits"}:
+            figures["heaviest_deposition_cpython_before_after"] = {
+                "same_request": _cpython_before_after(src, "deposition", HEAVY[1][1]),
+                "density_changed": _cpython_before_after(src, "deposition", HEAVY[1][1], vary=True),
+            }
         root = Path(tmp) / "site"
         root.mkdir()
         # the bare page loads the unmodified engine of the source edition
@@ -750,11 +820,20 @@ def main() -> int:
                 names = ["snapshot", "before"] + (["bytecode"] if "editions" in parts else [])
                 figures["repeat_visit_on_disk_profile"] = {
                     f"{name}{'' if sw == 'allow' else '_no_service_worker'}": _profile_visits(
-                        pw, base, name, args.profile_runs, sw == "block"
+                        pw,
+                        base,
+                        name,
+                        args.profile_runs,
+                        sw == "block",
+                        (root / name / "js" / "warm.js").exists(),
                     )
                     for name in names
                     for sw in ("allow", "block")
                 }
+            if "repeat_throttled" in parts:
+                figures["repeat_visit_throttled_link"] = _throttled_visits(
+                    pw, build, root, args.profile_runs
+                )
             if "edits" in parts:
                 figures["input_to_chart"] = _edit_figures(
                     browser, {"before": base + "before/", "after": base + "snapshot/"}, args.edits
