@@ -30,7 +30,8 @@ SINGLE_MAX_BYTES = 12_000_000
 
 
 # served-only files: the page shell (rewritten, not embedded) and the offline/installable machinery
-SINGLE_SKIP = {"index.html", "precache.json", "sw.js", "manifest.webmanifest"}
+# (js/warm.js runs only once a service worker has taken control)
+SINGLE_SKIP = {"index.html", "precache.json", "sw.js", "manifest.webmanifest", "js/warm.js"}
 
 
 # the memory snapshot (13 MB) would not fit the size budget: the edition starts the engine from
