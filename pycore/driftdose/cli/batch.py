@@ -11,7 +11,7 @@ from collections.abc import Sequence
 from typing import Any, TextIO
 
 from .. import export
-from .documents import read_text_file
+from .documents import accepted_suffixes, read_text_file
 from .engine import call_api, print_errors, warn_unknown
 from .flags import unit_text
 from .numbers import is_number, number_text, plain_number
@@ -24,7 +24,7 @@ def expand_folders(paths: Sequence[str], accept: str) -> list[str]:
     """The files to run: each path as given, a folder replaced by its files whose names end
     in one of the ``accept`` suffixes (``".csv,.txt"``; any file when empty), sorted by name,
     hidden files left out (a folder of survey files, say)."""
-    suffixes = tuple(s.strip().lower() for s in accept.split(",") if s.strip())
+    suffixes = accepted_suffixes(accept)
     out: list[str] = []
     for path in paths:
         if path != "-" and os.path.isdir(path):

@@ -61,6 +61,12 @@ def _read_bytes(path: str, field: str) -> bytes:
     return data
 
 
+def accepted_suffixes(accept: object) -> tuple[str, ...]:
+    """The lower-case name endings a field's ``accept`` list offers (``".csv,.txt"``), as the
+    page's file control filters a folder; empty when it names none."""
+    return tuple(s.strip().lower() for s in str(accept).split(",") if s.strip())
+
+
 def read_text_file(path: str, field: str, limit: int | None = None) -> str:
     """Read a file's text as the page reads a file you pick, with the core's decoder.
 

@@ -14,7 +14,14 @@ import re
 from dataclasses import dataclass
 from typing import Any
 
-from .documents import MAX_JSON_DEPTH, json_depth_over, parse_json_text, read_text_file, too_deep
+from .documents import (
+    MAX_JSON_DEPTH,
+    accepted_suffixes,
+    json_depth_over,
+    parse_json_text,
+    read_text_file,
+    too_deep,
+)
 from .numbers import js_string
 from .status import UserError
 
@@ -296,7 +303,7 @@ def table_file_records(
     if not (isinstance(spec, dict) and arg.startswith("@")):
         return None
     path = arg[1:]
-    suffixes = tuple(s.strip().lower() for s in str(spec.get("accept", "")).split(",") if s)
+    suffixes = accepted_suffixes(spec.get("accept", ""))
     if not (suffixes and path.lower().endswith(suffixes)):
         return None
     from ..api.files import describe_file_json
