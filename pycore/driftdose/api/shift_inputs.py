@@ -1,10 +1,13 @@
 """Reading the shift calculation's structured inputs: column records, periods, benchmark.
 
-Every list and record is checked as a hostile sender could shape it: lists bounded, records
-plain objects with only the declared keys (``__proto__`` and other unknown keys are refused
-and named), values of the declared types. Errors name the path of the sub-field at fault,
-e.g. ``periods.2.end`` or ``quantity_columns.0.column`` (indices from 0), and the message
-says the place in words (period 3).
+The column and period records arrive validated by their ``records`` fields
+(:data:`COLUMN_FIELDS`, :data:`PERIOD_FIELDS`), as every other input: lists bounded, each
+sub-field parsed by its declaration (choices, lengths, ranges), unknown keys ignored. Here is
+checked what a declaration cannot say: a unit known for the column's quantity, a channel's
+diameter, period times on the logged clock, and the benchmark (a value and its unit). Errors
+name the path of the sub-field at fault, e.g. ``periods.2.end`` or
+``quantity_columns.0.unit`` (indices from 0), and the message says the place in words
+(period 3).
 """
 
 from __future__ import annotations
@@ -14,7 +17,7 @@ from dataclasses import replace
 from typing import Any
 
 from ..shift.clock import DAY, ClockError, parse_clock_time, parse_iso
-from ..shift.periods import MAX_PERIODS, PERIOD_KINDS, Period
+from ..shift.periods import Period
 from .declare import positive, ratio
 from .exposure_fields import ACTIVITY, MODE_GSD, MODE_MEDIAN, ROUTE
 from .fields import Field, FieldError
@@ -186,45 +189,6 @@ def quantity_scale(quantity: str, unit: str) -> float:
     return QUANTITY_UNITS[quantity][unit]
 
 
-def _record(raw: Any, path: str, where: str, keys: tuple[str, ...]) -> dict[str, Any]:
-    if not isinstance(raw, dict):
-        raise FieldError(path, f"{where}: expected an object with {', '.join(keys)}.")
-    for k in raw:
-        if k not in keys:
-            shown = repr(k[:30]) if isinstance(k, str) else "a non-text key"
-            raise FieldError(
-                f"{path}.{k}" if isinstance(k, str) and k.isidentifier() else path,
-                f"{where}: unknown entry {shown}; valid: {', '.join(keys)}.",
-            )
-    for k, v in raw.items():
-        if isinstance(v, list) or (isinstance(v, dict) and set(v) - {"value", "unit"}):
-            raise FieldError(f"{path}.{k}", f"{where}: {k} must be a plain value.")
-    return raw
-
-
-def _text(raw: Any, path: str, what: str, limit: int = 80, required: bool = True) -> str:
-    if raw is None or (isinstance(raw, str) and not raw.strip()):
-        if required:
-            raise FieldError(path, f"{what} is required.")
-        return ""
-    if isinstance(raw, bool) or not isinstance(raw, str | int):
-        raise FieldError(path, f"{what} must be text.")
-    text = str(raw)
-    if len(text) > limit:
-        raise FieldError(path, f"{what}: at most {limit} characters.")
-    return text.strip()
-
-
-def _list(raw: Any, field: str, limit: int, what: str) -> list[Any]:
-    if raw is None:
-        return []
-    if not isinstance(raw, list):
-        raise FieldError(field, f"{what} must be a list.")
-    if len(raw) > limit:
-        raise FieldError(field, f"At most {limit} {what}; {len(raw)} were given.")
-    return raw
-
-
 def _number(raw: Any, path: str, what: str) -> float:
     value = raw.get("value") if isinstance(raw, dict) else raw
     if isinstance(value, str):
@@ -248,48 +212,34 @@ def _number(raw: Any, path: str, what: str) -> float:
     return x
 
 
-def column_records(raw: Any, field: str = "quantity_columns") -> list[dict[str, Any]]:
-    """Value-column records ``{column, quantity, unit, diameter}`` checked and in SI.
+def column_records(
+    records: list[dict[str, Any]] | None, field: str = "quantity_columns"
+) -> list[dict[str, Any]]:
+    """Value-column records validated by :data:`COLUMN_FIELDS`, with their units checked.
 
     Returns dicts with ``column`` (text), ``quantity``, ``unit`` (canonical or "" to read it
     from the header), ``diameter`` (m, channels only) and ``path``.
     """
-    items = _list(raw, field, MAX_COLUMNS, "columns")
     out = []
-    for i, item in enumerate(items):
+    for i, rec in enumerate(records or ()):
         path = f"{field}.{i}"
         where = f"Column {i + 1}"
-        rec = _record(item, path, where, ("column", "quantity", "unit", "diameter"))
-        column = _text(rec.get("column"), f"{path}.column", f"{where}: the column")
-        quantity = rec.get("quantity", "number")
-        if quantity not in COLUMN_QUANTITIES:
-            raise FieldError(
-                f"{path}.quantity",
-                f"{where}: the quantity must be one of {', '.join(COLUMN_QUANTITIES)}.",
-            )
-        unit_raw = rec.get("unit")
+        quantity = rec["quantity"]
         unit = ""
-        if unit_raw not in (None, ""):
-            unit = canonical(quantity, unit_raw) or ""
+        if rec.get("unit"):
+            unit = canonical(quantity, rec["unit"]) or ""
             if not unit:
                 offered = ", ".join(unit_text(u) for u in QUANTITY_UNITS[quantity])
                 raise FieldError(
                     f"{path}.unit",
-                    f"{where}: unknown unit {str(unit_raw)[:20]!r}; use one of {offered}.",
+                    f"{where}: unknown unit {str(rec['unit'])[:20]!r}; use one of {offered}.",
                 )
-        diameter = None
-        if quantity == "channel":
-            diameter = rec.get("diameter")
-            if diameter is None:
-                raise FieldError(f"{path}.diameter", f"{where}: a size channel needs its diameter.")
-            diameter = _number(diameter, f"{path}.diameter", f"{where} diameter")
-            if not D_RANGE[0] <= diameter <= D_RANGE[1]:
-                raise FieldError(
-                    f"{path}.diameter", f"{where}: the diameter must be from 1 nm to 100 µm."
-                )
+        diameter = rec.get("diameter") if quantity == "channel" else None
+        if quantity == "channel" and diameter is None:
+            raise FieldError(f"{path}.diameter", f"{where}: a size channel needs its diameter.")
         out.append(
             {
-                "column": column,
+                "column": rec["column"].strip(),
                 "quantity": quantity,
                 "unit": unit,
                 "diameter": diameter,
@@ -316,9 +266,6 @@ def parse_benchmark(raw: Any, quantity: str, field: str = "benchmark") -> float 
     if not x > 0.0:
         raise FieldError(field, "The benchmark must be above 0.")
     return x * quantity_scale(quantity, unit)
-
-
-PERIOD_KEYS = ("label", "kind", "start", "end", "activity", "route", "protection_factor")
 
 
 def _time(raw: Any, path: str, what: str, start: float, end: float) -> float:
@@ -350,43 +297,21 @@ def _time(raw: Any, path: str, what: str, start: float, end: float) -> float:
     return clock - start
 
 
-def parse_periods(raw: Any, start: float, end: float, field: str = "periods") -> list[Period]:
-    """Period records to :class:`~driftdose.shift.periods.Period` (times from the first
-    reading, whose clock time is ``start``; ``end`` is the clock time of the logged end)."""
-    from ..deposition import ACTIVITIES, ROUTES
-
-    items = _list(raw, field, MAX_PERIODS, "periods")
+def parse_periods(
+    records: list[dict[str, Any]] | None, start: float, end: float, field: str = "periods"
+) -> list[Period]:
+    """Period records validated by :data:`PERIOD_FIELDS` to
+    :class:`~driftdose.shift.periods.Period` (times from the first reading, whose clock time is
+    ``start``; ``end`` is the clock time of the logged end)."""
     out = []
-    for i, item in enumerate(items):
+    for i, rec in enumerate(records or ()):
         path = f"{field}.{i}"
         where = f"Period {i + 1}"
-        rec = _record(item, path, where, PERIOD_KEYS)
-        label = _text(rec.get("label"), f"{path}.label", f"{where}: the label", required=False)
-        kind = rec.get("kind", "task")
-        if kind not in PERIOD_KINDS:
-            raise FieldError(
-                f"{path}.kind", f"{where}: the kind must be one of {', '.join(PERIOD_KINDS)}."
-            )
-        label = label or f"{kind.capitalize()} {i + 1}"
+        kind = rec["kind"]
+        label = (rec.get("label") or "").strip() or f"{kind.capitalize()} {i + 1}"
         t0 = _time(rec.get("start"), f"{path}.start", f"{where} start", start, end)
         t1 = _time(rec.get("end"), f"{path}.end", f"{where} end", start, end)
-        act = rec.get("activity", "light_exercise") or "light_exercise"
-        if act not in ACTIVITIES:
-            raise FieldError(
-                f"{path}.activity", f"{where}: the activity must be one of {', '.join(ACTIVITIES)}."
-            )
-        route = rec.get("route", "mixed") or "mixed"
-        if route not in ROUTES:
-            raise FieldError(
-                f"{path}.route", f"{where}: the route must be one of {', '.join(ROUTES)}."
-            )
-        pf_raw = rec.get("protection_factor")
-        pf = 1.0 if pf_raw in (None, "") else _number(pf_raw, f"{path}.protection_factor", where)
-        if not 1.0 <= pf <= 100_000.0:
-            raise FieldError(
-                f"{path}.protection_factor",
-                f"{where}: the assigned protection factor must be from 1 (no protection) to "
-                "100000; enter the factor that applies to the device worn.",
-            )
-        out.append(Period(label, kind, t0, t1, act, route, pf))
+        out.append(
+            Period(label, kind, t0, t1, rec["activity"], rec["route"], rec["protection_factor"])
+        )
     return out
