@@ -13,7 +13,7 @@ import math
 from .. import gas
 from .._numerics import brent_root, newton_bracketed
 from ..constants import P_DEFAULT, T_DEFAULT, WATER_DENSITY
-from .slip import _slip_and_log_slope, slip_correction
+from .slip import SLIP_MODELS, _slip_and_log_slope, slip_correction
 
 
 def aerodynamic_diameter(
@@ -183,15 +183,67 @@ def _solve_equal_settling(d: float, r: float, T: float, P: float) -> float:
     """
     two_lambda = 2.0 * gas.mean_free_path(T, P, reference="kim2005")
     cc_d, _ = _slip_and_log_slope(d, two_lambda)
-    log_target = math.log(r * d * d * cc_d)
+    lo, hi = _ratio_bracket(d, r)
+    guess = math.log(d) + 0.5 * math.log(r)
+    return _solve_d2cc(math.log(r * d * d * cc_d), lo, hi, guess, two_lambda)
+
+
+def _solve_d2cc(log_target: float, lo: float, hi: float, guess: float, two_lambda: float) -> float:
+    """Diameter d_x [m] with ln(d_x^2 Cc(d_x)) = ``log_target``, inside [lo, hi] in ln d.
+
+    Newton's method in u = ln d_x (:func:`driftdose._numerics.newton_bracketed`) on
+    g(u) = ln(d_x^2 Cc(d_x)) - ``log_target``, slope 2 + d ln Cc / d ln d, between 1 and 2;
+    ``guess`` [-] is the first ln d_x, ``two_lambda`` [m] twice the mean free path of the
+    Kim et al. (2005) slip set.
+    """
 
     def g(u: float) -> tuple[float, float]:
         x = math.exp(u)
         cc, slope = _slip_and_log_slope(x, two_lambda)
         return math.log(x * x * cc) - log_target, 2.0 + slope
 
-    lo, hi = _ratio_bracket(d, r)
-    return math.exp(newton_bracketed(g, lo, hi, math.log(d) + 0.5 * math.log(r)))
+    return math.exp(newton_bracketed(g, lo, hi, guess))
+
+
+def diameter_with_d2cc(d2cc: float, T: float = T_DEFAULT, P: float = P_DEFAULT) -> float:
+    """Diameter whose d^2 Cc(d) equals ``d2cc``.
+
+    Parameters
+    ----------
+    d2cc : float
+        Wanted product d^2 Cc(d), e.g. 9 mu W Stk50 / (rho_p U) at an impactor's cut
+        (Hinds 1999, ch. 5, with slip). [m^2]
+    T : float
+        Temperature. [K]
+    P : float
+        Pressure. [Pa]
+
+    Returns
+    -------
+    float
+        The diameter [m]: the relation of :func:`aerodynamic_diameter` (d^2 Cc fixed by the
+        settling velocity, Hinds 1999, eq. 3.30 with slip), solved by the same Newton
+        iteration. The slip correction is that of :func:`slip_correction` (default set).
+
+    Notes
+    -----
+    Since Cc >= 1, sqrt(d2cc) (the continuum solution) bounds the root from above; since
+    d^2 Cc <= d^2 + 2 lambda (alpha + beta) d, half of the smaller of sqrt(d2cc) and
+    d2cc / (2 lambda (alpha + beta)) bounds it from below.
+
+    Examples
+    --------
+    >>> d = diameter_with_d2cc(1e-12)  # 1 um^2: slip puts the diameter below 1 um
+    >>> d < 1e-6, round(d * d * slip_correction(d) / 1e-12, 12)
+    (True, 1.0)
+
+    """
+    two_lambda = 2.0 * gas.mean_free_path(T, P, reference="kim2005")
+    alpha, beta, _ = SLIP_MODELS["kim2005"]
+    d_continuum = math.sqrt(d2cc)
+    d_low = 0.5 * min(d_continuum, d2cc / (two_lambda * (alpha + beta)))
+    lo, hi = math.log(d_low), math.log(d_continuum)
+    return _solve_d2cc(math.log(d2cc), lo, hi, 0.5 * (lo + hi), two_lambda)
 
 
 def _ratio_bracket(d: float, r: float) -> tuple[float, float]:

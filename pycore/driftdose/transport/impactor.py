@@ -14,8 +14,9 @@ from __future__ import annotations
 import math
 
 from .. import gas, particle
-from .._numerics import brent_root, normal_cdf
+from .._numerics import normal_cdf
 from ..constants import P_DEFAULT, T_DEFAULT
+from ..particle.equivalent import diameter_with_d2cc
 
 __all__ = [
     "DEFAULT_EFFICIENCY_WIDTH",
@@ -204,8 +205,10 @@ def impactor_cut_diameter(
     Notes
     -----
     d50^2 Cc(d50) = 9 mu W Stk50 / (rho_p U) (Hinds 1999, ch. 5, with slip). Because Cc
-    depends on d50 the equation is solved by Brent's method in ln d, so the slip correction
-    is evaluated at the cut size itself rather than assumed.
+    depends on d50 the equation is solved in ln d
+    (:func:`driftdose.particle.equivalent.diameter_with_d2cc`, the solve of the aerodynamic
+    diameter), so the slip correction is evaluated at the cut size itself rather than
+    assumed.
 
     Examples
     --------
@@ -220,16 +223,7 @@ def impactor_cut_diameter(
     u = jet_velocity(nozzle_diameter, flow, n_nozzles, jet, slit_length)
     mu = gas.air_viscosity(T)
     target = 9.0 * mu * nozzle_diameter * STK50[jet] / (density * u)  # d^2 Cc [m^2]
-    d_continuum = math.sqrt(target)
-
-    def f(log_d: float) -> float:
-        d = math.exp(log_d)
-        return math.log(d * d * particle.slip_correction(d, T, P) / target)
-
-    hi = math.log(d_continuum)
-    if f(hi) <= 0.0:  # Cc = 1 to machine precision
-        return d_continuum
-    return math.exp(brent_root(f, hi - 40.0, hi, xtol=1e-13))
+    return diameter_with_d2cc(target, T, P)
 
 
 def impactor_efficiency(
