@@ -88,7 +88,10 @@ _DRAG_FACTORS = {
     "clift_gauvin1970": drag_factor_clift_gauvin1970,
     "schiller_naumann1933": drag_factor_schiller_naumann1933,
 }
-_DRAG_RE_MAX = {"clift_gauvin1970": CLIFT_GAUVIN_RE_MAX, "schiller_naumann1933": 800.0}
+_DRAG_RE_MAX = {
+    "clift_gauvin1970": CLIFT_GAUVIN_RE_MAX,
+    "schiller_naumann1933": SCHILLER_NAUMANN_RE_MAX,
+}
 _DRAG_NAMES = {
     "clift_gauvin1970": "Clift & Gauvin (1970)",
     "schiller_naumann1933": "Schiller & Naumann (1933)",
