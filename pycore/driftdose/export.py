@@ -25,6 +25,7 @@ from .unit_labels import unit_label
 
 __all__ = [
     "csv_writer",
+    "curve_x",
     "curves_csv",
     "curves_csv_json",
     "results_csv",
@@ -171,7 +172,8 @@ def _table_block(w: Any, table: dict[str, Any]) -> None:
 def curves_csv(reply: dict[str, Any]) -> str:
     """Every plotted curve as CSV: one block per pair of axes (curve, x [unit], y [unit]).
 
-    A curve is a dict with equal-length ``x`` and ``y`` lists; its axis titles and units come
+    A curve is a dict with equal-length ``x`` and ``y`` lists (``x`` may name a shared axis of
+    ``curves["axes"]``, see :func:`curve_x`); its axis titles and units come
     from the nearest ``x_label``/``x_unit``/``y_label``/``y_unit`` keys (its own or a parent
     group's). Category data (a dict with ``keys`` and metric dicts holding ``y``) is written
     as a block per metric with the categories as rows.
@@ -184,11 +186,12 @@ def curves_csv(reply: dict[str, Any]) -> str:
     buffer = io.StringIO()
     w = _writer(buffer)
     blocks: dict[tuple[str, ...], list[list[str]]] = {}
-    for label, curve, axes in _walk(reply.get("curves", {}), {}, ""):
+    curves = reply.get("curves", {})
+    for label, x_values, curve, axes in _walk(curves, curves, {}, ""):
         x_head = _head(axes.get("x_label", "x"), axes.get("x_unit"))
         y_head = _head(axes.get("y_label", "y"), axes.get("y_unit"))
         rows = blocks.setdefault(("curve", x_head, y_head), [])
-        for x, y in zip(curve["x"], curve["y"], strict=False):
+        for x, y in zip(x_values, curve["y"], strict=False):
             rows.append([label, _num(x), _num(y)])
     for header, rows in blocks.items():
         if buffer.tell():
@@ -220,26 +223,54 @@ def curves_csv(reply: dict[str, Any]) -> str:
     return buffer.getvalue()
 
 
+def curve_x(curves: dict[str, Any], curve: dict[str, Any]) -> list[Any] | None:
+    """The x values of one curve of a reply: its own list, or the shared axis it names.
+
+    A reply sends an x array shared by several curves once, in ``curves["axes"]``, and each of
+    those curves names it (``"x": "diameter"``); a curve with x values of its own carries the
+    list. Anything else (an unknown name, a non-list) gives None.
+
+    Parameters
+    ----------
+    curves : dict
+        The reply's ``curves`` object (holding ``axes``).
+    curve : dict
+        One curve (``x``, ``y``).
+
+    Returns
+    -------
+    list or None
+        The x values.
+    """
+    x = curve.get("x")
+    if isinstance(x, str):
+        axes = curves.get("axes") if isinstance(curves, dict) else None
+        x = axes.get(x) if isinstance(axes, dict) else None
+    return x if isinstance(x, list) else None
+
+
 def _head(label: str, unit: Any) -> str:
     unit = _unit(unit)
     return f"{label} [{unit}]" if unit else str(label)
 
 
-def _walk(node: Any, axes: dict[str, Any], name: str) -> Iterator[tuple[str, dict, dict]]:
+def _walk(
+    node: Any, curves: dict[str, Any], axes: dict[str, Any], name: str
+) -> Iterator[tuple[str, list[Any], dict, dict]]:
     if isinstance(node, list):
         for i, item in enumerate(node):
-            yield from _walk(item, axes, f"{name} {i + 1}".strip())
+            yield from _walk(item, curves, axes, f"{name} {i + 1}".strip())
         return
     if not isinstance(node, dict):
         return
     axes = {**axes, **{k: node[k] for k in _AXIS_KEYS if isinstance(node.get(k), str)}}
-    x, y = node.get("x"), node.get("y")
+    x, y = curve_x(curves, node), node.get("y")
     if isinstance(x, list) and isinstance(y, list) and len(x) == len(y):
-        yield str(node.get("label", name)), node, axes
+        yield str(node.get("label", name)), x, node, axes
         return
     for key, value in node.items():
-        if isinstance(value, dict | list) and key not in ("keys", "regions"):
-            yield from _walk(value, axes, key)
+        if isinstance(value, dict | list) and key not in ("keys", "regions", "axes"):
+            yield from _walk(value, curves, axes, key)
 
 
 def _category_groups(node: Any) -> Iterator[dict[str, Any]]:

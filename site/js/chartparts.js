@@ -181,3 +181,25 @@ export function pngText(bytes) {
   }
   return out;
 }
+
+/**
+ * The x values of one curve of a reply: its own list, or the shared axis of `curves.axes` it
+ * names (a reply sends an x array shared by several curves once). Anything else gives [].
+ */
+export function curveX(curves, curve) {
+  let x = curve?.x;
+  if (typeof x === "string") {
+    const axes = curves?.axes;
+    x = axes && typeof axes === "object" && Object.hasOwn(axes, x) ? axes[x] : null;
+  }
+  return Array.isArray(x) ? x : [];
+}
+
+/**
+ * A curve of a reply as chart points {x, y}; with `keep`, a point whose y fails `keep(y)` gets
+ * y null (a gap in the line).
+ */
+export function curvePoints(curves, curve, keep = null) {
+  const y = Array.isArray(curve?.y) ? curve.y : [];
+  return curveX(curves, curve).map((x, i) => ({ x, y: keep && !keep(y[i]) ? null : y[i] }));
+}

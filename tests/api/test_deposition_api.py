@@ -9,6 +9,7 @@ import pytest
 from driftdose.api import handle, handle_json
 from driftdose.api.deposition import DEMOS, demo_scenarios
 from driftdose.deposition import icrp66_lognormal
+from driftdose.export import curve_x
 
 
 def _run(**inputs):
@@ -33,7 +34,8 @@ def test_deposition_defaults_ok():
     r = _run()
     assert r["ok"], r
     assert set(r["curves"]["deposition"]) == {"ET1", "ET2", "BB", "bb", "AI", "total"}
-    assert len(r["curves"]["deposition"]["AI"]["x"]) >= 200
+    curves = r["curves"]
+    assert len(curve_x(curves, curves["deposition"]["AI"])) >= 200
     assert r["results"]["inhaled_volume"]["value"] == pytest.approx(9.6)
     keys = [s["key"] for s in r["sources"]]
     assert "icrp66" in keys and "icrp68" in keys

@@ -15,6 +15,7 @@ import pytest
 from driftdose import gas, particle
 from driftdose.api import handle
 from driftdose.api.units import from_si, to_si
+from driftdose.export import curve_x
 from driftdose.sources import SOURCES
 
 RESULT_KEYS = {
@@ -193,7 +194,7 @@ def test_handle_motion_curves(case) -> None:
     v, reply = case
     curves = reply["curves"]
     for name in ("brownian", "settling"):
-        x, y = curves[name]["x"], curves[name]["y"]
+        x, y = curve_x(curves, curves[name]), curves[name]["y"]
         assert len(x) == len(y) >= 200
         # Log-spaced from 1 nm to 100 um, given in um.
         assert x[0] == pytest.approx(1e-3, rel=1e-12)
@@ -236,7 +237,7 @@ def test_handle_motion_crossover_on_both_curves(case) -> None:
     # On the plotted curves: log-log interpolation between neighbouring points (spacing
     # 10^(5/240), curves nearly straight in log-log) reproduces y0 closely.
     for name in ("brownian", "settling"):
-        y = _loglog_interp(curves[name]["x"], curves[name]["y"], x0)
+        y = _loglog_interp(curve_x(curves, curves[name]), curves[name]["y"], x0)
         assert y == pytest.approx(y0, rel=1e-3), name
 
 

@@ -22,8 +22,14 @@ from driftdose.api.sampling import CURVE_POINTS, DEMOS, STAGE_FIELDS, TARGETS
 from driftdose.api.spectrum_fields import import_spectrum
 from driftdose.conventions import iso7708_fraction
 from driftdose.deposition import REFERENCE_WORKER, icrp66_curves, simplified_icrp
+from driftdose.export import curve_x
 from driftdose.sources import SOURCES
 from driftdose.transport import Bend, Chain, Cyclone, Impactor, ScreenStack, Tube
+
+
+def _aerodynamic(curves: dict) -> list[float]:
+    """The aerodynamic diameters of the curves' sizes [um] (the axis ``x_aerodynamic`` names)."""
+    return curves["axes"][curves["x_aerodynamic"]]
 
 
 def q(value, unit):
@@ -95,9 +101,9 @@ def test_sampling_reply_shape_and_json() -> None:
     curves = reply["curves"]
     assert len(curves["stages"]) == 5
     for series in [*curves["stages"], curves["overall"], curves["target"]]:
-        assert len(series["x"]) == len(series["y"]) == CURVE_POINTS >= 200
-    assert curves["overall"]["x"][0] == pytest.approx(1e-3)  # 1 nm in um
-    assert curves["overall"]["x"][-1] == pytest.approx(100.0)  # 100 um
+        assert len(curve_x(curves, series)) == len(series["y"]) == CURVE_POINTS >= 200
+    assert curve_x(curves, curves["overall"])[0] == pytest.approx(1e-3)  # 1 nm in um
+    assert curve_x(curves, curves["overall"])[-1] == pytest.approx(100.0)  # 100 um
     results = reply["results"]
     for key in ("overall_10nm", "overall_100nm", "overall_1um", "overall_10um", "pass_band"):
         assert key in results
@@ -130,7 +136,7 @@ def test_sampling_curves_match_core_chain() -> None:
             ScreenStack(50e-6, 0.3, 100e-6, Q, 25e-3, 5),
         )
     )
-    xs = [x * 1e-6 for x in reply["curves"]["overall"]["x"]]
+    xs = [x * 1e-6 for x in curve_x(reply["curves"], reply["curves"]["overall"])]
     for i in (0, 60, 120, 180, 240):
         d = xs[i]
         assert reply["curves"]["overall"]["y"][i] == pytest.approx(
@@ -149,7 +155,7 @@ def test_sampling_target_overlay_and_departure() -> None:
     reply = handle(request([CYCLONE], target="respirable"))
     assert reply["ok"] is True
     curves = reply["curves"]
-    xs_ae = [x * 1e-6 for x in curves["x_aerodynamic"]]
+    xs_ae = [x * 1e-6 for x in _aerodynamic(curves)]
     ys = curves["target"]["y"]
     for x, y in zip(xs_ae, ys, strict=True):
         if x > 100e-6:
@@ -446,7 +452,7 @@ def test_sampling_target_icrp66_is_reference_worker_unit_density_curve(target) -
     reply = handle(request([CYCLONE], target=target, particle_density=q(2.5, "g/cm3")))
     assert reply["ok"] is True, reply.get("errors")
     curves = reply["curves"]
-    xs_ae = [x * 1e-6 for x in curves["x_aerodynamic"]]
+    xs_ae = [x * 1e-6 for x in _aerodynamic(curves)]
     inside = [i for i, x in enumerate(xs_ae) if 1e-9 <= x <= 100e-6]
     expected = icrp66_curves(
         [xs_ae[i] for i in inside], 1000.0, 1.0, REFERENCE_WORKER, "aerodynamic"
@@ -467,7 +473,7 @@ def test_sampling_target_simplified_is_hinds_fit_at_aerodynamic_size(target) -> 
     reply = handle(request([TUBE], target=target))
     assert reply["ok"] is True, reply.get("errors")
     curves = reply["curves"]
-    for x, y in zip(curves["x_aerodynamic"], curves["target"]["y"], strict=True):
+    for x, y in zip(_aerodynamic(curves), curves["target"]["y"], strict=True):
         if 1e-3 <= x <= 100.0:
             e = simplified_icrp(x * 1e-6)[region]
             assert y == pytest.approx(min(1.0, max(0.0, e)), rel=1e-12, abs=1e-15)
@@ -478,7 +484,7 @@ def test_sampling_target_deposition_missing_below_1nm_aerodynamic() -> None:
     # At 0.2 g/cm3 the smallest sizes have aerodynamic diameters below 1 nm.
     reply = handle(request([TUBE], target="icrp66_AI", particle_density=q(0.2, "g/cm3")))
     assert reply["ok"] is True
-    xs = reply["curves"]["x_aerodynamic"]
+    xs = _aerodynamic(reply["curves"])
     ys = reply["curves"]["target"]["y"]
     assert xs[0] < 1e-3
     for x, y in zip(xs, ys, strict=True):
@@ -488,7 +494,7 @@ def test_sampling_target_deposition_missing_below_1nm_aerodynamic() -> None:
 def test_sampling_target_deposition_departure_over_1nm_to_100um() -> None:
     reply = handle(request([TUBE, BEND], target="icrp66_AI"))
     curves = reply["curves"]
-    xs_ae = [x * 1e-6 for x in curves["x_aerodynamic"]]
+    xs_ae = [x * 1e-6 for x in _aerodynamic(curves)]
     diffs = [
         abs(p - e)
         for x, p, e in zip(xs_ae, curves["overall"]["y"], curves["target"]["y"], strict=True)

@@ -573,7 +573,7 @@ def test_main_curves_csv_names_quantities_and_units(capsys, tmp_path):
         f"{c['y_label']} [{unit_label(c['y_unit'])}]",
     ]
     brownian = [r for r in rows[1:] if r[0] == c["brownian"]["label"]]
-    assert [float(r[1]) for r in brownian] == c["brownian"]["x"]
+    assert [float(r[1]) for r in brownian] == export.curve_x(c, c["brownian"])
     assert [float(r[2]) for r in brownian] == c["brownian"]["y"]
     assert out_path.read_text(encoding="utf-8").startswith(CALCULATIONS["motion"].TITLE)
 

@@ -4,7 +4,7 @@ import { test } from "node:test";
 import assert from "node:assert/strict";
 import { inflateSync, deflateSync } from "node:zlib";
 import {
-  MAX_COMPARED, axisTitle, crc32, imageText, particleLetter, pngText, pngWithText, readout, scenarioLine, wrapText,
+  MAX_COMPARED, axisTitle, crc32, curvePoints, curveX, imageText, particleLetter, pngText, pngWithText, readout, scenarioLine, wrapText,
 } from "../../site/js/chartparts.js";
 
 test("an axis whose ticks carry units has no unit in its title; otherwise the unit is named", () => {
@@ -139,4 +139,31 @@ test("long option texts lose their parenthetical parts; short ones stay whole", 
   assert.equal(optionText(long), long);
   assert.ok("Volume-equivalent (geometric)".length <= OPTION_CHARS);
   assert.equal(optionText(undefined), "");
+});
+
+test("a curve's x values are its own list or the shared axis it names (sent once per reply)", () => {
+  const curves = { axes: { diameter: [0.001, 0.01, 0.1] }, a: { x: "diameter", y: [1, 2, 3] }, b: { x: [5, 6], y: [7, 8] } };
+  assert.equal(curveX(curves, curves.a), curves.axes.diameter); // the same array, not a copy
+  assert.deepEqual(curveX(curves, curves.b), [5, 6]);
+  assert.deepEqual(curvePoints(curves, curves.a), [{ x: 0.001, y: 1 }, { x: 0.01, y: 2 }, { x: 0.1, y: 3 }]);
+  assert.deepEqual(curvePoints(curves, curves.a, (y) => y > 1), [{ x: 0.001, y: null }, { x: 0.01, y: 2 }, { x: 0.1, y: 3 }]);
+});
+
+test("an unknown, inherited or malformed axis name gives no points (never a prototype's value)", () => {
+  const axes = { axes: { diameter: [1, 2] } };
+  for (const [curves, curve] of [
+    [axes, { x: "size", y: [1, 2] }],
+    [axes, { x: "__proto__", y: [1, 2] }],
+    [axes, { x: "constructor", y: [1, 2] }],
+    [axes, { x: "toString", y: [1, 2] }],
+    [{ axes: { diameter: "1,2" } }, { x: "diameter", y: [1, 2] }],
+    [{ axes: null }, { x: "diameter", y: [1, 2] }],
+    [{}, { x: "diameter", y: [1, 2] }],
+    [null, { x: "diameter", y: [1, 2] }],
+    [axes, { x: 3, y: [1] }],
+    [axes, null],
+  ]) {
+    assert.deepEqual(curveX(curves, curve), []);
+    assert.deepEqual(curvePoints(curves, curve), []);
+  }
 });

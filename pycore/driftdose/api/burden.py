@@ -33,7 +33,7 @@ from .demos import BURDEN_DEMOS as DEMOS
 from .exposure_fields import aerosol_of, particle_description, subject_of
 from .fields import FieldError
 from .labels import WEIGHT_WORDS
-from .reply import row
+from .reply import row, shared_axis
 
 __all__ = [
     "BURDEN_FIELDS",
@@ -99,9 +99,9 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "region_labels": dict(REGION_LABELS),
         "milestones": [{"key": k, "label": lab, "t_days": t / DAY} for k, lab, t in marks],
     }
+    x = shared_axis(curves, "time", [t / DAY for t in series])
     for w in ("mass", "number", "surface"):
         factor, unit, _ = UNITS[w]
-        x = [t / DAY for t in series]
         curves[w] = {
             "x_label": "Time from the first exposure",
             "x_unit": "d",

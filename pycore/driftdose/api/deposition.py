@@ -24,7 +24,7 @@ from .dose_rows import dose_bars, region_rows
 from .exposure_fields import EXPOSURE_FIELDS, MEDIAN_WORDS, MODE_FIELDS, aerosol_of, subject_of
 from .fields import Field, FieldError
 from .labels import COORDINATE_WORDS, DIAMETER_TYPE_WORDS, REGION_LABELS
-from .reply import row, text_result
+from .reply import row, shared_axis, text_result
 
 __all__ = ["DEMOS", "FIELDS", "MODE_FIELDS", "TITLE", "compute", "demo_scenarios", "run"]
 
@@ -198,7 +198,8 @@ def _mode_rows(result: Deposition) -> dict[str, Any]:
 
 def _curves(result: Deposition) -> dict[str, Any]:
     res = result.dose
-    x_um = [x * 1e6 for x in result.sizes]
+    curves: dict[str, Any] = {}
+    x_um = shared_axis(curves, "diameter", [x * 1e6 for x in result.sizes])
     series = {
         r: {"label": REGION_LABELS[r], "x": x_um, "y": list(result.fractions[r])}
         for r in res.regions
@@ -212,6 +213,7 @@ def _curves(result: Deposition) -> dict[str, Any]:
         for w in ("number", "mass")
     }
     return {
+        **curves,
         "x_label": f"Particle diameter ({COORDINATE_WORDS[result.aerosol.description.coordinate]})",
         "x_unit": "µm",
         "y_label": "Deposition fraction",

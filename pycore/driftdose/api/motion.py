@@ -18,7 +18,7 @@ from ..sources import cite
 from .declare import bounded, positive
 from .fields import Field, FieldError
 from .particle_air_fields import PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
-from .reply import quantity, text_result
+from .reply import quantity, shared_axis, text_result
 
 TITLE = "Particle motion: diffusion versus settling"
 
@@ -172,9 +172,12 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
 
 def _curves(r: MotionResult, v: dict[str, Any], aerodynamic: bool) -> dict[str, Any]:
     """The displacement curves, sizes in um (unit code ``um``), distances in m."""
-    x_um = [x * 1e6 for x in r.curve_diameters]
+    axes: dict[str, Any] = {}
+    x_all = [x * 1e6 for x in r.curve_diameters]
+    x_um = shared_axis(axes, "diameter", x_all)
     shown = r.aerodynamic_diameter if aerodynamic else r.diameter
     curves: dict[str, Any] = {
+        **axes,
         "x_label": "Aerodynamic diameter" if aerodynamic else "Volume-equivalent diameter",
         "x_unit": "um",
         "y_label": "Distance in the chosen time",
@@ -187,7 +190,7 @@ def _curves(r: MotionResult, v: dict[str, Any], aerodynamic: bool) -> dict[str, 
         "settling": {"label": "Settling distance vₜₛ·t", "x": x_um, "y": r.settling},
         "reference": {
             "label": "Reference distance",
-            "x": [x_um[0], x_um[-1]],
+            "x": [x_all[0], x_all[-1]],
             "y": [v["reference_distance"]] * 2,
         },
         "this_particle": {

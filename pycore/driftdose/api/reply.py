@@ -9,7 +9,7 @@ from typing import Any
 
 from .units import SI_UNIT, auto_unit, from_si, unit_label
 
-__all__ = ["quantity", "row", "text_result"]
+__all__ = ["quantity", "row", "shared_axis", "text_result"]
 
 
 def quantity(
@@ -88,3 +88,29 @@ def row(
         "si_unit": si_unit,
         "note": note,
     }
+
+
+def shared_axis(curves: dict[str, Any], name: str, values: list[float]) -> str:
+    """Send an x array once: store it in ``curves["axes"][name]`` and return ``name``.
+
+    Curves that share their x values (the 241 diameters of every deposition or penetration
+    curve, the output times of every retained amount) carry ``"x": name`` instead of a copy
+    of the list; readers resolve it with :func:`driftdose.export.curve_x` (Python) or
+    ``curveX`` of ``site/js/chartparts.js`` (page).
+
+    Parameters
+    ----------
+    curves : dict
+        The reply's ``curves`` object (changed in place).
+    name : str
+        The axis name, unique within the reply.
+    values : list of float
+        The x values, in the unit the curves' ``x_unit`` names.
+
+    Returns
+    -------
+    str
+        ``name``, to be used as the curves' ``x``.
+    """
+    curves.setdefault("axes", {})[name] = values
+    return name

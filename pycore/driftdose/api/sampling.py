@@ -12,9 +12,12 @@ fields and importer.
 and shapes the reply. Reply:
 
 - ``curves``: penetration versus diameter (``x_unit`` a unit code, ``um``) on 241 sizes from
-  1 nm to 100 um, ``stages`` (one series per stage, in order, each with its ``index``,
-  ``type``, ``type_label`` and the user's ``name``), ``overall``, ``target`` (``None`` where
-  not defined), ``x_aerodynamic`` and, with a spectrum, ``spectrum``;
+  1 nm to 100 um, sent once in ``axes["diameter"]`` and named by each curve's ``x`` (the
+  measured spectrum's diameters likewise in ``axes["spectrum_diameter"]``), ``stages`` (one
+  series per stage, in order, each with its ``index``, ``type``, ``type_label`` and the
+  user's ``name``), ``overall``, ``target`` (``None`` where not defined), ``x_aerodynamic``
+  (the name of the axis of the same sizes' aerodynamic diameters) and, with a spectrum,
+  ``spectrum``;
 - ``results``: the overall penetration at 10 nm, 100 nm, 1 um and 10 um, the size band
   passed with at least 50 %, the departure from the target, a ``stages_table`` (per stage:
   ``index``, ``type``, ``type_label``, the user's ``name`` (``""`` if none), regime, key
@@ -56,7 +59,7 @@ from .particle_air_fields import (
     SHAPE_FACTOR,
     TEMPERATURE,
 )
-from .reply import quantity, text_result
+from .reply import quantity, shared_axis, text_result
 from .sampling_demos import DEMOS
 from .spectrum_fields import import_spectrum, spectrum_fields
 from .stages import FLOW_MIN, MAX_STAGES, STAGE_FIELDS, parse_stages, stage_types
@@ -314,15 +317,21 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         spectrum=spectrum,
         names=[p.name for p in parsed],
     )
-    x_um = [x * 1e6 for x in result.diameters]
-    curves: dict[str, Any] = {
+    curves: dict[str, Any] = {}
+    x_um = shared_axis(curves, "diameter", [x * 1e6 for x in result.diameters])
+    curves |= {
         "x_label": f"Particle diameter ({result.coordinate})",
         "x_unit": "um",
         "y_label": "Penetration",
         "y_unit": "1",
-        "x_aerodynamic": [x * 1e6 for x in result.aerodynamic_diameters],
         "stages": [],
     }
+    # the aerodynamic diameters of the same sizes: the same axis when they are the shown ones
+    curves["x_aerodynamic"] = (
+        x_um
+        if result.aerodynamic_diameters == result.diameters
+        else shared_axis(curves, "aerodynamic", [x * 1e6 for x in result.aerodynamic_diameters])
+    )
     stage_rows = []
     for s in result.stages:
         who = {
@@ -393,7 +402,7 @@ def _spectrum_reply(
     """The corrected spectrum as a table and a chart."""
     sp = result.spectrum
     assert sp is not None
-    shown = [d * 1e6 for d in sp.diameters]
+    shown_um = [d * 1e6 for d in sp.diameters]
     results["spectrum_table"] = {
         "label": "Measured spectrum corrected for the chain's losses",
         "diameter_type": sp.diameter_type,
@@ -405,10 +414,11 @@ def _spectrum_reply(
         "rows": [
             {"diameter": x, "measured": m, "penetration": p, "corrected": c, "unreliable": flag}
             for x, m, p, c, flag in zip(
-                shown, sp.measured, sp.penetration, sp.corrected, sp.unreliable, strict=True
+                shown_um, sp.measured, sp.penetration, sp.corrected, sp.unreliable, strict=True
             )
         ],
     }
+    shown = shared_axis(curves, "spectrum_diameter", shown_um)
     curves["spectrum"] = {
         "x_label": "Diameter"
         + (

@@ -6,7 +6,7 @@
 import { CalcPanel } from "../panel.js";
 import { el } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setAxes, setDatasets } from "../charts.js";
-import { axisTitle, readout } from "../chartparts.js";
+import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber } from "../format.js";
 
 export const id = "burden";
@@ -127,7 +127,7 @@ export function mountSections(root, { engine, forms, deposition }) {
     setDatasets(burdenChart, CHART_REGIONS.map((r, i) => {
       const s = curves.series[r];
       return {
-        label: s.label, data: s.x.map((x, j) => ({ x, y: s.y[j] })), borderColor: seriesColour(i),
+        label: s.label, data: curvePoints(burdenReply.curves, s), borderColor: seriesColour(i),
         backgroundColor: seriesColour(i), pointRadius: 0, borderWidth: r === "lungs" ? 3 : 2,
         borderDash: r === "lungs" ? [8, 4] : [], hidden: r === "ET" || r === "BB" || r === "bb",
       };

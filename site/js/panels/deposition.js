@@ -2,7 +2,7 @@
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
-import { axisTitle, readout } from "../chartparts.js";
+import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
 
 export const id = "deposition";
@@ -14,7 +14,6 @@ const METRICS = [
   ["mass", "Mass"],
 ];
 
-const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
 // the inputs named on a saved chart image
 const SCENARIO = [
   "size_source", "modes", "csv_text", "spectrum_diameter_type", "particle_density", "density_basis",
@@ -145,13 +144,13 @@ export function mount(root, { engine, description }) {
     const sets = [];
     Object.values(curves.deposition).forEach((curve, i) => {
       sets.push({
-        label: curve.label, data: toPoints(curve), borderColor: seriesColour(i), backgroundColor: seriesColour(i),
+        label: curve.label, data: curvePoints(curves, curve), borderColor: seriesColour(i), backgroundColor: seriesColour(i),
         pointRadius: 0, borderWidth: curve.label.startsWith("Total") ? 3 : 2, borderDash: curve.label.startsWith("Total") ? [8, 4] : [], yAxisID: "y",
       });
     });
-    Object.values(curves.distribution).filter((c) => c && Array.isArray(c.x)).forEach((curve, i) => {
+    Object.values(curves.distribution).filter((c) => c && Array.isArray(c.y)).forEach((curve, i) => {
       sets.push({
-        label: curve.label, data: toPoints(curve), yAxisID: "y2", pointRadius: 0, borderWidth: 1,
+        label: curve.label, data: curvePoints(curves, curve), yAxisID: "y2", pointRadius: 0, borderWidth: 1,
         borderColor: seriesColour(6 - i), backgroundColor: i === 0 ? "rgba(120,120,120,0.18)" : "rgba(120,120,120,0.08)", fill: "origin",
       });
     });

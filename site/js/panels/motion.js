@@ -3,7 +3,7 @@
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el, renderField } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
-import { MAX_COMPARED, axisTitle, particleLetter, readout } from "../chartparts.js";
+import { MAX_COMPARED, axisTitle, curvePoints, particleLetter, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
 import { fromSI, toSI, unitLabel } from "../units.js";
 
@@ -32,7 +32,6 @@ const MARKERS = ["rectRot", "triangle", "rect"];
 // inputs that change the curves (not only where a particle sits on them)
 const SCENARIO = ["particle_diameter", "diameter_type", "particle_density", "shape_factor", "temperature", "pressure", "time"];
 
-const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
 const sameCurve = (a, b) => a.y.length === b.y.length && a.y.every((y, i) => y === b.y[i]);
 
 export function mount(root, { engine, description }) {
@@ -206,17 +205,17 @@ export function mount(root, { engine, description }) {
     chart.options.scales.x.title.text = axisTitle(c.x_label, unitLabel(c.x_unit), true);
     const many = compared.length > 0;
     const datasets = [
-      line(c.brownian, 0), line(c.settling, 1),
-      { ...line(c.reference, 2), borderDash: [6, 4], borderWidth: 1.5 },
-      marker(c.this_particle, many ? "Particle A" : "This particle", 4, MARKERS[0]),
+      line(c, c.brownian, 0), line(c, c.settling, 1),
+      { ...line(c, c.reference, 2), borderDash: [6, 4], borderWidth: 1.5 },
+      marker(c, c.this_particle, many ? "Particle A" : "This particle", 4, MARKERS[0]),
     ];
-    if (c.crossover) datasets.push(pointMark(c.crossover, 3, "circle", 7));
+    if (c.crossover) datasets.push(pointMark(c, c.crossover, 3, "circle", 7));
     compared.forEach((p, i) => {
       const o = p.reply.curves;
       const name = `Particle ${p.letter}`;
-      if (!sameCurve(o.brownian, c.brownian)) datasets.push({ ...line(o.brownian, 0, `${name}: ${o.brownian.label}`), borderDash: DASHES[i + 1], borderWidth: 1.5 });
-      if (!sameCurve(o.settling, c.settling)) datasets.push({ ...line(o.settling, 1, `${name}: ${o.settling.label}`), borderDash: DASHES[i + 1], borderWidth: 1.5 });
-      datasets.push(marker(o.this_particle, name, 5 + i, MARKERS[i + 1]));
+      if (!sameCurve(o.brownian, c.brownian)) datasets.push({ ...line(o, o.brownian, 0, `${name}: ${o.brownian.label}`), borderDash: DASHES[i + 1], borderWidth: 1.5 });
+      if (!sameCurve(o.settling, c.settling)) datasets.push({ ...line(o, o.settling, 1, `${name}: ${o.settling.label}`), borderDash: DASHES[i + 1], borderWidth: 1.5 });
+      datasets.push(marker(o, o.this_particle, name, 5 + i, MARKERS[i + 1]));
     });
     setDatasets(chart, datasets);
     const where = (p) => `${p.letter} at ${lengthTick(toSI(p.reply.curves.this_particle.x[0], p.reply.curves.x_unit))}`;
@@ -266,24 +265,24 @@ export function mount(root, { engine, description }) {
   return panel;
 }
 
-function line(curve, colour, label = curve.label) {
+function line(curves, curve, colour, label = curve.label) {
   return {
-    label, data: toPoints(curve), borderColor: seriesColour(colour),
+    label, data: curvePoints(curves, curve), borderColor: seriesColour(colour),
     backgroundColor: seriesColour(colour), pointRadius: 0, borderWidth: 2.5, tension: 0,
   };
 }
 
 /** A particle's two points (Brownian displacement, settling distance), each named in readouts. */
-function marker(curve, name, colour, style) {
+function marker(curves, curve, name, colour, style) {
   return {
-    ...pointMark(curve, colour, style, 6), label: name,
+    ...pointMark(curves, curve, colour, style, 6), label: name,
     pointNames: [`${name}, Brownian displacement`, `${name}, settling distance`],
   };
 }
 
-function pointMark(curve, colour, style, radius) {
+function pointMark(curves, curve, colour, style, radius) {
   return {
-    label: curve.label, data: toPoints(curve), showLine: false, pointStyle: style,
+    label: curve.label, data: curvePoints(curves, curve), showLine: false, pointStyle: style,
     pointRadius: radius, pointHoverRadius: radius + 2, borderColor: seriesColour(colour),
     backgroundColor: seriesColour(colour),
   };

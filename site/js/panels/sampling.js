@@ -5,7 +5,7 @@
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el, renderField } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setAxes, setDatasets } from "../charts.js";
-import { axisTitle, readout } from "../chartparts.js";
+import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
 import { fromSI, toSI, unitLabel } from "../units.js";
 
@@ -19,8 +19,6 @@ const RENDER_LIMIT = 40; // stages drawn from a tampered link at most (the API r
 
 const ROW_SLICE = 400; // table rows added per task
 const CHART_POINTS = 2000; // points drawn per series at most
-
-const toPoints = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] }));
 
 /**
  * At most CHART_POINTS points of a series for drawing: the lowest and the highest point of each
@@ -324,7 +322,7 @@ export function mount(root, { engine, description }) {
       renderStageTable(results);
       renderDetails(results.stages_table);
       renderPenetrationChart(reply.curves);
-      renderSpectrum(results.spectrum_table, reply.curves.spectrum);
+      renderSpectrum(results.spectrum_table, reply.curves.spectrum, reply.curves);
     },
   });
 
@@ -418,16 +416,16 @@ export function mount(root, { engine, description }) {
     }
     penetrationChart.options.scales.x.title.text = axisTitle(curves.x_label, unitLabel(curves.x_unit), true);
     const sets = curves.stages.map((curve, i) => ({
-      label: `${curve.index + 1}. ${stageName(curve)}`, data: toPoints(curve), borderColor: seriesColour(i + 1), backgroundColor: seriesColour(i + 1),
+      label: `${curve.index + 1}. ${stageName(curve)}`, data: curvePoints(curves, curve), borderColor: seriesColour(i + 1), backgroundColor: seriesColour(i + 1),
       pointRadius: 0, borderWidth: 2, borderDash: [5, 3 + 2 * (i % 3)], order: 1,
     }));
     sets.push({
-      label: curves.overall.label, data: toPoints(curves.overall), borderColor: seriesColour(0), backgroundColor: seriesColour(0),
+      label: curves.overall.label, data: curvePoints(curves, curves.overall), borderColor: seriesColour(0), backgroundColor: seriesColour(0),
       pointRadius: 0, borderWidth: 4, order: 2,
     });
     if (curves.target) {
       sets.push({
-        label: `Target: ${curves.target.label}`, data: toPoints(curves.target), borderColor: seriesColour(6), backgroundColor: seriesColour(6),
+        label: `Target: ${curves.target.label}`, data: curvePoints(curves, curves.target), borderColor: seriesColour(6), backgroundColor: seriesColour(6),
         pointRadius: 0, borderWidth: 2.5, borderDash: [10, 5], spanGaps: false, order: 0,
       });
     }
@@ -437,7 +435,7 @@ export function mount(root, { engine, description }) {
       `Chart of penetration against particle size for ${curves.stages.length} stage${curves.stages.length === 1 ? "" : "s"} and the whole chain${curves.target ? `, with the target ${curves.target.label}` : ""}. The whole chain passes ${formatNumber(overall.y[0] * 100, 3)} % at 1 nm and ${formatNumber(overall.y[overall.y.length - 1] * 100, 3)} % at 100 µm; the table gives the figures.`);
   }
 
-  function renderSpectrum(table, curves) {
+  function renderSpectrum(table, curves, shared) {
     spectrumSection.hidden = !table;
     if (!table) {
       // no canvas left in the panel (the printed record draws every canvas of the panel); the
@@ -476,7 +474,7 @@ export function mount(root, { engine, description }) {
     t.append(body);
     spectrumTableBox.replaceChildren(t);
     fillRows(body, table.rows, row);
-    renderSpectrumChart(curves, aero);
+    renderSpectrumChart(curves, aero, shared);
   }
 
   // A long table (a spectrum of thousands of bins) is filled a slice per task, so the page
@@ -501,8 +499,9 @@ export function mount(root, { engine, description }) {
     slice();
   }
 
-  function renderSpectrumChart(curves, aero) {
-    const positive = (curve) => curve.x.map((x, i) => ({ x, y: curve.y[i] > 0 ? curve.y[i] : null }));
+  // `shared`: the reply's whole curves (the spectrum's diameters are one of its shared axes)
+  function renderSpectrumChart(curves, aero, shared) {
+    const positive = (curve) => curvePoints(shared, curve, (y) => y > 0);
     // created once, its axes and data updated in place; the size ticks carry their units, the
     // concentration ticks are bare numbers (so that title names the unit)
     const metres = (v) => toSI(v, curves.x_unit); // sizes arrive in the unit the reply names
