@@ -17,7 +17,7 @@ from __future__ import annotations
 import math
 
 from . import particle
-from .distribution import Distribution
+from .distribution import Distribution, parts
 
 __all__ = [
     "CONVENTIONS",
@@ -305,7 +305,7 @@ def convention_shares(
     Each quadrature node's aerodynamic diameter (Hinds 1999, eq. 3.30 with slip) is solved
     once and reused for every weight and convention.
     """
-    modes = getattr(distribution, "modes", (distribution,))
+    modes = parts(distribution)
     cache: dict[tuple[float, float, float], float] = {}
     result: dict[str, dict[str, float]] = {}
     for weight in weights:

@@ -40,6 +40,7 @@ __all__ = [
     "hatch_choate_median",
     "integrate",
     "lognormal_pdf_ln",
+    "parts",
 ]
 
 WEIGHTS = ("number", "surface", "mass")
@@ -472,6 +473,23 @@ def bin_edges(diameters: Sequence[float]) -> tuple[float, ...]:
 
 
 Distribution = LognormalMode | Multimodal | BinnedSpectrum
+
+
+def parts(distribution: Distribution) -> tuple[LognormalMode | BinnedSpectrum, ...]:
+    """The single populations a distribution is made of, each with its density and shape.
+
+    Parameters
+    ----------
+    distribution : LognormalMode, Multimodal or BinnedSpectrum
+        The distribution.
+
+    Returns
+    -------
+    tuple
+        The modes of a :class:`Multimodal`, else the distribution itself, alone.
+
+    """
+    return getattr(distribution, "modes", (distribution,))
 
 
 def integrate(

@@ -24,7 +24,7 @@ import math
 from dataclasses import dataclass, field
 
 from .deposition import DEPOSITION_MODELS, Subject, deposition_curves, deposition_model
-from .distribution import WEIGHTS, Distribution
+from .distribution import WEIGHTS, Distribution, parts
 
 __all__ = [
     "DURATION_MAX",
@@ -101,10 +101,6 @@ class DoseResult:
     thermodynamic: str = "icrp66"
 
 
-def _modes(distribution: Distribution) -> tuple:
-    return getattr(distribution, "modes", (distribution,))
-
-
 def deposited_dose(
     distribution: Distribution,
     subject: Subject,
@@ -160,7 +156,7 @@ def deposited_dose(
     ventilation = subject.mean_ventilation
     volume = ventilation * duration
     sums = {r: dict.fromkeys(WEIGHTS, 0.0) for r in regions}
-    for mode in _modes(distribution):
+    for mode in parts(distribution):
         sizes = mode.grid(step)
         curves = deposition_curves(
             model, sizes, mode.density, mode.shape_factor, subject, thermodynamic

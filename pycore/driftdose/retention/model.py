@@ -22,7 +22,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..deposition import Subject
-from ..distribution import WEIGHTS, Distribution
+from ..distribution import WEIGHTS, Distribution, parts
 from ..dose import deposition_curves
 from .kinetics import Off, On, Repeat, Seq, exposure_time
 from .rates import (
@@ -64,10 +64,6 @@ __all__ = [
 ]
 
 
-def _modes(distribution: Distribution) -> tuple:
-    return getattr(distribution, "modes", (distribution,))
-
-
 def deposition_rates(
     distribution: Distribution,
     subject: Subject,
@@ -104,7 +100,7 @@ def deposition_rates(
     regions = ("ET1", "ET2", "BB", "bb", "AI", "total")
     sums = {w: dict.fromkeys(regions, 0.0) for w in WEIGHTS}
     slow = {w: {"BB": 0.0, "bb": 0.0} for w in WEIGHTS}
-    for mode in _modes(distribution):
+    for mode in parts(distribution):
         sizes = mode.grid(step)
         curves = deposition_curves(
             "icrp66", sizes, mode.density, mode.shape_factor, subject, thermodynamic

@@ -15,7 +15,7 @@ from typing import Any
 
 from .._numerics import logspace
 from ..deposition import Subject
-from ..distribution import WEIGHTS, gauss_hermite
+from ..distribution import WEIGHTS, gauss_hermite, parts
 from ..dose import deposition_curves
 from ..retention.rates import slow_fraction
 from .spreads import Spread
@@ -140,7 +140,7 @@ class DepositionTables:
         ncol = len(COLUMNS)
         out = {w: dict.fromkeys(COLUMNS, 0.0) for w in weights}
         lo, step, last = self.ln_d[0], TABLE_STEP, len(self.ln_d) - 1
-        for mode in getattr(distribution, "modes", (distribution,)):
+        for mode in parts(distribution):
             corners = self._corner_weights(mode.density, mode.shape_factor)
             s = mode.ln_gsd * math.sqrt(2.0)
             for w in weights:
