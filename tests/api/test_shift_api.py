@@ -4,6 +4,7 @@ errors naming the sub-field, and hostile requests refused with nothing changed."
 from __future__ import annotations
 
 import copy
+import itertools
 import json
 import math
 
@@ -421,12 +422,12 @@ CHANNELS_NM = (300.0, 500.0, 800.0, 1300.0, 2000.0, 3500.0)
 CHANNEL_COUNTS = (40.0, 25.0, 12.0, 6.0, 2.5, 0.8)  # invented, per cm³
 
 
-def channel_log(values: tuple[float, ...] = CHANNEL_COUNTS) -> str:
+def channel_log(values: tuple[float, ...] = CHANNEL_COUNTS, total: bool = True) -> str:
     """An invented 20-min log at 10 s of a total and six size channels, each steady."""
-    head = "time,total [1/cm3]," + ",".join(f"ch{d:g} [1/cm3]" for d in CHANNELS_NM)
-    lines = [head]
+    head = "time,total [1/cm3]," if total else "time,"
+    lines = [head + ",".join(f"ch{d:g} [1/cm3]" for d in CHANNELS_NM)]
     for k in range(120):
-        cells = ",".join(f"{v:g}" for v in (sum(values), *values))
+        cells = ",".join(f"{v:g}" for v in ((sum(values),) if total else ()) + values)
         lines.append(f"2026-03-05T08:{k * 10 // 60:02d}:{k * 10 % 60:02d},{cells}")
     return "\n".join(lines) + "\n"
 
@@ -538,3 +539,58 @@ def test_channel_diameter_type_changes_the_dose():
         return dose["tasks"][0]["mass"][dose["regions"].index("ET1")]
 
     assert et1("aerodynamic") < 0.9 * et1("volume_equivalent")
+
+
+@pytest.mark.parametrize("channel_type", ["per_bin", "dN/dlogDp"])
+def test_a_file_of_size_channels_only_is_summarised_by_their_total(channel_type):
+    """An optical counter's log without a total column: the shift is summarised by the
+    channels' total number concentration (hand calculation: the sum of the steady channels,
+    or of dN/dlogDp times each channel's width in log10 d, the widths from geometric-mean
+    edges, common practice), and the dose from the channels is given as well."""
+    text = channel_log(total=False)
+    reply = api.handle(
+        {
+            "kind": "shift",
+            "inputs": {
+                "series_text": text,
+                "quantity_columns": channel_columns()[1:],
+                "periods": [{"kind": "task", "start": "08:02", "end": "08:17"}],
+                "size_source": "channels",
+                "channel_type": channel_type,
+            },
+        }
+    )
+    assert reply["ok"], reply
+    d = CHANNELS_NM
+    if channel_type == "per_bin":
+        expected = sum(CHANNEL_COUNTS)
+    else:
+        inner = [math.sqrt(a * b) for a, b in itertools.pairwise(d)]
+        edges = [d[0] ** 2 / inner[0], *inner, d[-1] ** 2 / inner[-1]]
+        expected = sum(
+            c * math.log10(b / a) for c, a, b in zip(CHANNEL_COUNTS, edges, edges[1:], strict=False)
+        )
+    row = reply["results"]["tasks"]["rows"][0]
+    assert row["mean"] == pytest.approx(expected, rel=1e-12)
+    assert row["unit"] == "1/cm3"
+    assert reply["results"]["shift_mean"]["value"] == pytest.approx(expected, rel=1e-12)
+    labels = [s["label"] for s in reply["curves"]["series"]["series"]]
+    assert any("Total of the size channels" in lab for lab in labels)
+    assert reply["results"]["dose"]["tasks"][0]["number"][-1] > 0
+
+
+def test_a_single_channel_of_dn_dlogdp_cannot_be_summarised():
+    text = "time,c [1/cm3]\n" + "".join(f"2026-03-05T08:00:{k:02d},5\n" for k in range(30))
+    reply = api.handle(
+        {
+            "kind": "shift",
+            "inputs": {
+                "series_text": text,
+                "quantity_columns": [
+                    {"column": "c", "quantity": "channel", "diameter": {"value": 300, "unit": "nm"}}
+                ],
+                "channel_type": "dN/dlogDp",
+            },
+        }
+    )
+    assert not reply["ok"] and reply["errors"][0]["field"] == "quantity_columns"

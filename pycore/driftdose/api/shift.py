@@ -50,14 +50,16 @@ Errors name the path of the field at fault: ``series_text`` ("Line 1234: ..."),
 from __future__ import annotations
 
 import functools
+import itertools
+import math
 from typing import Any
 
 from ..diameters import ParticleDescription
-from ..distribution import LognormalMode, Multimodal
+from ..distribution import LognormalMode, Multimodal, bin_edges
 from ..shift.background import BACKGROUND_METHODS, BackgroundError
 from ..shift.clock import ClockError, TimeParser, parse_iso
 from ..shift.periods import PeriodError
-from ..shift.series import ColumnSpec, SeriesError, TimeSeries, read_series
+from ..shift.series import ColumnSpec, SeriesError, TimeSeries, read_series, with_sum
 from ..tables import Table, TableError, pick_column, read_table
 from . import shift_reply as reply
 from .fields import FieldError
@@ -163,6 +165,45 @@ def _series(v: dict[str, Any], prefix: str, columns: list[dict[str, Any]], what:
     )
 
 
+CHANNEL_TOTAL = "Total of the size channels"
+"""The column summarised when a file holds only size channels."""
+
+_TOTALS: list[tuple[TimeSeries, tuple[Any, ...], TimeSeries]] = []
+
+
+def _channel_total(
+    v: dict[str, Any], series: TimeSeries, columns: list[dict[str, Any]], units: tuple[str, ...]
+) -> tuple[TimeSeries, list[dict[str, Any]], tuple[str, ...]]:
+    """For a file of size channels only: their total number concentration as one more column
+    (the sum of the channels, or of dN/dlog10 d times each channel's width in log10 d), so the
+    shift can be summarised. The total of a series read earlier is kept (the last two)."""
+    chans = sorted((c["diameter"], i) for i, c in enumerate(columns) if c["quantity"] == "channel")
+    per_log10 = v.get("channel_type") == "dN/dlogDp"
+    if not chans or (per_log10 and len(chans) < 2):
+        raise FieldError("quantity_columns", "Add a number, LDSA or mass column to summarise.")
+    if per_log10:
+        edges = bin_edges([d for d, _ in chans])
+        weights = tuple(math.log10(b / a) for a, b in itertools.pairwise(edges))
+    else:
+        weights = (1.0,) * len(chans)
+    keys = tuple(str(i) for _, i in chans)
+    key = str(len(columns))
+    cache = (keys, weights, key)
+    hit = next((t for s, k, t in _TOTALS if s is series and k == cache), None)
+    if hit is None:
+        hit = with_sum(series, keys, weights, key)
+        _TOTALS.insert(0, (series, cache, hit))
+        del _TOTALS[2:]
+    record = {
+        "column": CHANNEL_TOTAL,
+        "quantity": "number",
+        "unit": units[chans[0][1]],
+        "diameter": None,
+        "path": "quantity_columns",
+    }
+    return hit, [*columns, record], (*units, units[chans[0][1]])
+
+
 def _summarised(v: dict[str, Any], columns: list[dict[str, Any]]) -> int:
     choice = (v.get("quantity") or "").strip()
     if choice:
@@ -203,6 +244,8 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     if not columns:
         raise FieldError("quantity_columns", "Add at least one value column.")
     table, series, units = _series(v, "series_", columns, "near-field time series")
+    if all(c["quantity"] == "channel" for c in columns):
+        series, columns, units = _channel_total(v, series, columns, units)
     q_index = _summarised(v, columns)
     q_col = columns[q_index]
     quantity, unit = q_col["quantity"], units[q_index]

@@ -18,7 +18,7 @@ import itertools
 import math
 import operator
 from collections.abc import Callable, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from functools import cached_property
 
 from ..tables import CellError, Table
@@ -33,6 +33,7 @@ __all__ = [
     "TimeSeries",
     "aligned_values",
     "read_series",
+    "with_sum",
 ]
 
 GAP_FACTOR = 2.0
@@ -316,6 +317,41 @@ def aligned_values(target: TimeSeries, other: TimeSeries, key: str) -> list[floa
                 f = (x - ts[j]) / span
                 out.append(a + f * (b - a))
     return out
+
+
+def with_sum(
+    series: TimeSeries, keys: Sequence[str], weights: Sequence[float], key: str
+) -> TimeSeries:
+    """The series with one more column: the weighted sum of others, reading by reading.
+
+    Parameters
+    ----------
+    series : TimeSeries
+        The readings.
+    keys : sequence of str
+        The columns added up (size channels, say) [SI of the column].
+    weights : sequence of float
+        The factor on each column (1 for particles per channel, the channel's width in
+        log10 d for dN/dlog10 d) [-].
+    key : str
+        The new column's key.
+
+    Returns
+    -------
+    TimeSeries
+        The same readings with ``values[key]``: the sum, None where a column is missing.
+
+    """
+    columns = [series.values[k] for k in keys]
+    total: list[float | None] = []
+    for row in zip(*columns, strict=True):
+        if any(x is None for x in row):
+            total.append(None)
+        else:
+            total.append(
+                math.fsum(w * x for w, x in zip(weights, row, strict=True) if x is not None)
+            )
+    return replace(series, values={**series.values, key: tuple(total)})
 
 
 TimeReader = Callable[[str, str | None], float]
