@@ -34,6 +34,7 @@ from .exposure_fields import aerosol_of, particle_description, subject_of
 from .fields import FieldError
 from .labels import WEIGHT_WORDS
 from .reply import row, shared_axis
+from .spectrum_fields import import_warnings
 
 __all__ = [
     "BURDEN_FIELDS",
@@ -127,8 +128,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "Insoluble particles assumed: the clearance model moves particles mechanically and "
         "ignores dissolution and absorption to blood, so soluble material is overestimated."
     )
-    if report is not None:
-        warnings.extend(f"CSV import: {n}" for n in report["notes"])
+    warnings.extend(import_warnings(report))
     sources = ["icrp66", "icrp66_transport", "hatch_choate1929", "kim2005"]
     if rate_set == "icrp130":
         sources.insert(2, "icrp130")

@@ -25,6 +25,7 @@ from .exposure_fields import EXPOSURE_FIELDS, MEDIAN_WORDS, MODE_FIELDS, aerosol
 from .fields import Field, FieldError
 from .labels import COORDINATE_WORDS, DIAMETER_TYPE_WORDS, REGION_LABELS
 from .reply import row, shared_axis, text_result
+from .spectrum_fields import import_row, import_warnings
 
 __all__ = ["DEMOS", "FIELDS", "MODE_FIELDS", "TITLE", "compute", "demo_scenarios", "run"]
 
@@ -67,9 +68,7 @@ def compute(v: dict[str, Any]) -> tuple[Deposition, dict[str, Any] | None]:
 def run(v: dict[str, Any]) -> dict[str, Any]:
     """Compute the deposition reply from validated SI inputs."""
     result, report = compute(v)
-    warnings = list(result.warnings)
-    if report is not None:
-        warnings.extend(f"CSV import: {n}" for n in report["notes"])
+    warnings = list(result.warnings) + import_warnings(report)
     sources = [
         "icrp66",
         "hatch_choate1929",
@@ -136,11 +135,7 @@ def _results(result: Deposition, report: dict[str, Any] | None) -> dict[str, Any
                 "–",
             )
     if report is not None:
-        out["csv_rows"] = text_result(
-            "Spectrum imported",
-            f"{report['rows']} rows (lines {report['first_line']}–{report['last_line']}), "
-            f"{report['delimiter']}-separated",
-        )
+        out["csv_rows"] = import_row(report)
     out.update(region_rows(res))
     for metric, ratio in res.benchmark.items():
         out[f"benchmark_{metric}"] = row(

@@ -61,7 +61,7 @@ from .particle_air_fields import (
 )
 from .reply import quantity, shared_axis, text_result
 from .sampling_demos import DEMOS
-from .spectrum_fields import import_spectrum, spectrum_fields
+from .spectrum_fields import import_row, import_spectrum, import_warnings, spectrum_fields
 from .stages import FLOW_MIN, MAX_STAGES, STAGE_FIELDS, parse_stages, stage_types
 from .units import auto_unit, from_si, unit_label
 
@@ -378,14 +378,9 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "reference_sizes": [_length_text(d) for _, d in REFERENCE_SIZES],
         "rows": stage_rows,
     }
-    warnings = list(result.warnings)
+    warnings = list(result.warnings) + import_warnings(csv_report)
     if csv_report is not None:
-        results["csv_rows"] = text_result(
-            "Spectrum imported",
-            f"{csv_report['rows']} rows (lines {csv_report['first_line']}–"
-            f"{csv_report['last_line']}), {csv_report['delimiter']}-separated",
-        )
-        warnings.extend(f"CSV import: {n}" for n in csv_report["notes"])
+        results["csv_rows"] = import_row(csv_report)
     if result.spectrum is not None:
         _spectrum_reply(result, results, curves)
     return {

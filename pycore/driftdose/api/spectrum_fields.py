@@ -20,6 +20,7 @@ from ..diameters import ParticleDescription
 from ..spectrum_import import MAX_BYTES, SpectrumError, SpectrumImport, parse_spectrum_csv
 from .fields import Field, FieldError
 from .particle_air_fields import DIAMETER_TYPE_CHOICES
+from .reply import text_result
 from .units import to_si
 
 __all__ = [
@@ -31,7 +32,9 @@ __all__ = [
     "SPECTRUM_DIAMETER_TYPE",
     "SPECTRUM_FIELD_NAMES",
     "describe_spectrum_file",
+    "import_row",
     "import_spectrum",
+    "import_warnings",
     "spectrum_aerosol",
     "spectrum_fields",
 ]
@@ -254,6 +257,42 @@ def import_spectrum(
             "concentration unit and type.",
         )
     return imported, imported.report
+
+
+def import_row(report: dict[str, Any]) -> dict[str, Any]:
+    """The result row saying what a spectrum import read: rows, file lines and delimiter.
+
+    Parameters
+    ----------
+    report : dict
+        The import report of :func:`import_spectrum`.
+
+    Returns
+    -------
+    dict
+        A text result row.
+    """
+    return text_result(
+        "Spectrum imported",
+        f"{report['rows']} rows (lines {report['first_line']}–{report['last_line']}), "
+        f"{report['delimiter']}-separated",
+    )
+
+
+def import_warnings(report: dict[str, Any] | None) -> list[str]:
+    """The reply's warnings from a spectrum import's notes (none without an import).
+
+    Parameters
+    ----------
+    report : dict or None
+        The import report of :func:`import_spectrum`, None for lognormal modes.
+
+    Returns
+    -------
+    list of str
+        One warning per note, marked as the import's.
+    """
+    return [] if report is None else [f"CSV import: {n}" for n in report["notes"]]
 
 
 def spectrum_aerosol(

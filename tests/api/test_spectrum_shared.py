@@ -1,6 +1,10 @@
-"""The shift's dose per task from an imported spectrum shape: read by the same importer as the
+"""One spectrum importer for every calculation that reads a spectrum file.
+
+The shift's dose per task from an imported spectrum shape is read by the same importer as the
 deposition calculation's measured spectrum, so the same file gives the same dose, and the same
-file faults are refused on the shift's own file input with the request left unchanged."""
+file faults are refused on the shift's own file input with the request left unchanged; the
+deposition, sampling and burden replies report an import with the same row and notes.
+"""
 
 from __future__ import annotations
 
@@ -113,3 +117,41 @@ def test_spectrum_faults_are_refused_on_the_file_input(inputs, says):
     assert reply["errors"][0]["field"] == "spectrum_text", reply["errors"]
     assert says in reply["errors"][0]["message"], reply["errors"]
     assert request == before
+
+
+# An invented instrument export: a metadata line above the header, decimal commas.
+_NOTED = "Invented sizer export\nd [nm];dN/dlogDp [1/cm3]\n20;1000,5\n50;4000,0\n100;2500,0\n"
+_CSV_INPUTS = {
+    "size_source": "csv",
+    "csv_text": _NOTED,
+    "csv_diameter_unit": "nm",
+    "csv_concentration_unit": "1/cm3",
+    "csv_concentration_type": "dN/dlogDp",
+}
+
+
+def test_a_spectrum_import_is_reported_alike_by_every_calculation():
+    """Deposition, sampling and burden read the same file with the same importer, so they
+    report it with the same row and the same import notes (the metadata line set aside and
+    the decimal commas), each marked as the import's."""
+    deposition = api.handle({"kind": "deposition", "inputs": dict(_CSV_INPUTS)})
+    sampling = api.handle(
+        {
+            "kind": "sampling",
+            "inputs": {
+                **_CSV_INPUTS,
+                "stages": [{"type": "tube", "length": {"value": 1, "unit": "m"}}],
+            },
+        }
+    )
+    burden = api.handle({"kind": "burden", "inputs": dict(_CSV_INPUTS)})
+    replies = (deposition, sampling, burden)
+    assert all(r["ok"] for r in replies), [r.get("errors") for r in replies]
+    notes = [w for w in deposition["warnings"] if w.startswith("CSV import: ")]
+    assert any("set aside" in w for w in notes), notes
+    assert any("Decimal commas" in w for w in notes), notes
+    for reply in (sampling, burden):
+        assert [w for w in reply["warnings"] if w.startswith("CSV import: ")] == notes
+    # the row: three rows read, on file lines 3 to 5
+    assert deposition["results"]["csv_rows"]["text"].startswith("3 rows (lines 3–5)")
+    assert sampling["results"]["csv_rows"] == deposition["results"]["csv_rows"]
