@@ -89,6 +89,7 @@ def _file_fields(prefix: str, label: str, far: bool) -> tuple[Field, ...]:
 
 
 _DOSE = ("size_source", ("channels", "modes", "spectrum"))
+_SPECTRUM = ("size_source", ("spectrum",))
 
 
 FIELDS: tuple[Field, ...] = (
@@ -217,7 +218,7 @@ FIELDS: tuple[Field, ...] = (
         None,
         required=False,
         extra={"max_bytes": MAX_BYTES, "accept": ".csv,.txt,.tsv"},
-        applies=("size_source", ("spectrum",)),
+        applies=_SPECTRUM,
     ),
     Field(
         "spectrum_diameter_column",
@@ -225,7 +226,7 @@ FIELDS: tuple[Field, ...] = (
         "text",
         "1",
         required=False,
-        applies=("size_source", ("spectrum",)),
+        applies=_SPECTRUM,
     ),
     Field(
         "spectrum_concentration_column",
@@ -233,7 +234,7 @@ FIELDS: tuple[Field, ...] = (
         "text",
         "2",
         required=False,
-        applies=("size_source", ("spectrum",)),
+        applies=_SPECTRUM,
     ),
     Field(
         "spectrum_concentration_type",
@@ -241,7 +242,7 @@ FIELDS: tuple[Field, ...] = (
         "choice",
         "dN/dlogDp",
         choices=CONCENTRATION_TYPES,
-        applies=("size_source", ("spectrum",)),
+        applies=_SPECTRUM,
     ),
     Field(
         "spectrum_diameter_unit",
@@ -249,7 +250,7 @@ FIELDS: tuple[Field, ...] = (
         "choice",
         "nm",
         choices=(("nm", "nm"), ("um", "µm")),
-        applies=("size_source", ("spectrum",)),
+        applies=_SPECTRUM,
     ),
     Field(
         "scale_column",
