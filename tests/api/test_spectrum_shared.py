@@ -32,14 +32,8 @@ def _spectrum(diameters: tuple[float, ...] = CHANNELS_NM) -> str:
     )
 
 
-TASK = {
-    "label": "Sanding",
-    "kind": "task",
-    "start": "08:02",
-    "end": "08:17",
-    "activity": "heavy_exercise",
-    "route": "mixed",
-}
+# a 15-min task; its route is the default, mixed
+TASK = {"kind": "task", "start": "08:02", "end": "08:17", "activity": "heavy_exercise"}
 
 
 def _shift(**inputs) -> dict:
@@ -86,14 +80,18 @@ def test_spectrum_dose_equals_the_deposition_calculation():
     )
     assert deposition["ok"], deposition
     dose = shift["results"]["dose"]
-    to_si = {"1": 1.0, "mm2": 1e-6, "ug": 1e-9}
-    got = dose["tasks"][0]
-    for k, region in enumerate(dose["regions"]):
-        for weight in ("number", "surface", "mass"):
-            expected = deposition["results"][f"dose_{region}_{weight}"]["si"]
-            value = got[weight][k] * to_si[dose["units"][weight]]
-            # the same numbers through two paths: agreement to rounding
-            assert value == pytest.approx(expected, rel=1e-9, abs=0.0), (region, weight)
+    factor = {"1": 1.0, "mm2": 1e-6, "ug": 1e-9}  # the shift's dose units to SI
+    weights = ("number", "surface", "mass")
+    shift_si = {
+        (region, w): dose["tasks"][0][w][k] * factor[dose["units"][w]]
+        for k, region in enumerate(dose["regions"])
+        for w in weights
+    }
+    deposition_si = {
+        key: deposition["results"]["dose_{}_{}".format(*key)]["si"] for key in shift_si
+    }
+    # the same numbers through two paths: agreement to rounding
+    assert shift_si == pytest.approx(deposition_si, rel=1e-9, abs=0.0)
 
 
 @pytest.mark.parametrize(
