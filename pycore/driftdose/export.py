@@ -21,7 +21,7 @@ import re
 from collections.abc import Iterator
 from typing import Any
 
-from .unit_labels import unit_label
+from .unit_labels import unit_text
 
 __all__ = [
     "csv_writer",
@@ -102,9 +102,7 @@ def _num(x: Any) -> str:
 
 def _unit(u: Any) -> str:
     """A unit as a file shows it: a unit code labelled (``um`` -> ``µm``), none for pure numbers."""
-    if u in (None, "–", "1"):
-        return ""
-    return unit_label(str(u))
+    return "" if u is None else unit_text(str(u))
 
 
 def results_csv(reply: dict[str, Any]) -> str:

@@ -1,13 +1,14 @@
 """Typographic labels of unit codes (``um`` -> ``µm``): one table for replies, exports and forms.
 
-Replies name units by code; :func:`unit_label` gives the label people read. The api sends the
-whole table to the page with the forms (:func:`driftdose.api.units.unit_table`), and the CSV
-export labels its headers with it, so a unit is spelled one way everywhere.
+Replies name units by code; :func:`unit_label` gives the label people read and
+:func:`unit_text` the label printed after a number (nothing for a pure number). The api sends
+the whole table to the page with the forms (:func:`driftdose.api.units.unit_table`), and the
+CSV export and the command line label with it, so a unit is spelled one way everywhere.
 """
 
 from __future__ import annotations
 
-__all__ = ["LABELS", "unit_label"]
+__all__ = ["LABELS", "UNPRINTED", "unit_label", "unit_text"]
 
 LABELS: dict[str, str] = {
     "um": "µm",
@@ -32,6 +33,11 @@ LABELS: dict[str, str] = {
     "m3": "m³",
     "1": "–",
     "deg": "°",
+    "m2/s": "m²/s",
+    "Pa.s": "Pa·s",
+    "ug/h": "µg/h",
+    "m2/h": "m²/h",
+    "mm2/h": "mm²/h",
 }
 """Label of every unit code whose label differs from the code."""
 
@@ -50,3 +56,23 @@ def unit_label(unit: str) -> str:
         Its label (``µm``, ``°C``, ``1/cm³``, ``–``); a code without an entry is its own label.
     """
     return LABELS.get(unit, unit)
+
+
+UNPRINTED: frozenset[str] = frozenset({"1", ""})
+"""Codes of pure numbers: a table column names them (``–``), nothing follows a number."""
+
+
+def unit_text(unit: str) -> str:
+    """The label printed after a number in a unit code: nothing for a pure number.
+
+    Parameters
+    ----------
+    unit : str
+        A unit code (``um``, ``1`` for a pure number).
+
+    Returns
+    -------
+    str
+        ``""`` for a pure number, else :func:`unit_label` (``µm``).
+    """
+    return "" if unit in UNPRINTED else unit_label(unit)

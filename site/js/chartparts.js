@@ -6,12 +6,13 @@
 export const MAX_COMPARED = 3;
 
 /**
- * Title of an axis. When the tick labels carry their own units ("10 nm", "1 µm"), the title is
- * the quantity alone: a unit in the title would contradict ticks in other units.
+ * Title of an axis; `unit` the printed label (unitText: empty for a pure number). When the tick
+ * labels carry their own units ("10 nm", "1 µm"), the title is the quantity alone: a unit in the
+ * title would contradict ticks in other units.
  */
 export function axisTitle(label, unit, ticksCarryUnit = false) {
   const name = String(label ?? "").trim();
-  if (ticksCarryUnit || !unit || unit === "–") return name;
+  if (ticksCarryUnit || !unit) return name;
   return `${name} (${unit})`;
 }
 
@@ -27,7 +28,7 @@ export function particleLetter(index) {
 
 /**
  * One line naming the scenario of a chart from rows {label, value, unit} (the inputs in the
- * words of the form): "Particle diameter 1 µm · Particle density 1 g/cm³ · …". Rows whose
+ * words of the form, `unit` the printed label, empty for a pure number): "Particle diameter 1 µm · Particle density 1 g/cm³ · …". Rows whose
  * label is in `skip` are left out; with `maxLength`, a longer line ends at the last whole entry
  * that fits with the " · …" that marks the cut.
  */
@@ -37,7 +38,7 @@ export function scenarioLine(rows, { skip = [], maxLength = Infinity } = {}) {
     if (!row || skip.includes(row.label)) continue;
     const value = String(row.value ?? "").replace(/\s+/g, " ").trim();
     if (!value) continue;
-    const unit = row.unit && row.unit !== "–" ? ` ${row.unit}` : "";
+    const unit = row.unit ? ` ${row.unit}` : "";
     parts.push(`${row.label} ${value}${unit}`);
   }
   const whole = parts.join(" · ");

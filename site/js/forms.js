@@ -4,6 +4,7 @@ import { sha256Hex } from "./digest.js";
 import { decodeFile, describeText } from "./files.js";
 import { optionText } from "./format.js";
 import { pickValue, previewRows, tableSummary } from "./preview.js";
+import { unitText } from "./units.js";
 
 let counter = 0;
 
@@ -89,8 +90,8 @@ export function renderField(container, field, prefix) {
       for (const u of field.units) unitSelect.append(el("option", { value: u.unit }, u.label));
       unitSelect.value = def.unit;
       row.append(unitSelect);
-    } else if (field.units && field.units.length === 1 && field.units[0].label !== "–") {
-      row.append(el("span", { class: "unit" }, field.units[0].label));
+    } else if (field.units && field.units.length === 1 && unitText(field.units[0].unit)) {
+      row.append(el("span", { class: "unit" }, unitText(field.units[0].unit)));
     }
   }
   if (row.parentNode !== wrap) wrap.append(row);

@@ -101,9 +101,7 @@ export class CalcPanel {
         const choice = (field.choices || []).find((c) => c.value === raw);
         rows.push({ name: field.name, label: field.label, value: choice ? choice.label : String(raw), unit: "" });
       } else if (raw && typeof raw === "object" && "value" in raw) {
-        const unit = (field.units || []).find((u) => u.unit === raw.unit);
-        const label = unit ? unit.label : String(raw.unit ?? "");
-        rows.push({ name: field.name, label: field.label, value: String(raw.value), unit: label === "–" ? "" : label, range: field.range || "" });
+        rows.push({ name: field.name, label: field.label, value: String(raw.value), unit: unitText(raw.unit), range: field.range || "" });
       } else if (field.kind === "data" || field.kind === "records") {
         rows.push({ name: field.name, label: field.label, value: this.opts.describeData ? this.opts.describeData(field.name, raw) : JSON.stringify(raw), unit: "" });
       } else {

@@ -239,7 +239,8 @@ def test_handle_json_round_trip() -> None:
     request = {"kind": "motion", "inputs": {"particle_diameter": {"value": 1, "unit": "µm"}}}
     out = handle_json(json.dumps(request))
     assert json.loads(out) == json.loads(json.dumps(handle(request), allow_nan=False))
-    assert "µm" in out  # ensure_ascii=False: labels cross as they are
+    assert '"symbol": "λ"' in out  # ensure_ascii=False: symbols cross as they are
+    assert '"unit": "um"' in out  # units cross as codes, labelled by the page
 
 
 # ---------------------------------------------------------------------------------------------

@@ -30,7 +30,7 @@ from driftdose import api, cli, export
 from driftdose.api.demos import _DEMO_CSV
 from driftdose.api.fields import Field, FieldError
 from driftdose.api.registry import CALCULATIONS
-from driftdose.api.units import unit_label
+from driftdose.api.units import unit_label, unit_table
 
 ROOT = Path(__file__).resolve().parents[2]
 FORMAT_JS = ROOT / "site" / "js" / "format.js"
@@ -65,6 +65,8 @@ SPECTRUM_FLAGS = [
     "--csv-concentration-column",
     "dN/dlogDp_per_cm3",
 ]
+
+UNIT_TABLE = unit_table()  # what describe() sends the page: labels of unit codes
 
 
 # --- helpers -----------------------------------------------------------------------------------
@@ -260,7 +262,7 @@ def test_main_motion_table_numbers_equal_page(capsys):
         value_text, unit = rows[shown_label(row)]
         assert value_text == page_text, key
         assert parse_shown(value_text) == half_up_4(row["value"]), key
-        assert unit == ("" if row["unit"] == "–" else row["unit"]), key
+        assert unit == UNIT_TABLE[row["unit"]]["text"], key  # the page's label of the code
     for row in reply["results"].values():
         if "text" in row:
             assert rows[shown_label(row)][0] == row["text"]
@@ -545,7 +547,7 @@ def test_main_csv_equals_page_export(capsys):
     for row in reply["results"].values():
         if "value" in row:
             assert float(by_label[row["label"]][2]) == row["value"]
-            assert by_label[row["label"]][3] == ("" if row["unit"] == "–" else row["unit"])
+            assert by_label[row["label"]][3] == UNIT_TABLE[row["unit"]]["text"]
 
 
 def test_main_json_is_full_reply(capsys):
@@ -916,7 +918,7 @@ def test_main_batch_deposition_one_row_per_file(capsys, tmp_path):
         for region in ("ET1", "ET2", "BB", "bb", "AI", "total"):
             for metric in ("number", "surface", "mass"):
                 row = reply["results"][f"dose_{region}_{metric}"]
-                column = f"{row['label']} [{row['unit']}]"
+                column = f"{row['label']} [{UNIT_TABLE[row['unit']]['text']}]"
                 assert float(cells[column]) == row["value"], column  # full precision
         assert cells["errors"] == ""
     units = " ".join(header)

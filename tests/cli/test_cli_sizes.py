@@ -11,6 +11,7 @@ import io
 import json
 
 from driftdose import api, cli, export
+from driftdose.unit_labels import unit_label
 
 MODES = [
     {
@@ -76,5 +77,5 @@ def test_results_csv_holds_ldsa_and_mode_rows():
         row = reply["results"][key]
         line = by_label[row["label"]]
         assert float(line["value"]) == row["value"]
-        assert line["unit"] == row["unit"]
+        assert line["unit"] == unit_label(row["unit"])  # the reply's code, labelled
         assert float(line["value_si"]) == row["si"]

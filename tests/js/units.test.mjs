@@ -39,9 +39,23 @@ test("a malformed table leaves no usable entry", () => {
   assert.equal(unitLabel("um"), "um");
 });
 
-test("unitText: the label after a number, nothing for a dimensionless code", () => {
-  setUnitTable({ "1": { label: "–", factor: 1 }, "um2/cm3": { label: "µm²/cm³", factor: 1e-6 } });
-  assert.equal(unitText("1"), "");
+test("unitText: the table's printed label, empty for a pure number (from the description)", () => {
+  setUnitTable(forms.units);
+  assert.equal(unitText("1"), ""); // a pure number: nothing after it
+  assert.equal(unitLabel("1"), "–"); // ... but named in a column
   assert.equal(unitText("um2/cm3"), "µm²/cm³");
+  assert.equal(unitText("m2/s"), "m²/s");
+  assert.equal(unitText("Pa.s"), "Pa·s");
+  assert.equal(unitText("particles/h"), "particles/h");
+  assert.equal(unitText("%"), "%");
   assert.equal(unitText("µm"), "µm"); // a label that is no code passes unchanged
+});
+
+test("unitText reads the table's text, with no rule of its own about labels", () => {
+  // a table whose dimensionless label is printed: the page follows the table, not the label
+  setUnitTable({ "1": { label: "–", text: "–", factor: 1 }, x: { label: "1", factor: 1 } });
+  assert.equal(unitText("1"), "–");
+  assert.equal(unitText("x"), "1"); // no text given: the label
+  setUnitTable({ "1": { label: "–", text: 5, factor: 1 } }); // a text that is no string
+  assert.equal(unitText("1"), "–");
 });

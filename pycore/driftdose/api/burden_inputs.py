@@ -30,9 +30,9 @@ REGION_LABELS = {
     "deposited": "Deposited (cumulative)",
 }
 RETAINED = ("ET", "BB", "bb", "AI", "LN", "lungs")
-UNITS = {  # weight -> (factor to SI, unit, SI unit)
+UNITS = {  # weight -> (factor to SI, unit code, SI unit code)
     "number": (1.0, "particles", "1"),
-    "surface": (1e-6, "mm²", "m²"),
+    "surface": (1e-6, "mm2", "m2"),
     "mass": (1e-6, "mg", "kg"),
 }
 SERIES_PER_DECADE = 48

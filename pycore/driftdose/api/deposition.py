@@ -108,21 +108,21 @@ def _results(result: Deposition, report: dict[str, Any] | None) -> dict[str, Any
     out: dict[str, Any] = {
         "breathing": text_result("Breathing", result.subject.name),
         "inhaled_volume": row(
-            "Air inhaled over the exposure", res.inhaled_volume, 1.0, "m³", "m³", "V"
+            "Air inhaled over the exposure", res.inhaled_volume, 1.0, "m3", "m3", "V"
         ),
-        "ventilation": row("Mean ventilation", res.ventilation, 1.0 / 3600.0, "m³/h", "m³/s", "V̇ₑ"),
+        "ventilation": row("Mean ventilation", res.ventilation, 1.0 / 3600.0, "m3/h", "m3/s", "V̇ₑ"),
         "number_concentration": row(
-            "Airborne number concentration", res.ambient["number"], 1e6, "1/cm³", "1/m³"
+            "Airborne number concentration", res.ambient["number"], 1e6, "1/cm3", "1/m3"
         ),
         "surface_concentration": row(
             "Airborne surface-area concentration",
             res.ambient["surface"],
             1e-6,
-            "µm²/cm³",
-            "m²/m³",
+            "um2/cm3",
+            "m2/m3",
         ),
         "mass_concentration": row(
-            "Airborne mass concentration", res.ambient["mass"], 1e-9, "µg/m³", "kg/m³"
+            "Airborne mass concentration", res.ambient["mass"], 1e-9, "ug/m3", "kg/m3"
         ),
     }
     for w in ("mass", "number"):
@@ -131,15 +131,15 @@ def _results(result: Deposition, report: dict[str, Any] | None) -> dict[str, Any
                 f"Share of airborne {w} in the ISO 7708 {label} fraction",
                 result.shares[w][key],
                 1.0,
-                "–",
-                "–",
+                "1",
+                "1",
             )
     if report is not None:
         out["csv_rows"] = import_row(report)
     out.update(region_rows(res))
     for metric, ratio in res.benchmark.items():
         out[f"benchmark_{metric}"] = row(
-            f"Airborne {metric} concentration ÷ your benchmark", ratio, 1.0, "–", "–"
+            f"Airborne {metric} concentration ÷ your benchmark", ratio, 1.0, "1", "1"
         )
     return out
 
@@ -158,8 +158,8 @@ def _ldsa_rows(result: Deposition) -> dict[str, Any]:
             f"Lung-deposited surface area, {_LDSA_LABELS[key]}",
             result.ldsa[key],
             1e-6,
-            "µm²/cm³",
-            "m²/m³",
+            "um2/cm3",
+            "m2/m3",
             "LDSA",
             "deposited particle surface per cm³ of inhaled air",
         )
@@ -179,15 +179,15 @@ def _mode_rows(result: Deposition) -> dict[str, Any]:
             f"Mode {i}: count median ({coord})", m.count_median, 1e-9, "nm", "m", "CMD", note
         )
         out[f"mode{i}_mass_median"] = row(
-            f"Mode {i}: mass median ({coord})", m.mass_median, 1e-6, "µm", "m", "MMD"
+            f"Mode {i}: mass median ({coord})", m.mass_median, 1e-6, "um", "m", "MMD"
         )
         out[f"mode{i}_mmad"] = row(
-            f"Mode {i}: mass median aerodynamic", m.mmad, 1e-6, "µm", "m", "MMAD"
+            f"Mode {i}: mass median aerodynamic", m.mmad, 1e-6, "um", "m", "MMAD"
         )
         out[f"mode{i}_number"] = row(
-            f"Mode {i}: number concentration", m.number, 1e6, "1/cm³", "1/m³"
+            f"Mode {i}: number concentration", m.number, 1e6, "1/cm3", "1/m3"
         )
-        out[f"mode{i}_mass"] = row(f"Mode {i}: mass concentration", m.mass, 1e-9, "µg/m³", "kg/m³")
+        out[f"mode{i}_mass"] = row(f"Mode {i}: mass concentration", m.mass, 1e-9, "ug/m3", "kg/m3")
     return out
 
 
@@ -210,13 +210,13 @@ def _curves(result: Deposition) -> dict[str, Any]:
     return {
         **curves,
         "x_label": f"Particle diameter ({COORDINATE_WORDS[result.aerosol.description.coordinate]})",
-        "x_unit": "µm",
+        "x_unit": "um",
         "y_label": "Deposition fraction",
-        "y_unit": "–",
+        "y_unit": "1",
         "deposition": series,
         "distribution": {
             "y_label": "Your distribution, scaled to a peak of 1",
-            "y_unit": "–",
+            "y_unit": "1",
             **overlay,
         },
         "dose_bars": dose_bars(res),

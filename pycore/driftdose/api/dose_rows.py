@@ -16,10 +16,10 @@ __all__ = ["DOSE_UNITS", "dose_bars", "region_rows"]
 
 DOSE_UNITS: dict[str, tuple[float, str, str]] = {
     "number": (1.0, "particles", "1"),
-    "surface": (1e-6, "mm²", "m²"),
-    "mass": (1e-9, "µg", "kg"),
+    "surface": (1e-6, "mm2", "m2"),
+    "mass": (1e-9, "ug", "kg"),
 }
-"""Display of a deposited amount by weight: (factor to SI, unit label, SI unit label)."""
+"""Display of a deposited amount by weight: (factor to SI, unit code, SI unit code)."""
 
 
 def region_rows(res: DoseResult) -> dict[str, Any]:
@@ -46,8 +46,8 @@ def region_rows(res: DoseResult) -> dict[str, Any]:
                 f"{name}: deposited fraction by {WEIGHT_WORDS[w]}",
                 res.fractions[r][w],
                 1.0,
-                "–",
-                "–",
+                "1",
+                "1",
             )
         for w in ("number", "surface", "mass"):
             factor, unit, si_unit = DOSE_UNITS[w]

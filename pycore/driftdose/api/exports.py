@@ -34,8 +34,9 @@ from typing import Any
 
 from .. import __version__
 from ..export import csv_writer, curves_csv, results_csv
+from ..unit_labels import unit_text
 from .fields import Field, applies, entered, parse_fields
-from .units import SI_UNIT, UNITS, unit_label
+from .units import SI_UNIT, UNITS
 
 __all__ = ["EXPORT_KIND", "PARTS", "export_csv", "header_rows"]
 
@@ -251,8 +252,4 @@ def _data_rows(f: Field, raw: Any) -> list[list[str]]:
 
 
 def _label(unit: str) -> str:
-    try:
-        text = unit_label(unit)
-    except (KeyError, TypeError):
-        text = unit
-    return "" if text in ("–", "1") else text
+    return unit_text(unit) if isinstance(unit, str) else str(unit)

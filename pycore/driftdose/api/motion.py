@@ -105,18 +105,18 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         "mean_free_path": quantity(
             "Mean free path of air", r.mean_free_path, "length", "nm", symbol="λ"
         ),
-        "air_viscosity": quantity("Air viscosity", r.air_viscosity, None, "Pa·s", symbol="μ"),
-        "knudsen_number": quantity("Knudsen number", r.knudsen_number, None, "–", symbol="Kn"),
-        "slip_correction": quantity("Slip correction", r.slip_correction, None, "–", symbol="Cc"),
+        "air_viscosity": quantity("Air viscosity", r.air_viscosity, None, "Pa.s", symbol="μ"),
+        "knudsen_number": quantity("Knudsen number", r.knudsen_number, None, "1", symbol="Kn"),
+        "slip_correction": quantity("Slip correction", r.slip_correction, None, "1", symbol="Cc"),
         "mobility": quantity("Mechanical mobility", r.mobility, None, "s/kg", symbol="B"),
         "diffusion_coefficient": quantity(
-            "Diffusion coefficient", r.diffusion_coefficient, None, "m²/s", symbol="D"
+            "Diffusion coefficient", r.diffusion_coefficient, None, "m2/s", symbol="D"
         ),
         "settling_velocity": quantity(
             "Settling velocity", r.settling_velocity, "velocity", symbol="vₜₛ"
         ),
         "reynolds_number": quantity(
-            "Particle Reynolds number at settling", r.reynolds_number, None, "–", symbol="Re"
+            "Particle Reynolds number at settling", r.reynolds_number, None, "1", symbol="Re"
         ),
         "settling_model": text_result("Settling velocity from", r.settling_model),
         "relaxation_time": quantity("Relaxation time", r.relaxation_time, None, "s", symbol="τ"),
@@ -127,7 +127,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             "Particle Reynolds number at the initial velocity",
             r.initial_reynolds_number,
             None,
-            "–",
+            "1",
             symbol="Re₀",
         ),
         "stopping_model": text_result("Stopping distance from", r.stopping_model),
@@ -141,7 +141,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             "Settling distance", r.settling_distance, "length", symbol="vₜₛ·t"
         ),
         "displacement_ratio": quantity(
-            "Brownian ÷ settling distance", r.displacement_ratio, None, "–"
+            "Brownian ÷ settling distance", r.displacement_ratio, None, "1"
         ),
         "dominant": text_result(
             "Dominant motion in this time",

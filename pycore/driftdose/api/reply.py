@@ -1,15 +1,40 @@
-"""Helpers that shape results for the page: values in display units, with labels.
+"""Helpers that shape results for the page: values in display units, named by unit code.
 
-Display units are chosen here, at the boundary; the core only ever sees SI.
+Display units are chosen here, at the boundary; the core only ever sees SI. A row names its
+units by code (``um``, ``1/cm3``, ``1`` for a pure number); the page, the command line, the
+CSV export and the printed record label them from the one table (:func:`units.unit_table`).
 """
 
 from __future__ import annotations
 
 from typing import Any
 
-from .units import SI_UNIT, auto_unit, from_si, unit_label
+from .units import SI_UNIT, UNIT_CODES, auto_unit, canonical_unit, from_si
 
-__all__ = ["quantity", "row", "shared_axis", "text_result"]
+__all__ = ["quantity", "row", "shared_axis", "text_result", "unit_code"]
+
+
+def unit_code(unit: str) -> str:
+    """Check that ``unit`` is a code of the unit table and return it.
+
+    Parameters
+    ----------
+    unit : str
+        A unit code (``um``, ``m2/s``, ``1``).
+
+    Returns
+    -------
+    str
+        The same code.
+
+    Raises
+    ------
+    ValueError
+        If the table has no such code (a label such as ``µm`` is not a code).
+    """
+    if unit not in UNIT_CODES:
+        raise ValueError(f"not a unit code of the table: {unit!r}")
+    return unit
 
 
 def quantity(
@@ -23,20 +48,21 @@ def quantity(
     """One result row: ``value`` in the display ``unit`` plus the SI value.
 
     With ``kind`` a unit kind of :mod:`units`, ``unit`` defaults to :func:`auto_unit`; with
-    ``kind`` None, ``unit`` is an SI unit label shown as is (e.g. ``m²/s``).
+    ``kind`` None, ``unit`` is the code of an SI unit shown as is (e.g. ``m2/s``).
     """
     if kind is None:
-        shown, label_unit, si_unit = si, unit or "", unit or ""
+        code = unit_code(unit or "1")
+        shown, unit_out, si_unit = si, code, code
     else:
-        unit = unit or auto_unit(kind, si)
-        shown, label_unit, si_unit = from_si(si, kind, unit), unit_label(unit), SI_UNIT[kind]
+        unit_out = canonical_unit(kind, unit or auto_unit(kind, si))
+        shown, si_unit = from_si(si, kind, unit_out), SI_UNIT[kind]
     return {
         "label": label,
         "symbol": symbol,
         "value": shown,
-        "unit": label_unit,
+        "unit": unit_out,
         "si": si,
-        "si_unit": unit_label(si_unit),
+        "si_unit": si_unit,
         "note": note,
     }
 
@@ -64,11 +90,11 @@ def row(
     si : float
         The value in SI units (``si_unit``).
     factor : float
-        Size of one display ``unit`` in SI units.
+        Size of one display ``unit`` in SI units [-].
     unit : str
-        Label of the display unit.
+        Code of the display unit in the unit table (``ug``, ``1`` for a pure number).
     si_unit : str
-        Label of the SI unit.
+        Code of the SI unit (``kg``).
     symbol : str
         Symbol shown beside the label.
     note : str
@@ -78,14 +104,19 @@ def row(
     -------
     dict
         ``label``, ``symbol``, ``value``, ``unit``, ``si``, ``si_unit`` and ``note``.
+
+    Raises
+    ------
+    ValueError
+        If ``unit`` or ``si_unit`` is not a code of the unit table.
     """
     return {
         "label": label,
         "symbol": symbol,
         "value": si / factor,
-        "unit": unit,
+        "unit": unit_code(unit),
         "si": si,
-        "si_unit": si_unit,
+        "si_unit": unit_code(si_unit),
         "note": note,
     }
 

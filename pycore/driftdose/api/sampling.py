@@ -240,19 +240,21 @@ def _fraction_row(label: str, p: float, note: str = "") -> dict[str, Any]:
         "value": 100.0 * p,
         "unit": "%",
         "si": p,
-        "si_unit": "–",
+        "si_unit": "1",
         "note": note,
     }
 
 
 _UNIT_KINDS = {"m/s": "velocity", "m": "length", "s": "time"}
+_UNIT_CODES = {"–": "1"}  # the stage models' words for a pure number, as a unit code
 
 
 def _report_rows(quantities: dict[str, tuple[str, float, str]]) -> list[dict[str, Any]]:
     rows = []
     for key, (label, si, unit) in quantities.items():
         kind = _UNIT_KINDS.get(unit)
-        row = quantity(label, si, kind) if kind else quantity(label, si, None, unit)
+        code = _UNIT_CODES.get(unit, unit)
+        row = quantity(label, si, kind) if kind else quantity(label, si, None, code)
         row["key"] = key
         rows.append(row)
     return rows

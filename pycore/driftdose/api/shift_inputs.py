@@ -76,9 +76,8 @@ _UNIT_ALIASES = {
 
 DEFAULT_UNIT = {"number": "1/cm3", "channel": "1/cm3", "ldsa": "um2/cm3", "mass": "ug/m3"}
 
-UNIT_LABELS = {"um2/cm3": "µm²/cm³", "m2/m3": "m²/m³"}
-
-SI_UNITS = {"number": "1/m³", "channel": "1/m³", "ldsa": "m²/m³", "mass": "kg/m³"}
+SI_UNITS = {"number": "1/m3", "channel": "1/m3", "ldsa": "m2/m3", "mass": "kg/m3"}
+"""Code of the SI unit of each quantity."""
 
 
 COLUMN_FIELDS: tuple[Field, ...] = (
@@ -172,7 +171,7 @@ MODE_FIELDS: tuple[Field, ...] = (
 
 def unit_text(unit: str) -> str:
     """Label of a unit of :data:`QUANTITY_UNITS`."""
-    return UNIT_LABELS.get(unit, unit_label(unit))
+    return unit_label(unit)
 
 
 def canonical(quantity: str, unit: Any) -> str | None:

@@ -19,7 +19,7 @@ from ..sources import cite
 from ..tables import Table, describe_table
 from .deposition import REGION_LABELS
 from .fields import FieldError
-from .shift_inputs import SI_UNITS, quantity_scale, unit_text
+from .shift_inputs import SI_UNITS, quantity_scale
 from .spectrum_fields import import_spectrum, spectrum_aerosol
 
 __all__ = ["dose_setup", "shape"]
@@ -274,7 +274,6 @@ def shape(
     """The reply of the shift calculation (layout in :mod:`driftdose.api.shift`)."""
     quantity = columns[q_index]["quantity"]
     f = quantity_scale(quantity, unit)
-    shown = unit_text(unit)
     si_unit = SI_UNITS[quantity]
     warnings: list[str] = list(r.notes)
     results: dict[str, Any] = {
@@ -311,16 +310,16 @@ def shape(
     }
     results["shift"] = {"label": "Shift", "unit": unit, "rows": [shift_row]}
     twa_label = "8-h TWA" if r.unmeasured_as != "excluded" else "Mean over measured time"
-    results["twa8h"] = _plain(twa_label, r.twa8h, f, shown, si_unit, RULE_WORDS[r.unmeasured_as])
+    results["twa8h"] = _plain(twa_label, r.twa8h, f, unit, si_unit, RULE_WORDS[r.unmeasured_as])
     if r.twa8h_corrected is not None:
         results["twa8h_corrected"] = _plain(
-            f"{twa_label}, background-corrected", r.twa8h_corrected, f, shown, si_unit
+            f"{twa_label}, background-corrected", r.twa8h_corrected, f, unit, si_unit
         )
     if r.twa_ratio is not None:
-        results["twa_ratio"] = _plain("8-h TWA ÷ benchmark", r.twa_ratio, 1.0, "–", "1")
-    results["shift_mean"] = _plain("Shift mean (breaks left out)", s.mean, f, shown, si_unit)
-    results["shift_peak15"] = _plain("Highest 15-min mean", s.peak15, f, shown, si_unit)
-    results["shift_max"] = _plain("Highest reading", s.maximum, f, shown, si_unit)
+        results["twa_ratio"] = _plain("8-h TWA ÷ benchmark", r.twa_ratio, 1.0, "1", "1")
+    results["shift_mean"] = _plain("Shift mean (breaks left out)", s.mean, f, unit, si_unit)
+    results["shift_peak15"] = _plain("Highest 15-min mean", s.peak15, f, unit, si_unit)
+    results["shift_max"] = _plain("Highest reading", s.maximum, f, unit, si_unit)
     results["coverage"] = _plain("Shift measured", s.coverage * 100, 1.0, "%", "%")
     results["twa_rule"] = {"label": "TWA rule", "text": RULE_WORDS[r.unmeasured_as], "note": ""}
     results["background_method"] = {

@@ -274,17 +274,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     progress = {"done": have, "total": n}
     if have < n:
         return {
-            "results": {
-                "progress": {
-                    "label": "Samples computed",
-                    "symbol": "",
-                    "value": float(have),
-                    "unit": f"of {n}",
-                    "si": float(have),
-                    "si_unit": "1",
-                    "note": "",
-                }
-            },
+            "results": {"progress": row(f"Samples computed (of {n})", float(have), 1.0, "1", "1")},
             "curves": {"progress": progress},
             "warnings": [],
             "sources": [],
@@ -380,7 +370,7 @@ def _reply(
                 "quantities": [
                     {
                         "label": f"Rank correlation with {_short(k)}",
-                        "unit": "",
+                        "unit": "1",
                         "value": summary[k]["spearman"].get(name),
                     }
                     for k in shown

@@ -7,11 +7,13 @@ alternatives (``µm``, ``μm``, ``°C``, ``m³``) are accepted as aliases.
 
 from __future__ import annotations
 
-from ..unit_labels import unit_label
+from ..unit_labels import unit_label, unit_text
 
 __all__ = [
+    "REPLY_UNITS",
     "SI_UNIT",
     "UNITS",
+    "UNIT_CODES",
     "auto_unit",
     "canonical_unit",
     "from_si",
@@ -46,6 +48,19 @@ UNITS: dict[str, dict[str, float]] = {
     "angle": {"deg": 0.017453292519943295, "rad": 1.0},
     "ventilation": {"m3/h": 1.0 / 3600.0, "L/min": 1e-3 / 60.0, "m3/s": 1.0},
 }
+
+REPLY_UNITS: dict[str, dict[str, float]] = {
+    "dimensionless": {"%": 0.01, "particles": 1.0},
+    "time": {"d": 86400.0},
+    "number_rate": {"1/h": 1.0, "particles/h": 1.0},
+    "mass_rate": {"kg/h": 1.0, "ug/h": 1e-9},
+    "area_rate": {"m2/h": 1.0, "mm2/h": 1e-6},
+    "diffusivity": {"m2/s": 1.0},
+    "viscosity": {"Pa.s": 1.0},
+    "mobility": {"s/kg": 1.0},
+}
+"""Units that results use but no field offers, by kind: factor to the kind's base unit (the
+unit of factor 1; an amount per hour has the amount per hour as its base)."""
 
 SI_UNIT: dict[str, str] = {
     kind: next(u for u, f in table.items() if f == 1.0) for kind, table in UNITS.items()
@@ -121,25 +136,33 @@ def unit_table() -> dict[str, dict[str, float | str]]:
     Returns
     -------
     dict
-        ``{code: {"label": ..., "kind": ..., "factor": ..., "offset": ...}}``: a value x in
-        the unit is ``(x + offset) * factor`` in the SI unit of its kind. Replies carry unit
-        codes only (``x_unit: "um"``); the page labels and converts them with this table,
-        sent once with the forms. A code shared by two kinds (``m3/h`` for flow and
-        ventilation) has the same factor in both.
+        ``{code: {"label": ..., "text": ..., "kind": ..., "factor": ..., "offset": ...}}``: a
+        value x in the unit is ``(x + offset) * factor`` in the base unit of its kind;
+        ``label`` names the unit in a table column (``–`` for a pure number) and ``text`` is
+        printed after a number (empty for a pure number). Replies carry unit codes only (a
+        row's ``unit`` and ``si_unit``, ``x_unit: "um"``); the page labels and converts them
+        with this table, sent once with the forms. A code shared by two kinds (``m3/h`` for
+        flow and ventilation) has the same factor in both.
     """
     out: dict[str, dict[str, float | str]] = {}
-    for kind, table in UNITS.items():
-        for code, factor in table.items():
-            out.setdefault(
-                code,
-                {
-                    "label": unit_label(code),
-                    "kind": kind,
-                    "factor": factor,
-                    "offset": _OFFSET.get(code, 0.0),
-                },
-            )
+    for units in (UNITS, REPLY_UNITS):
+        for kind, table in units.items():
+            for code, factor in table.items():
+                out.setdefault(
+                    code,
+                    {
+                        "label": unit_label(code),
+                        "text": unit_text(code),
+                        "kind": kind,
+                        "factor": factor,
+                        "offset": _OFFSET.get(code, 0.0),
+                    },
+                )
     return out
+
+
+UNIT_CODES: frozenset[str] = frozenset(unit_table())
+"""Every unit code a reply may carry."""
 
 
 def to_si(value: float, kind: str, unit: str) -> float:

@@ -11,9 +11,9 @@ from collections.abc import Sequence
 from typing import Any, TextIO
 
 from .. import export
+from ..unit_labels import unit_text
 from .documents import accepted_suffixes, read_text_file
 from .engine import call_api, print_errors, warn_unknown
-from .flags import unit_text
 from .numbers import is_number, number_text, plain_number
 from .outputs import check_outputs, digits_option, write_text
 from .render import pad, result_rows, row_label, text_width, with_unit

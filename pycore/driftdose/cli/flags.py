@@ -14,6 +14,7 @@ import re
 from dataclasses import dataclass
 from typing import Any
 
+from ..unit_labels import unit_text
 from .documents import (
     MAX_JSON_DEPTH,
     accepted_suffixes,
@@ -62,18 +63,11 @@ def flag_name(name: str) -> str:
     return "--" + name.replace("_", "-")
 
 
-def unit_text(unit: str) -> str:
-    return "" if unit in ("–", "1", "") else unit
-
-
 def default_text(fd: dict[str, Any]) -> str:
     default = fd.get("default")
     if isinstance(default, dict):
-        unit = next(
-            (u["label"] for u in fd.get("units", []) if u["unit"] == default.get("unit")),
-            default.get("unit", ""),
-        )
-        return f"{js_string(default.get('value'))} {unit_text(unit)}".strip()
+        unit = unit_text(str(default.get("unit", "")))
+        return f"{js_string(default.get('value'))} {unit}".strip()
     if default is None or default == "":
         return "none"
     if isinstance(default, str):

@@ -11,8 +11,8 @@ from collections.abc import Iterable, Sequence
 from typing import Any
 
 from .. import __version__
-from ..api.units import unit_label
-from .flags import default_text, file_alias, flag_name, is_quantity, unit_text
+from ..unit_labels import unit_text
+from .flags import default_text, file_alias, flag_name, is_quantity
 from .numbers import is_number, js_string, number_text
 from .status import PROG
 
@@ -203,11 +203,8 @@ def input_summary(
         elif name in origins:
             shown = f"from {origins[name]}"
         elif isinstance(raw, dict) and is_quantity(fd):
-            unit = next(
-                (u["label"] for u in fd.get("units", []) if u["unit"] == raw.get("unit")),
-                str(raw.get("unit", "")),
-            )
-            shown = f"{js_string(raw.get('value'))} {unit_text(unit)}".strip()
+            unit = unit_text(str(raw.get("unit", "")))
+            shown = f"{js_string(raw.get('value'))} {unit}".strip()
         elif fd.get("kind") == "choice":
             shown = next((c["label"] for c in fd.get("choices", []) if c["value"] == raw), str(raw))
         elif isinstance(raw, str):
@@ -241,7 +238,7 @@ def _item_rows(fd: dict[str, Any], items: list[Any]) -> list[tuple[str, str]]:
             # stage fields have short labels; mode fields are named by their key ("gsd: 1.6")
             label = f.get("label", f["name"]) if spec else f["name"].replace("_", " ")
             if isinstance(value, dict):
-                unit = unit_text(_item_unit_label(f, value.get("unit")))
+                unit = unit_text(str(value.get("unit") or ""))
                 if value.get("value") in (None, ""):
                     continue
                 parts.append(f"{label}: {js_string(value.get('value'))} {unit}".strip())
@@ -255,14 +252,6 @@ def _item_rows(fd: dict[str, Any], items: list[Any]) -> list[tuple[str, str]]:
         title = f"{noun} {i}" + (f" ({spec['label']})" if spec else "")
         rows.append((title, "; ".join(parts)))
     return rows
-
-
-def _item_unit_label(f: dict[str, Any], unit: Any) -> str:
-    for u in f.get("units", []):
-        code, label = (u, unit_label(u)) if isinstance(u, str) else (u["unit"], u["label"])
-        if code == unit:
-            return label
-    return str(unit or "")
 
 
 def describe_text(description: dict[str, Any], kinds: Sequence[str]) -> str:

@@ -8,6 +8,7 @@ import { el } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setAxes, setDatasets } from "../charts.js";
 import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber } from "../format.js";
+import { unitText } from "../units.js";
 
 export const id = "burden";
 const WEIGHTS = [["mass", "Mass"], ["number", "Number"], ["surface", "Surface area"]];
@@ -87,7 +88,7 @@ export function mountSections(root, { engine, forms, deposition }) {
     const w = burdenWeight.value;
     const marks = reply.curves.milestones;
     const table = el("table", { class: "results milestones" });
-    const unit = reply.results[`burden_${marks[0].key}_AI_${w}`].unit;
+    const unit = unitText(reply.results[`burden_${marks[0].key}_AI_${w}`].unit);
     table.append(el("caption", {}, `Retained and cleared ${w === "surface" ? "surface area" : w} (${unit})`));
     const head = el("tr");
     head.append(el("th", { scope: "col" }, "Region"));
@@ -119,9 +120,9 @@ export function mountSections(root, { engine, forms, deposition }) {
     const axes = {
       x: { title: axisTitle(curves.x_label, "days", logTime), type: logTime ? "logarithmic" : "linear",
         tick: logTime ? decadeTicks(timeTick) : undefined, readout: timeTick },
-      y: { title: axisTitle(curves.y_label, curves.y_unit), type: "linear", min: 0 },
+      y: { title: axisTitle(curves.y_label, unitText(curves.y_unit)), type: "linear", min: 0 },
     };
-    burdenUnit = curves.y_unit;
+    burdenUnit = unitText(curves.y_unit);
     if (burdenChart) setAxes(burdenChart, axes);
     else burdenChart = createChart(burdenFigure.canvas, axes, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y, 4)} ${burdenUnit}`) });
     setDatasets(burdenChart, CHART_REGIONS.map((r, i) => {
@@ -134,7 +135,7 @@ export function mountSections(root, { engine, forms, deposition }) {
     }));
     const ai = curves.series.AI;
     burdenFigure.canvas.setAttribute("aria-label",
-      `Line chart of retained ${w} against time; alveolar-interstitial region at the end: ${formatNumber(ai.y[ai.y.length - 1], 3)} ${curves.y_unit}.`);
+      `Line chart of retained ${w} against time; alveolar-interstitial region at the end: ${formatNumber(ai.y[ai.y.length - 1], 3)} ${burdenUnit}.`);
   }
 
   burdenWeight.addEventListener("change", () => burdenReply && (renderMilestones(), renderBurdenChart()));
@@ -213,16 +214,16 @@ export function mountSections(root, { engine, forms, deposition }) {
   function renderRanges() {
     const res = rangesReply.results;
     const w = rangeWeight.value;
-    const unit = res[`range_dose_AI_${w}_p50`].unit;
+    const unit = unitText(res[`range_dose_AI_${w}_p50`].unit);
     const life = Object.keys(res).find((k) => /^range_burden_(life|year)_AI_mass_p50$/.test(k));
     const stem = life ? life.replace(/_p50$/, "") : null;
     const lead = res.range_dose_AI_mass_leading.text;
     const parts = [
-      `Alveolar (AI) mass dose per shift: 5–95 % range ${formatNumber(res.range_dose_AI_mass_p5.value)} to ${formatNumber(res.range_dose_AI_mass_p95.value)} ${res.range_dose_AI_mass_p5.unit}; the input driving the spread most: ${lead}.`,
+      `Alveolar (AI) mass dose per shift: 5–95 % range ${formatNumber(res.range_dose_AI_mass_p5.value)} to ${formatNumber(res.range_dose_AI_mass_p95.value)} ${unitText(res.range_dose_AI_mass_p5.unit)}; the input driving the spread most: ${lead}.`,
     ];
     if (stem) {
       const when = res[`${stem}_p50`].label.split(", ").slice(2, -1).join(", ");
-      parts.push(` Alveolar (AI) mass retained ${when}: median ${formatNumber(res[`${stem}_p50`].value)} ${res[`${stem}_p50`].unit} (5–95 %: ${formatNumber(res[`${stem}_p5`].value)} to ${formatNumber(res[`${stem}_p95`].value)}).`);
+      parts.push(` Alveolar (AI) mass retained ${when}: median ${formatNumber(res[`${stem}_p50`].value)} ${unitText(res[`${stem}_p50`].unit)} (5–95 %: ${formatNumber(res[`${stem}_p5`].value)} to ${formatNumber(res[`${stem}_p95`].value)}).`);
     }
     headline.textContent = parts.join("");
 
@@ -266,7 +267,7 @@ export function mountSections(root, { engine, forms, deposition }) {
       const tr = el("tr", { "data-key": base });
       tr.append(el("th", { scope: "row" }, res[key].label.replace(/, 50th percentile$/, "")));
       for (const tag of ["nominal", "p5", "p50", "p95"]) row(tr, `${base}_${tag}`, res[`${base}_${tag}`]);
-      tr.append(el("td", { class: "unit" }, res[key].unit));
+      tr.append(el("td", { class: "unit" }, unitText(res[key].unit)));
       tr.append(el("td", { "data-key": `${base}_leading` }, res[`${base}_leading`].text));
       bb.append(tr);
     }
@@ -278,7 +279,7 @@ export function mountSections(root, { engine, forms, deposition }) {
   function renderBands() {
     const bands = rangesReply.curves.dose_bands;
     const w = rangeWeight.value;
-    const unit = bands[`${w}_p50`].unit;
+    const unit = unitText(bands[`${w}_p50`].unit);
     const axes = {
       x: { title: "Region", type: "category" },
       y: { title: axisTitle(`Deposited over ${bands.per}`, unit), type: "logarithmic" },

@@ -4,6 +4,7 @@ import { el } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
 import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
+import { fromSI, toSI, unitText, withUnit } from "../units.js";
 
 export const id = "deposition";
 export const title = "Where it lands";
@@ -25,6 +26,7 @@ export function mount(root, { engine, description }) {
   const fields = description.fields.map((f) => (f.name === "modes" ? { ...f, item_label: "a mode" } : f));
   const demos = (fields.find((f) => f.name === "size_source") || {}).demos || [];
   let fractionChart = null;
+  let xUnit = "um"; // unit code of the fraction chart's sizes, as the last reply named it
   let doseChart = null;
   let doseUnit = ""; // read by the dose chart's readout, which outlives one reply
   let lastReply = null;
@@ -64,7 +66,7 @@ export function mount(root, { engine, description }) {
       }
       if (name === "modes" && Array.isArray(raw)) {
         return raw.map((m, i) => {
-          const q = (x) => (x && typeof x === "object" ? `${x.value} ${x.unit}` : String(x));
+          const q = (x) => (x && typeof x === "object" ? withUnit(x.value, x.unit) : String(x));
           const type = m.diameter_type ? ` (${String(m.diameter_type).replace("_", "-")})` : "";
           return `Mode ${i + 1}: by ${m.basis}, median ${q(m.median)}${type}, GSD ${q(m.gsd)}, concentration ${q(m.concentration)}`;
         }).join("; ");
@@ -105,7 +107,7 @@ export function mount(root, { engine, description }) {
     const row2 = el("tr");
     for (const [, label] of METRICS) row2.append(el("th", { scope: "col" }, label.toLowerCase()));
     for (const [metric, label] of METRICS) {
-      const unit = reply.results[`${per}_${bars.keys[0]}_${metric}`]?.unit || "";
+      const unit = unitText(reply.results[`${per}_${bars.keys[0]}_${metric}`]?.unit || "");
       row2.append(el("th", { scope: "col" }, `${label.toLowerCase()} (${unit})`));
     }
     head.append(row1, row2);
@@ -114,11 +116,11 @@ export function mount(root, { engine, description }) {
     bars.keys.forEach((key, i) => {
       const tr = el("tr", { "data-region": key });
       tr.append(el("th", { scope: "row" }, bars.regions[i]));
-      for (const [metric] of METRICS) cell(tr, reply.results[`fraction_${key}_${metric}`], "", `fraction_${key}_${metric}`);
+      for (const [metric] of METRICS) cell(tr, reply.results[`fraction_${key}_${metric}`], "1", `fraction_${key}_${metric}`);
       for (const [metric] of METRICS) {
         const r = reply.results[`${per}_${key}_${metric}`];
         const headUnit = reply.results[`${per}_${bars.keys[0]}_${metric}`]?.unit;
-        cell(tr, r, r && r.unit !== headUnit ? r.unit : "", `${per}_${key}_${metric}`);
+        cell(tr, r, r && r.unit !== headUnit ? r.unit : "1", `${per}_${key}_${metric}`);
       }
       body.append(tr);
     });
@@ -126,21 +128,24 @@ export function mount(root, { engine, description }) {
     regionBox.replaceChildren(table);
   }
 
+  /** A value cell; `unit` the code printed after the number ("1": none, as under a column's unit). */
   function cell(tr, r, unit, key) {
-    const text = r ? `${formatNumber(r.value)}${unit ? ` ${unit}` : ""}` : "—";
+    const text = r ? withUnit(formatNumber(r.value), unit) : "—";
     tr.append(el("td", { class: "value", "data-key": key }, text));
   }
 
   function renderFractionChart(curves) {
+    xUnit = curves.x_unit; // sizes arrive in the unit the reply names
     if (!fractionChart) {
+      const metres = (v) => toSI(v, xUnit);
       fractionChart = createChart(fractionFigure.canvas, {
         // the size ticks carry their units ("10 nm", "1 µm"): the title names the quantity only
-        x: { title: axisTitle(curves.x_label, "µm", true), tick: decadeTicks((v) => lengthTick(v * 1e-6)), readout: (x) => lengthTick(x * 1e-6), min: 1e-3, max: 100 },
+        x: { title: axisTitle(curves.x_label, unitText(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => lengthTick(metres(x)), min: fromSI(1e-9, curves.x_unit), max: fromSI(100e-6, curves.x_unit) },
         y: { title: curves.y_label, type: "linear", min: 0, max: 1 },
         y2: { title: "Your distribution (scaled)", type: "linear", min: 0, max: 1, position: "right", secondary: true },
       }, { readout: (ctx) => readout(ctx.dataset.label, formatNumber(ctx.parsed.y, 3)) });
     }
-    fractionChart.options.scales.x.title.text = axisTitle(curves.x_label, "µm", true);
+    fractionChart.options.scales.x.title.text = axisTitle(curves.x_label, unitText(curves.x_unit), true);
     const sets = [];
     Object.values(curves.deposition).forEach((curve, i) => {
       sets.push({
@@ -163,7 +168,7 @@ export function mount(root, { engine, description }) {
     const per = perSelect.value;
     const data = bars[metric];
     const values = per === "dose" ? data.y : data.per_hour;
-    const unit = per === "dose" ? data.unit : `${data.unit}/h`;
+    const unit = unitText(per === "dose" ? data.unit : `${data.unit}/h`); // codes: "ug", "ug/h"
     const label = per === "dose" ? data.label : data.per_hour_label; // both named by the reply
     const yTitle = `${label} (${unit})`;
     doseUnit = unit;

@@ -5,7 +5,7 @@ import { el, renderField } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
 import { MAX_COMPARED, axisTitle, curvePoints, particleLetter, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
-import { fromSI, toSI, unitLabel } from "../units.js";
+import { fromSI, toSI, unitLabel, unitText, withUnit } from "../units.js";
 
 export const id = "motion";
 export const title = "How it moves";
@@ -175,7 +175,7 @@ export function mount(root, { engine, description }) {
       tr.append(el("th", { scope: "row" }, first.label));
       for (const p of all) {
         const r = p.reply.results[key];
-        const text = !r ? "—" : r.text !== undefined ? r.text : `${formatNumber(r.value)}${r.unit && r.unit !== "–" ? ` ${r.unit}` : ""}`;
+        const text = !r ? "—" : r.text !== undefined ? r.text : withUnit(formatNumber(r.value), r.unit);
         tr.append(el("td", { class: "value", "data-particle": p.letter }, text));
       }
       body.append(tr);
@@ -195,14 +195,14 @@ export function mount(root, { engine, description }) {
     if (!chart) {
       chart = createChart(figure.canvas, {
         // the ticks carry their units ("10 nm", "1 µm"): the titles name the quantity only
-        x: { title: axisTitle(c.x_label, unitLabel(c.x_unit), true), tick: decadeTicks((v) => lengthTick(xm(v))), readout: (x) => lengthTick(xm(x)), min: fromSI(1e-9, c.x_unit), max: fromSI(100e-6, c.x_unit) },
-        y: { title: axisTitle(c.y_label, unitLabel(c.y_unit), true), tick: decadeTicks((v) => lengthTick(ym(v))) },
+        x: { title: axisTitle(c.x_label, unitText(c.x_unit), true), tick: decadeTicks((v) => lengthTick(xm(v))), readout: (x) => lengthTick(xm(x)), min: fromSI(1e-9, c.x_unit), max: fromSI(100e-6, c.x_unit) },
+        y: { title: axisTitle(c.y_label, unitText(c.y_unit), true), tick: decadeTicks((v) => lengthTick(ym(v))) },
       }, {
         // a marker holds a particle's two points: each named by its own series
         readout: (ctx) => readout(ctx.dataset.pointNames?.[ctx.dataIndex] ?? ctx.dataset.label, lengthTick(ym(ctx.parsed.y))),
       });
     }
-    chart.options.scales.x.title.text = axisTitle(c.x_label, unitLabel(c.x_unit), true);
+    chart.options.scales.x.title.text = axisTitle(c.x_label, unitText(c.x_unit), true);
     const many = compared.length > 0;
     const datasets = [
       line(c, c.brownian, 0), line(c, c.settling, 1),
@@ -227,19 +227,11 @@ export function mount(root, { engine, description }) {
   function scenarioText() {
     const letters = compared.map((p) => {
       const own = OWN_FIELDS.map((n) => p.inputs[n]).filter((v) => v && typeof v === "object")
-        .map((v) => `${v.value} ${labelOf(v.unit)}`.trim());
+        .map((v) => withUnit(v.value, v.unit));
       return `Particle ${p.letter}: ${own.join(", ")}`;
     });
     const line = panel.scenario(SCENARIO);
     return [compared.length ? `Particle A: ${line}` : line, ...letters].filter(Boolean).join(" · ");
-  }
-
-  function labelOf(unit) {
-    for (const f of ownFields) {
-      const u = (f.units || []).find((x) => x.unit === unit);
-      if (u) return u.label === "–" ? "" : u.label;
-    }
-    return unit || "";
   }
 
   // the compared particles are inputs of the record too
@@ -251,7 +243,7 @@ export function mount(root, { engine, description }) {
       value: OWN_FIELDS.map((n) => {
         const f = ownFields.find((x) => x.name === n);
         const v = p.inputs[n];
-        return f && v && typeof v === "object" ? `${f.label} ${v.value}${labelOf(v.unit) ? ` ${labelOf(v.unit)}` : ""}` : "";
+        return f && v && typeof v === "object" ? `${f.label} ${withUnit(v.value, v.unit)}` : "";
       }).filter(Boolean).join("; "),
       unit: "",
     })),

@@ -7,7 +7,7 @@ import { el, renderField } from "../forms.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setAxes, setDatasets } from "../charts.js";
 import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
-import { fromSI, toSI, unitLabel } from "../units.js";
+import { fromSI, toSI, unitLabel, unitText, withUnit } from "../units.js";
 
 export const id = "sampling";
 export const title = "What the sampler sees";
@@ -271,9 +271,7 @@ function chainEditor(field, onChange) {
             const choice = (f.choices || []).find((c) => c.value === v);
             parts.push(`${f.label}: ${choice ? choice.label : String(v)}`);
           } else if (isObject(v)) {
-            const unit = (f.units || []).find((u) => u.unit === v.unit);
-            const label = unit ? unit.label : String(v.unit ?? "");
-            parts.push(`${f.label}: ${v.value}${label && label !== "–" ? ` ${label}` : ""}`);
+            parts.push(`${f.label}: ${withUnit(v.value, v.unit)}`);
           } else {
             parts.push(`${f.label}: ${String(v)}`);
           }
@@ -369,7 +367,7 @@ export function mount(root, { engine, description }) {
       if (row.name && !row.name.includes(row.type_label)) name.append(el("span", { class: "note" }, ` (${row.type_label.toLowerCase()})`));
       tr.append(name);
       row.penetration_at.forEach((p, j) => tr.append(el("td", { class: "value", "data-key": `stage-${row.index}-${j}` }, percent(p))));
-      const halves = row.half_penetration_sizes.map((q) => `${formatNumber(q.value)} ${q.unit}`).join(", ") || "none in 1 nm – 100 µm";
+      const halves = row.half_penetration_sizes.map((q) => withUnit(formatNumber(q.value), q.unit)).join(", ") || "none in 1 nm – 100 µm";
       tr.append(el("td", { class: "halves" }, halves));
       body.append(tr);
     }
@@ -408,13 +406,13 @@ export function mount(root, { engine, description }) {
     if (!penetrationChart) {
       penetrationChart = createChart(penetrationFigure.canvas, {
         // the size ticks carry their units ("10 nm", "1 µm"): the title names the quantity only
-        x: { title: axisTitle(curves.x_label, unitLabel(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => lengthTick(metres(x)), min: fromSI(1e-9, curves.x_unit), max: fromSI(100e-6, curves.x_unit) },
+        x: { title: axisTitle(curves.x_label, unitText(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => lengthTick(metres(x)), min: fromSI(1e-9, curves.x_unit), max: fromSI(100e-6, curves.x_unit) },
         y: { title: "Penetration (fraction passing)", type: "linear", min: 0, max: 1 },
       }, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y * 100, 3)} %`) });
       // the whole chain is drawn under the stages (dataset order), but listed after them
       penetrationChart.options.plugins.legend.labels.sort = (a, b) => a.datasetIndex - b.datasetIndex;
     }
-    penetrationChart.options.scales.x.title.text = axisTitle(curves.x_label, unitLabel(curves.x_unit), true);
+    penetrationChart.options.scales.x.title.text = axisTitle(curves.x_label, unitText(curves.x_unit), true);
     const sets = curves.stages.map((curve, i) => ({
       label: `${curve.index + 1}. ${stageName(curve)}`, data: curvePoints(curves, curve), borderColor: seriesColour(i + 1), backgroundColor: seriesColour(i + 1),
       pointRadius: 0, borderWidth: 2, borderDash: [5, 3 + 2 * (i % 3)], order: 1,
@@ -506,8 +504,8 @@ export function mount(root, { engine, description }) {
     // concentration ticks are bare numbers (so that title names the unit)
     const metres = (v) => toSI(v, curves.x_unit); // sizes arrive in the unit the reply names
     const axes = {
-      x: { title: axisTitle(curves.x_label, unitLabel(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => `${lengthTick(metres(x))}${aero ? " aerodynamic" : ""}` },
-      y: { title: axisTitle(curves.y_label, unitLabel(curves.y_unit)), tick: decadeTicks((v) => formatNumber(v, 2)) },
+      x: { title: axisTitle(curves.x_label, unitText(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => `${lengthTick(metres(x))}${aero ? " aerodynamic" : ""}` },
+      y: { title: axisTitle(curves.y_label, unitText(curves.y_unit)), tick: decadeTicks((v) => formatNumber(v, 2)) },
     };
     if (spectrumChart) setAxes(spectrumChart, axes);
     else spectrumChart = createChart(spectrumFigure.canvas, axes, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y, 4)} ${spectrumUnit}`) });
