@@ -7,6 +7,7 @@ import re
 import pytest
 
 from driftdose import api
+from driftdose.unit_labels import unit_text
 
 from .conftest import ARTIFACTS, screenshot, wait_ready
 from .helpers import parse_shown, png_size, png_text, round_sig, table_values
@@ -77,7 +78,7 @@ def test_numbers_shown_equal_core(page, base_url):
             continue
         value, unit = shown[key]
         assert parse_shown(value) == pytest.approx(round_sig(row["value"]), rel=1e-12), key
-        assert unit == ("" if row["unit"] == "–" else row["unit"]), key
+        assert unit == unit_text(row["unit"]), key  # the table's label of the code
         compared += 1
     assert compared >= 15
 
@@ -242,7 +243,7 @@ def test_compare_three_particles_against_the_core(page, base_url):
             assert m, text
             value, unit = m.group(1), m.group(2) or ""
             assert parse_shown(value) == pytest.approx(round_sig(row["value"]), rel=1e-12), key
-            assert unit == ("" if row["unit"] == "–" else row["unit"]), key
+            assert unit == unit_text(row["unit"]), key  # the table's label of the code
     assert len(shown["B"]) >= 10
     labels = page.evaluate(
         "() => Chart.getChart(document.querySelector('#panel-motion canvas'))"

@@ -24,6 +24,7 @@ from pathlib import Path
 import pytest
 
 from driftdose import api
+from driftdose.unit_labels import unit_text
 
 from .conftest import ARTIFACTS, new_watched_page, screenshot, wait_ready
 from .helpers import parse_shown, round_sig
@@ -211,7 +212,7 @@ def test_logged_file_periods_typed_and_dragged_match_the_core(watched, base_url,
     twa = reply["results"]["twa8h"]
     shown = page.locator("#panel-shift table.results tr[data-key=twa8h] td.value").inner_text()
     assert parse_shown(shown) == pytest.approx(round_sig(twa["value"]), rel=1e-9)
-    assert twa["unit"] in page.locator("#panel-shift tr[data-key=twa8h]").inner_text()
+    assert unit_text(twa["unit"]) in page.locator("#panel-shift tr[data-key=twa8h]").inner_text()
     words = page.locator("#panel-shift .shift-words").inner_text()
     assert "8-h time-weighted average" in words
     assert "mean of the periods marked as background" in words.lower() or "Background:" in words
