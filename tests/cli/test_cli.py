@@ -9,6 +9,7 @@ installed) and with an independent rounding written here from the ECMAScript def
 from __future__ import annotations
 
 import csv
+import hashlib
 import io
 import json
 import math
@@ -653,8 +654,16 @@ def test_main_every_calculation_runs_with_defaults(capsys, tmp_path):
             flags = _file_flags(kind, tmp_path)
             code, out, err = run_main(capsys, kind, "--format", "json", *flags)
             assert code == 0, (kind, err)
-            inputs = {NEEDS_FILE[kind]: INVENTED_LOG}
+            data = INVENTED_LOG.encode("utf-8")
+            # the file's name and SHA-256 are recorded beside its text, as the page does
+            record = {
+                "name": f"{kind}-log.csv",
+                "sha256": hashlib.sha256(data).hexdigest(),
+                "bytes": len(data),
+            }
+            inputs = {NEEDS_FILE[kind]: INVENTED_LOG, "series_file": record}
             assert json.loads(out) == api.handle({"kind": kind, "inputs": inputs})
+            assert json.loads(out)["results"]["import"]["file"] == record
             continue
         assert code == 0, (kind, err)
         assert json.loads(out) == api.handle({"kind": kind, "inputs": {}})

@@ -4,10 +4,17 @@ file: the same numbers as the api, one row per file."""
 from __future__ import annotations
 
 import csv
+import hashlib
 import io
 import json
 
 from driftdose import api, cli
+
+
+def file_record(path) -> dict:
+    """What the CLI records of a file it reads: name, SHA-256 of the bytes, size."""
+    data = path.read_bytes()
+    return {"name": path.name, "sha256": hashlib.sha256(data).hexdigest(), "bytes": len(data)}
 
 
 def run_main(capsys, *argv: str) -> tuple[int, str, str]:
@@ -56,6 +63,7 @@ def test_shift_subcommand_runs_a_file(capsys, tmp_path):
     reply = json.loads(out)
     inputs = {
         "series_text": invented_day(1000.0),
+        "series_file": file_record(log),
         "quantity_columns": COLUMNS,
         "periods": PERIODS,
         "background_method": "marked_mean",
@@ -96,8 +104,10 @@ def test_batch_over_a_folder_with_one_periods_file(capsys, tmp_path):
     for row, level in zip(body, levels.values(), strict=True):
         # the same clock times on each file's own date; 7 h of the shift measured, the
         # unmeasured hour of the 8 h counted as zero
+        path = folder / row[0].rsplit("/", 1)[-1]
         inputs = {
-            "series_text": (folder / row[0].rsplit("/", 1)[-1]).read_text(encoding="utf-8"),
+            "series_text": path.read_text(encoding="utf-8"),
+            "series_file": file_record(path),
             "quantity_columns": COLUMNS,
             "periods": PERIODS,
         }
@@ -146,6 +156,7 @@ def test_periods_from_a_csv_task_log_equal_the_same_periods_in_json(capsys, tmp_
     assert code == 0, err
     inputs = {
         "series_text": invented_day(1000.0),
+        "series_file": file_record(log),
         "quantity_columns": COLUMNS,
         "periods": PERIODS_FROM_CSV,
         "background_method": "marked_mean",
@@ -176,13 +187,17 @@ def test_batch_takes_one_csv_task_log_for_every_file(capsys, tmp_path):
     )
     assert code == 0, err
     for row in json.loads(out):
+        path = folder / row["file"].rsplit("/", 1)[-1]
         inputs = {
-            "series_text": (folder / row["file"].rsplit("/", 1)[-1]).read_text("utf-8"),
+            "series_text": path.read_text("utf-8"),
+            "series_file": file_record(path),
             "quantity_columns": COLUMNS,
             "periods": PERIODS_FROM_CSV,
         }
         expected = api.handle({"kind": "shift", "inputs": inputs})
         assert {k: v for k, v in row.items() if k != "file"} == expected
+        # each row records its own file's name and SHA-256
+        assert row["results"]["import"]["file"] == file_record(path)
 
 
 def test_a_malformed_task_log_is_refused_with_its_line_and_nothing_runs(capsys, tmp_path):

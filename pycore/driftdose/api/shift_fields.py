@@ -44,7 +44,11 @@ def _file_fields(prefix: str, label: str, far: bool) -> tuple[Field, ...]:
             required=False,
             help="Plain text table with a time column; commas, semicolons or tabs; notes above "
             "the header row are skipped; at most 5 MB.",
-            extra={"max_bytes": MAX_BYTES, "accept": ".csv,.txt,.tsv"},
+            extra={
+                "max_bytes": MAX_BYTES,
+                "accept": ".csv,.txt,.tsv",
+                "record_field": f"{prefix}file",
+            },
         ),
         Field(f"{prefix}file", f"{label}: name and SHA-256", "data", None, required=False),
         Field(

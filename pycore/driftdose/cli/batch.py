@@ -12,7 +12,7 @@ from typing import Any, TextIO
 
 from .. import export
 from ..unit_labels import unit_text
-from .documents import accepted_suffixes, read_text_file
+from .documents import accepted_suffixes, file_record, read_decoded
 from .engine import call_api, print_errors, warn_unknown
 from .numbers import is_number, number_text, plain_number
 from .outputs import check_outputs, digits_option, write_text
@@ -66,8 +66,12 @@ def run_batch(
     records: list[tuple[str, dict[str, Any]]] = []
     for path in opts.files:
         try:
-            text = read_text_file(path, name, file_field.get("max_bytes"))
-            reply = call_api(kind, {**base, name: text})
+            decoded = read_decoded(path, name, file_field.get("max_bytes"))
+            inputs = {**base, name: decoded.text}
+            record = file_field.get("record_field")
+            if isinstance(record, str):  # each file's own name and SHA-256, as the page
+                inputs[record] = file_record(path, decoded)
+            reply = call_api(kind, inputs)
         except UserError as exc:
             reply = {"ok": False, "errors": [{"field": exc.field, "message": exc.message}]}
         if not reply.get("ok"):

@@ -74,6 +74,18 @@ def read_text_file(path: str, field: str, limit: int | None = None) -> str:
     so the api sees the very text the page would send; a file over ``limit`` bytes (the
     field's ``max_bytes``) is refused, as the page refuses it, before it is read.
     """
+    return read_decoded(path, field, limit).text
+
+
+def file_record(path: str, decoded: textfile.DecodedText) -> dict[str, Any]:
+    """``{name, sha256, bytes}`` of a file read, as the page records a picked file (the name
+    without its folder, the SHA-256 of its bytes)."""
+    name = "standard input" if path == "-" else os.path.basename(path)
+    return {"name": name[:200], "sha256": decoded.sha256, "bytes": decoded.size}
+
+
+def read_decoded(path: str, field: str, limit: int | None = None) -> textfile.DecodedText:
+    """:func:`read_text_file` with what the decoder found (size, SHA-256, notes)."""
     if limit is not None and path != "-":
         try:
             size = Path(path).stat().st_size
@@ -83,7 +95,7 @@ def read_text_file(path: str, field: str, limit: int | None = None) -> str:
             raise UserError(field, textfile.too_large(size, limit, path))
     data = _read_bytes(path, field)
     try:
-        return textfile.decode_text(data, MAX_FILE_BYTES if limit is None else limit).text
+        return textfile.decode_text(data, MAX_FILE_BYTES if limit is None else limit)
     except textfile.TextFileError as exc:
         name = "standard input" if path == "-" else repr(path)
         raise UserError(field, f"{name}: {exc.message}") from None

@@ -18,8 +18,10 @@ from ..unit_labels import unit_text
 from .documents import (
     MAX_JSON_DEPTH,
     accepted_suffixes,
+    file_record,
     json_depth_over,
     parse_json_text,
+    read_decoded,
     read_text_file,
     too_deep,
 )
@@ -218,8 +220,12 @@ def flag_inputs(
             inputs[name] = {"value": value, "unit": unit}
         elif is_file_field(fd):
             path = raw.removeprefix("@")
-            inputs[name] = read_text_file(path, name, fd.get("max_bytes"))
+            decoded = read_decoded(path, name, fd.get("max_bytes"))
+            inputs[name] = decoded.text
             origins[name] = path
+            record = fd.get("record_field")
+            if isinstance(record, str) and f"field:{record}" not in given:
+                inputs[record] = file_record(path, decoded)  # name and SHA-256, as the page
             choice, value = source_choice(fd)
             if choice and f"field:{choice}" not in given:
                 inputs[choice] = value  # a file given means: use it (as choosing it on the page)

@@ -210,6 +210,11 @@ def input_summary(
         elif isinstance(raw, str):
             lines = raw.count("\n") + 1
             shown = raw if lines == 1 and len(raw) <= 60 else f"(text, {lines} lines)"
+        elif isinstance(raw, dict) and isinstance(raw.get("sha256"), str) and "name" in raw:
+            # a file's record: its name and the SHA-256 of its bytes, in full
+            size = raw.get("bytes")
+            shown = f"{str(raw['name'])[:80]}, SHA-256 {raw['sha256'][:64]}"
+            shown += f", {size} bytes" if isinstance(size, int) else ""
         else:
             text = json.dumps(raw, ensure_ascii=False)
             n = len(raw) if isinstance(raw, list) else len(text)
