@@ -16,7 +16,8 @@ Numerics: a lognormal mode is integrated by the trapezoidal rule on a uniform gr
 that covers the number, surface and mass distributions alike (so a model is evaluated once
 per size for all three weights); for a Gaussian weight the rule converges exponentially,
 and the tests check 1e-6 relative agreement with ``scipy.integrate.quad``. Gauss–Hermite
-nodes (:func:`gauss_hermite`) are offered for integrals of narrow, smooth integrands.
+nodes (:func:`gauss_hermite`, from :mod:`driftdose._numerics`) are offered for integrals of
+narrow, smooth integrands.
 Surface area and mass assume spheres of the volume-equivalent diameter.
 """
 
@@ -27,7 +28,8 @@ import itertools
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
+
+from ._numerics import gauss_hermite
 
 __all__ = [
     "GSD_MAX",
@@ -110,65 +112,6 @@ def lognormal_pdf_ln(d: float, median: float, gsd: float) -> float:
     s = math.log(gsd)
     z = (math.log(d) - math.log(median)) / s
     return math.exp(-0.5 * z * z) / (math.sqrt(2.0 * math.pi) * s)
-
-
-@lru_cache(maxsize=16)
-def gauss_hermite(n: int) -> tuple[tuple[float, ...], tuple[float, ...]]:
-    """Nodes and weights of ``n``-point Gauss–Hermite quadrature (weight exp(-x^2)).
-
-    Parameters
-    ----------
-    n : int
-        Number of nodes (2 to 200).
-
-    Returns
-    -------
-    tuple
-        (nodes, weights), ascending nodes; sum(w f(x)) approximates the integral of
-        exp(-x^2) f(x) over the real line.
-
-    Notes
-    -----
-    Newton iteration on the orthonormal Hermite recurrence with the classic initial guesses
-    (Press et al. 2007, Numerical Recipes, 3rd ed., section 4.6, routine ``gauher``).
-    The tests compare with ``numpy.polynomial.hermite.hermgauss``.
-
-    """
-    if not 2 <= n <= 200:
-        raise ValueError("n must be between 2 and 200")
-    pim4 = math.pi**-0.25
-    m = (n + 1) // 2
-    x = [0.0] * n
-    w = [0.0] * n
-    z = 0.0
-    for i in range(m):
-        if i == 0:
-            z = math.sqrt(2.0 * n + 1.0) - 1.85575 * (2.0 * n + 1.0) ** (-0.16667)
-        elif i == 1:
-            z -= 1.14 * n**0.426 / z
-        elif i == 2:
-            z = 1.86 * z - 0.86 * x[0]
-        elif i == 3:
-            z = 1.91 * z - 0.91 * x[1]
-        else:
-            z = 2.0 * z - x[i - 2]
-        pp = 0.0
-        for _ in range(100):
-            p1, p2 = pim4, 0.0
-            for j in range(n):
-                p3 = p2
-                p2 = p1
-                p1 = z * math.sqrt(2.0 / (j + 1)) * p2 - math.sqrt(j / (j + 1)) * p3
-            pp = math.sqrt(2.0 * n) * p2
-            z1 = z
-            z = z1 - p1 / pp
-            if abs(z - z1) <= 1e-15 * max(1.0, abs(z)):
-                break
-        x[i] = z
-        x[n - 1 - i] = -z
-        w[i] = w[n - 1 - i] = 2.0 / (pp * pp)
-    pairs = sorted(zip(x, w, strict=True))
-    return tuple(p[0] for p in pairs), tuple(p[1] for p in pairs)
 
 
 def _check_weight(weight: str) -> int:

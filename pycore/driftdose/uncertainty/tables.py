@@ -13,9 +13,9 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
-from .._numerics import logspace
+from .._numerics import gauss_hermite, logspace
 from ..deposition import Subject
-from ..distribution import WEIGHTS, gauss_hermite, parts
+from ..distribution import WEIGHTS, parts
 from ..dose import deposition_curves
 from ..retention.rates import slow_fraction
 from .spreads import Spread
