@@ -24,7 +24,7 @@ from .dose_rows import dose_bars, region_rows
 from .exposure_fields import EXPOSURE_FIELDS, MEDIAN_WORDS, MODE_FIELDS, aerosol_of, subject_of
 from .fields import Field, FieldError
 from .labels import COORDINATE_WORDS, DIAMETER_TYPE_WORDS, REGION_LABELS
-from .reply import row, shared_axis, text_result
+from .reply import quantity, row, shared_axis, text_result
 from .spectrum_fields import import_row, import_warnings
 
 __all__ = ["DEMOS", "FIELDS", "MODE_FIELDS", "TITLE", "compute", "demo_scenarios", "run"]
@@ -127,12 +127,8 @@ def _results(result: Deposition, report: dict[str, Any] | None) -> dict[str, Any
     }
     for w in ("mass", "number"):
         for key, label in _ISO_LABELS.items():
-            out[f"iso7708_{key}_{w}"] = row(
-                f"Share of airborne {w} in the ISO 7708 {label} fraction",
-                result.shares[w][key],
-                1.0,
-                "1",
-                "1",
+            out[f"iso7708_{key}_{w}"] = quantity(
+                f"Share of airborne {w} in the ISO 7708 {label} fraction", result.shares[w][key]
             )
     if report is not None:
         out["csv_rows"] = import_row(report)

@@ -10,7 +10,7 @@ from typing import Any
 
 from ..dose import DoseResult
 from .labels import REGION_LABELS, WEIGHT_WORDS
-from .reply import row
+from .reply import quantity, row
 
 __all__ = ["DOSE_UNITS", "dose_bars", "region_rows"]
 
@@ -42,12 +42,8 @@ def region_rows(res: DoseResult) -> dict[str, Any]:
     for r in res.regions:
         name = REGION_LABELS[r]
         for w in ("number", "surface", "mass"):
-            out[f"fraction_{r}_{w}"] = row(
-                f"{name}: deposited fraction by {WEIGHT_WORDS[w]}",
-                res.fractions[r][w],
-                1.0,
-                "1",
-                "1",
+            out[f"fraction_{r}_{w}"] = quantity(
+                f"{name}: deposited fraction by {WEIGHT_WORDS[w]}", res.fractions[r][w]
             )
         for w in ("number", "surface", "mass"):
             factor, unit, si_unit = DOSE_UNITS[w]

@@ -19,6 +19,7 @@ from ..sources import cite
 from ..tables import Table, describe_table
 from .deposition import REGION_LABELS
 from .fields import FieldError
+from .reply import row, text_result
 from .shift_inputs import SI_UNITS, quantity_scale
 from .spectrum_fields import import_spectrum, spectrum_aerosol
 
@@ -245,17 +246,10 @@ def _at_points(series: TimeSeries, values: Any, ts: list[float], f: float) -> li
 
 
 def _plain(label: str, si: float | None, f: float, unit: str, si_unit: str, note: str = "") -> Any:
+    """A result row in ``unit`` (``si / f``), or "not available" without a value."""
     if si is None:
-        return {"label": label, "text": "not available", "note": note}
-    return {
-        "label": label,
-        "symbol": "",
-        "value": si / f,
-        "unit": unit,
-        "si": si,
-        "si_unit": si_unit,
-        "note": note,
-    }
+        return text_result(label, "not available", note)
+    return row(label, si, f, unit, si_unit, note=note)
 
 
 def shape(

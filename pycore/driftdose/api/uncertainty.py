@@ -41,7 +41,7 @@ from .exposure_fields import particle_description
 from .fields import Field, FieldError
 from .labels import REGION_LABELS, WEIGHT_WORDS
 from .range_fields import BLOCK, INPUT_LABELS, RANGE_FIELDS
-from .reply import row
+from .reply import quantity, row
 
 TITLE = "Ranges of dose and retained burden (uncertainty)"
 
@@ -274,7 +274,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     progress = {"done": have, "total": n}
     if have < n:
         return {
-            "results": {"progress": row(f"Samples computed (of {n})", float(have), 1.0, "1", "1")},
+            "results": {"progress": quantity(f"Samples computed (of {n})", float(have))},
             "curves": {"progress": progress},
             "warnings": [],
             "sources": [],
