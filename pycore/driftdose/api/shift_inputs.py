@@ -169,9 +169,9 @@ MODE_FIELDS: tuple[Field, ...] = (
 """Sub-fields of a lognormal mode giving the shape of a task's size distribution."""
 
 
-def unit_text(unit: str) -> str:
-    """Label of a unit of :data:`QUANTITY_UNITS`."""
-    return unit_label(unit)
+def _offered(quantity: str) -> str:
+    """The units accepted for ``quantity``, labelled, for a refusal's message."""
+    return ", ".join(unit_label(u) for u in QUANTITY_UNITS[quantity])
 
 
 def canonical(quantity: str, unit: Any) -> str | None:
@@ -228,7 +228,7 @@ def column_records(
         if rec.get("unit"):
             unit = canonical(quantity, rec["unit"]) or ""
             if not unit:
-                offered = ", ".join(unit_text(u) for u in QUANTITY_UNITS[quantity])
+                offered = _offered(quantity)
                 raise FieldError(
                     f"{path}.unit",
                     f"{where}: unknown unit {str(rec['unit'])[:20]!r}; use one of {offered}.",
@@ -257,7 +257,7 @@ def parse_benchmark(raw: Any, quantity: str, field: str = "benchmark") -> float 
         raise FieldError(field, "The benchmark is a value and its unit.")
     unit = canonical(quantity, unit_raw if unit_raw is not None else DEFAULT_UNIT[quantity])
     if unit is None:
-        offered = ", ".join(unit_text(u) for u in QUANTITY_UNITS[quantity])
+        offered = _offered(quantity)
         raise FieldError(
             field, f"The benchmark's unit must be one of {offered} (the summarised quantity's)."
         )
