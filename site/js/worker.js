@@ -11,11 +11,8 @@
 // a wheel missing from the server means the server holds another build, and the worker says so.
 //
 // Nothing waits for what it does not need: build-info.json is asked for as the worker starts,
-// and the snapshot and the engine's files as soon as it answers, before the page has named its
-// wheel (the page, boot.js, sends it before its own modules have loaded); the wheel is checked
-// while the snapshot loads, and the snapshot is restored only once the page's wheel is the one
-// build-info.json names (otherwise the fetched snapshot is dropped: the page is of another
-// build). Phase marks (ms since the epoch) go with "ready".
+// the page's wheel is checked while the snapshot loads, and the page (boot.js) sends the wheel
+// before its own modules have loaded. Phase marks (ms since the epoch) go with "ready".
 //
 // Start-up: when build-info.json names a memory snapshot (the engine started at build time with
 // the package imported, see build.py), the engine restores it instead of starting Python. The
@@ -69,7 +66,7 @@ async function ownWheel(path) {
   return path;
 }
 
-async function fromSnapshot(info, pageWheel) {
+async function fromSnapshot(info) {
   const snapshot = fetch(new URL(info.snapshot.file, base))
     .then((r) => {
       if (!r.ok) throw new Error(`snapshot: HTTP ${r.status}`);
@@ -79,16 +76,11 @@ async function fromSnapshot(info, pageWheel) {
       marks.snapshotFetched = stamp();
       return expandSparse(buffer);
     });
-  // restored only once the page has named its wheel and it is the one the snapshot holds
-  const memory = Promise.all([snapshot, pageWheel]).then(([bytes, wheel]) => {
-    if (wheel !== info.wheel) throw new OtherBuild();
-    return bytes;
-  });
-  memory.catch(() => {}); // handled where loadPyodide awaits it; not an unhandled rejection
+  snapshot.catch(() => {}); // handled where loadPyodide awaits it; not an unhandled rejection
   const pyodide = await loadPyodide({
     indexURL,
     packages: [],
-    _loadSnapshot: memory,
+    _loadSnapshot: snapshot,
     fsInit: async () => { marks.engineStarted = stamp(); },
   });
   marks.bootstrapped = stamp();
@@ -101,9 +93,6 @@ async function fromSnapshot(info, pageWheel) {
   pyodide.runPython("import sys\nif 'random' in sys.modules: sys.modules['random'].seed()");
   return pyodide;
 }
-
-/** build-info.json describes another build than this page's: its snapshot is not for us. */
-class OtherBuild extends Error {}
 
 async function normalStart(info) {
   const pyodide = await loadPyodide({
@@ -122,34 +111,30 @@ async function normalStart(info) {
 async function start() {
   const t0 = performance.now();
   progress(10, "Loading the Python runtime…");
-  // the page's wheel arrives with "init"; the snapshot's files are asked for before that (the
-  // snapshot is restored only once the page's wheel is known to be the one it holds)
-  const pageWheel = initialised.then((data) => {
-    marks.initReceived = stamp();
-    return data.wheel;
-  });
-  const wheelChecked = pageWheel.then(ownWheel);
+  const wheel = (await initialised).wheel;
+  marks.initReceived = stamp();
+  const wheelChecked = ownWheel(wheel);
   wheelChecked.catch(() => {}); // awaited below, before anything is used
   const deployed = await served;
   marks.infoFetched = stamp();
+  // the snapshot only when build-info.json describes this page's build (same wheel)
+  const info = typeof wheel === "string" && deployed.wheel === wheel ? deployed : { wheel };
   let pyodide = null;
   let how = "normal";
   let refused = "";
-  if (deployed.snapshot && typeof deployed.wheel === "string") {
+  if (info.snapshot) {
     try {
-      pyodide = await fromSnapshot(deployed, pageWheel);
+      pyodide = await fromSnapshot(info);
       how = "snapshot";
     } catch (err) {
-      if (!(err instanceof OtherBuild)) {
-        refused = String(err && err.message ? err.message : err);
-        console.warn(`Engine snapshot not used (${refused}); starting the engine normally.`);
-      }
+      refused = String(err && err.message ? err.message : err);
+      console.warn(`Engine snapshot not used (${refused}); starting the engine normally.`);
     }
   }
   // the page's own engine is on the server, or nothing is used (a missing wheel: the server
   // holds another build; the page says so)
-  const wheel = await wheelChecked;
-  if (!pyodide) pyodide = await normalStart({ wheel });
+  await wheelChecked;
+  if (!pyodide) pyodide = await normalStart(info);
   const tRuntime = performance.now() - t0;
   progress(90, "Preparing…");
   const api = pyodide.pyimport("driftdose.api");

@@ -274,7 +274,12 @@ def _serve_counting(build, root: Path, counter: _Counter, link: _Link | None = N
 
 
 def _time_to_ready(
-    context, url: str, phases: bool = False, counter: _Counter | None = None, in_page: bool = False
+    context,
+    url: str,
+    phases: bool = False,
+    counter: _Counter | None = None,
+    in_page: bool = False,
+    keep_open: bool = False,
 ):
     page = context.new_page()
     t0 = time.perf_counter()
@@ -286,7 +291,8 @@ def _time_to_ready(
             "() => JSON.parse(document.documentElement.dataset.engineMarks || '{}')"
             ".packageImported - performance.timeOrigin"
         )
-        page.close()
+        if not keep_open:
+            page.close()
         return elapsed, ready_ms
     if counter is not None:  # before the service worker's precaching starts
         counter.until_ready = dict(counter.sent)
@@ -347,19 +353,22 @@ def _profile_visits(
                     args=CHROMIUM_ARGS,
                     service_workers="block" if block_sw else "allow",
                 )
-                elapsed, ready_ms = _time_to_ready(ctx, base + variant + "/", in_page=True)
+                stay = visit is first and not block_sw
+                elapsed, ready_ms = _time_to_ready(
+                    ctx, base + variant + "/", in_page=True, keep_open=stay
+                )
                 visit.append(elapsed)
                 in_page[id(visit)].append(ready_ms)
-                if visit is first and not block_sw:
-                    page = ctx.new_page()  # let the service worker finish precaching
-                    page.goto(base + variant + "/")
-                    page.wait_for_selector("html[data-engine='ready']", timeout=180_000)
+                if stay:  # the same page stays while the service worker caches the build
+                    page = ctx.pages[-1]
                     page.evaluate(
                         "async () => { const r = await navigator.serviceWorker.ready;"
                         " return r.active && r.active.state; }"
                     )
                     if warms:  # and the engine's script compiled once through it (app.js)
-                        page.wait_for_selector("html[data-engine-code='warm']", timeout=180_000)
+                        page.wait_for_selector(
+                            "html[data-engine-code='warm']", state="attached", timeout=180_000
+                        )
                     page.close()
                 ctx.close()
     page_first = statistics.median(in_page[id(first)])
