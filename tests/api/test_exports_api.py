@@ -119,18 +119,27 @@ def test_curves_part_and_structured_inputs_each_item_field_its_own_row():
     assert table == export.curves_csv(reply)
 
 
-def test_imported_text_is_named_by_size_and_sha256_not_copied():
-    text = "diameter_nm,dN/dlogDp\n10,1000\n20,3000\n50,2000\n100,500\n"
+SPECTRUM_TEXT = "diameter_nm,dN/dlogDp\n10,1000\n20,3000\n50,2000\n100,500\n"
+
+
+def _spectrum_export_rows(source_key: str) -> tuple[dict, dict]:
+    """Export of a deposition on SPECTRUM_TEXT, its choice of source under ``source_key``:
+    the reply and its input rows by name (the header block after its six fixed rows)."""
     inputs = {
-        "size_source": "csv",
-        "csv_text": text,
+        source_key: "csv",
+        "csv_text": SPECTRUM_TEXT,
         "csv_diameter_column": "diameter_nm",
         "csv_concentration_column": "dN/dlogDp",
     }
     out, _ = _export("deposition", inputs)
     assert out["ok"], out
     head, _ = _split(out["text"])
-    rows = {r[1]: r for r in head[6:]}
+    return out, {r[1]: r for r in head[6:]}
+
+
+def test_imported_text_is_named_by_size_and_sha256_not_copied():
+    text = SPECTRUM_TEXT
+    out, rows = _spectrum_export_rows("size_source")
     digest = hashlib.sha256(text.encode("utf-8")).hexdigest()
     assert rows["csv_text"][3] == f"imported text, {len(text)} bytes as UTF-8, SHA-256 {digest}"
     assert "10,1000" not in out["text"].split("\r\n\r\n")[0]
@@ -140,17 +149,8 @@ def test_imported_text_is_named_by_size_and_sha256_not_copied():
 
 
 def test_input_under_a_former_name_is_written_under_todays_name():
-    text = "diameter_nm,dN/dlogDp\n10,1000\n20,3000\n50,2000\n100,500\n"
-    inputs = {
-        "distribution_source": "csv",  # the name before size_source; links still carry it
-        "csv_text": text,
-        "csv_diameter_column": "diameter_nm",
-        "csv_concentration_column": "dN/dlogDp",
-    }
-    out, _ = _export("deposition", inputs)
-    assert out["ok"], out
-    head, _ = _split(out["text"])
-    rows = {r[1]: r for r in head[6:]}
+    # distribution_source: the name before size_source; links still carry it
+    _, rows = _spectrum_export_rows("distribution_source")
     assert rows["size_source"][5] == "csv" and "distribution_source" not in rows
     assert "csv_text" in rows and "modes[1].median" not in rows
 
