@@ -594,3 +594,24 @@ def test_a_single_channel_of_dn_dlogdp_cannot_be_summarised():
         }
     )
     assert not reply["ok"] and reply["errors"][0]["field"] == "quantity_columns"
+
+
+def test_a_protection_factor_is_said_to_enter_the_dose_only():
+    """Exposure is the concentration outside the respiratory protection (common practice of
+    exposure assessment against limits): the TWA does not change with the factor, the dose
+    does, and the reply says so."""
+    worn = api.handle(request(size_source="modes"))
+    bare = api.handle(
+        request(
+            size_source="modes",
+            periods=[{**p, "protection_factor": 1} for p in copy.deepcopy(PERIODS)],
+        )
+    )
+    assert worn["ok"] and bare["ok"]
+    assert worn["results"]["twa8h"]["value"] == bare["results"]["twa8h"]["value"]
+    k = worn["results"]["dose"]["regions"].index("AI")
+    grinding = next(t for t in worn["results"]["dose"]["tasks"] if t["period"] == "Grinding")
+    same = next(t for t in bare["results"]["dose"]["tasks"] if t["period"] == "Grinding")
+    assert grinding["number"][k] == pytest.approx(same["number"][k] / 10, rel=1e-12)
+    said = [w for w in worn["warnings"] if "outside the respiratory protection" in w]
+    assert said and not [w for w in bare["warnings"] if "outside the respiratory" in w]

@@ -288,6 +288,12 @@ def shape(
         if st.peak15 is None and p.duration >= 900:
             warnings.append(f"Period {p.label!r}: no 15-minute window is half measured.")
     results["tasks"] = {"label": "Periods", "unit": unit, "rows": rows}
+    if any(p.kind == "task" and p.protection_factor > 1.0 for p, _ in r.periods):
+        warnings.append(
+            "Concentrations, peaks and the TWA are those of the air around the worker, outside "
+            "the respiratory protection (as exposure is compared with limits); the protection "
+            "factor enters the dose only."
+        )
     s = r.shift
     shift_row = {
         "period": "Shift",
