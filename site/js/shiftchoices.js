@@ -2,7 +2,7 @@
 // summarised, the benchmark (value and a unit of that column's quantity), and the lognormal
 // modes that give each task's size distribution its shape. Each is a field handle of the
 // panel's form (get, set, showError, listen). Presentation only: the engine checks them.
-import { el } from "./forms.js";
+import { el, fieldId, fieldShell } from "./dom.js";
 
 // units the engine accepts for a benchmark of each quantity (the first is the default)
 export const BENCHMARK_UNITS = {
@@ -11,23 +11,9 @@ export const BENCHMARK_UNITS = {
   mass: [["ug/m3", "µg/m³"], ["mg/m3", "mg/m³"], ["kg/m3", "kg/m³"]],
 };
 const NAMES = { number: "number concentration", ldsa: "LDSA", mass: "mass concentration" };
-let counter = 0;
 
 function shell(container, field, labelText) {
-  const id = `shift-${field.name}-${++counter}`;
-  const wrap = el("div", { class: "field", "data-field": field.name });
-  wrap.append(el("label", { for: id }, labelText || field.label));
-  const help = el("p", { class: "help", id: `${id}-help` }, field.help || "");
-  const error = el("p", { class: "error", id: `${id}-error`, hidden: "" });
-  container.append(wrap);
-  return {
-    id, wrap, help, error,
-    showError(message) {
-      error.textContent = message || "";
-      error.hidden = !message;
-      wrap.classList.toggle("invalid", Boolean(message));
-    },
-  };
+  return fieldShell(container, field.name, "shift", labelText || field.label, field.help);
 }
 
 /**
@@ -137,7 +123,7 @@ export function modesInput(container, field, maxModes = 4) {
     const box = el("fieldset", { class: "item" });
     box.append(el("legend", {}, `Mode ${i}`));
     const mk = (label, value, size) => {
-      const id = `shift-mode-${++counter}`;
+      const id = fieldId("shift", "mode");
       const f = el("div", { class: "field" });
       const input = el("input", { id, type: "text", inputmode: "decimal", autocomplete: "off", size });
       input.value = value;

@@ -3,7 +3,8 @@
 // first rows as the engine read them, and the column pickers (time, optional date, and the
 // columns to summarise with what each holds). Each control is a field handle of the panel's
 // form (get, set, showError, listen), so links, saved inputs and errors reach it by its name.
-import { el, renderField } from "./forms.js";
+import { el, fieldShell } from "./dom.js";
+import { renderField } from "./forms.js";
 import { decodeFile } from "./files.js";
 import { sha256Hex } from "./digest.js";
 
@@ -40,23 +41,9 @@ export function importSummary(info) {
   }
   return text;
 }
-let counter = 0;
 
 function shell(container, name, label, helpText) {
-  const id = `shift-${name}-${++counter}`;
-  const wrap = el("div", { class: "field", "data-field": name });
-  if (label) wrap.append(el("label", { for: id }, label));
-  const help = el("p", { class: "help", id: `${id}-help` }, helpText || "");
-  const error = el("p", { class: "error", id: `${id}-error`, hidden: "" });
-  container.append(wrap);
-  return {
-    id, wrap, help, error,
-    showError(message) {
-      error.textContent = message || "";
-      error.hidden = !message;
-      wrap.classList.toggle("invalid", Boolean(message));
-    },
-  };
+  return fieldShell(container, name, "shift", label, helpText);
 }
 
 /**
