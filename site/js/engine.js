@@ -12,6 +12,11 @@ export function failureReply(message) {
   return { ok: false, errors: [{ field: "", message }], failure: true, message };
 }
 
+/** File texts at least this long are sent to the engine once, then named by their key. */
+export const KEEP_CHARS = 32_768;
+/** Keys of file texts remembered (the engine keeps as many; driftdose.api.kept.KEPT_TEXTS). */
+const KEPT_TEXTS = 4;
+
 export class Engine {
   /**
    * @param {URL} workerUrl the module worker
@@ -26,6 +31,7 @@ export class Engine {
     this.nextId = 1;
     this.pending = new Map();
     this.latest = new Map();
+    this.kept = new Map(); // file text -> the engine's key for it (its SHA-256)
     this.listeners = new Set();
     this.watchdogMs = 90_000; // no sign of life from the worker for this long while a request waits: dead
     this.state = "loading";
@@ -34,6 +40,7 @@ export class Engine {
 
   _start() {
     this.state = "loading";
+    this.kept.clear(); // a fresh worker holds no file text
     this.ready = new Promise((resolve, reject) => {
       this._resolveReady = resolve;
       this._rejectReady = reject;
@@ -200,9 +207,49 @@ export class Engine {
     });
   }
 
-  /** Send one request; resolves with the reply object (a failure reply when it cannot run). */
-  request(kind, inputs) {
-    return this._post({ kind, inputs });
+  /**
+   * Send one request; resolves with the reply object (a failure reply when it cannot run).
+   * A file text of KEEP_CHARS or more that the engine already holds is named by the key the
+   * engine gave it (its SHA-256; driftdose.api.kept) instead of being sent again; when the
+   * engine no longer holds it (a restarted worker), the engine asks ("resend") and the request
+   * goes again with the text.
+   */
+  async request(kind, inputs) {
+    const named = {};
+    let sent = inputs;
+    let carries = false;
+    if (inputs && typeof inputs === "object" && !Array.isArray(inputs)) {
+      for (const [name, value] of Object.entries(inputs)) {
+        if (typeof value !== "string" || value.length < KEEP_CHARS) continue;
+        const key = this.kept.get(value);
+        if (key) {
+          if (sent === inputs) sent = { ...inputs };
+          delete sent[name];
+          named[name] = key;
+        } else {
+          carries = true;
+        }
+      }
+    }
+    const message = { kind, inputs: sent };
+    if (carries) message.keep = true;
+    if (sent !== inputs) message.kept = named;
+    let reply = await this._post(message);
+    if (sent !== inputs && reply && Array.isArray(reply.resend)) {
+      for (const name of Object.keys(named)) this.kept.delete(inputs[name]);
+      reply = await this._post({ kind, inputs, keep: true });
+    }
+    if (reply && reply.kept && typeof reply.kept === "object") {
+      for (const [name, key] of Object.entries(reply.kept)) {
+        const text = inputs?.[name];
+        if (typeof text !== "string" || text.length < KEEP_CHARS || typeof key !== "string") continue;
+        this.kept.delete(text);
+        this.kept.set(text, key);
+        while (this.kept.size > KEPT_TEXTS) this.kept.delete(this.kept.keys().next().value);
+      }
+    }
+    if (reply && typeof reply === "object") delete reply.kept;
+    return reply;
   }
 
   /**

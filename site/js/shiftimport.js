@@ -100,7 +100,9 @@ export function importBlock(container, { names, extra = [], fields, title, intro
     }
     refusal = "";
     text = got.text;
-    source = { name: file.name.slice(0, 200), size: got.bytes.length, sha256: sha256Hex(got.bytes), from: "file" };
+    // the decoder's SHA-256 of the bytes (computed by the engine); JavaScript's only without it
+    const sha256 = typeof got.sha256 === "string" && /^[0-9a-f]{64}$/.test(got.sha256) ? got.sha256 : sha256Hex(got.bytes);
+    source = { name: file.name.slice(0, 200), size: got.bytes.length, sha256, from: "file" };
     const matches = named && named.sha256 === source.sha256 ? " It is the file the link names (same SHA-256)." : "";
     named = null;
     status.textContent = [`Loaded ${source.name.slice(0, 80)} (${got.size_text}).`, ...(got.notes || [])].join(" ") + matches;

@@ -81,3 +81,81 @@ test("without boot.js the engine starts its own worker and sends the wheel", asy
   assert.deepEqual(FakeWorker.made[0].posted, [{ op: "init", wheel: "wheels/a/b.whl" }]);
   engine.restart();
 });
+
+// A picked file's text goes to the engine once; later requests name it by the engine's key
+// (driftdose.api.kept); an engine that no longer holds it asks again and gets the text.
+async function readyEngine() {
+  const worker = new FakeWorker("boot", { type: "module" });
+  const kept = [message({ type: "ready", version: "1", marks: {} })];
+  const engine = new Engine("worker.js", { wheel: "wheels/x/y.whl", started: { worker, kept } });
+  await engine.ready;
+  return { engine, worker };
+}
+
+async function answer(worker, reply) {
+  await new Promise((r) => setTimeout(r, 0));
+  const { id } = worker.posted.at(-1);
+  worker.dispatchEvent(message({ type: "reply", id, reply }));
+}
+
+test("a long file text is sent once, then named by its key; a resend request sends it again", async () => {
+  const { engine, worker } = await readyEngine();
+  const text = "Time,Number\n" + "2026-03-10 08:00:00,1\n".repeat(3000);
+  const small = "a,b\n1,2\n";
+  const inputs = { series_text: text, background_text: small, periods: [] };
+
+  let pending = engine.request("shift", inputs);
+  await answer(worker, { ok: true, kept: { series_text: "k1", background_text: "k2" } });
+  let reply = await pending;
+  let sent = worker.posted.at(-1);
+  assert.equal(sent.inputs.series_text, text, "the first request carries the text");
+  assert.equal(sent.keep, true);
+  assert.equal(sent.kept, undefined);
+  assert.deepEqual(reply, { ok: true }, "the keys are not part of the shown reply");
+
+  pending = engine.request("shift", { ...inputs, periods: [1] });
+  await answer(worker, { ok: true, results: { n: 2 } });
+  reply = await pending;
+  sent = worker.posted.at(-1);
+  assert.equal("series_text" in sent.inputs, false, "the text is not sent again");
+  assert.deepEqual(sent.kept, { series_text: "k1" });
+  assert.equal(sent.inputs.background_text, small, "a short text is always sent");
+  assert.equal(sent.keep, undefined);
+  assert.deepEqual(sent.inputs.periods, [1]);
+  assert.deepEqual(reply, { ok: true, results: { n: 2 } });
+  assert.equal(inputs.series_text, text, "the caller's inputs are not changed");
+
+  // the engine no longer holds it: the same request goes again with the text
+  const before = worker.posted.length;
+  pending = engine.request("shift", inputs);
+  await answer(worker, { ok: false, errors: [{ field: "series_text", message: "again" }], resend: ["series_text"] });
+  await answer(worker, { ok: true, kept: { series_text: "k3" } });
+  reply = await pending;
+  assert.equal(worker.posted.length, before + 2);
+  assert.equal(worker.posted.at(-1).inputs.series_text, text);
+  assert.equal(worker.posted.at(-1).keep, true);
+  assert.deepEqual(reply, { ok: true });
+  pending = engine.request("shift", inputs);
+  await answer(worker, { ok: true });
+  await pending;
+  assert.deepEqual(worker.posted.at(-1).kept, { series_text: "k3" }, "the new key is used");
+});
+
+test("a restarted engine is sent the text again", async () => {
+  const { engine, worker } = await readyEngine();
+  const text = "x".repeat(40_000);
+  let pending = engine.request("shift", { series_text: text });
+  await answer(worker, { ok: true, kept: { series_text: "k1" } });
+  await pending;
+  engine.restart();
+  const fresh = FakeWorker.made.at(-1);
+  assert.notEqual(fresh, worker);
+  fresh.dispatchEvent(message({ type: "ready", version: "1", marks: {} }));
+  await engine.ready;
+  pending = engine.request("shift", { series_text: text });
+  await answer(fresh, { ok: true });
+  await pending;
+  const sent = fresh.posted.at(-1);
+  assert.equal(sent.inputs.series_text, text);
+  assert.equal(sent.kept, undefined);
+});

@@ -5,7 +5,8 @@
 ``{"ok": False, "errors": [{"field": ..., "message": ...}]}``. No exception crosses it.
 ``{"kind": "describe"}`` lists every calculation with its fields for building forms;
 ``{"kind": "export", "inputs": {...}}`` writes a shown reply as CSV with a header block
-(:mod:`driftdose.api.exports`).
+(:mod:`driftdose.api.exports`). ``"keep": true`` and ``"kept": {field: sha256}`` beside
+``inputs`` let the page send a file's text once (:mod:`driftdose.api.kept`).
 """
 
 from __future__ import annotations
@@ -16,6 +17,7 @@ import traceback
 from typing import Any
 
 from .. import __version__
+from . import kept
 from .exports import EXPORT_KIND, export_csv
 from .fields import FieldError, parse_fields
 from .registry import CALCULATIONS
@@ -73,7 +75,23 @@ def _handle(request: Any, check: bool = True) -> dict[str, Any]:
             "kind",
             f"Unknown calculation {_short(kind)}; valid: {', '.join(sorted(CALCULATIONS))}.",
         )
-    values, errors = parse_fields(calc.FIELDS, request.get("inputs", {}))
+    inputs = request.get("inputs", {})
+    if "kept" in request:  # file texts sent earlier, named by their SHA-256 (api.kept)
+        inputs, missing, problem = kept.recall(calc.FIELDS, inputs, request["kept"])
+        if problem:
+            return _error("", problem)
+        if missing:
+            message = "The engine no longer holds this file; the page sends it again."
+            errors = [{"field": name, "message": message} for name in missing]
+            return {"ok": False, "errors": errors, "resend": missing}
+    reply = _run(calc, inputs, check)
+    if request.get("keep") is True:
+        reply["kept"] = kept.remember(calc.FIELDS, request.get("inputs"))
+    return reply
+
+
+def _run(calc: Any, inputs: Any, check: bool) -> dict[str, Any]:
+    values, errors = parse_fields(calc.FIELDS, inputs)
     if errors:
         return {"ok": False, "errors": errors}
     try:

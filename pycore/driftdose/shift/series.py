@@ -24,6 +24,7 @@ from functools import cached_property
 from ..tables import CellError, Table
 from ..tables import number as read_number
 from .clock import ClockError, TimeParser, clock_text
+from .fastread import fast_columns
 
 __all__ = [
     "GAP_FACTOR",
@@ -195,6 +196,26 @@ def read_series(
     rows = table.rows
     if len(rows) < 2:
         raise SeriesError("At least two readings are needed.", where)
+    fast = None
+    if date_index is None and parse_time.form == "iso" and not parse_time.offsets_seen:
+        fast = fast_columns(table, time_index, columns)
+    if fast is not None:
+        clock, values, lines = fast
+    else:
+        clock, values, lines = _each_row(table, parse_time, time_index, columns, date_index, where)
+    return _series(clock, values, lines)
+
+
+def _each_row(
+    table: Table,
+    parse_time: TimeParser,
+    time_index: int,
+    columns: Sequence[ColumnSpec],
+    date_index: int | None,
+    where: str,
+) -> tuple[list[float], dict[str, list[float | None]], list[int]]:
+    """Time stamps and values read row by row, each with its line-numbered refusal."""
+    rows = table.rows
     clock: list[float] = []
     values: dict[str, list[float | None]] = {c.key: [] for c in columns}
     lines: list[int] = []
@@ -230,6 +251,13 @@ def read_series(
         for index, scale, out, name in specs:
             cell = cells[index] if index < width else ""
             out.append(_number(cell, decimal, scale, line, name, where))
+    return clock, values, lines
+
+
+def _series(
+    clock: list[float], values: dict[str, list[float | None]], lines: list[int]
+) -> TimeSeries:
+    """The series of increasing clock times (logging interval, holds and gaps)."""
     start = clock[0]
     t = [c - start for c in clock]
     spacing = [b - a for a, b in itertools.pairwise(t)]

@@ -66,10 +66,16 @@ def build_columns(
     sample : list of list of str
         The first data rows, which decide each column's kind.
     """
-    width = max([_width(header or [])] + [_width(c) for _, c in body])
+    rows = [c for _, c in body]
+    longest = max(map(len, rows), default=0)
+    if any(len(c) == longest and c[-1] for c in rows):  # a row ends with a filled cell
+        width = max(_width(header or []), longest)
+    else:
+        width = max([_width(header or [])] + [_width(c) for c in rows])
     gaps = [0] * width
     gap_lines: list[list[int]] = [[] for _ in range(width)]
-    for line, cells in body:
+    full = min(map(len, rows), default=0) == longest == width and all(map(all, rows))
+    for line, cells in () if full else body:  # every row full: no gap to count
         n = len(cells)
         if n >= width and all(cells[:width]):
             continue

@@ -56,6 +56,30 @@ def split_blanks(line: str) -> list[str]:
     ]
 
 
+def _sample(lines: list[str]) -> list[str]:
+    """The first :data:`SAMPLE` lines with content (not blank, not ``#``) and the last 50
+    after them, found without reading the lines in between."""
+
+    def content(ln: str) -> bool:
+        return bool(ln.strip()) and not ln.lstrip().startswith("#")
+
+    head: list[str] = []
+    stop = len(lines)
+    for k, ln in enumerate(lines):
+        if content(ln):
+            head.append(ln)
+            if len(head) == SAMPLE:
+                stop = k + 1
+                break
+    tail: list[str] = []
+    for ln in reversed(lines[stop:]):
+        if content(ln):
+            tail.append(ln)
+            if len(tail) == 50:
+                break
+    return head + tail[::-1]
+
+
 def pick_delimiter(lines: list[str]) -> str | None:
     """The separator giving at least two consistent columns with the most values (ties
     broken in the order of :data:`DELIMITERS`, then by the rows that agree).
@@ -65,8 +89,7 @@ def pick_delimiter(lines: list[str]) -> str | None:
     lines : list of str
         The file's lines.
     """
-    sample = [ln for ln in lines if ln.strip() and not ln.lstrip().startswith("#")]
-    sample = sample[:SAMPLE] + sample[SAMPLE:][-50:]
+    sample = _sample(lines)
     best: tuple[int, int, int, str] | None = None
     for rank, (delim, _name) in enumerate(DELIMITERS):
         if delim == " ":

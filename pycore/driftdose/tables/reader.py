@@ -175,9 +175,45 @@ class Table:
         return out
 
 
-def _records(text: str, delim: str) -> tuple[list[tuple[int, list[str]]], list[int]]:
+def _plain_records(
+    text: str, delim: str, lines: list[str] | None
+) -> tuple[list[tuple[int, list[str]]], list[int]] | None:
+    """:func:`_records` of a text without quotes, NULs or blanks around its cells: each line
+    is one record, split at the separator (as the csv module would split it); None for any
+    other text."""
+    if '"' in text or "\x00" in text or delim == " ":
+        return None
+    for w in _SPACES:  # a cell to trim (or a line of blanks): the csv path
+        if w in text and w != delim and any(p in text for p in _trimmed(w, delim)):
+            return None
+        if text[:1] == w or text[-1:] == w:
+            return None
+    if lines is None:
+        lines = _LINE_BREAK.split(text)
+    if lines and not lines[-1]:
+        lines = lines[:-1]  # the line break ending the last line starts no line
+    out = [(n, line.split(delim)) for n, line in enumerate(lines, 1) if line.strip(delim)]
+    blank = [n for n, line in enumerate(lines, 1) if not line.strip(delim)]
+    return out, blank
+
+
+_SPACES = tuple(c for c in map(chr, range(0x3001)) if c.isspace() and c not in "\r\n")
+"""White space that ``str.strip`` removes from a cell (besides line breaks)."""
+
+
+def _trimmed(w: str, delim: str) -> tuple[str, ...]:
+    """Pairs of characters showing white space ``w`` at the edge of a cell."""
+    return (delim + w, w + delim, "\n" + w, w + "\n", "\r" + w, w + "\r")
+
+
+def _records(
+    text: str, delim: str, lines: list[str] | None = None
+) -> tuple[list[tuple[int, list[str]]], list[int]]:
     """(first line, cells with blanks trimmed) of every record that is not blank, and the
-    lines of the blank ones."""
+    lines of the blank ones (``lines``: the text split at its line breaks, if at hand)."""
+    plain = _plain_records(text, delim, lines)
+    if plain is not None:
+        return plain
     out: list[tuple[int, list[str]]] = []
     blank: list[int] = []
     strip = str.strip
@@ -283,12 +319,15 @@ def read_table(text: str, header_line: int = 0) -> Table:
         if found is None:
             raise TableError(NO_SEPARATOR)
         delim = found
-    kept, blank = _records(text, delim)
+    kept, blank = _records(text, delim, None if sep_line else lines)
     if not isinstance(header_line, int) or isinstance(header_line, bool) or header_line < -1:
         raise TableError(
             "The header line must be a line number (0 to find it).", None, "header_line"
         )
-    content = [r for r in kept if r[1][0][:1] != "#"]
+    if "#" in text:
+        content = [r for r in kept if r[1][0][:1] != "#"]
+    else:  # no comment row can be there
+        content = kept
     comments = [r[0] for r in kept if r[1][0][:1] == "#"] if len(content) < len(kept) else []
     if not content:
         raise TableError("The file has no rows (only blank or comment lines).")
