@@ -277,8 +277,12 @@ export function importBlock(container, { names, extra = [], fields, title, intro
     handles.get(names.columns).set(f.default ?? []); // the declared first value column
   }
 
+  let shownImport = ""; // the reading last shown, as JSON: a moved period leaves it as it was
   /** Show the engine's reading of the file: columns for the pickers, the first rows. */
   function showImport(info, preview) {
+    const shown = JSON.stringify([info ?? null, preview === undefined ? "(unchanged)" : preview]);
+    if (shown === shownImport) return;
+    shownImport = shown;
     if (info && Array.isArray(info.columns)) {
       const labels = Array.isArray(info.table?.columns) ? info.table.columns : [];
       detected = info.columns.map((c, i) => (typeof c === "string" ? { name: c, unit: "" }

@@ -127,7 +127,11 @@ export function mount(root, { engine, description, forms }) {
     timeChart.setBands(spans(list, seriesInfo.start), overlaps(list, seriesInfo.start));
   }
 
-  logToggle.addEventListener("change", () => timeChart?.setLog(logToggle.checked));
+  let lastDrawn = ""; // the series last drawn, as JSON
+  logToggle.addEventListener("change", () => {
+    lastDrawn = "";
+    timeChart?.setLog(logToggle.checked);
+  });
   seriesSelect.addEventListener("change", () => lastReply && drawSeries(lastReply));
 
   /** The chosen column with the background used (same unit), and far-field columns in that unit. */
@@ -145,6 +149,10 @@ export function mount(root, { engine, description, forms }) {
     const extra = farSeries && Array.isArray(farSeries.series) ? { ...farSeries, series: farSeries.series.filter(same) } : null;
     seriesInfo = { start: series.start, total: series.t_s[series.t_s.length - 1] - series.t_s[0] };
     chartEmpty.hidden = true;
+    // a moved period leaves the drawn series as they were: the chart is not drawn again
+    const drawn = JSON.stringify([shown, extra, logToggle.checked]);
+    if (timeChart && drawn === lastDrawn) return;
+    lastDrawn = drawn;
     ensureChart().setSeries(shown, extra && extra.series.length ? extra : null);
     timeChart.setLog(logToggle.checked);
   }
