@@ -81,7 +81,7 @@ def fast_columns(
     table : Table
         The file's cells.
     time_index : int
-        Column of the ISO 8601 time stamps (0-based).
+        Column of the ISO 8601 time stamps (0-based) [-].
     columns : sequence of ColumnSpec
         Value columns: ``index``, ``key`` and ``scale`` (factor to SI).
 
