@@ -81,3 +81,20 @@ def export_parts(text: str) -> tuple[list[list[str]], str]:
     head, sep, table = text.partition("\n\n")
     assert sep, "no header block"
     return list(csv.reader(io.StringIO(head))), table
+
+
+SERVICE_WORKER_ACTIVATED = """async () => {
+    const reg = await navigator.serviceWorker.ready;
+    while (!reg.active || reg.active.state !== 'activated') {
+      await new Promise(r => setTimeout(r, 100));
+    }
+}"""
+
+
+def reload_under_service_worker(page, ready) -> None:
+    """Wait until the page's service worker is activated, reload the page, call ``ready()``
+    (the caller's wait for a started page), and check the service worker now controls it."""
+    page.evaluate(SERVICE_WORKER_ACTIVATED)
+    page.reload()
+    ready()
+    assert page.evaluate("() => navigator.serviceWorker.controller !== null")

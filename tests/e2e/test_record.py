@@ -11,7 +11,7 @@ import pytest
 from driftdose import api
 
 from .conftest import screenshot, wait_ready
-from .helpers import export_parts, table_values
+from .helpers import export_parts, reload_under_service_worker, table_values
 
 pytestmark = pytest.mark.e2e
 
@@ -205,15 +205,7 @@ def test_new_deployment_is_offered_as_reload(browser, build_module, tmp_path):
     try:
         page = context.new_page()
         _ready_with_results(page, url)
-        page.evaluate("""async () => {
-            const reg = await navigator.serviceWorker.ready;
-            while (!reg.active || reg.active.state !== 'activated') {
-              await new Promise(r => setTimeout(r, 100));
-            }
-        }""")
-        page.reload()
-        _ready_with_results(page, url)
-        assert page.evaluate("() => navigator.serviceWorker.controller !== null")
+        reload_under_service_worker(page, lambda: _ready_with_results(page, url))
         # a new deployment: different content, so a different build id
         (dist / "css" / "style.css").write_text(
             (dist / "css" / "style.css").read_text() + "\n/* next release */\n"

@@ -21,6 +21,7 @@ from pathlib import Path
 import pytest
 
 from .conftest import wait_ready
+from .helpers import reload_under_service_worker
 
 pytestmark = pytest.mark.e2e
 
@@ -94,15 +95,7 @@ def test_new_deployment_noticed_without_cache_headers(browser, build_module, tmp
     try:
         page = context.new_page()
         _ready(page, url)
-        page.evaluate("""async () => {
-            const reg = await navigator.serviceWorker.ready;
-            while (!reg.active || reg.active.state !== 'activated') {
-              await new Promise(r => setTimeout(r, 100));
-            }
-        }""")
-        page.reload()
-        _ready(page, url)
-        assert page.evaluate("() => navigator.serviceWorker.controller !== null")
+        reload_under_service_worker(page, lambda: _ready(page, url))
         _deploy_next(dist, move_wheel=False)
         page.reload()
         page.locator("#update-banner").wait_for(state="visible", timeout=60_000)
