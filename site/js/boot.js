@@ -5,7 +5,8 @@
 // worker sends before that are kept and replayed in order. The single-file edition (which sets
 // globalThis.driftdoseForms before the page's scripts run) starts its worker from app.js.
 (() => {
-  if (globalThis.driftdoseForms || typeof Worker === "undefined") return;
+  if (globalThis.driftdoseForms) return;
+  // asked for once, here: app.js takes this promise (it fetches only when this script did not run)
   const forms = fetch("forms.json").then((r) => {
     if (!r.ok) throw new Error(`forms.json: HTTP ${r.status}`);
     return r.json();
@@ -13,6 +14,7 @@
   forms.catch(() => {}); // app.js reports a page that cannot start
   let worker;
   try {
+    if (typeof Worker === "undefined") throw new Error("no Worker");
     worker = new Worker(new URL("js/worker.js", document.baseURI), { type: "module" });
   } catch {
     globalThis.driftdoseBoot = { forms, adopt: () => null };

@@ -3,12 +3,14 @@
 // modes that give each task's size distribution its shape. Each is a field handle of the
 // panel's form (get, set, showError, listen). Presentation only: the engine checks them.
 import { el, fieldId, fieldShell } from "./dom.js";
+import { unitLabel } from "./units.js";
 
 // units the engine accepts for a benchmark of each quantity (the first is the default)
+// (codes; labelled from the unit table)
 export const BENCHMARK_UNITS = {
-  number: [["1/cm3", "1/cm³"], ["1/m3", "1/m³"]],
-  ldsa: [["um2/cm3", "µm²/cm³"], ["m2/m3", "m²/m³"]],
-  mass: [["ug/m3", "µg/m³"], ["mg/m3", "mg/m³"], ["kg/m3", "kg/m³"]],
+  number: ["1/cm3", "1/m3"],
+  ldsa: ["um2/cm3", "m2/m3"],
+  mass: ["ug/m3", "mg/m3", "kg/m3"],
 };
 const NAMES = { number: "number concentration", ldsa: "LDSA", mass: "mass concentration" };
 
@@ -66,9 +68,9 @@ export function benchmarkInput(container, field, getQuantity) {
   const fill = () => {
     const units = BENCHMARK_UNITS[getQuantity()] || BENCHMARK_UNITS.number;
     const keep = wanted || unit.value;
-    unit.replaceChildren(...units.map(([v, l]) => el("option", { value: v }, l)));
-    if (keep && !units.some(([v]) => v === keep)) unit.append(el("option", { value: keep }, keep));
-    unit.value = keep && [...unit.options].some((o) => o.value === keep) ? keep : units[0][0];
+    unit.replaceChildren(...units.map((v) => el("option", { value: v }, unitLabel(v))));
+    if (keep && !units.includes(keep)) unit.append(el("option", { value: keep }, keep));
+    unit.value = keep && [...unit.options].some((o) => o.value === keep) ? keep : units[0];
   };
   const notify = () => {
     wanted = unit.value;
@@ -137,7 +139,7 @@ export function modesInput(container, field, maxModes = 4) {
     };
     const median = mk("Count median", text(m.median), "6");
     const unit = el("select", { "aria-label": "Count median unit" });
-    for (const u of ["nm", "µm"]) unit.append(el("option", { value: u === "µm" ? "um" : u }, u));
+    for (const u of ["nm", "um"]) unit.append(el("option", { value: u }, unitLabel(u)));
     unit.value = m.median && typeof m.median === "object" && m.median.unit === "um" ? "um" : "nm";
     unit.addEventListener("change", notify);
     median.row.append(unit);

@@ -185,6 +185,19 @@ def test_page_starts_from_the_snapshot(browser, base_url: str):
     assert start == "snapshot", warnings
 
 
+@pytest.mark.e2e
+def test_forms_are_asked_for_once(watched, base_url: str):
+    """boot.js asks for forms.json before the modules load; app.js takes that promise and the
+    forms are built from it: one request for the descriptions per page load."""
+    page, _ = watched
+    asked: list[str] = []
+    page.on("request", lambda r: asked.append(r.url) if r.url.endswith("/forms.json") else None)
+    page.goto(base_url)
+    wait_ready(page)
+    page.wait_for_function("() => document.querySelector('#panel-motion table.results')")
+    assert asked == [base_url.rstrip("/") + "/forms.json"]
+
+
 def _served_copy(dist_dir: Path, build_module, tmp_path: Path, change) -> tuple[object, str]:
     copy = tmp_path / "site"
     shutil.copytree(dist_dir, copy)
