@@ -25,13 +25,14 @@ from .exposure_fields import EXPOSURE_FIELDS, MEDIAN_WORDS, MODE_FIELDS, aerosol
 from .fields import Field, FieldError
 from .labels import COORDINATE_WORDS, DIAMETER_TYPE_WORDS, REGION_LABELS
 from .reply import quantity, row, shared_axis, text_result
+from .size_list import SIZES, sizes_table
 from .spectrum_fields import import_row, import_warnings
 
 __all__ = ["DEMOS", "FIELDS", "MODE_FIELDS", "TITLE", "compute", "demo_scenarios", "run"]
 
 TITLE = "Respiratory deposition and dose per shift"
 
-FIELDS: tuple[Field, ...] = EXPOSURE_FIELDS
+FIELDS: tuple[Field, ...] = (*EXPOSURE_FIELDS, SIZES)
 
 
 def compute(v: dict[str, Any]) -> tuple[Deposition, dict[str, Any] | None]:
@@ -59,6 +60,7 @@ def compute(v: dict[str, Any]) -> tuple[Deposition, dict[str, Any] | None]:
             benchmark_number=v.get("benchmark_number"),
             benchmark_mass=v.get("benchmark_mass"),
             custom_breathing=v["breathing"] == "custom",
+            sizes=v.get("sizes") or (),
         )
     except ValueError as exc:
         raise FieldError("", str(exc)) from None
@@ -88,6 +90,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
             **_results(result, report),
             **_ldsa_rows(result),
             **_mode_rows(result),
+            **_size_rows(result),
         },
         "curves": _curves(result),
         "warnings": warnings,
@@ -185,6 +188,16 @@ def _mode_rows(result: Deposition) -> dict[str, Any]:
         )
         out[f"mode{i}_mass"] = row(f"Mode {i}: mass concentration", m.mass, 1e-9, "ug/m3", "kg/m3")
     return out
+
+
+def _size_rows(result: Deposition) -> dict[str, Any]:
+    """The deposition fraction per region and the ISO 7708 conventions at the typed sizes."""
+    if result.at_sizes is None:
+        return {}
+    columns = [(r, f"{REGION_LABELS[r].split(' (')[0]} deposition") for r in result.dose.regions]
+    columns += [(f"iso7708_{k}", f"ISO 7708 {label}") for k, label in _ISO_LABELS.items()]
+    coordinate = COORDINATE_WORDS[result.aerosol.description.coordinate]
+    return {"sizes_table": sizes_table(result.at_sizes, columns, coordinate)}
 
 
 def _curves(result: Deposition) -> dict[str, Any]:

@@ -37,7 +37,6 @@ from ..compose.sampling import (
     CURVE_POINTS,
     CURVE_RANGE,
     REFERENCE_SIZES,
-    MeasuredSpectrum,
     SamplingResult,
     compose_sampling,
 )
@@ -51,7 +50,7 @@ from ..diameters import ParticleDescription
 from ..sources import cite
 from ..transport import STAGE_KINDS
 from .fields import Field, FieldError
-from .labels import DIAMETER_TYPE_WORDS, REGION_LABELS
+from .labels import REGION_LABELS
 from .particle_air_fields import (
     DENSITY_BASIS,
     PARTICLE_DENSITY,
@@ -61,7 +60,9 @@ from .particle_air_fields import (
 )
 from .reply import quantity, shared_axis, text_result
 from .sampling_demos import DEMOS
-from .spectrum_fields import import_row, import_spectrum, import_warnings, spectrum_fields
+from .sampling_spectrum import read_spectrum, spectrum_reply
+from .size_list import SIZES, sizes_table
+from .spectrum_fields import import_row, import_warnings, spectrum_fields
 from .stages import FLOW_MIN, MAX_STAGES, STAGE_FIELDS, parse_stages, stage_types
 from .units import auto_unit, from_si, unit_label
 
@@ -191,27 +192,8 @@ FIELDS: tuple[Field, ...] = (
         "chain should reproduce.",
     ),
     *SPECTRUM_FIELDS,
+    SIZES,
 )
-
-
-def _spectrum(v: dict[str, Any], desc: ParticleDescription, T: float, P: float):
-    """Read the measured spectrum from the CSV fields; raise FieldError on a fault.
-
-    The text goes through the shared spectrum importer (same fields, checks and messages);
-    the bins' concentrations become particles per bin, shown per cm^3. Measured diameters
-    are turned into the diameter of the spheres the chain acts on
-    (:class:`~driftdose.diameters.ParticleDescription`). Returns (spectrum, import report).
-    """
-    imported, report = import_spectrum(v)
-    d_type = v["spectrum_diameter_type"]
-    diameters = list(imported.diameters)
-    spectrum = MeasuredSpectrum(
-        diameters=diameters,
-        model_diameters=[desc.to_model(d, d_type, T, P) for d in diameters],
-        concentrations=[n / 1e6 for n in imported.numbers],  # per bin, shown per cm^3
-        diameter_type=d_type,
-    )
-    return spectrum, report
 
 
 def _length_text(x: float) -> str:
@@ -283,6 +265,15 @@ def _departure_rows(result: SamplingResult) -> dict[str, Any]:
     }
 
 
+def _size_columns(result: SamplingResult) -> list[tuple[str, str]]:
+    """Columns of the table at the typed sizes: each stage, the whole chain, the target."""
+    columns = [(f"stage_{s.index}", _stage_label(s.index, s.kind, s.name)) for s in result.stages]
+    columns.append(("overall", "Whole chain"))
+    if result.target is not None:
+        columns.append(("target", f"Target: {dict(TARGETS)[result.target.key]}"))
+    return columns
+
+
 def _stage_label(index: int, kind: str, name: str) -> str:
     """The series label of a stage in charts and exports: its own name, else number and kind."""
     return name or f"{index + 1}. {STAGE_KINDS[kind].label}"
@@ -299,10 +290,10 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     parsed, errors = parse_stages(v["stages"], flow, T, P)
     if errors and errors[0]["field"] == "stages":
         raise FieldError("stages", errors[0]["message"])
-    spectrum, csv_report = None, None
+    spectrum, csv_report, terms = None, None, None
     if v["size_source"] == "csv":
         try:
-            spectrum, csv_report = _spectrum(v, desc, T, P)
+            spectrum, csv_report, terms = read_spectrum(v, desc, T, P)
         except FieldError as exc:
             errors.append({"field": exc.field, "message": exc.message})
     if errors:
@@ -318,6 +309,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         target=v["target"],
         spectrum=spectrum,
         names=[p.name for p in parsed],
+        sizes=v.get("sizes") or (),
     )
     curves: dict[str, Any] = {}
     x_um = shared_axis(curves, "diameter", [x * 1e6 for x in result.diameters])
@@ -383,50 +375,15 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     warnings = list(result.warnings) + import_warnings(csv_report)
     if csv_report is not None:
         results["csv_rows"] = import_row(csv_report)
-    if result.spectrum is not None:
-        _spectrum_reply(result, results, curves)
+    if result.spectrum is not None and terms is not None:
+        spectrum_reply(result, terms, results, curves)
+    if result.at_sizes is not None:
+        results["sizes_table"] = sizes_table(
+            result.at_sizes, _size_columns(result), result.coordinate
+        )
     return {
         "results": results,
         "curves": curves,
         "warnings": warnings,
         "sources": cite(*result.sources),
-    }
-
-
-def _spectrum_reply(
-    result: SamplingResult, results: dict[str, Any], curves: dict[str, Any]
-) -> None:
-    """The corrected spectrum as a table and a chart."""
-    sp = result.spectrum
-    assert sp is not None
-    shown_um = [d * 1e6 for d in sp.diameters]
-    results["spectrum_table"] = {
-        "label": "Measured spectrum corrected for the chain's losses",
-        "diameter_type": sp.diameter_type,
-        "diameter_type_label": DIAMETER_TYPE_WORDS[sp.diameter_type],
-        "diameter_unit": "um",
-        "concentration_unit": "1/cm3",
-        "concentration_label": "particles/cm³ per bin",
-        "unreliable_below": sp.threshold,
-        "rows": [
-            {"diameter": x, "measured": m, "penetration": p, "corrected": c, "unreliable": flag}
-            for x, m, p, c, flag in zip(
-                shown_um, sp.measured, sp.penetration, sp.corrected, sp.unreliable, strict=True
-            )
-        ],
-    }
-    shown = shared_axis(curves, "spectrum_diameter", shown_um)
-    curves["spectrum"] = {
-        "x_label": "Diameter"
-        + (
-            f" ({DIAMETER_TYPE_WORDS[sp.diameter_type]})"
-            if sp.diameter_type != "volume_equivalent"
-            else ""
-        ),
-        "x_unit": "um",
-        "y_label": "Concentration per bin",
-        "y_unit": "1/cm3",
-        "measured": {"label": "Measured", "x": shown, "y": sp.measured},
-        "corrected": {"label": "Corrected for losses", "x": shown, "y": sp.corrected},
-        "unreliable": sp.unreliable,
     }

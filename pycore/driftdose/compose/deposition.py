@@ -9,6 +9,7 @@ frozen :class:`Deposition` out; the api only translates.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 from .._numerics import logspace
@@ -19,6 +20,7 @@ from ..deposition.simplified import validity_warnings as simplified_warnings
 from ..dose import DoseResult, deposited_dose, deposition_curves
 from ..ldsa import lung_deposited_surface_area
 from .aerosol import Aerosol, ModeSpec, is_converted
+from .at_sizes import SizeAnswers, deposition_at_sizes
 
 __all__ = [
     "CURVE_POINTS",
@@ -100,6 +102,9 @@ class Deposition:
         The modes as the models use them (empty for a spectrum).
     warnings : tuple of str
         Validity ranges left, assumptions to know, benchmarks exceeded.
+    at_sizes : SizeAnswers or None
+        Deposition fraction per region and the ISO 7708 conventions at the sizes asked for
+        (:func:`driftdose.compose.at_sizes.deposition_at_sizes`); None when none were asked.
     """
 
     aerosol: Aerosol
@@ -112,6 +117,7 @@ class Deposition:
     overlay: dict[str, tuple[float, ...]]
     modes: tuple[ModeNumbers, ...]
     warnings: tuple[str, ...]
+    at_sizes: SizeAnswers | None = None
 
 
 def breathing_subject(
@@ -168,6 +174,7 @@ def compose_deposition(
     benchmark_number: float | None = None,
     benchmark_mass: float | None = None,
     custom_breathing: bool = False,
+    sizes: Sequence[float] = (),
 ) -> Deposition:
     """Deposition fractions, doses, convention shares, LDSA, curves and warnings.
 
@@ -190,6 +197,9 @@ def compose_deposition(
         A mass concentration to compare the airborne one with. [kg/m^3]
     custom_breathing : bool
         Whether the breathing was given as custom parameters (its mouth share is warned of).
+    sizes : sequence of float
+        Sizes on the models' axis at which to give the exact deposition fractions and ISO
+        7708 conventions (at most a few). [m]
 
     Returns
     -------
@@ -235,6 +245,9 @@ def compose_deposition(
         overlay=overlay,
         modes=_mode_numbers(aerosol),
         warnings=tuple(warnings + _basis_warnings(aerosol)),
+        at_sizes=(
+            deposition_at_sizes(model, sizes, desc, subject, res.thermodynamic) if sizes else None
+        ),
     )
 
 

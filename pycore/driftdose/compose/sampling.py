@@ -23,6 +23,8 @@ from dataclasses import dataclass
 from .._numerics import logspace
 from ..transport import Chain, StageReport, correct_spectrum
 from ..transport.chain import UNRELIABLE_BELOW, Stage
+from .at_sizes import SizeAnswers, sampling_at_sizes
+from .levels import crossings, pass_bands
 from .targets import (
     DEPARTURE_RANGE,
     DEPOSITION_TARGET_RANGE,
@@ -43,6 +45,7 @@ __all__ = [
     "Departure",
     "MeasuredSpectrum",
     "SamplingResult",
+    "SizeAnswers",
     "SpectrumOutcome",
     "StageOutcome",
     "TargetOutcome",
@@ -72,7 +75,7 @@ class MeasuredSpectrum:
     model_diameters : list of float
         The same bins as diameters of the spheres the chain acts on. [m]
     concentrations : list of float
-        Measured concentration per bin, in any one unit. [any]
+        Measured number of particles per volume of air in each bin. [1/m^3]
     diameter_type : str
         ``volume_equivalent``, ``optical``, ``mobility`` or ``aerodynamic``.
 
@@ -130,14 +133,21 @@ class SpectrumOutcome:
     diameter_type : str
         Their type (``volume_equivalent``, ``optical``, ``mobility``, ``aerodynamic``).
     measured, corrected : list
-        Concentrations per bin, measured and divided by the penetration (None where the
-        penetration is below 1e-6), in the measured unit. [any]
+        Particles per bin, measured and divided by the penetration (None where the
+        penetration is below 1e-6). [1/m^3]
     penetration : list of float
         The chain's penetration at each bin. [-]
     unreliable : list of bool
         Bins whose penetration is below ``threshold``.
     threshold : float
         :data:`driftdose.transport.chain.UNRELIABLE_BELOW`. [-]
+    measured_total : float
+        Total number concentration measured: the sum of the particles per bin over all
+        bins (for dN/dlogDp data, Σ (dN/dlogDp)_i Δlog10 Dp_i over the bins' widths). [1/m^3]
+    corrected_total : float
+        The same sum of the corrected bins, over the bins that have a corrected value. [1/m^3]
+    corrected_bins : int
+        How many bins ``corrected_total`` sums (bins with no corrected value are left out).
 
     """
 
@@ -148,6 +158,9 @@ class SpectrumOutcome:
     penetration: list[float]
     unreliable: list[bool]
     threshold: float
+    measured_total: float
+    corrected_total: float
+    corrected_bins: int
 
 
 @dataclass(frozen=True)
@@ -173,6 +186,9 @@ class SamplingResult:
         curve's range.
     target : TargetOutcome or None
     spectrum : SpectrumOutcome or None
+    at_sizes : SizeAnswers or None
+        Every stage's and the chain's penetration and the target at the sizes asked for
+        (:func:`driftdose.compose.at_sizes.sampling_at_sizes`); None when none were asked.
     warnings : list of str
     sources : list of str
         Bibliography keys, in the order first used.
@@ -188,70 +204,9 @@ class SamplingResult:
     pass_bands: list[tuple[float | None, float | None]]
     target: TargetOutcome | None
     spectrum: SpectrumOutcome | None
+    at_sizes: SizeAnswers | None
     warnings: list[str]
     sources: list[str]
-
-
-def crossings(xs: Sequence[float], ys: Sequence[float], level: float) -> list[float]:
-    """Sizes where a curve crosses ``level``.
-
-    Parameters
-    ----------
-    xs : sequence of float
-        Increasing positive sizes. [m]
-    ys : sequence of float
-        Curve values at those sizes. [-]
-    level : float
-        The level. [-]
-
-    Returns
-    -------
-    list of float
-        One size per crossing, interpolated linearly in y and logarithmically in x. [m]
-
-    Examples
-    --------
-    >>> [round(x, 6) for x in crossings([1.0, 100.0], [1.0, 0.0], 0.5)]
-    [10.0]
-
-    """
-    out = []
-    for i in range(len(xs) - 1):
-        y0, y1 = ys[i] - level, ys[i + 1] - level
-        if (y0 < 0.0) != (y1 < 0.0):
-            t = y0 / (y0 - y1)
-            out.append(math.exp(math.log(xs[i]) + t * (math.log(xs[i + 1]) - math.log(xs[i]))))
-    return out
-
-
-def pass_bands(
-    xs: Sequence[float], ys: Sequence[float], level: float = 0.5
-) -> list[tuple[float | None, float | None]]:
-    """Size bands where a curve is at or above ``level``.
-
-    Parameters
-    ----------
-    xs : sequence of float
-        Increasing positive sizes. [m]
-    ys : sequence of float
-        Curve values at those sizes. [-]
-    level : float
-        The level (50 % by default). [-]
-
-    Returns
-    -------
-    list of tuple
-        (lower, upper) edges [m] of each band; None where a band reaches an end of ``xs``.
-        Empty when no size reaches the level; ``[(None, None)]`` when every size does.
-
-    """
-    above = [y >= level for y in ys]
-    edges: list[float | None] = list(crossings(xs, ys, level))
-    if above and above[0]:
-        edges.insert(0, None)
-    if above and above[-1]:
-        edges.append(None)
-    return [(edges[i], edges[i + 1]) for i in range(0, len(edges) - 1, 2)]
 
 
 _BASE_SOURCES = (
@@ -281,6 +236,7 @@ def compose_sampling(
     target: str | None = None,
     spectrum: MeasuredSpectrum | None = None,
     names: Sequence[str] | None = None,
+    sizes: Sequence[float] = (),
 ) -> SamplingResult:
     """Penetration of a sampling chain, compared with a target, and a corrected spectrum.
 
@@ -307,6 +263,8 @@ def compose_sampling(
         A measured spectrum to correct.
     names : sequence of str, optional
         The user's name of each stage (``""`` for none); the stages' own names otherwise.
+    sizes : sequence of float
+        Sizes at which to give the exact values of every curve (at most a few). [m]
 
     Returns
     -------
@@ -401,6 +359,9 @@ def compose_sampling(
             penetration=corrected.penetration,
             unreliable=corrected.unreliable,
             threshold=UNRELIABLE_BELOW,
+            measured_total=math.fsum(corrected.measured),
+            corrected_total=math.fsum(c for c in corrected.corrected if c is not None),
+            corrected_bins=sum(c is not None for c in corrected.corrected),
         )
         n_bad = sum(corrected.unreliable)
         if n_bad:
@@ -442,6 +403,7 @@ def compose_sampling(
         pass_bands=pass_bands(xs, evaluated.overall),
         target=target_outcome,
         spectrum=spectrum_outcome,
+        at_sizes=sampling_at_sizes(stages, sizes, density, T, P, target) if sizes else None,
         warnings=warnings,
         sources=sources,
     )
