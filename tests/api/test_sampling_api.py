@@ -273,7 +273,8 @@ def test_sampling_spectrum_fields_are_the_deposition_fields() -> None:
 
 
 def test_sampling_spectrum_csv_equals_deposition_import() -> None:
-    """The same CSV text gives the same bins (particles per cm3) in both calculations."""
+    """The same CSV text gives the same bins (particles per cm3) in both calculations; the
+    table gives them back in the file's own terms (dN/dlogDp per cm3), the chart per bin."""
     text = "size,dNdlogDp\n20,1000\n40,3000\n80,2000\n160,500\n"
     inputs = csv_spectrum(text, csv_diameter_column="size", csv_concentration_column="dNdlogDp")
     reply = handle(request([TUBE], **inputs))
@@ -288,8 +289,10 @@ def test_sampling_spectrum_csv_equals_deposition_import() -> None:
             "csv_concentration_unit": "1/cm3",
         }
     )
+    measured = reply["curves"]["spectrum"]["measured"]["y"]
+    assert measured == pytest.approx([n / 1e6 for n in binned.numbers])
     rows = reply["results"]["spectrum_table"]["rows"]
-    assert [r["measured"] for r in rows] == pytest.approx([n / 1e6 for n in binned.numbers])
+    assert [r["measured"] for r in rows] == pytest.approx([1000.0, 3000.0, 2000.0, 500.0])
 
 
 def test_sampling_stage_flow_overrides_sampling_flow() -> None:

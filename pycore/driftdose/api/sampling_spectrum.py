@@ -151,11 +151,11 @@ def spectrum_reply(
     }
     factor = to_si(1.0, "number_concentration", terms.concentration_unit)
     unit = unit_label(terms.concentration_unit)
-    how = (
-        "sum of the bins' particle numbers"
-        if terms.concentration_type == "per_bin"
-        else f"sum over the bins of {terms.concentration_type} × bin width"
-    )
+    how = {
+        "per_bin": "sum of the bins' particle numbers",
+        "dN/dlogDp": "Σ dN/dlogDp × Δlog10 Dp over the bins",
+        "dN/dDp": "Σ dN/dDp × ΔDp over the bins",
+    }[terms.concentration_type]
     left = len(sp.corrected) - sp.corrected_bins
     results["spectrum_total_measured"] = row(
         "Total number concentration, measured", sp.measured_total, factor, unit, "1/m³", "N", how

@@ -30,7 +30,7 @@ from .status import UserError
 
 STRUCTURED_KINDS = ("data", "records")
 """Kinds given as JSON text, @FILE or KEY=VALUE pairs."""
-QUANTITY_KINDS_EXCLUDED = ("choice", "integer", "text", *STRUCTURED_KINDS)
+QUANTITY_KINDS_EXCLUDED = ("choice", "integer", "text", "sizes", *STRUCTURED_KINDS)
 _KEY_VALUE = re.compile(r"^([A-Za-z_][A-Za-z0-9_]*)=(.*)$", re.S)
 _NUMBER_THEN_UNIT = re.compile(
     r"^\s*([-+\u2212]?(?:\d[\d,_]*(?:\.[\d_]*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$"
@@ -133,6 +133,8 @@ def add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any]
             kwargs["metavar"] = "VALUE[UNIT]" if len(fd.get("units", [])) > 1 else "VALUE"
         elif fd.get("kind") == "integer":
             kwargs["metavar"] = "N"
+        elif fd.get("kind") == "sizes":  # a list of sizes, each with its unit (or nm)
+            kwargs["metavar"] = "SIZES"
         elif is_file_field(fd):
             kwargs["metavar"] = "FILE"
             alias = file_alias(fd, fields)
