@@ -50,7 +50,7 @@ export function renderField(container, field, prefix) {
     wrap.append(row, note);
   } else {
     input = el("input", {
-      id, name: field.name, type: "text", inputmode: field.kind === "text" ? "text" : "decimal", autocomplete: "off",
+      id, name: field.name, type: "text", inputmode: field.kind === "text" || field.kind === "sizes" ? "text" : "decimal", autocomplete: "off",
       spellcheck: "false", "aria-describedby": `${helpId} ${errorId}`,
     });
     const def = field.default && typeof field.default === "object" ? field.default : { value: field.default };

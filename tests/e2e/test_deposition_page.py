@@ -6,8 +6,9 @@ import pytest
 
 from driftdose import api
 
-from .conftest import screenshot, wait_ready
+from .conftest import ARTIFACTS, new_watched_page, screenshot, wait_ready
 from .helpers import parse_shown, png_text, round_sig
+from .test_layout import BROKEN_WORDS_JS
 
 pytestmark = pytest.mark.e2e
 
@@ -271,3 +272,63 @@ def test_mode_error_sits_beside_the_wrong_value_only(page, base_url):
         "() => document.getElementById('panel-deposition').dataset.state === 'ok'"
     )
     assert panel.locator(".field[data-field=modes] .error:visible").count() == 0
+
+
+def test_typed_sizes_give_the_api_values_and_a_bad_entry_is_refused(browser, base_url):
+    context, page, watch = new_watched_page(
+        browser, base_url, viewport={"width": 1280, "height": 900}
+    )
+    try:
+        _open(page, base_url)
+        panel = page.locator(PANEL)
+        typed = "25 nm; 0,3 µm; 4 µm"  # decimal commas with semicolons between the sizes
+        panel.get_by_label("Values at these sizes", exact=True).fill(typed)
+        page.wait_for_selector(f"{PANEL} table.sizes-table")
+        _settled(page)
+        reply = api.handle(
+            {"kind": "deposition", "inputs": {"sizes": {"value": typed, "unit": "nm"}}}
+        )
+        assert reply["ok"], reply
+        rows = reply["results"]["sizes_table"]["rows"]
+        assert [r["label"] for r in rows] == ["25 nm", "300 nm", "4 µm"]
+        names = panel.locator("table.sizes-table thead th").all_inner_texts()[1:]
+        assert names == [r["label"] for r in rows]
+        compared = 0
+        for i, row in enumerate(rows):
+            for cell in row["quantities"]:
+                if cell["key"] in ("diameter", "aerodynamic"):
+                    continue
+                where = f"table.sizes-table td[data-key='{cell['key']}'][data-size='{i}']"
+                text = panel.locator(where).inner_text()
+                assert text.endswith(" %"), text
+                assert parse_shown(text[:-2]) == pytest.approx(
+                    round_sig(cell["value"]), rel=1e-12
+                ), (i, cell["key"])
+                compared += 1
+        assert compared == 3 * (6 + 4)  # ICRP 66 regions with the total, four conventions
+        # ISO 7708:1995 tabulates 50 % respirable at 4 µm aerodynamic (from memory); unit
+        # density, so the size typed is the aerodynamic diameter
+        respirable = panel.locator("td[data-key='iso7708_respirable'][data-size='2']")
+        assert parse_shown(respirable.inner_text()[:-2]) == pytest.approx(50.0, abs=0.05)
+        assert "deposition.sizes=" in page.url
+        panel.locator(".sizes-box").screenshot(
+            path=str(ARTIFACTS / "deposition-sizes-table-1280.png")
+        )
+        page.set_viewport_size({"width": 375, "height": 800})
+        assert page.evaluate("() => document.documentElement.scrollWidth") <= 375
+        broken = page.evaluate(BROKEN_WORDS_JS, panel.locator("table.sizes-table").element_handle())
+        assert not broken, broken
+        panel.locator(".sizes-box").screenshot(
+            path=str(ARTIFACTS / "deposition-sizes-table-375.png")
+        )
+        before = panel.locator("table.sizes-table").inner_text()
+        panel.get_by_label("Values at these sizes", exact=True).fill("25 nm; NaN")
+        error = panel.locator(".field[data-field=sizes] .error")
+        error.wait_for(state="visible")
+        assert "not a number" in error.inner_text()
+        assert panel.locator(".stale-note").is_visible()
+        assert panel.locator("table.sizes-table").inner_text() == before  # nothing changed
+        screenshot(page, "deposition-sizes-375")
+    finally:
+        context.close()
+    assert not watch.errors and not watch.outside

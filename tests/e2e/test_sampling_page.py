@@ -19,8 +19,9 @@ from driftdose import api, export
 from driftdose.api.sampling import DEMOS
 from driftdose.api.units import unit_label
 
-from .conftest import new_watched_page, screenshot, wait_ready
+from .conftest import ARTIFACTS, new_watched_page, screenshot, wait_ready
 from .helpers import export_parts, parse_shown, round_sig
+from .test_layout import BROKEN_WORDS_JS
 
 pytestmark = pytest.mark.e2e
 
@@ -605,3 +606,84 @@ def test_link_with_the_former_spectrum_source_name_still_reads(page, base_url):
     assert page.locator(PANEL).get_by_label("Measured spectrum to correct").input_value() == "csv"
     notice = page.locator("#link-notice")
     assert not notice.is_visible() or "refused" not in notice.inner_text()
+
+
+# --- values at the sizes the user types -----------------------------------------------------------
+
+SIZES_TYPED = "25 nm, 0.3 µm, 4 µm"
+
+
+def _size_cells(page, panel: str = PANEL) -> dict[tuple[int, str], str]:
+    cells = page.locator(f"{panel} table.sizes-table tbody td[data-key]")
+    out = {}
+    for i in range(cells.count()):
+        cell = cells.nth(i)
+        out[(int(cell.get_attribute("data-size")), cell.get_attribute("data-key"))] = (
+            cell.inner_text()
+        )
+    return out
+
+
+def test_typed_sizes_give_the_api_values_and_bad_entries_are_refused(browser, base_url):
+    context, page, watch = new_watched_page(
+        browser, base_url, viewport={"width": 1280, "height": 900}
+    )
+    try:
+        _open(page, base_url)
+        panel = page.locator(PANEL)
+        panel.get_by_label("Target curve").select_option("respirable")
+        before = _updates(page)
+        panel.get_by_label("Values at these sizes", exact=True).fill(SIZES_TYPED)
+        _after(page, before)
+        reply = _request(
+            [DEFAULT_TUBE, DEFAULT_BEND], target="respirable", sizes=q(SIZES_TYPED, "nm")
+        )
+        assert reply["ok"], reply
+        rows = reply["results"]["sizes_table"]["rows"]
+        names = panel.locator("table.sizes-table thead th").all_inner_texts()[1:]
+        assert names == [r["label"] for r in rows] == ["25 nm", "300 nm", "4 µm"]
+        shown = _size_cells(page)
+        expected = {(i, c["key"]): c for i, r in enumerate(rows) for c in r["quantities"]}
+        expected = {k: c for k, c in expected.items() if k[1] != "diameter"}
+        assert set(shown) == set(expected)
+        for (i, key), cell in expected.items():
+            if key == "aerodynamic":
+                assert shown[(i, key)] == rows[i]["label"]  # unit density: d_ae = d
+            else:
+                assert _shown_percent(shown[(i, key)]) == pytest.approx(
+                    round_sig(cell["value"]), rel=1e-12
+                ), (i, key)
+        # ISO 7708:1995: the respirable convention passes 50 % at 4 µm aerodynamic (tabulated
+        # value, from memory; the formula gives 49.97 %)
+        assert _shown_percent(shown[(2, "target")]) == pytest.approx(50.0, abs=0.05)
+        assert "sampling.sizes=" in urllib.parse.unquote_plus(page.url)  # travels with the link
+        panel.locator(".sizes-box").screenshot(
+            path=str(ARTIFACTS / "sampling-sizes-table-1280.png")
+        )
+        page.set_viewport_size({"width": 375, "height": 800})
+        assert page.evaluate("() => document.documentElement.scrollWidth") <= 375
+        broken = page.evaluate(BROKEN_WORDS_JS, panel.locator("table.sizes-table").element_handle())
+        assert not broken, broken
+        panel.locator("table.sizes-table").scroll_into_view_if_needed()
+        panel.locator(".sizes-box").screenshot(path=str(ARTIFACTS / "sampling-sizes-table-375.png"))
+        page.set_viewport_size({"width": 1280, "height": 900})
+
+        # refused entries: a message beside the field, the last table kept (marked stale)
+        for bad, words in (
+            ("5 nm, NaN", "not a number"),
+            ("-5 nm", "outside"),
+            (", ".join(["5"] * 13), "at most 12"),
+            ("9" * 400, "at most 300 characters"),
+        ):
+            before = _updates(page)
+            panel.get_by_label("Values at these sizes", exact=True).fill(bad)
+            error = panel.locator(".field[data-field=sizes] .error")
+            error.wait_for(state="visible")
+            assert words in error.inner_text(), (bad, error.inner_text())
+            assert panel.locator(".stale-note").is_visible()
+            assert _size_cells(page) == shown  # nothing changed
+        panel.get_by_label("Values at these sizes", exact=True).fill("")
+        page.wait_for_function("() => !document.querySelector('#panel-sampling table.sizes-table')")
+    finally:
+        context.close()
+    assert not watch.errors and not watch.outside

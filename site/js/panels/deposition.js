@@ -5,6 +5,7 @@ import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from
 import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
 import { fromSI, toSI, unitText, withUnit } from "../units.js";
+import { sizesTable } from "../sizetable.js";
 
 export const id = "deposition";
 export const title = "Where it lands";
@@ -35,6 +36,7 @@ export function mount(root, { engine, description }) {
   const modesBox = el("div", { class: "table-box", "data-part": "modes" });
   const ldsaBox = el("div", { class: "table-box", "data-part": "ldsa" });
   const regionBox = el("div", { class: "table-box" });
+  const sizesBox = el("div", { "data-part": "sizes" }); // the exact values at the typed sizes
   const metricSelect = el("select", { id: "deposition-metric" });
   for (const [value, label] of METRICS) metricSelect.append(el("option", { value }, label));
   metricSelect.value = "mass";
@@ -77,7 +79,7 @@ export function mount(root, { engine, description }) {
     render(reply) {
       lastReply = reply;
       const keys = Object.keys(reply.results);
-      const general = keys.filter((k) => !/^(fraction|rate|dose|ldsa|mode\d+)_/.test(k));
+      const general = keys.filter((k) => !/^(fraction|rate|dose|ldsa|mode\d+)_/.test(k) && k !== "sizes_table");
       const modeKeys = keys.filter((k) => /^mode\d+_/.test(k));
       summaryBox.replaceChildren(resultsTable(reply.results, "Aerosol and breathing", general));
       modesBox.replaceChildren(...(modeKeys.length
@@ -87,6 +89,8 @@ export function mount(root, { engine, description }) {
         "Lung-deposited surface area (LDSA): deposited particle surface per cm³ of inhaled air",
         keys.filter((k) => k.startsWith("ldsa_"))));
       renderRegions();
+      const sizes = sizesTable(reply.results.sizes_table, "deposition-sizes");
+      sizesBox.replaceChildren(...(sizes ? [sizes] : []));
       renderFractionChart(reply.curves);
       renderDoseChart();
     },
@@ -241,6 +245,6 @@ export function mount(root, { engine, description }) {
   panel.onChange(sayMedians);
   sayMedians();
 
-  panel.body.append(summaryBox, modesBox, ldsaBox, regionBox, controls, doseFigure.figure, fractionFigure.figure);
+  panel.body.append(summaryBox, modesBox, ldsaBox, regionBox, sizesBox, controls, doseFigure.figure, fractionFigure.figure);
   return panel;
 }

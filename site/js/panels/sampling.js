@@ -8,6 +8,7 @@ import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from
 import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
 import { fromSI, toSI, unitText, withUnit } from "../units.js";
+import { sizesTable } from "../sizetable.js";
 import { chainEditor } from "./chain.js";
 import { spectrumView } from "./spectrum.js";
 
@@ -31,11 +32,16 @@ export function mount(root, { engine, description }) {
   const summaryBox = el("div", { class: "table-box summary-box" });
   const stageBox = el("div", { class: "table-box", tabindex: "0", role: "region", "aria-label": "Penetration by stage (scrolls sideways on narrow screens)" });
   const detailBox = el("div", { class: "stage-details" });
+  const sizesBox = el("div", { "data-part": "sizes" }); // the exact values at the typed sizes
   const penetrationFigure = chartFigure("sampling-penetration",
     "Penetration (the fraction of particles that get through) against particle size, for each stage and for the whole chain, with the target curve if one is chosen.",
     "Save penetration chart image", "drift-dose-sampling-penetration.png", () => penetrationChart,
     () => ({ title: "Penetration through the sampling chain against particle size", scenario: scenario() }));
   const spectrum = spectrumView(() => scenario());
+  // totals of measured and corrected number, under the corrected spectrum (how each total is
+  // formed is in its note)
+  const spectrumTotals = el("div", { class: "table-box", "data-part": "spectrum-totals" });
+  spectrum.section.append(spectrumTotals);
   const panel = new CalcPanel(root, {
     id, kind: "sampling", title: "What the sampler sees: sampling lines and pre-separators",
     intro: "Build the chain of tubes, bends, pre-separators, impactor stages and wire screens between the air you sample and your instrument or filter. See what fraction of each particle size gets through, compare it with a health-related fraction or with where particles deposit in the airways, and correct a measured spectrum for the losses.",
@@ -47,9 +53,13 @@ export function mount(root, { engine, description }) {
       const results = reply.results;
       summaryBox.replaceChildren(resultsTable(results, results.departure_max ? "Whole chain and target" : "Whole chain", SHOWN_KEYS));
       renderStageTable(results);
+      const sizes = sizesTable(results.sizes_table, "sampling-sizes");
+      sizesBox.replaceChildren(...(sizes ? [sizes] : []));
       renderDetails(results.stages_table);
       renderPenetrationChart(reply.curves);
       spectrum.render(results.spectrum_table, reply.curves.spectrum, reply.curves);
+      spectrumTotals.replaceChildren(...(results.spectrum_total_measured
+        ? [resultsTable(results, "Total number concentration of the spectrum", ["spectrum_total_measured", "spectrum_total_corrected"])] : []));
     },
   });
 
@@ -213,6 +223,6 @@ export function mount(root, { engine, description }) {
     return [...chain.describe(inputs.stages), ...baseDescribe(shown)];
   };
 
-  panel.body.append(summaryBox, stageBox, penetrationFigure.figure, spectrum.section, detailBox);
+  panel.body.append(summaryBox, stageBox, sizesBox, penetrationFigure.figure, spectrum.section, detailBox);
   return panel;
 }
