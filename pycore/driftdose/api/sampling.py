@@ -21,8 +21,12 @@ and shapes the reply. Reply:
 - ``results``: the overall penetration at 10 nm, 100 nm, 1 um and 10 um, the size band
   passed with at least 50 %, the departure from the target, a ``stages_table`` (per stage:
   ``index``, ``type``, ``type_label``, the user's ``name`` (``""`` if none), regime, key
-  numbers, penetration at those sizes, its 50 % sizes, warnings) and, with a spectrum, a
-  ``spectrum_table`` with bins flagged where the chain passes less than 50 %;
+  numbers, penetration at those sizes, its 50 % sizes, warnings), with ``sizes`` typed a
+  ``sizes_table`` (:func:`driftdose.api.size_list.sizes_table`: every stage, the whole chain
+  and the target at each size) and, with a spectrum, a ``spectrum_table`` in the file's own
+  concentration terms with bins flagged where the chain passes less than 50 %, and the totals
+  ``spectrum_total_measured`` and ``spectrum_total_corrected``
+  (:mod:`driftdose.api.sampling_spectrum`);
 - ``warnings`` and ``sources``.
 
 Bad input gives ``{"ok": false, "errors": [...]}`` with one message per faulty field.

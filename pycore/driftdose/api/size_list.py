@@ -147,12 +147,15 @@ class SizeListField(Field):
                     "two sizes; separate sizes with a comma and a blank (25, 300), or with "
                     "semicolons when you write decimal commas (0,3 µm; 4 µm).",
                 )
+            after = pos
             while pos < end and text[pos].isspace():
                 pos += 1
             u = _UNIT.match(text, pos)
             own = None
             if u:
                 own, pos = u.group(), u.end()
+            else:
+                pos = after  # the blanks separate this size from the next
             if pos < end and not (text[pos].isspace() or text[pos] in separators):
                 shown = text[m.start() : pos + 1]
                 raise FieldError(
