@@ -1062,7 +1062,8 @@ def test_main_batch_sampling_is_offered_too(capsys, tmp_path):
     header = rows[0]
     for key, row in reply["results"].items():
         if "value" in row:
-            column = header.index(f"{row['label']} [{row['unit']}]".replace(" [–]", ""))
+            label = row["label"] + (f" ({row['note']})" if row.get("note") else "")
+            column = header.index(f"{label} [{row['unit']}]".replace(" [–]", ""))
             assert float(rows[1][column]) == row["value"], key
 
 
