@@ -241,6 +241,11 @@ def test_deposition_record_of_invented_spectrum_is_compact_and_marked(page, base
     before = _updates(page, "deposition")
     page.get_by_role("button", name=re.compile("Invented demo: measured spectrum")).click()
     _settle(page, "deposition", before)
+    before = _updates(page, "deposition")
+    page.locator("#panel-deposition").get_by_label("Values at these sizes", exact=True).fill(
+        "25 nm, 0.3 µm, 4 µm"
+    )
+    _settle(page, "deposition", before)
     demo = next(
         d
         for f in api.describe()["calculations"]["deposition"]["fields"]
@@ -266,6 +271,11 @@ def test_deposition_record_of_invented_spectrum_is_compact_and_marked(page, base
         assert not re.search(r"\b(fraction|dose|rate)_[a-z0-9]+_", text)
         assert "ICRP (1994)" in text
         assert re.search(r"Exposure duration\s+8\s+h", text)
+        # the values at the sizes typed: a column per size, a row per region and convention
+        assert text.count("Values at your sizes") == 1
+        assert re.search(r"25 nm\s+300 nm\s+4 µm", text)
+        assert re.search(r"Total deposition(\s+[\d.]+ %){3}", text)
+        assert re.search(r"ISO 7708 respirable(\s+[\d.]+ %){3}", text)
 
 
 SPECTRUM_BINS = 100
@@ -295,6 +305,9 @@ def test_sampling_record_with_spectrum_file_fits_and_names_the_file(page, base_u
     before = _updates(page, "sampling")
     panel.get_by_label("Concentration column").select_option("dN/dlogDp")
     _settle(page, "sampling", before)
+    before = _updates(page, "sampling")
+    panel.get_by_label("Values at these sizes", exact=True).fill("25 nm, 0.3 µm, 4 µm")
+    _settle(page, "sampling", before)
     assert panel.locator("table.spectrum-table tbody tr").count() == SPECTRUM_BINS
     saved = _saved(page)
     fingerprint = _fingerprint("sampling", saved["panels"]["sampling"], saved["survey"])
@@ -320,3 +333,9 @@ def test_sampling_record_with_spectrum_file_fits_and_names_the_file(page, base_u
         bins = re.findall(r"\d[\d.]*\s+[\d.]+(?: × 10⁻?[⁰¹²³⁴⁵⁶⁷⁸⁹]+)?\s+[\d.]+\s*%", text)
         assert len(bins) == SPECTRUM_BINS, len(bins)
         assert "Invented demo data" not in text
+        # the values at the sizes typed, and the spectrum in the file's terms with its totals
+        assert re.search(r"25 nm\s+300 nm\s+4 µm", text)
+        assert re.search(r"Whole chain(\s+[\d.]+ %){3}", text)
+        assert "dN/dlogDp, 1/cm³" in text
+        assert re.search(r"Total number concentration, measured[^\n]*\s[\d.]+\s+1/cm³", text)
+        assert "Total number concentration, corrected" in text

@@ -667,6 +667,13 @@ def test_typed_sizes_give_the_api_values_and_bad_entries_are_refused(browser, ba
         panel.locator("table.sizes-table").scroll_into_view_if_needed()
         panel.locator(".sizes-box").screenshot(path=str(ARTIFACTS / "sampling-sizes-table-375.png"))
         page.set_viewport_size({"width": 1280, "height": 900})
+        link = page.url  # the link brings the sizes back, and the same values
+        page.goto("about:blank")
+        page.goto(link)
+        wait_ready(page)
+        page.wait_for_selector(f"{PANEL} table.sizes-table")
+        assert _size_cells(page) == shown
+        panel = page.locator(PANEL)
 
         # refused entries: a message beside the field, the last table kept (marked stale)
         for bad, words in (
