@@ -133,7 +133,7 @@ def test_deposition_values_equal_the_curves_at_grid_sizes():
     reply = deposition(sizes=q("10 nm, 1 µm", "nm"))
     table = _table(reply)
     curves = reply["curves"]["deposition"]
-    x = curves["total"]["x"]
+    x = export.curve_x(reply["curves"], curves["total"])
     for j, size_um in enumerate((0.01, 1.0)):
         k = min(range(len(x)), key=lambda i: abs(x[i] - size_um))
         assert x[k] == pytest.approx(size_um, rel=1e-9)
