@@ -285,5 +285,5 @@ def test_dnddp_per_m3_spectrum_shown_as_imported():
     assert res["spectrum_table"]["concentration_label"] == "dN/dDp, 1/m³ per µm"
     total = float(np.sum(np.asarray(c) * np.diff(_edges(d_um))))
     assert res["spectrum_total_measured"]["value"] == pytest.approx(total, rel=1e-12)
-    assert res["spectrum_total_measured"]["unit"] == "1/m³"
+    assert res["spectrum_total_measured"]["unit"] == "1/m3"  # a code of the unit table
     assert "Σ dN/dDp × ΔDp" in res["spectrum_total_measured"]["note"]

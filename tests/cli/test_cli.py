@@ -1063,7 +1063,7 @@ def test_main_batch_sampling_is_offered_too(capsys, tmp_path):
     for key, row in reply["results"].items():
         if "value" in row:
             label = row["label"] + (f" ({row['note']})" if row.get("note") else "")
-            column = header.index(f"{label} [{row['unit']}]".replace(" [–]", ""))
+            column = header.index(f"{label} [{unit_label(row['unit'])}]".replace(" [–]", ""))
             assert float(rows[1][column]) == row["value"], key
 
 

@@ -150,7 +150,7 @@ def spectrum_reply(
         ],
     }
     factor = to_si(1.0, "number_concentration", terms.concentration_unit)
-    unit = unit_label(terms.concentration_unit)
+    unit = terms.concentration_unit
     how = {
         "per_bin": "sum of the bins' particle numbers",
         "dN/dlogDp": "Σ dN/dlogDp × Δlog10 Dp over the bins",
@@ -158,14 +158,14 @@ def spectrum_reply(
     }[terms.concentration_type]
     left = len(sp.corrected) - sp.corrected_bins
     results["spectrum_total_measured"] = row(
-        "Total number concentration, measured", sp.measured_total, factor, unit, "1/m³", "N", how
+        "Total number concentration, measured", sp.measured_total, factor, unit, "1/m3", "N", how
     )
     results["spectrum_total_corrected"] = row(
         "Total number concentration, corrected for the chain's losses",
         sp.corrected_total,
         factor,
         unit,
-        "1/m³",
+        "1/m3",
         "N",
         how + (f"; {left} bins with no corrected value left out" if left else ""),
     )

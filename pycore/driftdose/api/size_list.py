@@ -234,12 +234,12 @@ def sizes_table(
     rows = []
     for i, (d, d_ae) in enumerate(zip(answers.sizes, answers.aerodynamic, strict=True)):
         quantities = [
-            {**row(f"Diameter ({coordinate})", d, 1e-6, "µm", "m"), "key": "diameter"},
-            {**row("Aerodynamic diameter", d_ae, 1e-6, "µm", "m"), "key": "aerodynamic"},
+            {**row(f"Diameter ({coordinate})", d, 1e-6, "um", "m"), "key": "diameter"},
+            {**row("Aerodynamic diameter", d_ae, 1e-6, "um", "m"), "key": "aerodynamic"},
         ]
         for key, label in columns:
             p = answers.values[key][i]
-            cell = row(label, p, 0.01, "%", "–") if p is not None else _blank(label)
+            cell = row(label, p, 0.01, "%", "1") if p is not None else _blank(label)
             quantities.append({**cell, "key": key})
         rows.append({"label": size_text(d), "quantities": quantities})
     return {
