@@ -1,7 +1,7 @@
 // The table of exact values at the sizes the user typed (reply result "sizes_table", shaped by
 // driftdose.api.size_list): one row per size, a column per curve. Shared by the sampling and
 // deposition panels; presentation only, every number comes from the reply.
-import { el } from "./forms.js";
+import { el } from "./dom.js";
 import { formatNumber, lengthTick } from "./format.js";
 import { unitText } from "./units.js";
 
