@@ -303,10 +303,14 @@ def convention_shares(
     Notes
     -----
     Each quadrature node's aerodynamic diameter (Hinds 1999, eq. 3.30 with slip) is solved
-    once and reused for every weight and convention.
+    once (:func:`driftdose.particle.aerodynamic_diameters`, a mode's nodes in order) and
+    reused for every weight and convention.
     """
     modes = parts(distribution)
-    cache: dict[tuple[float, float, float], float] = {}
+    names = tuple(CONVENTIONS)
+    convs = tuple(CONVENTIONS.values())
+    # each node's convention values, by (diameter, density, shape factor)
+    cache: dict[tuple[float, float, float], tuple[float, ...]] = {}
     result: dict[str, dict[str, float]] = {}
     for weight in weights:
         total = distribution.total(weight)
@@ -314,17 +318,20 @@ def convention_shares(
         if total <= 0.0:
             result[weight] = out
             continue
+        sums = [0.0] * len(names)
         for m in modes:
             rho, chi = m.density, m.shape_factor
             ln_gsd = getattr(m, "ln_gsd", None)
             step = min(ln_gsd / 6.0, CONVENTION_STEP) if ln_gsd else None
             nodes = m.quadrature(weight, step) if step else m.quadrature(weight)
+            new = [d for d, _ in nodes if (d, rho, chi) not in cache]
+            solved = particle.aerodynamic_diameters(new, rho, chi, T, P)
+            for d, d_ae in zip(new, solved, strict=True):
+                cache[(d, rho, chi)] = tuple(conv(d_ae) for conv in convs)
             for d, w in nodes:
-                key = (d, rho, chi)
-                d_ae = cache.get(key)
-                if d_ae is None:
-                    d_ae = cache[key] = particle.aerodynamic_diameter(d, rho, chi, T, P)
-                for name, conv in CONVENTIONS.items():
-                    out[name] += w * conv(d_ae)
+                values = cache[(d, rho, chi)]
+                for i in range(len(sums)):
+                    sums[i] += w * values[i]
+        out = dict(zip(names, sums, strict=True))
         result[weight] = {k: v / total for k, v in out.items()}
     return result

@@ -175,6 +175,40 @@ def test_aerodynamic_newton_vs_brentq_and_previous_solve(d, rho, chi, T, P) -> N
     assert ours == pytest.approx(previous, rel=1e-10)
 
 
+@pytest.mark.parametrize(
+    ("rho", "chi", "T", "P"),
+    [
+        (100.0, 1.0, 293.15, 101325.0),
+        (3000.0, 1.5, 310.15, 101325.0),
+        (22000.0, 4.0, 250.0, 50e3),
+        (1000.0, 1.0, 293.15, 101325.0),  # unit-density spheres: the sizes themselves
+    ],
+)
+@pytest.mark.parametrize("order", ["increasing", "decreasing", "shuffled"])
+def test_aerodynamic_diameters_of_a_grid_vs_brentq_and_one_at_a_time(rho, chi, T, P, order):
+    # The grid solve starts each Newton iteration from its neighbours' solutions; the root is
+    # the same: brentq on the same relation (rel 1e-12, as one solve at a time) and the single
+    # solve (within 1e-13: both stop on a Newton step shorter than 1e-7 in ln d).
+    sizes = [1e-9 * 10 ** (i / 48) for i in range(241)] + [3e-9, 3e-9]  # a repeated size too
+    if order == "decreasing":
+        sizes.reverse()
+    elif order == "shuffled":
+        sizes = [sizes[(i * 97) % len(sizes)] for i in range(len(sizes))]
+    got = particle.aerodynamic_diameters(sizes, rho, chi, T, P)
+    assert len(got) == len(sizes)
+    for d, ours in zip(sizes[::12], got[::12], strict=True):
+        target = d * d * particle.slip_correction(d, T, P) * rho / chi
+
+        def g(x: float, target=target) -> float:
+            return x * x * particle.slip_correction(x, T, P) * 1000.0 - target
+
+        ref = brentq(g, d * 1e-3, d * 1e3, xtol=1e-30, rtol=1e-14, maxiter=500)
+        assert ours == pytest.approx(ref, rel=1e-12)
+    single = [particle.aerodynamic_diameter(d, rho, chi, T, P) for d in sizes]
+    assert got == pytest.approx(single, rel=1e-13)
+    assert particle.aerodynamic_diameters([], rho, chi, T, P) == []
+
+
 # ---------------------------------------------------------------------------------------------
 # Aerodynamic <-> volume-equivalent diameter vs brentq on the same relation
 # ---------------------------------------------------------------------------------------------

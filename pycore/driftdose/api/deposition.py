@@ -208,10 +208,11 @@ def _curves(result: Deposition) -> dict[str, Any]:
         r: {"label": REGION_LABELS[r], "x": x_um, "y": list(result.fractions[r])}
         for r in res.regions
     }
+    x_overlay = shared_axis(curves, "overlay_diameter", [x * 1e6 for x in result.overlay_sizes])
     overlay = {
         w: {
             "label": f"Your distribution by {w} (dW/dln d, scaled to peak 1)",
-            "x": x_um,
+            "x": x_overlay,
             "y": list(result.overlay[w]),
         }
         for w in ("number", "mass")

@@ -26,6 +26,7 @@ __all__ = [
     "CURVE_POINTS",
     "CURVE_RANGE",
     "DENSEST_MATERIAL",
+    "OVERLAY_POINTS",
     "Deposition",
     "ModeNumbers",
     "breathing_subject",
@@ -33,8 +34,16 @@ __all__ = [
     "validity_warnings",
 ]
 
-CURVE_POINTS = 241
-"""Sizes of the deposition curves."""
+CURVE_POINTS = 121
+"""Sizes of the deposition curves (24 per decade, every other size of the 241 the curves had
+before). Drawn as straight lines between sizes on a logarithmic axis, they depart from the
+model by at most 9.2e-4 in a deposition fraction (against 2001 sizes, ICRP 66 model, densities
+0.3 to 11 g/cm³; 2.3e-4 with 241 sizes): under a third of a pixel on a 0–1 axis 300 pixels
+high, so the eye cannot tell them apart, and the model runs at half as many sizes for the
+chart (``tests/core/test_compose_deposition.py``)."""
+OVERLAY_POINTS = 241
+"""Sizes of the distribution drawn over the curves (48 per decade: a narrow mode keeps its
+shape; it costs no model evaluation)."""
 CURVE_RANGE = (1e-9, 100e-6)
 """Size range of the deposition curves, the stated range of both models [m]."""
 DENSEST_MATERIAL = 22.6e3
@@ -92,12 +101,14 @@ class Deposition:
     ldsa : dict
         Lung-deposited surface area, ``alveolar``, ``tracheobronchial`` and ``total``. [m^2/m^3]
     sizes : tuple of float
-        Sizes of the curves, on the models' size axis. [m]
+        Sizes of the deposition curves (:data:`CURVE_POINTS`), on the models' size axis. [m]
     fractions : dict
         ``fractions[region]``: deposition fraction at each size, within 0 to 1. [-]
+    overlay_sizes : tuple of float
+        Sizes of the overlay (:data:`OVERLAY_POINTS`), on the models' size axis. [m]
     overlay : dict
-        ``overlay[weight]``: the distribution's dW/dln d at each size (``number`` and
-        ``mass``), scaled to a peak of 1. [-]
+        ``overlay[weight]``: the distribution's dW/dln d at each size of ``overlay_sizes``
+        (``number`` and ``mass``), scaled to a peak of 1. [-]
     modes : tuple of ModeNumbers
         The modes as the models use them (empty for a spectrum).
     warnings : tuple of str
@@ -114,6 +125,7 @@ class Deposition:
     ldsa: dict[str, float]
     sizes: tuple[float, ...]
     fractions: dict[str, tuple[float, ...]]
+    overlay_sizes: tuple[float, ...]
     overlay: dict[str, tuple[float, ...]]
     modes: tuple[ModeNumbers, ...]
     warnings: tuple[str, ...]
@@ -226,9 +238,10 @@ def compose_deposition(
         model, xs, desc.model_density, desc.model_shape_factor, subject, res.thermodynamic
     )
     fractions = {r: tuple(min(1.0, max(0.0, y)) for y in dep[r]) for r in res.regions}
+    overlay_xs = logspace(*CURVE_RANGE, OVERLAY_POINTS)
     overlay = {}
     for w in ("number", "mass"):
-        ys = [dist.density_per_ln_d(x, w) for x in xs]
+        ys = [dist.density_per_ln_d(x, w) for x in overlay_xs]
         top = max(ys) if ys else 0.0
         overlay[w] = tuple(y / top if top > 0 else 0.0 for y in ys)
     warnings = validity_warnings(
@@ -242,6 +255,7 @@ def compose_deposition(
         ldsa=lung_deposited_surface_area(res),
         sizes=tuple(xs),
         fractions=fractions,
+        overlay_sizes=tuple(overlay_xs),
         overlay=overlay,
         modes=_mode_numbers(aerosol),
         warnings=tuple(warnings + _basis_warnings(aerosol)),

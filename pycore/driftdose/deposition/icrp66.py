@@ -363,13 +363,15 @@ def icrp66_curves(
         k: [] for k in ("inhalable", "ET1", "ET2", "BB", "bb", "AI", "total", "d_ae")
     }
     aero = diameter_type == "aerodynamic"
-    for x in diameters:
-        if aero:
+    # the aerodynamic diameters of a grid of sizes, each solve started from its neighbours'
+    d_aes = None if aero else particle.aerodynamic_diameters(diameters, density, shape_factor, T, P)
+    for k, x in enumerate(diameters):
+        if d_aes is None:
             d_ae = x
             d = particle.volume_equivalent_diameter(x, density, shape_factor, T, P)
         else:
             d = x
-            d_ae = particle.aerodynamic_diameter(x, density, shape_factor, T, P)
+            d_ae = d_aes[k]
         if mobility:
             chi_th = shape_factor
             d_th = d * shape_factor * 1e6  # continuum mobility-equivalent diameter ~ d chi

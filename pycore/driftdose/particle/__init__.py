@@ -44,7 +44,12 @@ from .drag import (
     drag_factor_schiller_naumann1933,
     reynolds_number,
 )
-from .equivalent import aerodynamic_diameter, mobility_diameter, volume_equivalent_diameter
+from .equivalent import (
+    aerodynamic_diameter,
+    aerodynamic_diameters,
+    mobility_diameter,
+    volume_equivalent_diameter,
+)
 from .settling import (
     SETTLING_MODELS,
     settling_regime,
@@ -70,6 +75,7 @@ __all__ = [
     "STOKES_RE_MAX",
     "STOKES_STOPPING_RE_MAX",
     "aerodynamic_diameter",
+    "aerodynamic_diameters",
     "brownian_time",
     "crossover_diameter",
     "diffusion_coefficient",

@@ -9,6 +9,7 @@ and free-molecular limits.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from .. import gas
 from .._numerics import brent_root, newton_bracketed
@@ -58,6 +59,64 @@ def aerodynamic_diameter(
         return d
     ratio = density / (WATER_DENSITY * shape_factor)
     return _solve_equal_settling(d, ratio, T, P)
+
+
+def aerodynamic_diameters(
+    ds: Sequence[float],
+    density: float,
+    shape_factor: float = 1.0,
+    T: float = T_DEFAULT,
+    P: float = P_DEFAULT,
+) -> list[float]:
+    """:func:`aerodynamic_diameter` of many sizes at once (a size grid of a curve or quadrature).
+
+    Parameters
+    ----------
+    ds : sequence of float
+        Volume-equivalent diameters, best in increasing or decreasing order. [m]
+    density : float
+        Particle density. [kg/m^3]
+    shape_factor : float
+        Dynamic shape factor chi. [-]
+    T : float
+        Temperature. [K]
+    P : float
+        Pressure. [Pa]
+
+    Returns
+    -------
+    list of float
+        Aerodynamic diameters, one per size. [m]
+
+    Notes
+    -----
+    The same equation and the same safeguarded Newton iteration as
+    :func:`aerodynamic_diameter` (Hinds 1999, eq. 3.30 with slip), each solve started from
+    the solutions at the two sizes before it (ln d_ae - ln d extrapolated linearly in ln d)
+    instead of the continuum limit: on a grid of neighbouring sizes it needs two slip
+    evaluations instead of three to five. The results differ from one solve at a time by
+    about 1e-14 relative (the iteration's own precision).
+    """
+    if density == WATER_DENSITY and shape_factor == 1.0:
+        return list(ds)
+    r = density / (WATER_DENSITY * shape_factor)
+    two_lambda = 2.0 * gas.mean_free_path(T, P, reference="kim2005")
+    half_log_r = 0.5 * math.log(r)
+    out = []
+    last = before = None  # (ln d, ln d_ae - ln d) of the two sizes solved last
+    for d in ds:
+        ln_d = math.log(d)
+        offset = half_log_r  # the continuum limit
+        if last is not None:
+            offset = last[1]
+            if before is not None and last[0] != before[0]:
+                offset += (last[1] - before[1]) * (ln_d - last[0]) / (last[0] - before[0])
+        cc_d, _ = _slip_and_log_slope(d, two_lambda)
+        lo, hi = _ratio_bracket(d, r)
+        d_ae = _solve_d2cc(math.log(r * d * d * cc_d), lo, hi, ln_d + offset, two_lambda)
+        before, last = last, (ln_d, math.log(d_ae) - ln_d)
+        out.append(d_ae)
+    return out
 
 
 def volume_equivalent_diameter(
