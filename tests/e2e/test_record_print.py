@@ -238,13 +238,14 @@ def test_deposition_record_of_invented_spectrum_is_compact_and_marked(page, base
     page.goto(base_url + "#v=1&panel=deposition")
     _all_ready(page)
     _fill_survey(page)
-    before = _updates(page, "deposition")
-    page.get_by_role("button", name=re.compile("Invented demo: measured spectrum")).click()
-    _settle(page, "deposition", before)
+    # sizes typed first: a demo sets only its own inputs, and a change after it ends the demo
     before = _updates(page, "deposition")
     page.locator("#panel-deposition").get_by_label("Values at these sizes", exact=True).fill(
         "25 nm, 0.3 µm, 4 µm"
     )
+    _settle(page, "deposition", before)
+    before = _updates(page, "deposition")
+    page.get_by_role("button", name=re.compile("Invented demo: measured spectrum")).click()
     _settle(page, "deposition", before)
     demo = next(
         d
