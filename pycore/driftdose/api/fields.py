@@ -11,6 +11,7 @@ import math
 from dataclasses import dataclass, field
 from typing import Any
 
+from ..unit_labels import unit_text
 from .units import SI_UNIT, UNITS, auto_unit, canonical_unit, from_si, to_si, unit_label
 
 __all__ = ["Field", "FieldError", "FieldsError", "applies", "entered", "format_si", "parse_fields"]
@@ -383,8 +384,8 @@ def format_si(value: float, kind: str, unit: str, digits: int = 3) -> str:
     if "e" in text:
         mant, exp = text.split("e")
         text = f"{mant}×10{str(int(exp)).translate(_SUPERSCRIPT)}"
-    label = unit_label(unit)
-    return text if label == "–" else f"{text} {label}"
+    label = unit_text(canonical_unit(kind, unit))  # the unit table's text: none for a pure number
+    return f"{text} {label}" if label else text
 
 
 def entered(f: Field, inputs: dict[str, Any]) -> Any:
