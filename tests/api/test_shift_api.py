@@ -190,6 +190,9 @@ def test_gaps_are_reported():
         ({"background_method": "far_field"}, "background_text", "far-field"),
         ({"periods": [], "background_method": "marked_mean"}, "background_method", "background"),
         ({"benchmark": {"value": 5, "unit": "mg/m3"}}, "benchmark", "unit"),
+        # one or a thousand? refused as in every plain field (api.fields.parse_number)
+        ({"benchmark": {"value": "1,000", "unit": "1/cm3"}}, "benchmark", "ambiguous"),
+        ({"benchmark": {"value": "1_000", "unit": "1/cm3"}}, "benchmark", "not '1_000'"),
         ({"unmeasured_as": "background", "background_method": "none"}, "unmeasured_as", "method"),
         ({"series_text": None}, "series_text", "Choose"),
     ],

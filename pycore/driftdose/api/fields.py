@@ -14,7 +14,16 @@ from typing import Any
 from ..unit_labels import unit_text
 from .units import SI_UNIT, UNITS, auto_unit, canonical_unit, from_si, to_si, unit_label
 
-__all__ = ["Field", "FieldError", "FieldsError", "applies", "entered", "format_si", "parse_fields"]
+__all__ = [
+    "Field",
+    "FieldError",
+    "FieldsError",
+    "applies",
+    "entered",
+    "format_si",
+    "parse_fields",
+    "parse_number",
+]
 
 
 class FieldError(Exception):
@@ -372,6 +381,30 @@ def _number(f: Field, value: Any) -> float:
     if not math.isfinite(number):
         raise FieldError(f.name, f"{f.label} must be a finite number{_within(f)}.")
     return number
+
+
+def parse_number(value: Any, name: str, label: str) -> float:
+    """A finite number read by the rule every field follows.
+
+    A number, or text with a point or a decimal comma; "1,000" (one or a thousand?), "1_000",
+    booleans and non-finite values are refused. For a value that is not a field of its own
+    (e.g. the value of a ``{value, unit}`` pair).
+
+    Parameters
+    ----------
+    value : any
+        The value as sent.
+    name : str
+        Where an error is reported (a field's name or a path such as ``benchmark``).
+    label : str
+        What the message calls the value.
+
+    Returns
+    -------
+    float
+        The number, in the unit it was given in.
+    """
+    return _number(Field(name, label, "integer", None), value)
 
 
 _SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")

@@ -20,7 +20,7 @@ from ..shift.clock import DAY, ClockError, parse_clock_time, parse_iso
 from ..shift.periods import Period
 from .declare import positive, ratio
 from .exposure_fields import ACTIVITY, MODE_GSD, MODE_MEDIAN, ROUTE
-from .fields import Field, FieldError
+from .fields import Field, FieldError, parse_number
 from .spectrum_fields import D_RANGE
 from .units import unit_label
 
@@ -189,26 +189,8 @@ def quantity_scale(quantity: str, unit: str) -> float:
 
 
 def _number(raw: Any, path: str, what: str) -> float:
-    value = raw.get("value") if isinstance(raw, dict) else raw
-    if isinstance(value, str):
-        text = value.strip().replace("\u2212", "-").replace(" ", "")
-        if text.count(",") == 1 and "." not in text:
-            text = text.replace(",", ".")
-        if "_" in text:
-            raise FieldError(path, f"{what}: {value[:20]!r} is not a number.")
-        try:
-            value = float(text)
-        except ValueError:
-            raise FieldError(path, f"{what}: {value[:20]!r} is not a number.") from None
-    if isinstance(value, bool) or not isinstance(value, int | float):
-        raise FieldError(path, f"{what}: enter a number.")
-    try:
-        x = float(value)
-    except OverflowError:
-        x = math.inf
-    if not math.isfinite(x):
-        raise FieldError(path, f"{what}: enter a finite number.")
-    return x
+    """The number of a value or a ``{value, unit}`` pair, by the fields' own rule."""
+    return parse_number(raw.get("value") if isinstance(raw, dict) else raw, path, what)
 
 
 def column_records(
