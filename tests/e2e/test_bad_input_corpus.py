@@ -47,9 +47,9 @@ pytestmark = pytest.mark.e2e
 
 # The next valid input must bring the results back without a stuck page. This is a hang check,
 # not a speed target (speed lives in tests/bench/benchmark.py): a shared 2-core CI machine can
-# take over 1 s to re-read a 20 000-row file, a stuck worker never answers.
-RESPONSIVE_MS = 5000
+# take over 20 s to re-read a 20 000-row file under load, a stuck worker never answers.
 SLOW_MS = 30_000  # waiting for any reply to a bad input; only a hang exceeds it
+RESPONSIVE_MS = SLOW_MS
 
 FIELD_CASES = corpus.field_cases()
 COMBO_CASES = corpus.combo_cases()
