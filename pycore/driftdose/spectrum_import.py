@@ -50,16 +50,10 @@ CONCENTRATION_TYPES = ("per_bin", "dN/dlogDp", "dN/dDp")
 diameter, or per unit diameter."""
 
 
-class SpectrumError(ValueError):
+class SpectrumError(textfile.LineError):
     """A spectrum import problem; ``line`` is the 1-based line number where it lies, if any,
     and ``part`` the input that is wrong (``file``, ``header_line``, ``diameter_column`` or
     ``concentration_column``)."""
-
-    def __init__(self, message: str, line: int | None = None, part: str = "file") -> None:
-        super().__init__(message if line is None else f"Line {line}: {message}")
-        self.message = message
-        self.line = line
-        self.part = part
 
 
 @dataclass(frozen=True)

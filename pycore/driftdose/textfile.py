@@ -31,6 +31,7 @@ from typing import Any
 __all__ = [
     "MAX_BYTES",
     "DecodedText",
+    "LineError",
     "TextFileError",
     "decode_text",
     "decode_text_json",
@@ -46,6 +47,28 @@ LATIN1 = "windows-1252"
 
 # Windows-1252 leaves five bytes undefined; WHATWG maps them to the C1 controls of ISO 8859-1.
 _LATIN1_TABLE = "".join(bytes([b]).decode("cp1252", errors="ignore") or chr(b) for b in range(256))
+
+
+class LineError(ValueError):
+    """A problem at a place in a file: the base of the readers' errors.
+
+    Attributes
+    ----------
+    message : str
+        What is wrong, in plain words (without the line number).
+    line : int or None
+        The file's 1-based line where the problem lies, if any; the exception's own text
+        starts with "Line N:" then.
+    part : str
+        Which input is wrong (``"file"``, ``"header_line"``, a column or a period part).
+
+    """
+
+    def __init__(self, message: str, line: int | None = None, part: str = "file") -> None:
+        super().__init__(message if line is None else f"Line {line}: {message}")
+        self.message = message
+        self.line = line
+        self.part = part
 
 
 class TextFileError(ValueError):

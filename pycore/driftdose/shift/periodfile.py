@@ -35,6 +35,7 @@ from dataclasses import dataclass
 
 from ..deposition import ACTIVITIES, ROUTES
 from ..tables import CellError, Column, Table, TableError, number, pick_column, read_table
+from ..textfile import LineError
 from .clock import ClockError, parse_clock_time, parse_iso
 from .periods import MAX_PERIODS, PERIOD_KINDS, PROTECTION_MAX
 
@@ -59,7 +60,7 @@ LABEL_CHARS = 80
 _WORD = re.compile(r"[\s\-_]+")
 
 
-class PeriodFileError(ValueError):
+class PeriodFileError(LineError):
     """A periods file that cannot be used.
 
     Attributes
@@ -72,12 +73,6 @@ class PeriodFileError(ValueError):
         The period part (``start``, ``kind``, ...) or ``file`` / ``header_line``.
 
     """
-
-    def __init__(self, message: str, line: int | None = None, part: str = "file") -> None:
-        super().__init__(message if line is None else f"Line {line}: {message}")
-        self.message = message
-        self.line = line
-        self.part = part
 
 
 @dataclass(frozen=True)

@@ -36,7 +36,7 @@ _LINE_BREAK = re.compile(r"\r\n|\r|\n")
 _SEP_LINE = re.compile(r'^\s*"?sep=(.)"?\s*$', re.IGNORECASE)
 
 
-class TableError(ValueError):
+class TableError(textfile.LineError):
     """A problem with a measured file.
 
     Attributes
@@ -59,10 +59,7 @@ class TableError(ValueError):
         part: str = "file",
         candidates: list[str] | None = None,
     ) -> None:
-        super().__init__(message if line is None else f"Line {line}: {message}")
-        self.message = message
-        self.line = line
-        self.part = part
+        super().__init__(message, line, part)
         self.candidates = candidates or []
 
 
