@@ -2,7 +2,7 @@
 // summarised, the benchmark (value and a unit of that column's quantity), and the lognormal
 // modes that give each task's size distribution its shape. Each is a field handle of the
 // panel's form (get, set, showError, listen). Presentation only: the engine checks them.
-import { el, fieldId, fieldShell } from "./dom.js";
+import { el, fieldShell } from "./dom.js";
 import { unitLabel } from "./units.js";
 
 // units the engine accepts for a benchmark of each quantity (the first is the default)
@@ -96,103 +96,6 @@ export function benchmarkInput(container, field, getQuantity) {
       s.showError(message);
       if (message) input.setAttribute("aria-invalid", "true");
       else input.removeAttribute("aria-invalid");
-    },
-    listen(cb) { listeners.push(cb); },
-  };
-}
-
-/** Lognormal modes giving the shape of each task's size distribution: median, GSD, share. */
-export function modesInput(container, field, maxModes = 4) {
-  const wrap = el("div", { class: "field", "data-field": field.name });
-  const group = el("fieldset", { class: "item-list shift-modes" });
-  group.append(el("legend", {}, field.label));
-  if (field.help) group.append(el("p", { class: "help" }, field.help));
-  const list = el("div", { class: "items" });
-  const add = el("button", { type: "button", class: "secondary" }, "Add a mode");
-  const error = el("p", { class: "error", hidden: "" });
-  group.append(list, add, error);
-  wrap.append(group);
-  container.append(wrap);
-  const listeners = [];
-  const notify = () => {
-    for (const cb of listeners) cb();
-  };
-  let rows = [];
-  const text = (v) => (v === undefined || v === null ? "" : typeof v === "object" ? String(v.value ?? "") : String(v));
-
-  function addRow(m) {
-    const i = rows.length + 1;
-    const box = el("fieldset", { class: "item" });
-    box.append(el("legend", {}, `Mode ${i}`));
-    const mk = (label, value, size) => {
-      const id = fieldId("shift", "mode");
-      const f = el("div", { class: "field" });
-      const input = el("input", { id, type: "text", inputmode: "decimal", autocomplete: "off", size });
-      input.value = value;
-      f.append(el("label", { for: id }, label));
-      const r = el("div", { class: "field-row" });
-      r.append(input);
-      f.append(r);
-      box.append(f);
-      input.addEventListener("input", notify);
-      return { input, row: r };
-    };
-    const median = mk("Count median", text(m.median), "6");
-    const unit = el("select", { "aria-label": "Count median unit" });
-    for (const u of ["nm", "um"]) unit.append(el("option", { value: u }, unitLabel(u)));
-    unit.value = m.median && typeof m.median === "object" && m.median.unit === "um" ? "um" : "nm";
-    unit.addEventListener("change", notify);
-    median.row.append(unit);
-    const gsd = mk("GSD", text(m.gsd), "4");
-    const share = mk("Share of the number", text(m.share ?? 1), "4");
-    const remove = el("button", { type: "button", class: "secondary" }, `Remove mode ${i}`);
-    remove.addEventListener("click", () => {
-      rows = rows.filter((r) => r !== row);
-      box.remove();
-      relabel();
-      notify();
-    });
-    box.append(remove);
-    list.append(box);
-    const row = { box, median, unit, gsd, share, remove };
-    rows.push(row);
-    relabel();
-  }
-
-  function relabel() {
-    rows.forEach((r, i) => {
-      r.box.querySelector("legend").textContent = `Mode ${i + 1}`;
-      r.remove.textContent = `Remove mode ${i + 1}`;
-      r.remove.hidden = rows.length <= 1;
-    });
-    add.hidden = rows.length >= maxModes;
-  }
-
-  function set(raw) {
-    let items = raw;
-    if (typeof raw === "string") {
-      try { items = JSON.parse(raw); } catch { items = []; }
-    }
-    list.replaceChildren();
-    rows = [];
-    for (const m of (Array.isArray(items) ? items : []).slice(0, maxModes)) addRow(m && typeof m === "object" ? m : {});
-    if (!rows.length) addRow({});
-  }
-
-  add.addEventListener("click", () => {
-    addRow({ median: { value: "", unit: "nm" }, gsd: "", share: "" });
-    rows[rows.length - 1].median.input.focus();
-    notify();
-  });
-  set(field.default || []);
-  return {
-    field, wrap, input: add, unitSelect: null,
-    get: () => rows.map((r) => ({ median: { value: r.median.input.value, unit: r.unit.value }, gsd: r.gsd.input.value, share: r.share.input.value })),
-    set,
-    showError(message) {
-      error.textContent = message || "";
-      error.hidden = !message;
-      wrap.classList.toggle("invalid", Boolean(message));
     },
     listen(cb) { listeners.push(cb); },
   };

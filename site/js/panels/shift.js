@@ -4,13 +4,13 @@
 // the per-task table, the shift summary with its 8-h TWA, and the dose per region stacked by
 // task. Presentation only: every number and message comes from driftdose.api ("shift").
 import { CalcPanel } from "../panel.js";
-import { el } from "../forms.js";
+import { el, renderField } from "../forms.js";
 import { chartFigure } from "../charts.js";
 import { createTimeChart } from "../timechart.js";
 import { overlaps, spans } from "../periods.js";
 import { periodTable } from "../periodtable.js";
 import { importBlock } from "../shiftimport.js";
-import { benchmarkInput, modesInput, quantityPicker } from "../shiftchoices.js";
+import { benchmarkInput, quantityPicker } from "../shiftchoices.js";
 import { doseView, shiftSummary, taskTable } from "./shiftresults.js";
 
 export const id = "shift";
@@ -167,7 +167,7 @@ export function mount(root, { engine, description, forms }) {
   const modesBox = el("div");
   if (modesAt) modesAt.after(modesBox);
   else panel.fieldsBox.append(modesBox);
-  const modes = byName.modes ? modesInput(modesBox, byName.modes) : null;
+  const modes = byName.modes ? renderField(modesBox, byName.modes, "shift") : null; // the records field renderer
   columnsHandle?.listen(() => {
     quantity?.fill();
     benchmark?.fill();
