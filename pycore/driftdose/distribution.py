@@ -32,6 +32,8 @@ from dataclasses import dataclass
 from ._numerics import gauss_hermite
 
 __all__ = [
+    "GRID_SPAN",
+    "GRID_STEP_MAX",
     "GSD_MAX",
     "MAX_MODES",
     "WEIGHTS",
@@ -53,6 +55,17 @@ MAX_MODES = 4
 
 GSD_MAX = 5.0
 """Largest geometric standard deviation accepted as plausible for one mode. [-]"""
+
+GRID_STEP_MAX = 0.2
+"""Largest ln-d step of a lognormal mode's integration grid. [-]
+
+The deposition fractions vary on a scale of their own in ln d, whatever the width of the
+mode: the trapezoidal rule with steps up to 0.2 keeps deposited fractions above 1e-4 within
+2e-10 of a grid of step 0.0025 over GSDs 1.05 to 5 (0.25 gave 7e-9, 0.3 gave 1e-7)."""
+
+GRID_SPAN = 7.0
+"""Standard deviations of the integration grid below the count median and above the mass
+median: the weight outside is below 1.3e-12 of the total. [-]"""
 
 _MOMENT = {"number": 0, "surface": 2, "mass": 3}
 
@@ -242,20 +255,30 @@ class LognormalMode:
         """Mass per volume of air. [kg/m^3]"""
         return self.total("mass")
 
+    def step(self) -> float:
+        """Default ln-d step of the integration grid: min(ln GSD / 3, :data:`GRID_STEP_MAX`). [-]"""
+        return min(self.ln_gsd / 3.0, GRID_STEP_MAX)
+
+    def _lattice(self, step: float | None) -> tuple[float, range]:
+        """The grid's step h [-] and the integers k of its nodes ln d = k h (see :meth:`grid`)."""
+        s = self.ln_gsd
+        h = step or self.step()
+        lo = math.log(self.cmd) - GRID_SPAN * s
+        hi = math.log(self.cmd) + 3.0 * s * s + GRID_SPAN * s
+        return h, range(math.floor(lo / h), math.ceil(hi / h) + 1)
+
     def grid(self, step: float | None = None) -> list[float]:
         """Diameters [m] of the integration grid shared by all three weights.
 
-        Uniform in ln d with ``step`` (default ln GSD / 6), from 9 standard deviations below
-        the count median to 9 above the mass median. The default step changes deposited
-        fractions above 1e-4 by less than 1e-10 from a grid of step 0.0025
-        (``tests/core/test_dose.py``).
+        Uniform in ln d with ``step`` (default :meth:`step`), from :data:`GRID_SPAN` standard
+        deviations below the count median to as many above the mass median, its nodes on
+        the lattice ln d = k h (k an integer): a mode whose median moves keeps the nodes the
+        two positions share, so per-size terms computed before can be reused. With the
+        default step, deposited fractions above 1e-4 agree to 1e-8 with a grid of step
+        0.0025 (measured: below 2e-10; ``tests/core/test_dose.py``).
         """
-        s = self.ln_gsd
-        h = step or s / 6.0
-        lo = math.log(self.cmd) - 9.0 * s
-        hi = math.log(self.cmd) + 3.0 * s * s + 9.0 * s
-        n = math.ceil((hi - lo) / h) + 1
-        return [math.exp(lo + i * h) for i in range(n)]
+        h, ks = self._lattice(step)
+        return [math.exp(k * h) for k in ks]
 
     def quadrature(
         self, weight: str = "number", step: float | None = None
@@ -267,17 +290,46 @@ class LognormalMode:
         smooth per-size quantities the tests check 1e-6 against scipy's ``quad``.
         """
         total = self.total(weight)
-        med = self.median(weight)
+        lm = math.log(self.median(weight))
         s = self.ln_gsd
-        h = step or s / 6.0
-        ds = self.grid(h)
+        h, ks = self._lattice(step)
         c = total * h / (math.sqrt(2.0 * math.pi) * s)
-        lm = math.log(med)
-        return [(d, c * math.exp(-0.5 * ((math.log(d) - lm) / s) ** 2)) for d in ds]
+        exp = math.exp
+        out = []
+        for k in ks:
+            z = (k * h - lm) / s
+            out.append((exp(k * h), c * exp(-0.5 * z * z)))
+        return out
 
     def density_per_ln_d(self, d: float, weight: str = "number") -> float:
         """dW/dln d of the chosen weight at diameter ``d``. [unit of :meth:`total`]"""
         return self.total(weight) * lognormal_pdf_ln(d, self.median(weight), self.gsd)
+
+    def density_curve(self, ds: Sequence[float], weight: str = "number") -> list[float]:
+        """:meth:`density_per_ln_d` at every diameter of ``ds`` [m] (constants computed once).
+
+        Parameters
+        ----------
+        ds : sequence of float
+            Diameters. [m]
+        weight : str
+            ``number``, ``surface`` or ``mass``.
+
+        Returns
+        -------
+        list of float
+            dW/dln d at each diameter (Hinds 1999, eq. 4.33 per unit ln d, times the total
+            of the weight). [unit of :meth:`total`]
+        """
+        s = self.ln_gsd
+        c = self.total(weight) / (math.sqrt(2.0 * math.pi) * s)
+        lm = math.log(self.median(weight))
+        exp, log = math.exp, math.log
+        out = []
+        for d in ds:
+            z = (log(d) - lm) / s
+            out.append(c * exp(-0.5 * z * z))
+        return out
 
 
 @dataclass(frozen=True)
@@ -314,6 +366,24 @@ class Multimodal:
     def density_per_ln_d(self, d: float, weight: str = "number") -> float:
         """dW/dln d summed over the modes."""
         return sum(m.density_per_ln_d(d, weight) for m in self.modes)
+
+    def density_curve(self, ds: Sequence[float], weight: str = "number") -> list[float]:
+        """dW/dln d summed over the modes at every diameter of ``ds``.
+
+        Parameters
+        ----------
+        ds : sequence of float
+            Diameters. [m]
+        weight : str
+            ``number``, ``surface`` or ``mass``.
+
+        Returns
+        -------
+        list of float
+            The sum of the modes' :meth:`LognormalMode.density_curve`. [unit of :meth:`total`]
+        """
+        curves = [m.density_curve(ds, weight) for m in self.modes]
+        return [sum(v) for v in zip(*curves, strict=True)]
 
 
 @dataclass(frozen=True)
@@ -392,6 +462,24 @@ class BinnedSpectrum:
         if not 0 <= i < len(self.diameters):
             return 0.0
         return self._bin_total(i, q) / math.log(e[i + 1] / e[i])
+
+    def density_curve(self, ds: Sequence[float], weight: str = "number") -> list[float]:
+        """:meth:`density_per_ln_d` at every diameter of ``ds``.
+
+        Parameters
+        ----------
+        ds : sequence of float
+            Diameters. [m]
+        weight : str
+            ``number``, ``surface`` or ``mass``.
+
+        Returns
+        -------
+        list of float
+            dW/dln d at each diameter, constant across each bin, zero outside the spectrum.
+            [1/m^3, m^2/m^3 or kg/m^3 per unit ln d]
+        """
+        return [self.density_per_ln_d(d, weight) for d in ds]
 
 
 def bin_edges(diameters: Sequence[float]) -> tuple[float, ...]:

@@ -21,6 +21,7 @@ volume-equivalent diameter (common practice).
 from __future__ import annotations
 
 import math
+import operator
 from dataclasses import dataclass, field
 
 from .deposition import DEPOSITION_MODELS, Subject, deposition_curves, deposition_model
@@ -162,9 +163,11 @@ def deposited_dose(
             model, sizes, mode.density, mode.shape_factor, subject, thermodynamic
         )
         for w in WEIGHTS:
-            quad = mode.quadrature(w, step)
+            qs = [q for _, q in mode.quadrature(w, step)]
+            if len(qs) != len(sizes):
+                raise ValueError("quadrature and grid differ in length")
             for r in regions:
-                sums[r][w] += math.fsum(q * f for (_, q), f in zip(quad, curves[r], strict=True))
+                sums[r][w] += math.fsum(map(operator.mul, qs, curves[r]))
     ambient = {w: distribution.total(w) for w in WEIGHTS}
     fractions = {
         r: {w: (sums[r][w] / ambient[w] if ambient[w] > 0 else 0.0) for w in WEIGHTS}

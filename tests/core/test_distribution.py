@@ -147,3 +147,14 @@ def test_binned_spectrum_of_fine_bins_reproduces_lognormal():
 def test_binned_spectrum_rejects_unsorted():
     with pytest.raises(ValueError, match="increase"):
         BinnedSpectrum((2e-8, 1e-8), (1.0, 1.0))
+
+
+@pytest.mark.parametrize("weight", ["number", "surface", "mass"])
+def test_density_curve_equals_density_per_ln_d(weight):
+    sizes = [1e-9 * 1.3**k for k in range(60)]
+    modes = (LognormalMode(40e-9, 1.8, 1e11, 3000.0), LognormalMode(2e-6, 2.2, 1e6, 1500.0))
+    spectrum = BinnedSpectrum((20e-9, 50e-9, 100e-9, 300e-9), (1e9, 3e9, 2e9, 1e8), 2000.0)
+    for dist in (*modes, Multimodal(modes), spectrum):
+        curve = dist.density_curve(sizes, weight)
+        for d, y in zip(sizes, curve, strict=True):
+            assert y == pytest.approx(dist.density_per_ln_d(d, weight), rel=1e-13, abs=0.0)

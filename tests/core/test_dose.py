@@ -104,13 +104,20 @@ def test_deposited_dose_rejects_duration_outside_0_24h(hours):
         (3e-6, 3.0, 1000.0, 1.0),
         (10e-6, 1.3, 3000.0, 1.5),
         (30e-6, 2.2, 1000.0, 1.0),
+        (1.05e-9, 1.05, 1000.0, 1.0),
+        (100e-9, 5.0, 1000.0, 1.0),
+        (1e-6, 5.0, 8000.0, 1.0),
+        (8e-6, 3.5, 2000.0, 1.2),
+        (20e-6, 5.0, 1000.0, 1.0),
     ],
 )
-def test_deposited_fractions_default_step_match_a_fine_grid(cmd, gsd, density, shape_factor):
-    # numerical check of the quadrature: the default ln-d step (ln GSD / 6) against a grid of
-    # step 0.0025 (up to 15x finer); fractions above 1e-4 agree to 1e-8 (measured: below 1e-10)
+@pytest.mark.parametrize("route", ["nose", "mouth_breather"])
+def test_deposited_fractions_default_step_match_a_fine_grid(cmd, gsd, density, shape_factor, route):
+    # numerical check of the quadrature: the default ln-d step (ln GSD / 3, at most 0.2)
+    # against a grid of step 0.0025 (up to 80x finer); fractions above 1e-4 agree to 1e-8
+    # (measured: below 2e-10; a largest step of 0.25 gave 7e-9, 0.3 gave 1e-7)
     mode = LognormalMode(cmd, gsd, 1e10, density=density, shape_factor=shape_factor)
-    subject = REFERENCE_WORKER
+    subject = reference_worker(route)
     coarse = deposited_dose(mode, subject, 8 * 3600.0)
     fine = deposited_dose(mode, subject, 8 * 3600.0, step=0.0025)
     compared = 0
@@ -166,3 +173,27 @@ def test_deposition_curves_cache_is_bounded():
     for i in range(models.CURVE_CACHE_SIZE + 10):
         deposition_curves("simplified", [1e-7, 1e-6], 1000.0 + i, 1.0, worker)
     assert len(models._curve_cache) == models.CURVE_CACHE_SIZE
+
+
+def test_grid_nodes_lie_on_one_lattice_whatever_the_median():
+    # nodes at ln d = k h: a mode whose median moves keeps the nodes both grids cover, so
+    # per-size terms computed for one (the diffusion terms of ICRP 66) serve the other
+    a = LognormalMode(1.0e-6, 2.5, 1e9)
+    b = LognormalMode(1.3e-6, 2.5, 1e9)
+    h = a.step()
+    assert h == pytest.approx(0.2)
+    for d in a.grid():
+        k = math.log(d) / h
+        assert k == pytest.approx(round(k), abs=1e-9)
+    shared = set(a.grid()) & set(b.grid())
+    assert len(shared) >= len(a.grid()) - 3
+    assert [d for d, _ in a.quadrature("mass")] == a.grid()
+
+
+def test_grid_covers_seven_standard_deviations():
+    mode = LognormalMode(50e-9, 1.8, 1e10)
+    s = mode.ln_gsd
+    grid = mode.grid()
+    assert math.log(grid[0]) <= math.log(50e-9) - 7.0 * s
+    assert math.log(grid[-1]) >= math.log(mode.median("mass")) + 7.0 * s
+    assert math.log(grid[0]) > math.log(50e-9) - 7.0 * s - mode.step()

@@ -241,7 +241,7 @@ def compose_deposition(
     overlay_xs = logspace(*CURVE_RANGE, OVERLAY_POINTS)
     overlay = {}
     for w in ("number", "mass"):
-        ys = [dist.density_per_ln_d(x, w) for x in overlay_xs]
+        ys = dist.density_curve(overlay_xs, w)
         top = max(ys) if ys else 0.0
         overlay[w] = tuple(y / top if top > 0 else 0.0 for y in ys)
     warnings = validity_warnings(
