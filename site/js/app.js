@@ -9,6 +9,7 @@ import { fingerprint } from "./digest.js";
 import { STATE_FORMAT, STATE_VERSION, acceptedNotice, decodeFragment, readInputsFile, refusedNotice, schemaFrom } from "./intake.js";
 import { SURVEY_FIELDS, mountSurvey } from "./survey.js";
 import { encodeState } from "./state.js";
+import { coalesced } from "./later.js";
 import { setToolVersion } from "./charts.js";
 import { setUnitTable } from "./units.js";
 import * as motion from "./panels/motion.js";
@@ -129,13 +130,21 @@ function panelFingerprint(pid, panels, surveyValues) {
   return fingerprint({ kind: pid, inputs: panels[pid], survey: surveyValues });
 }
 
-function writeState() {
+function writeLink() {
   const survey_ = survey ? survey.get() : {};
   const panels = Object.keys(survey_).length ? { ...allInputs(), survey: survey_ } : allInputs();
   history.replaceState(null, "", `#${encodeState(active, panels)}`);
   const dropped = encodeState.dropped || [];
   document.getElementById("link-size-note").hidden = dropped.length === 0;
 }
+
+// The link in the address bar follows the inputs off the input path: an edit asks for it
+// (linkWriter.schedule) after its request has been posted, and it is written once per burst of
+// changes a task later, while the engine computes. Whatever reads the link (copy, record,
+// leaving the page) or shows results writes it first if it is due (flush), so a shown result
+// always has its inputs in the address bar.
+const linkWriter = coalesced(writeLink);
+const writeState = linkWriter.now;
 
 /** The notice at the top of the page about the last link or file read ("" hides it). */
 function notice(message) {
@@ -207,6 +216,7 @@ function setupTools() {
     }
   });
   document.getElementById("save-inputs").addEventListener("click", () => {
+    linkWriter.flush();
     const panels = allInputs();
     const surveyValues = survey.get();
     const fingerprints = Object.fromEntries(Object.keys(panels).map((pid) => [pid, panelFingerprint(pid, panels, surveyValues)]));
@@ -251,6 +261,7 @@ function setupTools() {
     window.print();
   });
   window.addEventListener("beforeprint", prepareReport);
+  window.addEventListener("pagehide", linkWriter.flush);
 }
 
 let pageStyle = null;
@@ -350,11 +361,12 @@ async function start() {
     const section = el("section", { id: `panel-${p.id}`, role: "tabpanel", "aria-labelledby": `tab-${p.id}`, class: "panel" });
     panels.append(section);
     const controller = p.mount(section, { engine, description: forms.calculations[p.kind || p.id], forms });
-    controller.onChange(() => writeState());
+    controller.onChange(linkWriter.schedule);
+    controller.onShown(linkWriter.flush);
     controllers.set(p.id, controller);
   }
   survey = mountSurvey(document.getElementById("survey"));
-  survey.onChange(() => writeState());
+  survey.onChange(linkWriter.schedule);
   // retained burden and dose ranges: sections of the deposition tab, fed by its inputs
   if (controllers.has("deposition") && forms.calculations.burden && forms.calculations.uncertainty) {
     const more = el("div", { id: "panel-deposition-more", class: "panel-more", "data-follows": "deposition", hidden: "" });
@@ -362,7 +374,8 @@ async function start() {
     const sections = mountSections(more,
       { engine, forms, deposition: controllers.get("deposition") });
     for (const controller of sections) {
-      controller.onChange(() => writeState());
+      controller.onChange(linkWriter.schedule);
+      controller.onShown(linkWriter.flush);
       controllers.set(controller.opts.id, controller);
     }
   }

@@ -24,6 +24,7 @@ export class CalcPanel {
     this.lastGoodInputs = null;
     this.demoLabel = "";
     this.listeners = new Set();
+    this.shownListeners = new Set();
 
     root.append(el("h2", { id: `${opts.id}-title` }, opts.title));
     if (opts.intro) root.append(el("p", { class: "intro" }, opts.intro));
@@ -146,8 +147,17 @@ export class CalcPanel {
     }
   }
 
+  /**
+   * Call `listener(panel)` on every change of the inputs, after the change's request has been
+   * posted: work there delays the next request, never the one of the change.
+   */
   onChange(listener) {
     this.listeners.add(listener);
+  }
+
+  /** Call `listener(panel)` when a reply has been shown, before `data-updates` counts it. */
+  onShown(listener) {
+    this.shownListeners.add(listener);
   }
 
   /** Inputs as they travel in links and files; an invented demo in use travels with them. */
@@ -190,14 +200,14 @@ export class CalcPanel {
     return box;
   }
 
-  /** Recalculate now, or right after the request in flight (coalescing bursts of input). */
+  /**
+   * Recalculate now, or right after the request in flight (coalescing bursts of input); then
+   * tell the change listeners (the request is on its way by then).
+   */
   schedule() {
+    if (this.busy) this.queued = true;
+    else this.recalc();
     for (const listener of this.listeners) listener(this);
-    if (this.busy) {
-      this.queued = true;
-      return;
-    }
-    this.recalc();
   }
 
   /**
@@ -229,6 +239,13 @@ export class CalcPanel {
       this.apply(reply, inputs);
     } catch (err) {
       this.apply(failureReply(`The results could not be shown (${describeError(err)}).`), inputs);
+    }
+    for (const listener of this.shownListeners) {
+      try {
+        listener(this);
+      } catch {
+        // the results are shown whatever a listener does
+      }
     }
     this.root.dataset.updatedMs = String(performance.now() - started);
     this.root.dataset.updates = String(Number(this.root.dataset.updates || 0) + 1);
