@@ -29,9 +29,17 @@ function isDecade(value) {
   return Math.abs(exp - Math.round(exp)) < 1e-9;
 }
 
-/** Tick label callback that keeps only powers of ten, labelled by `label(value)`. */
+/**
+ * Tick label callback of a logarithmic axis that labels only powers of ten, by `label(value)`.
+ * The other ticks are dropped (Chart.js drops a tick whose label is null): unlabelled, their
+ * grid lines transparent, they would only cost time on every update. The first and last stay,
+ * unlabelled, so that the axis is laid out as with all of them.
+ */
 export function decadeTicks(label) {
-  return (value) => (isDecade(value) ? label(value) : "");
+  return (value, index, ticks) => {
+    if (isDecade(value)) return label(value);
+    return index === 0 || index === ticks.length - 1 ? "" : null;
+  };
 }
 
 /** Chart.js options of one axis: {title, type, tick, readout, min, max, position, secondary}. */

@@ -1,5 +1,6 @@
-// Small pieces shared by the page's forms and panels: element creation, a select that keeps a
-// value it lacks, text of a raw value, unique ids and the shell of a field with its error line.
+// Small pieces shared by the page's forms and panels: element creation, in-place renewal of
+// shown results, a select that keeps a value it lacks, text of a raw value, unique ids and the
+// shell of a field with its error line.
 
 let counter = 0;
 
@@ -11,6 +12,61 @@ export function el(tag, attrs = {}, text = "") {
   }
   if (text) node.textContent = text;
   return node;
+}
+
+const ELEMENT = 1;
+const TEXT = 3;
+
+/**
+ * Make `fresh` (a node built anew, not in the page) the content of `old` (a node in the page of
+ * the same name) by changing `old` in place: texts and attributes that differ are written, and
+ * only where the children differ in number or names are they replaced by those of `fresh`. The
+ * page then shows exactly what `fresh` holds, but a table whose numbers changed keeps its
+ * elements, so the browser restyles and repaints only what changed. Event listeners and
+ * properties not held in attributes (an input's typed value) are not copied: use it for shown
+ * results, built by `el`.
+ */
+function renewNode(old, fresh) {
+  if (fresh.nodeType === TEXT) {
+    if (old.nodeValue !== fresh.nodeValue) old.nodeValue = fresh.nodeValue;
+    return;
+  }
+  if (fresh.nodeType !== ELEMENT) {
+    old.replaceWith(fresh);
+    return;
+  }
+  const wanted = fresh.attributes;
+  for (let i = 0; i < wanted.length; i++) {
+    const { name, value } = wanted[i];
+    if (old.getAttribute(name) !== value) old.setAttribute(name, value);
+  }
+  const had = old.attributes;
+  for (let i = had.length - 1; i >= 0; i--) {
+    if (!fresh.hasAttribute(had[i].name)) old.removeAttribute(had[i].name);
+  }
+  renewChildren(old, [...fresh.childNodes]);
+}
+
+function renewChildren(box, nodes) {
+  const old = box.childNodes;
+  let same = old.length === nodes.length;
+  for (let i = 0; same && i < nodes.length; i++) {
+    same = old[i].nodeType === nodes[i].nodeType && old[i].nodeName === nodes[i].nodeName;
+  }
+  if (!same) {
+    box.replaceChildren(...nodes);
+    return;
+  }
+  for (let i = 0; i < nodes.length; i++) renewNode(old[i], nodes[i]);
+}
+
+/**
+ * Show `nodes` (built anew, e.g. a results table) as the children of `box`, as
+ * `box.replaceChildren(...nodes)` would, changing the nodes already there in place where they
+ * have the same shape (see renewNode).
+ */
+export function renew(box, ...nodes) {
+  renewChildren(box, [...nodes]);
 }
 
 /** A unique element id for the field `name` under `prefix`. */

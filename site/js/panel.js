@@ -2,6 +2,7 @@
 // recalculation on input (only the newest reply is kept), per-field errors, stale marking of
 // the last good results, warnings and sources. A panel supplies only its own rendering.
 import { FieldSet, el } from "./forms.js";
+import { renew } from "./dom.js";
 import { formatNumber } from "./format.js";
 import { download, stamp } from "./files.js";
 import { failureReply } from "./engine.js";
@@ -287,14 +288,14 @@ export class CalcPanel {
   }
 
   renderWarnings(warnings) {
-    this.warnings.replaceChildren(...(warnings || []).map((w) => el("li", {}, w)));
+    renew(this.warnings, ...(warnings || []).map((w) => el("li", {}, w)));
     this.warnings.hidden = !warnings || warnings.length === 0;
   }
 
   renderSources(sources) {
     const list = el("ol");
     for (const s of sources || []) list.append(el("li", {}, s.citation));
-    this.sources.replaceChildren(el("summary", {}, "Published methods used"), list);
+    renew(this.sources, el("summary", {}, "Published methods used"), list);
   }
 }
 

@@ -1,6 +1,7 @@
 // Panel "Where it lands": regional deposition in the respiratory tract and dose per shift.
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el } from "../forms.js";
+import { renew } from "../dom.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
 import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
@@ -81,16 +82,16 @@ export function mount(root, { engine, description }) {
       const keys = Object.keys(reply.results);
       const general = keys.filter((k) => !/^(fraction|rate|dose|ldsa|mode\d+)_/.test(k) && k !== "sizes_table");
       const modeKeys = keys.filter((k) => /^mode\d+_/.test(k));
-      summaryBox.replaceChildren(resultsTable(reply.results, "Aerosol and breathing", general));
-      modesBox.replaceChildren(...(modeKeys.length
+      renew(summaryBox, resultsTable(reply.results, "Aerosol and breathing", general));
+      renew(modesBox, ...(modeKeys.length
         ? [resultsTable(reply.results, `Modes as the models use them (size axis: ${reply.curves.x_label.replace(/^Particle diameter \((.*)\)$/, "$1")} diameter)`, modeKeys)]
         : []));
-      ldsaBox.replaceChildren(resultsTable(reply.results,
+      renew(ldsaBox, resultsTable(reply.results,
         "Lung-deposited surface area (LDSA): deposited particle surface per cm³ of inhaled air",
         keys.filter((k) => k.startsWith("ldsa_"))));
       renderRegions();
       const sizes = sizesTable(reply.results.sizes_table, "deposition-sizes");
-      sizesBox.replaceChildren(...(sizes ? [sizes] : []));
+      renew(sizesBox, ...(sizes ? [sizes] : []));
       renderFractionChart(reply.curves);
       renderDoseChart();
     },
@@ -129,7 +130,7 @@ export function mount(root, { engine, description }) {
       body.append(tr);
     });
     table.append(body);
-    regionBox.replaceChildren(table);
+    renew(regionBox, table);
   }
 
   /** A value cell; `unit` the code printed after the number ("1": none, as under a column's unit). */

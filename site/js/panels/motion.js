@@ -2,6 +2,7 @@
 // with up to two more particles compared (each computed by its own request to the engine).
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el, renderField } from "../forms.js";
+import { renew } from "../dom.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
 import { MAX_COMPARED, axisTitle, curvePoints, particleLetter, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
@@ -51,12 +52,12 @@ export function mount(root, { engine, description }) {
     tableKeys: TABLE_KEYS,
     engine, description,
     render(reply) {
-      tableBox.replaceChildren(resultsTable(reply.results, rows.length ? "Properties of particle A" : "Properties of this particle", TABLE_KEYS));
+      renew(tableBox, resultsTable(reply.results, rows.length ? "Properties of particle A" : "Properties of this particle", TABLE_KEYS));
       if (rows.length) {
         compareAll(); // draws when the compared particles are in
       } else {
         compared = [];
-        compareTableBox.replaceChildren();
+        renew(compareTableBox);
         draw();
       }
     },
@@ -155,7 +156,7 @@ export function mount(root, { engine, description }) {
 
   function renderCompareTable() {
     if (!rows.length) {
-      compareTableBox.replaceChildren();
+      renew(compareTableBox);
       return;
     }
     const all = [{ letter: "A", reply: panel.lastGood }, ...compared];
@@ -181,7 +182,7 @@ export function mount(root, { engine, description }) {
       body.append(tr);
     }
     table.append(body);
-    compareTableBox.replaceChildren(table);
+    renew(compareTableBox, table);
   }
 
   // --- chart ---------------------------------------------------------------------------------

@@ -4,6 +4,7 @@
 // Presentation only: every number and every message comes from driftdose.api ("sampling").
 import { CalcPanel, resultsTable } from "../panel.js";
 import { el } from "../forms.js";
+import { renew } from "../dom.js";
 import { chartFigure, createChart, decadeTicks, seriesColour, setDatasets } from "../charts.js";
 import { axisTitle, curvePoints, readout } from "../chartparts.js";
 import { formatNumber, lengthTick } from "../format.js";
@@ -51,14 +52,14 @@ export function mount(root, { engine, description }) {
     describeData: (name, raw) => describeData(name, raw),
     render(reply) {
       const results = reply.results;
-      summaryBox.replaceChildren(resultsTable(results, results.departure_max ? "Whole chain and target" : "Whole chain", SHOWN_KEYS));
+      renew(summaryBox, resultsTable(results, results.departure_max ? "Whole chain and target" : "Whole chain", SHOWN_KEYS));
       renderStageTable(results);
       const sizes = sizesTable(results.sizes_table, "sampling-sizes");
-      sizesBox.replaceChildren(...(sizes ? [sizes] : []));
+      renew(sizesBox, ...(sizes ? [sizes] : []));
       renderDetails(results.stages_table);
       renderPenetrationChart(reply.curves);
       spectrum.render(results.spectrum_table, reply.curves.spectrum, reply.curves);
-      spectrumTotals.replaceChildren(...(results.spectrum_total_measured
+      renew(spectrumTotals, ...(results.spectrum_total_measured
         ? [resultsTable(results, "Total number concentration of the spectrum", ["spectrum_total_measured", "spectrum_total_corrected"])] : []));
     },
   });
@@ -118,7 +119,7 @@ export function mount(root, { engine, description }) {
     total.append(el("td", { class: "halves" }, results.pass_band ? results.pass_band.text : ""));
     body.append(total);
     t.append(body);
-    stageBox.replaceChildren(t);
+    renew(stageBox, t);
   }
 
   function renderDetails(table) {
@@ -137,7 +138,7 @@ export function mount(root, { engine, description }) {
       }
       parts.push(details);
     }
-    detailBox.replaceChildren(...parts);
+    renew(detailBox, ...parts);
   }
 
   function renderPenetrationChart(curves) {
