@@ -35,6 +35,7 @@ __all__ = [
     "TextFileError",
     "decode_text",
     "decode_text_json",
+    "decode_text_reply",
     "size_text",
     "too_large",
 ]
@@ -256,33 +257,33 @@ def decode_text_json(
     size : int, optional
         The file's size when ``data`` is None [bytes].
     """
+    return json.dumps(decode_text_reply(data, limit, name, size), ensure_ascii=False)
+
+
+def decode_text_reply(
+    data: Any, limit: int = MAX_BYTES, name: str | None = None, size: int | None = None
+) -> dict[str, Any]:
+    """The reply of :func:`decode_text_json` as a dict (parameters as there)."""
     if data is None:
         size = int(size or 0)
-        return json.dumps(
-            {"ok": False, "message": too_large(size, limit, name or "The file"), "size": size}
-        )
+        return {"ok": False, "message": too_large(size, limit, name or "The file"), "size": size}
     if not isinstance(data, bytes | bytearray | memoryview):
         data = data.to_bytes()  # a JavaScript Uint8Array in the page's worker
     raw = bytes(data)
     if raw and len(raw) > limit and name:
-        return json.dumps(
-            {"ok": False, "message": too_large(len(raw), limit, name), "size": len(raw)}
-        )
+        return {"ok": False, "message": too_large(len(raw), limit, name), "size": len(raw)}
     try:
         d = decode_text(raw, limit)
     except TextFileError as exc:
-        return json.dumps({"ok": False, "message": exc.message, "size": len(raw)})
-    return json.dumps(
-        {
-            "ok": True,
-            "text": d.text,
-            "encoding": d.encoding,
-            "bom": d.bom,
-            "size": d.size,
-            "size_text": size_text(d.size),
-            "replaced": d.replaced,
-            "notes": d.notes,
-            "sha256": d.sha256,
-        },
-        ensure_ascii=False,
-    )
+        return {"ok": False, "message": exc.message, "size": len(raw)}
+    return {
+        "ok": True,
+        "text": d.text,
+        "encoding": d.encoding,
+        "bom": d.bom,
+        "size": d.size,
+        "size_text": size_text(d.size),
+        "replaced": d.replaced,
+        "notes": d.notes,
+        "sha256": d.sha256,
+    }

@@ -35,6 +35,7 @@ function bandColour(kind) {
 export function createTimeChart(canvas, { onDrag, onCommit } = {}) {
   const state = {
     start: "", bands: [], clashes: [], log: false, hover: null, drag: null, min: 0, max: 1, unit: "",
+    shownBands: "", // the bands last drawn, as JSON
   };
   const bandPlugin = {
     id: "driftdoseBands",
@@ -202,6 +203,7 @@ export function createTimeChart(canvas, { onDrag, onCommit } = {}) {
     const d = state.drag;
     if (!d) return;
     state.drag = null;
+    state.shownBands = ""; // the bands were moved by hand: the next setBands draws
     canvas.releasePointerCapture?.(event.pointerId);
     if (keep && d.current && onCommit) onCommit(d.index, d.current);
     else if (!keep) {
@@ -250,17 +252,21 @@ export function createTimeChart(canvas, { onDrag, onCommit } = {}) {
       yAxis();
       setDatasets(chart, sets);
     },
-    /** Bands from periods.spans(); `clashes` from periods.overlaps(). */
+    /** Bands from periods.spans(); `clashes` from periods.overlaps(). Drawn only when changed. */
     setBands(bands, clashes = []) {
       if (state.drag) return;
+      const next = JSON.stringify([bands, clashes]);
+      if (next === state.shownBands) return;
+      state.shownBands = next;
       state.bands = bands.map((b) => ({ ...b }));
       state.clashes = clashes;
       chart.draw();
     },
-    setLog(log) {
+    /** Linear or logarithmic y; `draw` false when setSeries() follows and draws. */
+    setLog(log, draw = true) {
       state.log = Boolean(log);
       yAxis();
-      chart.update("none");
+      if (draw) chart.update("none");
     },
     /** The x range shown: [min, max] seconds from the series start. */
     range: () => [state.min, state.max],

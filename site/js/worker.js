@@ -29,6 +29,7 @@ const base = new URL("../", import.meta.url);
 const indexURL = new URL("pyodide/", base).href;
 let handleJson = null;
 let textfile = null;
+let keptTexts = null; // driftdose.api.kept: a picked file decoded and kept in one step
 let fileDescriber = null;
 let shiftDemo = null;
 // phase marks, in ms since the page's time origin's epoch (performance.timeOrigin + now())
@@ -141,6 +142,7 @@ async function start() {
   const api = pyodide.pyimport("driftdose.api");
   handleJson = api.handle_json;
   textfile = pyodide.pyimport("driftdose.textfile");
+  keptTexts = pyodide.pyimport("driftdose.api.kept");
   fileDescriber = pyodide.pyimport("driftdose.api.files");
   shiftDemo = pyodide.pyimport("driftdose.shift.demo");
   const version = pyodide.runPython("import driftdose\ndriftdose.__version__");
@@ -158,9 +160,12 @@ const started = start().catch((err) => {
 
 // A file the user picked, as bytes: decoded by the core's one decoder (driftdose.textfile),
 // the same the command line uses, so a file reads alike in both.
-function decodeFile({ bytes, limit, name, size }) {
+// With `keep`, the engine also keeps the text (reply "kept": its key), so the first request
+// names it instead of posting the text back.
+function decodeFile({ bytes, limit, name, size, keep }) {
   // undefined, not null: Pyodide turns undefined into None (null becomes its own jsnull)
-  return JSON.parse(textfile.decode_text_json(bytes ?? undefined, limit, name, size));
+  const decode = keep === true ? keptTexts.decode_kept_json : textfile.decode_text_json;
+  return JSON.parse(decode(bytes ?? undefined, limit, name, size));
 }
 
 // A decoded file described for the page (table found, preview, column pickers) by the core's

@@ -15,7 +15,7 @@ import json
 
 import pytest
 
-from driftdose import api
+from driftdose import api, textfile
 from driftdose.api import kept
 
 PERIODS = [
@@ -128,3 +128,26 @@ def test_a_failed_request_still_keeps_its_text():
     assert reply["ok"] is False and reply["errors"][0]["field"] == "periods.0.end"
     key = reply["kept"]["series_text"]
     assert api.handle(request(None, kept={"series_text": key}))["ok"]
+
+
+def test_a_file_kept_as_it_is_decoded_is_named_by_the_first_request():
+    text = logged()
+    # a byte-order mark: the key is that of the text, not of the file
+    raw = ("\ufeff" + text).encode("utf-8")
+    plain = json.loads(textfile.decode_text_json(raw, textfile.MAX_BYTES, "day.csv"))
+    reply = json.loads(kept.decode_kept_json(raw, textfile.MAX_BYTES, "day.csv"))
+    key = hashlib.sha256(text.encode("utf-8")).hexdigest()  # FIPS 180-4, as hashlib computes it
+    assert reply.pop("kept") == key
+    assert reply == plain, "the decoder's reply is unchanged"
+    assert reply["sha256"] == hashlib.sha256(raw).hexdigest() != key
+    named = api.handle(request(None, kept={"series_text": key}))
+    assert named == api.handle(request(text))
+
+
+def test_a_refused_file_is_not_kept():
+    reply = json.loads(kept.decode_kept_json(None, 1000, "big.csv", 5000))
+    assert reply["ok"] is False and "kept" not in reply
+    assert not kept._texts
+    binary = json.loads(kept.decode_kept_json(b"\x00\x01" * 3000, 100_000, "x.bin"))
+    assert binary["ok"] is False and "kept" not in binary
+    assert not kept._texts

@@ -618,3 +618,47 @@ def test_a_protection_factor_is_said_to_enter_the_dose_only():
     assert grinding["number"][k] == pytest.approx(same["number"][k] / 10, rel=1e-12)
     said = [w for w in worn["warnings"] if "outside the respiratory protection" in w]
     assert said and not [w for w in bare["warnings"] if "outside the respiratory" in w]
+
+
+def test_a_series_the_page_keeps_is_held_out_of_the_reply_and_nothing_else_changes():
+    far = "Time,Far [1/cm3]\n" + "".join(
+        f"2026-03-05T{6 + m // 60:02d}:{m % 60:02d}:00,1500\n" for m in range(8 * 60)
+    )
+    extra = {"background_text": far, "background_time_format": "iso", "background_column": "far"}
+    full = api.handle(request(**extra))
+    assert full["ok"], full
+    near, far_curve = full["curves"]["series"], full["curves"]["background"]
+    assert near["held"] is False and far_curve["held"] is False
+    assert len(near["t_s"]) == len(near["series"][0]["y"]) > 100
+    keys = f"{near['key']} {far_curve['key']}"
+    held = api.handle(request(series_drawn=keys, **extra))
+    assert held["results"] == full["results"] and held["warnings"] == full["warnings"]
+    for name in ("series", "background"):
+        curve = held["curves"][name]
+        assert curve["held"] is True and "t_s" not in curve
+        assert curve["key"] == full["curves"][name]["key"]
+        for one, whole in zip(curve["series"], full["curves"][name]["series"], strict=True):
+            if one["key"] == "background":  # moves with the periods: always sent
+                assert one == whole
+            else:
+                assert "y" not in one and one == {k: whole[k] for k in ("key", "label", "unit")}
+    # a key of another series (another file, another column) holds nothing back
+    other = api.handle(request(series_drawn="0" * 32, **extra))
+    assert other == full
+    moved = copy.deepcopy(PERIODS)
+    moved[1]["end"] = "08:45"
+    a = api.handle(request(periods=moved))
+    b = api.handle(request(periods=moved, series_drawn=near["key"]))
+    assert a["curves"]["series"]["key"] == near["key"], "the key names the thinned series only"
+    assert b["curves"]["series"]["held"] is True and a["results"] == b["results"]
+    # another summarised column's values give another key
+    ldsa = api.handle(
+        request(
+            quantity_columns=[{"column": "ldsa", "quantity": "ldsa"}],
+            benchmark={"value": 10, "unit": "um2/cm3"},
+            series_drawn=keys,
+        )
+    )
+    assert ldsa["ok"], ldsa
+    assert ldsa["curves"]["series"]["held"] is False
+    assert ldsa["curves"]["series"]["key"] != near["key"]

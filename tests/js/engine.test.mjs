@@ -159,3 +159,32 @@ test("a restarted engine is sent the text again", async () => {
   assert.equal(sent.inputs.series_text, text);
   assert.equal(sent.kept, undefined);
 });
+
+test("a long picked file is kept as it is decoded: the first request names it, never posts it", async () => {
+  const { engine, worker } = await readyEngine();
+  const text = "Time,Number\n" + "2026-03-10 08:00:00,1\n".repeat(3000);
+  const bytes = new TextEncoder().encode(text);
+  let pending = engine.decodeFile(bytes, 5 * 1024 * 1024, "day.csv", bytes.length);
+  await answer(worker, { ok: true, text, sha256: "b".repeat(64), kept: "k9" });
+  const decoded = await pending;
+  const asked = worker.posted.at(-1);
+  assert.equal(asked.op, "decode");
+  assert.equal(asked.keep, true, "a long file is kept by the engine as it is decoded");
+  assert.equal(decoded.kept, undefined, "the key is not part of the decoder's reply");
+  assert.equal(decoded.text, text);
+
+  pending = engine.request("shift", { series_text: text, periods: [] });
+  await answer(worker, { ok: true });
+  await pending;
+  const sent = worker.posted.at(-1);
+  assert.equal("series_text" in sent.inputs, false, "the text does not travel back into the engine");
+  assert.deepEqual(sent.kept, { series_text: "k9" });
+  assert.equal(sent.keep, undefined);
+
+  // a short file is decoded without being kept
+  const small = new TextEncoder().encode("a,b\n1,2\n");
+  pending = engine.decodeFile(small, 1024, "small.csv", small.length);
+  await answer(worker, { ok: true, text: "a,b\n1,2\n" });
+  await pending;
+  assert.equal(worker.posted.at(-1).keep, undefined);
+});

@@ -7,21 +7,24 @@ name it instead: ``"kept": {field: sha256}`` beside ``inputs``. A name the engin
 hold (a restarted worker, a text pushed out by newer ones) is answered with
 ``{"ok": false, "errors": [...], "resend": [field, ...]}``: the sender posts the text again.
 The key is the SHA-256 of the text's UTF-8 bytes, so a key names one text only, whatever
-the engine has seen before. The command line never uses this; links and saved inputs
+the engine has seen before. A picked file can be kept as it is decoded
+(:func:`decode_kept_json`): its first request then names it, and the text does not travel
+back into the engine. The command line never uses this; links and saved inputs
 files never carry keys.
 """
 
 from __future__ import annotations
 
 import hashlib
+import json
 import re
 from collections import OrderedDict
 from typing import Any
 
-from ..textfile import MAX_BYTES
+from ..textfile import MAX_BYTES, decode_text_reply
 from .fields import Field
 
-__all__ = ["KEPT_TEXTS", "recall", "remember"]
+__all__ = ["KEPT_TEXTS", "decode_kept_json", "recall", "remember"]
 
 KEPT_TEXTS = 4
 """Texts kept at most (the oldest is dropped first)."""
@@ -36,6 +39,39 @@ def _file_fields(fields: tuple[Field, ...]) -> set[str]:
 
 def _key(text: str) -> str:
     return hashlib.sha256(text.encode("utf-8", "surrogatepass")).hexdigest()
+
+
+def _keep(text: str) -> str:
+    key = _key(text)
+    _texts[key] = text
+    _texts.move_to_end(key)
+    while len(_texts) > KEPT_TEXTS:
+        _texts.popitem(last=False)
+    return key
+
+
+def decode_kept_json(
+    data: Any, limit: int = MAX_BYTES, name: str | None = None, size: int | None = None
+) -> str:
+    """Decode a picked file as :func:`driftdose.textfile.decode_text_json` does, and keep
+    its text: the reply adds ``"kept"``, the key a request names it by.
+
+    Parameters
+    ----------
+    data : bytes, Uint8Array or None
+        The file's content.
+    limit : int
+        Largest file read [bytes].
+    name : str, optional
+        The file's name, for messages.
+    size : int, optional
+        The file's size when ``data`` is None [bytes].
+    """
+    reply = decode_text_reply(data, limit, name, size)
+    text = reply.get("text")
+    if reply.get("ok") and isinstance(text, str) and text and len(text) <= MAX_BYTES:
+        reply["kept"] = _keep(text)
+    return json.dumps(reply, ensure_ascii=False)
 
 
 def recall(fields: tuple[Field, ...], inputs: Any, named: Any) -> tuple[Any, list[str], str | None]:
@@ -96,10 +132,5 @@ def remember(fields: tuple[Field, ...], inputs: Any) -> dict[str, str]:
         text = inputs.get(name)
         if not isinstance(text, str) or not text or len(text) > MAX_BYTES:
             continue  # a text over the file limit is refused by its calculation
-        key = _key(text)
-        _texts[key] = text
-        _texts.move_to_end(key)
-        while len(_texts) > KEPT_TEXTS:
-            _texts.popitem(last=False)
-        out[name] = key
+        out[name] = _keep(text)
     return out

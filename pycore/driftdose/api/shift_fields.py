@@ -119,6 +119,17 @@ FIELDS: tuple[Field, ...] = (
         help="The column (as named in the value columns) whose statistics and TWA are shown.",
         extra={"max_length": 80},
     ),
+    Field(
+        "series_drawn",
+        "Series the page keeps drawn (keys from earlier replies)",
+        "text",
+        "",
+        required=False,
+        help="The page's own bookkeeping: the keys (``curves.series.key``) of the thinned "
+        "series it keeps, separated by blanks. A reply whose series has one of these keys "
+        "leaves that series' times and values out (``held``). Blank: every series is sent.",
+        extra={"max_length": 200},
+    ),
     *_file_fields("background_", "Far-field (background) time series file", True),
     text(
         "background_column",

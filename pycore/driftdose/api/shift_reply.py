@@ -4,8 +4,12 @@ its dose choices into the composer's :class:`~driftdose.compose.shift.DoseSetup`
 from __future__ import annotations
 
 import bisect
+import copy
+import hashlib
 import itertools
+import json
 from collections.abc import Callable
+from dataclasses import dataclass
 from typing import Any
 
 from ..compose.shift import DoseSetup, ShiftResult
@@ -23,7 +27,7 @@ from .reply import row, text_result
 from .shift_inputs import SI_UNITS, quantity_scale
 from .spectrum_fields import import_spectrum, spectrum_aerosol
 
-__all__ = ["dose_setup", "shape"]
+__all__ = ["TableFacts", "dose_setup", "shape", "table_facts"]
 
 CURVE_POINTS = 2000
 QUANTITY_WORDS = {
@@ -164,7 +168,40 @@ def _row(p: Period | None, st: PeriodStats, f: float, series: TimeSeries) -> dic
     return out
 
 
-def _import(table: Table, series: TimeSeries, v: dict[str, Any], prefix: str) -> dict[str, Any]:
+@dataclass(frozen=True)
+class TableFacts:
+    """What a reply says of a read table: kept in place of the table, whose rows (a list
+    and a tuple per file line) the series no longer needs once it is read."""
+
+    columns: tuple[tuple[str, str], ...]
+    """(name, unit as the header writes it) per column."""
+    header_line: int | None
+    delimiter: str
+    decimal: str
+    described: dict[str, Any]
+    """:func:`~driftdose.tables.describe_table` of the table (copied into each reply)."""
+
+
+def table_facts(table: Table) -> TableFacts:
+    """The facts of ``table`` a reply uses (see :class:`TableFacts`).
+
+    Parameters
+    ----------
+    table : Table
+        The file's table as :func:`driftdose.tables.read_table` read it.
+    """
+    return TableFacts(
+        tuple((c.name, c.unit.unit or "") for c in table.columns),
+        table.header_line,
+        table.delimiter,
+        table.decimal,
+        describe_table(table),
+    )
+
+
+def _import(
+    table: TableFacts, series: TimeSeries, v: dict[str, Any], prefix: str
+) -> dict[str, Any]:
     rec = v.get(f"{prefix}file")
     file = None
     if isinstance(rec, dict):
@@ -176,7 +213,7 @@ def _import(table: Table, series: TimeSeries, v: dict[str, Any], prefix: str) ->
         file = {k: (x[:200] if isinstance(x, str) else x) for k, x in file.items()}
     return {
         "rows": len(series.t),
-        "columns": [{"name": c.name, "unit": c.unit.unit or ""} for c in table.columns],
+        "columns": [{"name": name, "unit": unit} for name, unit in table.columns],
         "header_line": table.header_line,
         "delimiter": table.delimiter,
         "decimal": table.decimal,
@@ -189,36 +226,51 @@ def _import(table: Table, series: TimeSeries, v: dict[str, Any], prefix: str) ->
         ],
         "gap_count": len(series.gaps),
         "file": file,
-        "table": describe_table(table),
+        "table": copy.deepcopy(table.described),
     }
 
 
-_THINNED: list[tuple[TimeSeries, tuple[str, ...], Any]] = []
+_THINNED: list[tuple[TimeSeries, tuple[Any, ...], Any]] = []
 
 
-def _curve(series: TimeSeries, cols: list[tuple[str, str, str, Any, float]]) -> dict[str, Any]:
+def _curve(
+    series: TimeSeries, cols: list[tuple[str, str, str, Any, float]], drawn: set[str]
+) -> tuple[dict[str, Any], list[float]]:
     """Thinned columns: (key, label, unit label, values in SI, factor to SI). The thinning of
-    a series read earlier is kept (the last two), so moving a period does not redo it."""
-    keys = tuple(k for k, *_ in cols)
+    a series read earlier is kept (the last two), so moving a period does not redo it.
+
+    The curve carries ``key``, a digest of its times, values, labels and units; when the
+    request names that key in ``drawn`` (the page keeps that series), the times and values
+    are left out and ``held`` is true. Returns the curve and its times [s]."""
+    keys = tuple((k, lab, u, f) for k, lab, u, _, f in cols)
     hit = next((r for s, k, r in _THINNED if s is series and k == keys), None)
     if hit is None:
-        hit = thin_minmax(
+        t, ys = thin_minmax(
             series.t, [vals for *_, vals, _ in cols], CURVE_POINTS, [g.start for g in series.gaps]
         )
+        shown = [[None if y is None else y / f for y in ys[i]] for i, (*_, f) in enumerate(cols)]
+        digest = json.dumps([keys, list(t), shown], allow_nan=True).encode()
+        hit = (list(t), shown, hashlib.sha256(digest).hexdigest()[:32])
         _THINNED.insert(0, (series, keys, hit))
         del _THINNED[2:]
-    t, ys = hit
-    return {
+    t, shown, key = hit
+    held = key in drawn
+    out: dict[str, Any] = {
         "start": series.clock(0.0),
         "x_label": "Time since the first reading",
         "x_unit": "s",
-        "t_s": list(t),
+        "key": key,
+        "held": held,
+        "t_s": None if held else list(t),
         "series": [
-            {"key": k, "label": lab, "unit": u, "y": [None if y is None else y / f for y in ys[i]]}
-            for i, (k, lab, u, _, f) in enumerate(cols)
+            {"key": k, "label": lab, "unit": u, **({} if held else {"y": list(shown[i])})}
+            for i, (k, lab, u, _, _) in enumerate(cols)
         ],
         "gaps": [{"start_s": g.start, "end_s": g.end} for g in series.gaps[:200]],
     }
+    if held:
+        del out["t_s"]
+    return out, t
 
 
 _NEGATIVE: list[tuple[TimeSeries, str, int]] = []
@@ -254,14 +306,14 @@ def _plain(label: str, si: float | None, f: float, unit: str, si_unit: str, note
 
 def shape(
     v: dict[str, Any],
-    table: Table,
+    table: TableFacts,
     series: TimeSeries,
     columns: list[dict[str, Any]],
     units: tuple[str, ...],
     q_index: int,
     unit: str,
     r: ShiftResult,
-    far_table: Table | None,
+    far_table: TableFacts | None,
     far: TimeSeries | None,
     far_unit: str,
 ) -> dict[str, Any]:
@@ -350,14 +402,16 @@ def shape(
         for i, c in enumerate(columns)
         if c["quantity"] != "channel"
     ]
-    curve = _curve(series, cols)
+    drawn = set((v.get("series_drawn") or "").split())
+    curve, ts = _curve(series, cols, drawn)
     if r.background.values is not None:
+        # per reading, and moved with the periods: always sent
         curve["series"].append(
             {
                 "key": "background",
                 "label": "Background used",
                 "unit": unit,
-                "y": _at_points(series, r.background.values, curve["t_s"], f),
+                "y": _at_points(series, r.background.values, ts, f),
             }
         )
     curve["periods"] = [
@@ -367,7 +421,8 @@ def shape(
     curves: dict[str, Any] = {"series": curve}
     if far is not None:
         bf = quantity_scale(quantity, far_unit)
-        far_curve = _curve(far, [("far", "Far-field series", far_unit, far.values["0"], bf)])
+        far_cols = [("far", "Far-field series", far_unit, far.values["0"], bf)]
+        far_curve, _ = _curve(far, far_cols, drawn)
         far_curve["offset_s"] = far.start - series.start
         curves["background"] = far_curve
     model = v["model"]

@@ -11,7 +11,7 @@ import { overlaps, spans } from "../periods.js";
 import { periodTable } from "../periodtable.js";
 import { importBlock } from "../shiftimport.js";
 import { benchmarkInput, quantityPicker } from "../shiftchoices.js";
-import { doseView, shiftSummary, taskTable } from "./shiftresults.js";
+import { doseView, shiftSummary, showIn, taskTable } from "./shiftresults.js";
 
 export const id = "shift";
 export const kind = "shift";
@@ -127,9 +127,45 @@ export function mount(root, { engine, description, forms }) {
     timeChart.setBands(spans(list, seriesInfo.start), overlaps(list, seriesInfo.start));
   }
 
-  let lastDrawn = ""; // the series last drawn, as JSON
+  // The thinned series the page keeps, by the key the engine gave each (curves.*.key): the
+  // request names them (series_drawn), and a reply whose series has one of those keys leaves
+  // its times and values out ("held"); they are put back here before anything reads the reply,
+  // so the reply kept as the panel's last good one (CSV export, record) is whole.
+  let keptSeries = new Map(); // key -> {t_s, y: Map(series key -> values)}
+  function restoreHeld(curves) {
+    const next = new Map();
+    for (const curve of [curves?.series, curves?.background]) {
+      if (!curve || typeof curve.key !== "string") continue;
+      const mine = keptSeries.get(curve.key);
+      if (curve.held === true && mine) {
+        curve.t_s = mine.t_s;
+        for (const one of curve.series || []) if (!Array.isArray(one.y) && mine.y.has(one.key)) one.y = mine.y.get(one.key);
+      }
+      if (!Array.isArray(curve.t_s)) continue;
+      curve.held = false;
+      next.set(curve.key, { t_s: curve.t_s, y: new Map((curve.series || []).filter((x) => x.key !== "background" && Array.isArray(x.y)).map((x) => [x.key, x.y])) });
+    }
+    keptSeries = next;
+  }
+  const baseInputs = panel.inputs.bind(panel);
+  panel.inputs = () => {
+    const values = baseInputs();
+    if (keptSeries.size) values.series_drawn = [...keptSeries.keys()].join(" ");
+    return values;
+  };
+  const baseApply = panel.apply.bind(panel);
+  panel.apply = (reply, inputs) => {
+    if (inputs && Object.hasOwn(inputs, "series_drawn")) {
+      inputs = { ...inputs };
+      delete inputs.series_drawn; // bookkeeping, not an input of the record or the export
+    }
+    return baseApply(reply, inputs);
+  };
+
+  let lastDrawn = null; // what the chart shows: [series key, background values, far key, log, column]
+  const sameValues = (a, b) => a === b || (Array.isArray(a) && Array.isArray(b) && a.length === b.length && a.every((x, i) => x === b[i]));
   logToggle.addEventListener("change", () => {
-    lastDrawn = "";
+    lastDrawn = null;
     timeChart?.setLog(logToggle.checked);
   });
   seriesSelect.addEventListener("change", () => lastReply && drawSeries(lastReply));
@@ -149,12 +185,15 @@ export function mount(root, { engine, description, forms }) {
     const extra = farSeries && Array.isArray(farSeries.series) ? { ...farSeries, series: farSeries.series.filter(same) } : null;
     seriesInfo = { start: series.start, total: series.t_s[series.t_s.length - 1] - series.t_s[0] };
     chartEmpty.hidden = true;
-    // a moved period leaves the drawn series as they were: the chart is not drawn again
-    const drawn = JSON.stringify([shown, extra, logToggle.checked]);
-    if (timeChart && drawn === lastDrawn) return;
+    // a moved period leaves the drawn series as they were (same keys, same background values):
+    // the chart is not drawn again
+    const used = shown.series.find((x) => x.key === "background")?.y ?? null;
+    const drawn = [series.key, used, extra && extra.series.length ? farSeries.key : "", logToggle.checked, chosen?.key, series.start];
+    if (timeChart && lastDrawn && drawn.every((x, i) => (i === 1 ? sameValues(x, lastDrawn[1]) : x === lastDrawn[i]))) return;
     lastDrawn = drawn;
-    ensureChart().setSeries(shown, extra && extra.series.length ? extra : null);
-    timeChart.setLog(logToggle.checked);
+    const chart = ensureChart();
+    chart.setLog(logToggle.checked, false); // the axis type first, drawn once with the series
+    chart.setSeries(shown, extra && extra.series.length ? extra : null);
   }
 
   // --- the choices that follow the chosen columns ----------------------------------------
@@ -315,6 +354,7 @@ export function mount(root, { engine, description, forms }) {
   panel.body.append(summaryBox, tasksBox, dose.box);
 
   function render(reply) {
+    restoreHeld(reply.curves);
     lastReply = reply;
     const r = reply.results || {};
     near.showImport(r.import, r.preview);
@@ -322,8 +362,8 @@ export function mount(root, { engine, description, forms }) {
     drawSeries(reply);
     table.check();
     drawBands();
-    summaryBox.replaceChildren(...shiftSummary(r));
-    tasksBox.replaceChildren(taskTable(r.tasks, r.shift));
+    showIn(summaryBox, shiftSummary(r));
+    showIn(tasksBox, [taskTable(r.tasks, r.shift)]);
     dose.show(r.dose);
   }
 

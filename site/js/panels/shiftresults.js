@@ -19,6 +19,43 @@ function shown(v, unit = "") {
   return String(v);
 }
 
+/** Whether two elements have the same tag and attributes. */
+function sameShell(a, b) {
+  if (a.nodeType !== b.nodeType || a.nodeName !== b.nodeName) return false;
+  if (a.nodeType !== 1) return true;
+  if (a.attributes.length !== b.attributes.length) return false;
+  for (const { name, value } of b.attributes) if (a.getAttribute(name) !== value) return false;
+  return true;
+}
+
+/**
+ * Make `old` show what `fresh` shows, changing only the texts that differ where both have
+ * the same elements (a moved period changes numbers, not the table's shape), else replacing
+ * it. Less of the page is laid out and painted again than when the whole table is replaced.
+ */
+export function patchNode(old, fresh) {
+  if (!sameShell(old, fresh) || old.childNodes.length !== fresh.childNodes.length) {
+    old.replaceWith(fresh);
+    return;
+  }
+  if (old.nodeType === 3) {
+    if (old.data !== fresh.data) old.data = fresh.data;
+    return;
+  }
+  const kids = [...fresh.childNodes];
+  [...old.childNodes].forEach((child, i) => patchNode(child, kids[i]));
+}
+
+/** Show `nodes` in `box`: patched in place where the box shows the same elements, else replaced. */
+export function showIn(box, nodes) {
+  const list = nodes.filter(Boolean);
+  if (box.childNodes.length !== list.length) {
+    box.replaceChildren(...list);
+    return;
+  }
+  [...box.childNodes].forEach((child, i) => patchNode(child, list[i]));
+}
+
 const SUMMARY_KEYS = ["twa8h", "twa8h_corrected", "twa_ratio", "shift_mean", "shift_peak15", "shift_max", "coverage", "twa_rule", "background_method"];
 const clock = (iso) => String(iso || "").replace(/^\d{4}-\d{2}-\d{2}T/, "").replace(/:00$/, "");
 
@@ -134,7 +171,7 @@ export function doseView() {
       body.append(tr);
     });
     table.append(head, body);
-    tableBox.replaceChildren(table);
+    showIn(tableBox, [table]);
     // LDSA of the air each task breathed
     const ldsa = el("table", { class: "results dose-ldsa" });
     ldsa.append(el("caption", {}, `Lung-deposited surface area of the inhaled air, per task (${unitText(dose.ldsa_unit || "um2/cm3")})`));
@@ -150,7 +187,7 @@ export function doseView() {
       lb.append(tr);
     }
     ldsa.append(lh, lb);
-    ldsaBox.replaceChildren(ldsa);
+    showIn(ldsaBox, [ldsa]);
     if (!chart) {
       chart = createChart(figure.canvas, {
         x: { title: "Region", type: "category" },
