@@ -1,7 +1,9 @@
 """The shift panel sends a picked file's text to the engine once.
 
-A generated 2-h file at 1 s is picked; the requests that follow (a period moved) name the
-text by the engine's key instead of carrying it, and give the same results as the first. An
+A generated 2-h file at 1 s is picked: the engine keeps its text as it decodes the bytes, so
+even the first request names the text by the engine's key (the SHA-256 of its UTF-8 bytes)
+instead of carrying it back, as do the requests that follow (a period moved); they give the
+same results. An
 engine that no longer holds the text (its key made stale here, as after a restart of the
 engine's memory) asks for it, the page sends it again and the panel still computes; after
 a restart of the worker the text is sent in full. The link still carries no file, and the
@@ -32,6 +34,7 @@ def day_file() -> str:
 SPY = """() => {
   // every message the page posts to the engine's worker, without its text
   window.__posted = [];
+  window.__decodes = [];
   const engine = window.__engine;
   const wrap = (worker) => {
     if (!worker || worker.__spied) return;
@@ -41,6 +44,7 @@ SPY = """() => {
         window.__posted.push({carries: typeof m.inputs?.series_text === "string",
                               kept: m.kept || null, keep: m.keep || false});
       }
+      if (m && m.op === "decode") window.__decodes.push({keep: m.keep || false});
       post(m);
     };
     worker.__spied = true;
@@ -113,10 +117,12 @@ def test_the_file_goes_once_and_again_when_the_engine_asks(watched, base_url):
     second = _move(page, 30)
     assert second["readings"] == first["readings"] + 600
     posted = page.evaluate("() => window.__posted")
-    assert posted[0]["carries"] and posted[0]["keep"], posted[0]
+    sha = hashlib.sha256(text.encode("utf-8")).hexdigest()  # FIPS 180-4, as hashlib computes it
+    assert page.evaluate("() => window.__decodes") == [{"keep": True}]
+    # kept as it was decoded: not even the first request carries the text back
+    assert not posted[0]["carries"] and posted[0]["kept"] == {"series_text": sha}, posted[0]
     assert not posted[-1]["carries"], posted[-1]  # a moved period: the key, not the text
-    key = posted[-1]["kept"]["series_text"]
-    assert len(key) == 64
+    assert posted[-1]["kept"] == {"series_text": sha}
 
     # back where it was: the same answer as when the text was sent
     assert _move(page, 20) == first
@@ -146,5 +152,4 @@ def test_the_file_goes_once_and_again_when_the_engine_asks(watched, base_url):
         page.get_by_role("button", name="Save inputs (JSON)").click()
     saved = json.loads(Path(info.value.path()).read_text(encoding="utf-8"))
     assert saved["panels"]["shift"]["series_text"] == text
-    sha = hashlib.sha256(text.encode("utf-8")).hexdigest()
     assert saved["panels"]["shift"]["series_file"]["sha256"] == sha
