@@ -263,7 +263,19 @@ def decode_text_json(
 def decode_text_reply(
     data: Any, limit: int = MAX_BYTES, name: str | None = None, size: int | None = None
 ) -> dict[str, Any]:
-    """The reply of :func:`decode_text_json` as a dict (parameters as there)."""
+    """The reply of :func:`decode_text_json` as a dict.
+
+    Parameters
+    ----------
+    data : bytes, Uint8Array or None
+        The file's content.
+    limit : int
+        Largest file read [bytes].
+    name : str, optional
+        The file's name, for messages.
+    size : int, optional
+        The file's size when ``data`` is None [bytes].
+    """
     if data is None:
         size = int(size or 0)
         return {"ok": False, "message": too_large(size, limit, name or "The file"), "size": size}
