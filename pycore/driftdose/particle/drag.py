@@ -84,6 +84,35 @@ def drag_factor_schiller_naumann1933(re: float) -> float:
     return 1.0 + 0.15 * max(re, 0.0) ** 0.687
 
 
+def _balance_clift_gauvin1970(re: float) -> tuple[float, float]:
+    """Drag factor f(Re) [-] and the slope d(Re f) / dRe [-] of Clift & Gauvin (1970).
+
+    f as :func:`drag_factor_clift_gauvin1970` (Clift, Grace & Weber 1978, Table 5.2); with
+    s = Re^1.16 / (Re^1.16 + 42500), Re f = Re + 0.15 Re^1.687 + 0.0175 Re^2 s and
+    d(Re f) / dRe = 1 + 0.15 (1.687) Re^0.687 + 0.0175 Re s (2 + 1.16 (1 - s)). ``re`` > 0.
+    """
+    re_687 = re**0.687
+    re_116 = re**1.16
+    s = re_116 / (re_116 + 42500.0)
+    f = 1.0 + 0.15 * re_687 + 0.0175 * re * s
+    return f, 1.0 + 0.25305 * re_687 + 0.0175 * re * s * (3.16 - 1.16 * s)
+
+
+def _balance_schiller_naumann1933(re: float) -> tuple[float, float]:
+    """Drag factor f = 1 + 0.15 Re^0.687 [-] and d(Re f) / dRe [-] (Schiller & Naumann 1933).
+
+    ``re`` > 0; the slope is 1 + 0.15 (1.687) Re^0.687.
+    """
+    re_687 = re**0.687
+    return 1.0 + 0.15 * re_687, 1.0 + 0.25305 * re_687
+
+
+_DRAG_BALANCES = {
+    "clift_gauvin1970": _balance_clift_gauvin1970,
+    "schiller_naumann1933": _balance_schiller_naumann1933,
+}
+"""Per drag law: Re -> (f(Re), d(Re f)/dRe), for the Newton solve of the settling velocity."""
+
 _DRAG_FACTORS = {
     "clift_gauvin1970": drag_factor_clift_gauvin1970,
     "schiller_naumann1933": drag_factor_schiller_naumann1933,
