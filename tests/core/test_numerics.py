@@ -377,7 +377,7 @@ def _clift_gauvin(re: float) -> float:
 @pytest.mark.parametrize("re0", [1e-3, 0.5, 1.0, 1.5, 20.0, 400.0, 1500.0, 1e4, 1e5])
 def test_stopping_distance_integrated_vs_solve_ivp(re0: float) -> None:
     # The default integrates the equation of motion with the Clift & Gauvin drag by
-    # Simpson's rule in ln Re; scipy's DOP853 in time must agree (stated error 1e-9).
+    # Simpson's rule in ln Re; scipy's DOP853 in time must agree (stated error 1e-12).
     d, rho = 50e-6, 1000.0
     v0 = re0 * gas.air_viscosity() / (gas.air_density() * d)
     ref = _integrated_stopping_distance(d, v0, rho, _clift_gauvin)

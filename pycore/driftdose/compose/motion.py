@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 
 from .. import gas, particle
 from .._numerics import logspace
@@ -201,27 +202,9 @@ def compose_motion(
     re = particle.reynolds_number(d, v_ts, T, P)
     x_b = particle.rms_displacement(d, t, T, P, shape_factor)
     x_s = v_ts * t
-    d_cross = particle.crossover_diameter(t, density, T, P, shape_factor)
     re0 = particle.reynolds_number(d, initial_velocity, T, P)
-
-    xs = logspace(*CURVE_RANGE, CURVE_POINTS)
-    brown, settle = [], []
-    for x in xs:
-        dx = (
-            particle.volume_equivalent_diameter(x, density, shape_factor, T, P)
-            if aerodynamic
-            else x
-        )
-        brown.append(particle.rms_displacement(dx, t, T, P, shape_factor))
-        settle.append(particle.settling_velocity(dx, density, T, P, shape_factor) * t)
-    cross_shown = cross_distance = None
-    if d_cross is not None:
-        cross_shown = (
-            particle.aerodynamic_diameter(d_cross, density, shape_factor, T, P)
-            if aerodynamic
-            else d_cross
-        )
-        cross_distance = particle.rms_displacement(d_cross, t, T, P, shape_factor)
+    curves = _curves(aerodynamic, density, shape_factor, T, P, t)
+    d_cross = curves.crossover
 
     return MotionResult(
         diameter=d,
@@ -247,16 +230,56 @@ def compose_motion(
         crossover_diameter=d_cross,
         brownian_time=particle.brownian_time(d, reference_distance, T, P, shape_factor),
         settling_time=particle.settling_time(d, reference_distance, density, T, P, shape_factor),
-        curve_diameters=list(xs),
-        brownian=brown,
-        settling=settle,
-        crossover_shown=cross_shown,
-        crossover_distance=cross_distance,
+        curve_diameters=list(curves.diameters),
+        brownian=list(curves.brownian),
+        settling=list(curves.settling),
+        crossover_shown=curves.crossover_shown,
+        crossover_distance=curves.crossover_distance,
         warnings=_warnings(d, re, tau, t, d_cross, cc)
         + particle.settling_warnings(d, density, T, P, shape_factor)
         + _stopping_warnings(re0),
         sources=SOURCES,
     )
+
+
+@dataclass(frozen=True)
+class _Curves:
+    """What does not depend on the particle's own size: the curves and the crossover."""
+
+    diameters: tuple[float, ...]  # curve sizes, of the type the particle is given in [m]
+    brownian: tuple[float, ...]  # rms displacement at each size [m]
+    settling: tuple[float, ...]  # settling distance at each size [m]
+    crossover: float | None  # volume-equivalent crossover diameter [m]
+    crossover_shown: float | None  # the same, of the type the particle is given in [m]
+    crossover_distance: float | None  # distance both cover at the crossover [m]
+
+
+@lru_cache(maxsize=8)
+def _curves(
+    aerodynamic: bool, density: float, shape_factor: float, T: float, P: float, t: float
+) -> _Curves:
+    """Displacement curves and crossover for one particle material, air and time (kept).
+
+    An edit of the diameter, the reference distance or the initial velocity reuses them; the
+    properties at the curve sizes are those of :func:`driftdose.particle.particle_grid`.
+    """
+    xs = logspace(*CURVE_RANGE, CURVE_POINTS)
+    ds = (
+        particle.volume_equivalent_diameters(xs, density, shape_factor, T, P) if aerodynamic else xs
+    )
+    grid = particle.particle_grid(ds, density, T, P, shape_factor)
+    brown = tuple(math.sqrt(2.0 * diff * t) for diff in grid.diffusion)
+    settle = tuple(v * t for v in grid.settling)
+    d_cross = particle.crossover_diameter(t, density, T, P, shape_factor)
+    cross_shown = cross_distance = None
+    if d_cross is not None:
+        cross_shown = (
+            particle.aerodynamic_diameter(d_cross, density, shape_factor, T, P)
+            if aerodynamic
+            else d_cross
+        )
+        cross_distance = particle.rms_displacement(d_cross, t, T, P, shape_factor)
+    return _Curves(tuple(xs), brown, settle, d_cross, cross_shown, cross_distance)
 
 
 def _stopping_warnings(re0: float) -> list[str]:

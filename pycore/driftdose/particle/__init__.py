@@ -23,7 +23,8 @@ One module per topic, every name re-exported here:
 - :mod:`.settling`: terminal settling velocity, its warnings and regime names;
 - :mod:`.stopping`: stopping distance (equation of motion; Hinds's closed forms);
 - :mod:`.equivalent`: aerodynamic, volume-equivalent and mobility diameters;
-- :mod:`.distances`: Brownian and settling distances and times, crossover diameter.
+- :mod:`.distances`: Brownian and settling distances and times, crossover diameter;
+- :mod:`.grid`: all of these properties at every size of a grid, computed once and kept.
 """
 
 from __future__ import annotations
@@ -49,7 +50,9 @@ from .equivalent import (
     aerodynamic_diameters,
     mobility_diameter,
     volume_equivalent_diameter,
+    volume_equivalent_diameters,
 )
+from .grid import ParticleGrid, particle_grid
 from .settling import (
     SETTLING_MODELS,
     settling_regime,
@@ -74,6 +77,7 @@ __all__ = [
     "SLIP_MODELS",
     "STOKES_RE_MAX",
     "STOKES_STOPPING_RE_MAX",
+    "ParticleGrid",
     "aerodynamic_diameter",
     "aerodynamic_diameters",
     "brownian_time",
@@ -84,6 +88,7 @@ __all__ = [
     "knudsen_number",
     "mobility",
     "mobility_diameter",
+    "particle_grid",
     "relaxation_time",
     "reynolds_number",
     "rms_displacement",
@@ -100,4 +105,5 @@ __all__ = [
     "stopping_distance_klyachko",
     "stopping_regime",
     "volume_equivalent_diameter",
+    "volume_equivalent_diameters",
 ]

@@ -80,6 +80,8 @@ def _drag_velocity(v_st: float, k: float, balance) -> float:
     f_st, _ = balance(re_st)
     if f_st - 1.0 < 1e-12:
         return v_st
+    if f_st - 1.0 < 1e-8:  # the first guess is within 0.7 (f - 1)^2 < 1e-16 of the root
+        return v_st / f_st
     lo = x = re_st / f_st
     hi = re_st
     for _ in range(100):

@@ -9,10 +9,16 @@ from __future__ import annotations
 import math
 
 from .. import gas
+from .._numerics import gauss_legendre
 from ..constants import P_DEFAULT, T_DEFAULT
 from .diffusion import relaxation_time
 from .drag import _DRAG_FACTORS, _DRAG_NAMES, STOKES_RE_MAX, reynolds_number
 from .settling import SETTLING_MODELS
+
+_PANELS = 8
+"""Panels of the stopping-distance integral, one per decade of Re below Re0. [-]"""
+_NODES_PER_PANEL = 10
+"""Gauss-Legendre nodes per panel. [-]"""
 
 STOKES_STOPPING_RE_MAX = 1.0
 """Initial Reynolds number up to which Hinds (1999, eq. 5.19) uses S = V0 tau. [-]"""
@@ -60,8 +66,10 @@ def stopping_distance(
         S = tau integral_0^V0 dV / f(Re(V)) = (tau / k) integral_0^Re0 dRe / f(Re),
 
     k = rho_g d / mu (Hinds 1999 section 5.5 derives his eq. 5.27 the same way from the
-    Klyachko law). The integral is evaluated by Simpson's rule in ln Re (600 intervals over
-    eight decades below Re0, the part below by f ~ 1; relative error below 1e-9). One drag
+    Klyachko law). The integral is evaluated in ln Re by Gauss-Legendre quadrature, 10 nodes
+    on each of the eight decades below Re0 (quadrature error below 1e-13 relative against a
+    200 000-interval Simpson's rule, Re0 from 1e-3 to 1e6), the part below to first order
+    in 0.15 Re^0.687 (below 1e-11 of the whole). One drag
     law from Re0 = 0 up, so there is no step at Re0 = 1: Hinds's split (eq. 5.19 below
     Re0 = 1, eq. 5.27 above) stepped down by 9.8 % there. For Re0 << 1 the result tends to
     V0 tau (Hinds 1999, eq. 5.19); at Re0 = 1 it is 6 % below it.
@@ -101,15 +109,16 @@ def stopping_distance(
     a = re0 * 1e-8
     # below a: f = 1 + 0.15 Re^0.687 + ..., integrated to first order
     head = a / (1.0 + 0.15 * a**0.687 / 1.687)
-    n = 600
-    lo, hi = math.log(a), math.log(re0)
-    h = (hi - lo) / n
+    nodes, weights = gauss_legendre(_NODES_PER_PANEL)
+    lo = math.log(a)
+    h = (math.log(re0) - lo) / _PANELS
     total = 0.0
-    for i in range(n + 1):
-        r = math.exp(lo + i * h)
-        w = 1.0 if i in (0, n) else (4.0 if i % 2 else 2.0)
-        total += w * r / factor(r)
-    return tau / k * (head + total * h / 3.0)
+    for p in range(_PANELS):
+        mid = lo + (p + 0.5) * h
+        for x, w in zip(nodes, weights, strict=True):
+            r = math.exp(mid + 0.5 * h * x)
+            total += w * r / factor(r)
+    return tau / k * (head + total * 0.5 * h)
 
 
 def stopping_distance_klyachko(
