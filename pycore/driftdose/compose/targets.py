@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
+from functools import lru_cache
 
 from .. import conventions
 from ..deposition import REFERENCE_WORKER, deposition_model
@@ -166,16 +167,24 @@ def target_curve(key: str, xs_ae: Sequence[float]) -> TargetOutcome:
     or the fits of Hinds (1999, eqs. 11.1-11.5), which average over their own breathing.
 
     """
-    try:
-        family, part = TARGETS[key]
-    except KeyError:
-        raise ValueError(f"unknown target {key!r}; valid: {', '.join(TARGETS)}") from None
+    if key not in TARGETS:
+        raise ValueError(f"unknown target {key!r}; valid: {', '.join(TARGETS)}")
+    family, values, sources = _target_values(key, tuple(xs_ae))
+    return TargetOutcome(key, family, list(values), None, list(sources))
+
+
+@lru_cache(maxsize=8)
+def _target_values(
+    key: str, xs_ae: tuple[float, ...]
+) -> tuple[str, tuple[float | None, ...], tuple[str, ...]]:
+    """Family, values and sources of :func:`target_curve`, kept: they depend only on the sizes."""
+    family, part = TARGETS[key]
     if family == "iso7708":
         values: list[float | None] = [
             conventions.iso7708_fraction(x, part) if x <= conventions.D_AE_MAX else None
             for x in xs_ae
         ]
-        return TargetOutcome(key, family, values, None, ["iso7708"])
+        return family, tuple(values), ("iso7708",)
     model = deposition_model(family)
     lo, hi = (
         max(model.d_min, DEPOSITION_TARGET_RANGE[0]),
@@ -187,5 +196,5 @@ def target_curve(key: str, xs_ae: Sequence[float]) -> TargetOutcome:
     values = [None] * len(xs_ae)
     for i, y in zip(inside, fractions[part], strict=True):
         values[i] = min(1.0, max(0.0, y))
-    sources = ["icrp66", "icrp68"] if family == "icrp66" else ["hinds1999_ch11", "icrp66"]
-    return TargetOutcome(key, family, values, None, sources)
+    sources = ("icrp66", "icrp68") if family == "icrp66" else ("hinds1999_ch11", "icrp66")
+    return family, tuple(values), sources

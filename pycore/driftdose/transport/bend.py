@@ -20,13 +20,15 @@ Pui's Stk, and each fit converts.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from .. import particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from .flow import blend_regimes, regime_weight, tube_velocity
+from .flow import blend_regimes, interpolate_regimes, regime_weight, tube_velocity
 
 __all__ = [
     "PUI1987_RE_RANGE",
+    "bend_curve",
     "bend_penetration",
     "bend_stokes_number",
     "penetration_pui1987_laminar",
@@ -220,3 +222,48 @@ def bend_penetration(
         lambda: penetration_pui1987_turbulent(stk, bend_angle),
         regime_weight(regime, flow, tube_diameter, T, P),
     )
+
+
+def bend_curve(
+    relaxation_times: Sequence[float],
+    flow: float,
+    tube_diameter: float,
+    bend_angle: float = math.pi / 2,
+    T: float = T_DEFAULT,
+    P: float = P_DEFAULT,
+    regime: str = "auto",
+) -> list[float]:
+    """:func:`bend_penetration` at many sizes, from their relaxation times.
+
+    Parameters
+    ----------
+    relaxation_times : sequence of float
+        Particle relaxation times, one per size. [s]
+    flow : float
+        Volumetric flow rate. [m^3/s]
+    tube_diameter : float
+        Inner tube diameter. [m]
+    bend_angle : float
+        Bend angle. [rad]
+    T : float
+        Temperature. [K]
+    P : float
+        Pressure. [Pa]
+    regime : str
+        ``auto``, ``laminar`` or ``turbulent`` (see :func:`bend_penetration`).
+
+    Returns
+    -------
+    list of float
+        Penetration at each size [-], Stk = 2 tau U / d_t, Pui et al. (1987) fits.
+
+    """
+    w = regime_weight(regime, flow, tube_diameter, T, P)
+    u = tube_velocity(flow, tube_diameter)
+    out = []
+    for tau in relaxation_times:
+        stk = 2.0 * tau * u / tube_diameter
+        lam = penetration_pui1987_laminar(stk, bend_angle) if w < 1.0 else 1.0
+        turb = penetration_pui1987_turbulent(stk, bend_angle) if w > 0.0 else 1.0
+        out.append(interpolate_regimes(lam, turb, w))
+    return out

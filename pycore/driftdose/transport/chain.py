@@ -105,11 +105,15 @@ class Chain:
         -----
         Stages act independently, so the overall penetration is the product of the stage
         penetrations (common practice; it ignores changes of the velocity profile from one
-        stage to the next).
+        stage to the next). The particle's properties at the sizes are computed once for all
+        stages and kept (:func:`driftdose.particle.particle_grid`), so a change of flow or
+        geometry does not recompute them; each stage's ``penetrations`` gives the values of its
+        ``penetration`` size by size.
 
         """
         reports = [s.report(T, P) for s in self.stages]
-        per_stage = [[s.penetration(d, density, T, P) for d in diameters] for s in self.stages]
+        grid = particle.particle_grid(diameters, density, T, P)
+        per_stage = [s.penetrations(grid) for s in self.stages]
         overall = []
         for i in range(len(diameters)):
             p = 1.0
@@ -127,9 +131,7 @@ class Chain:
             size_warnings.append([text] if text else [])
         return ChainResult(
             diameters=list(diameters),
-            aerodynamic_diameters=[
-                particle.aerodynamic_diameter(d, density, 1.0, T, P) for d in diameters
-            ],
+            aerodynamic_diameters=list(grid.aerodynamic),
             stage_names=[s.name for s in self.stages],
             stage_penetrations=per_stage,
             overall=overall,

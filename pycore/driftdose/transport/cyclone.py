@@ -11,12 +11,14 @@ volume-equivalent diameter and the particle density and converts.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
+from functools import lru_cache
 
 from .. import conventions, particle
 from .._numerics import normal_cdf
 from ..constants import P_DEFAULT, T_DEFAULT
 
-__all__ = ["CYCLONE_CURVES", "cyclone_penetration", "lognormal_penetration"]
+__all__ = ["CYCLONE_CURVES", "cyclone_curve", "cyclone_penetration", "lognormal_penetration"]
 
 CYCLONE_CURVES = ("lognormal", "iso7708_respirable")
 """Valid ``curve`` keys of :func:`cyclone_penetration`."""
@@ -94,3 +96,43 @@ def cyclone_penetration(
     if curve == "iso7708_respirable":
         return conventions.respirable(d_ae)
     raise ValueError(f"unknown curve {curve!r}; valid: {sorted(CYCLONE_CURVES)}")
+
+
+def cyclone_curve(
+    aerodynamic_diameters: Sequence[float],
+    d50: float = 4.0e-6,
+    curve_gsd: float = 1.5,
+    curve: str = "lognormal",
+) -> list[float]:
+    """:func:`cyclone_penetration` at many sizes, from their aerodynamic diameters.
+
+    Parameters
+    ----------
+    aerodynamic_diameters : sequence of float
+        Aerodynamic diameters, one per size. [m]
+    d50 : float
+        Aerodynamic cut diameter of the lognormal curve. [m]
+    curve_gsd : float
+        Geometric standard deviation of the lognormal curve. [-]
+    curve : str
+        ``lognormal`` or ``iso7708_respirable`` (ISO 7708:1995 respirable convention).
+
+    Returns
+    -------
+    list of float
+        Penetration at each size. [-]
+
+    """
+    if curve not in CYCLONE_CURVES:
+        raise ValueError(f"unknown curve {curve!r}; valid: {sorted(CYCLONE_CURVES)}")
+    return list(_cyclone_curve(tuple(aerodynamic_diameters), d50, curve_gsd, curve))
+
+
+@lru_cache(maxsize=8)
+def _cyclone_curve(
+    d_aes: tuple[float, ...], d50: float, curve_gsd: float, curve: str
+) -> tuple[float, ...]:
+    """:func:`cyclone_curve`, kept: a flow edit leaves a cyclone's curve as it was."""
+    if curve == "lognormal":
+        return tuple(lognormal_penetration(d_ae, d50, curve_gsd) for d_ae in d_aes)
+    return tuple(conventions.respirable(d_ae) for d_ae in d_aes)

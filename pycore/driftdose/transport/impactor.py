@@ -12,6 +12,7 @@ documented sigmoid, not a published fit: a cumulative normal in ln(sqrt(Stk)).
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from .. import gas, particle
 from .._numerics import normal_cdf
@@ -22,6 +23,7 @@ __all__ = [
     "DEFAULT_EFFICIENCY_WIDTH",
     "JET_RE_RANGE",
     "STK50",
+    "impactor_curve",
     "impactor_cut_diameter",
     "impactor_efficiency",
     "impactor_jet_reynolds_number",
@@ -308,3 +310,45 @@ def impactor_penetration(
         d, nozzle_diameter, flow, n_nozzles, density, jet, T, P, slit_length
     )
     return 1.0 - impactor_efficiency(stk, jet, efficiency_width)
+
+
+def impactor_curve(
+    relaxation_times: Sequence[float],
+    nozzle_diameter: float,
+    flow: float,
+    n_nozzles: int = 1,
+    jet: str = "round",
+    efficiency_width: float = DEFAULT_EFFICIENCY_WIDTH,
+    slit_length: float | None = None,
+) -> list[float]:
+    """:func:`impactor_penetration` at many sizes, from their relaxation times.
+
+    Parameters
+    ----------
+    relaxation_times : sequence of float
+        Particle relaxation times, one per size. [s]
+    nozzle_diameter : float
+        Nozzle diameter (round) or slit width (rectangular). [m]
+    flow : float
+        Volumetric flow rate through the stage. [m^3/s]
+    n_nozzles : int
+        Number of nozzles. [-]
+    jet : str
+        ``round`` or ``rectangular``.
+    efficiency_width : float
+        Width of the efficiency curve, sqrt(Stk50 / Stk16). [-]
+    slit_length : float, optional
+        Slit length of a rectangular jet. [m]
+
+    Returns
+    -------
+    list of float
+        1 - efficiency at Stk = 2 tau U / W at each size [-] (Marple & Willeke 1976; Hinds
+        1999, ch. 5), as :func:`impactor_penetration`.
+
+    """
+    u = jet_velocity(nozzle_diameter, flow, n_nozzles, jet, slit_length)
+    return [
+        1.0 - impactor_efficiency(2.0 * tau * u / nozzle_diameter, jet, efficiency_width)
+        for tau in relaxation_times
+    ]

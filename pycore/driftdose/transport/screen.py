@@ -22,6 +22,7 @@ so a user can check it against the papers.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from .. import gas, particle
 from ..constants import P_DEFAULT, T_DEFAULT
@@ -29,6 +30,7 @@ from ..constants import P_DEFAULT, T_DEFAULT
 __all__ = [
     "SCREEN_SIZE_RANGE",
     "fan_model_hydrodynamic_factor",
+    "screen_curve",
     "screen_parameter",
     "screen_penetration",
     "single_wire_efficiency",
@@ -152,15 +154,12 @@ def single_wire_efficiency(
 
     """
     diff = particle.diffusion_coefficient(d, T, P)
-    pe = wire_diameter * face_velocity / diff
     kn_f = 2.0 * gas.mean_free_path(T, P) / wire_diameter
     k = fan_model_hydrodynamic_factor(solidity, kn_f)
-    r = d / wire_diameter
-    eta_d = 2.7 * pe ** (-2.0 / 3.0)  # [1], [2]
-    eta_r = r * r / k  # [2]
-    eta_dr = 1.24 * k**-0.5 * pe**-0.5 * r ** (2.0 / 3.0)  # [2]
-    stk = 2.0 * particle.relaxation_time(d, density, T, P) * face_velocity / wire_diameter
-    eta_i = stk**3 / (stk**3 + 0.77 * stk**2 + 0.22) if impaction else 0.0  # [4]
+    tau = particle.relaxation_time(d, density, T, P)
+    eta_d, eta_r, eta_dr, eta_i, pe, stk = _wire_terms(
+        d, diff, tau, wire_diameter, face_velocity, k, impaction
+    )
     return {
         "diffusion": eta_d,
         "interception": eta_r,
@@ -170,6 +169,91 @@ def single_wire_efficiency(
         "peclet": pe,
         "stokes": stk,
     }
+
+
+def _wire_terms(
+    d: float,
+    diff: float,
+    tau: float,
+    wire_diameter: float,
+    face_velocity: float,
+    k: float,
+    impaction: bool,
+) -> tuple[float, float, float, float, float, float]:
+    """The terms of :func:`single_wire_efficiency` and its Peclet and Stokes numbers [-].
+
+    ``d`` [m], ``diff`` its diffusion coefficient [m^2/s], ``tau`` its relaxation time [s],
+    ``k`` the fan model's hydrodynamic factor [-]; returns (diffusion, interception,
+    interaction, impaction, Pe, Stk).
+    """
+    pe = wire_diameter * face_velocity / diff
+    r = d / wire_diameter
+    eta_d = 2.7 * pe ** (-2.0 / 3.0)  # [1], [2]
+    eta_r = r * r / k  # [2]
+    eta_dr = 1.24 * k**-0.5 * pe**-0.5 * r ** (2.0 / 3.0)  # [2]
+    stk = 2.0 * tau * face_velocity / wire_diameter
+    eta_i = stk**3 / (stk**3 + 0.77 * stk**2 + 0.22) if impaction else 0.0  # [4]
+    return eta_d, eta_r, eta_dr, eta_i, pe, stk
+
+
+def screen_curve(
+    diameters: Sequence[float],
+    diffusion_coefficients: Sequence[float],
+    relaxation_times: Sequence[float],
+    wire_diameter: float,
+    solidity: float,
+    thickness: float,
+    face_velocity: float,
+    n_screens: int = 1,
+    T: float = T_DEFAULT,
+    P: float = P_DEFAULT,
+    impaction: bool = False,
+) -> list[float]:
+    """:func:`screen_penetration` at many sizes, from their diffusion coefficients and
+    relaxation times.
+
+    Parameters
+    ----------
+    diameters : sequence of float
+        Particle diameters. [m]
+    diffusion_coefficients : sequence of float
+        Their diffusion coefficients. [m^2/s]
+    relaxation_times : sequence of float
+        Their relaxation times. [s]
+    wire_diameter : float
+        Wire diameter. [m]
+    solidity : float
+        Solid volume fraction of the screen. [-]
+    thickness : float
+        Thickness of one screen. [m]
+    face_velocity : float
+        Air velocity approaching the screen. [m/s]
+    n_screens : int
+        Number of identical screens in series. [-]
+    T : float
+        Temperature. [K]
+    P : float
+        Pressure. [Pa]
+    impaction : bool
+        Whether impaction on the wires is added.
+
+    Returns
+    -------
+    list of float
+        Penetration at each size [-] (fan model of Cheng & Yeh 1980 and Cheng, Yeh &
+        Brinsko 1985, as :func:`single_wire_efficiency`).
+
+    """
+    kn_f = 2.0 * gas.mean_free_path(T, P) / wire_diameter
+    k = fan_model_hydrodynamic_factor(solidity, kn_f)
+    b = screen_parameter(wire_diameter, solidity, thickness)
+    out = []
+    for d, diff, tau in zip(diameters, diffusion_coefficients, relaxation_times, strict=True):
+        eta_d, eta_r, eta_dr, eta_i, _, _ = _wire_terms(
+            d, diff, tau, wire_diameter, face_velocity, k, impaction
+        )
+        out.append(math.exp(-b * n_screens * (eta_d + eta_r + eta_dr + eta_i)))
+    return out
 
 
 def screen_penetration(

@@ -10,6 +10,7 @@ import math
 from dataclasses import dataclass, field
 
 from .. import gas, particle
+from ..particle.grid import ParticleGrid
 from . import cyclone as _cyclone
 from . import impactor as _impactor
 from . import screen as _screen
@@ -43,6 +44,10 @@ class Cyclone:
     def penetration(self, d: float, density: float, T: float, P: float) -> float:
         """Penetration at volume-equivalent diameter ``d`` [m]."""
         return _cyclone.cyclone_penetration(d, self.d50, self.curve_gsd, density, self.curve, T, P)
+
+    def penetrations(self, grid: ParticleGrid) -> list[float]:
+        """:meth:`penetration` at every size of ``grid`` (its aerodynamic diameters). [-]"""
+        return _cyclone.cyclone_curve(grid.aerodynamic, self.d50, self.curve_gsd, self.curve)
 
     def report(self, T: float, P: float) -> StageReport:
         """Cut size and the curve's GSD."""
@@ -109,6 +114,18 @@ class Impactor:
             self.efficiency_width,
             T,
             P,
+            self.slit_length,
+        )
+
+    def penetrations(self, grid: ParticleGrid) -> list[float]:
+        """:meth:`penetration` at every size of ``grid`` (its relaxation times). [-]"""
+        return _impactor.impactor_curve(
+            grid.relaxation,
+            self.nozzle_diameter,
+            self.flow,
+            self.n_nozzles,
+            self.jet,
+            self.efficiency_width,
             self.slit_length,
         )
 
@@ -209,6 +226,22 @@ class ScreenStack:
             T,
             P,
             density,
+            self.impaction,
+        )
+
+    def penetrations(self, grid: ParticleGrid) -> list[float]:
+        """:meth:`penetration` at every size of ``grid`` (its diffusion and relaxation). [-]"""
+        return _screen.screen_curve(
+            grid.diameters,
+            grid.diffusion,
+            grid.relaxation,
+            self.wire_diameter,
+            self.solidity,
+            self.thickness,
+            self.face_velocity(),
+            self.n_screens,
+            grid.T,
+            grid.P,
             self.impaction,
         )
 

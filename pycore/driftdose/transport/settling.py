@@ -14,14 +14,16 @@ pi/2 vertical (no settling loss to the wall in either model).
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from .. import particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from .flow import blend_regimes, regime_weight, tube_velocity
+from .flow import blend_regimes, interpolate_regimes, regime_weight, tube_velocity
 
 __all__ = [
     "penetration_heyder_gebhart1977",
     "settling_parameter",
+    "tube_settling_curve",
     "tube_settling_penetration",
     "tube_settling_penetration_heyder_gebhart1977",
     "tube_settling_penetration_schwendiman1975",
@@ -240,3 +242,55 @@ def tube_settling_penetration(
         lambda: tube_settling_penetration_schwendiman1975(*args),
         regime_weight(regime, flow, tube_diameter, T, P),
     )
+
+
+def tube_settling_curve(
+    settling_velocities: Sequence[float],
+    length: float,
+    flow: float,
+    tube_diameter: float,
+    inclination: float = 0.0,
+    T: float = T_DEFAULT,
+    P: float = P_DEFAULT,
+    regime: str = "auto",
+) -> list[float]:
+    """:func:`tube_settling_penetration` at many sizes, from their settling velocities.
+
+    Parameters
+    ----------
+    settling_velocities : sequence of float
+        Terminal settling velocities, one per size. [m/s]
+    length : float
+        Tube length. [m]
+    flow : float
+        Volumetric flow rate. [m^3/s]
+    tube_diameter : float
+        Inner tube diameter. [m]
+    inclination : float
+        Inclination of the tube from the horizontal. [rad]
+    T : float
+        Temperature. [K]
+    P : float
+        Pressure. [Pa]
+    regime : str
+        ``auto``, ``laminar`` or ``turbulent`` (see :func:`tube_settling_penetration`).
+
+    Returns
+    -------
+    list of float
+        Penetration at each size [-]: Heyder & Gebhart (1977) in laminar flow, Schwendiman
+        et al. (1975) in turbulent flow, interpolated between; the flow's quantities once.
+
+    """
+    w = regime_weight(regime, flow, tube_diameter, T, P)
+    u = tube_velocity(flow, tube_diameter)
+    cos_theta = abs(math.cos(inclination))
+    out = []
+    for v_ts in settling_velocities:
+        lam = 1.0
+        if w < 1.0:
+            z = length * v_ts / (tube_diameter * u)
+            lam = penetration_heyder_gebhart1977(0.75 * z * cos_theta)
+        turb = math.exp(-tube_diameter * length * v_ts * cos_theta / flow) if w > 0.0 else 1.0
+        out.append(interpolate_regimes(lam, turb, w))
+    return out

@@ -18,6 +18,7 @@ import math
 from dataclasses import dataclass, field
 
 from .. import particle
+from ..particle.grid import ParticleGrid
 from . import bend as _bend
 from . import settling as _settling
 from . import tube as _tube
@@ -160,6 +161,33 @@ class Tube:
             )
         return p
 
+    def penetrations(self, grid: ParticleGrid) -> list[float]:
+        """:meth:`penetration` at every size of ``grid`` (its density, T and P). [-]"""
+        out = [1.0] * len(grid.diameters)
+        if self.diffusion:
+            out = _tube.tube_diffusion_curve(
+                grid.diffusion,
+                self.length,
+                self.flow,
+                self.tube_diameter,
+                grid.T,
+                grid.P,
+                self.regime,
+            )
+        if self.settling:
+            settle = _settling.tube_settling_curve(
+                grid.settling,
+                self.length,
+                self.flow,
+                self.tube_diameter,
+                self.inclination,
+                grid.T,
+                grid.P,
+                self.regime,
+            )
+            out = [p * q for p, q in zip(out, settle, strict=True)]
+        return out
+
     def report(self, T: float, P: float) -> StageReport:
         """Reynolds number, mean velocity, residence time and warnings."""
         u = tube_velocity(self.flow, self.tube_diameter)
@@ -261,6 +289,18 @@ class Bend:
         """Penetration at diameter ``d`` [m]."""
         return _bend.bend_penetration(
             d, self.flow, self.tube_diameter, self.bend_angle, density, T, P, self.regime
+        )
+
+    def penetrations(self, grid: ParticleGrid) -> list[float]:
+        """:meth:`penetration` at every size of ``grid`` (its density, T and P). [-]"""
+        return _bend.bend_curve(
+            grid.relaxation,
+            self.flow,
+            self.tube_diameter,
+            self.bend_angle,
+            grid.T,
+            grid.P,
+            self.regime,
         )
 
     def report(self, T: float, P: float) -> StageReport:

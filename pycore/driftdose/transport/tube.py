@@ -16,16 +16,24 @@ absorbing wall, and a volumetric flow at the stated T and P.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from .. import gas, particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from .flow import blend_regimes, regime_weight, tube_reynolds_number, tube_velocity
+from .flow import (
+    blend_regimes,
+    interpolate_regimes,
+    regime_weight,
+    tube_reynolds_number,
+    tube_velocity,
+)
 
 __all__ = [
     "LAMINAR_MODELS",
     "diffusion_parameter",
     "penetration_gormley_kennedy1949",
     "penetration_gormley_kennedy_hinds1999",
+    "tube_diffusion_curve",
     "tube_diffusion_penetration",
     "tube_diffusion_penetration_any",
     "tube_diffusion_penetration_friedlander1977",
@@ -245,9 +253,80 @@ def tube_diffusion_penetration_friedlander1977(
     """
     u = tube_velocity(flow, tube_diameter)
     re = tube_reynolds_number(flow, tube_diameter, T, P)
-    sc = gas.air_viscosity(T) / (gas.air_density(T, P) * particle.diffusion_coefficient(d, T, P))
+    diff = particle.diffusion_coefficient(d, T, P)
+    return _friedlander(
+        diff, length, flow, tube_diameter, u, re, gas.air_viscosity(T), gas.air_density(T, P)
+    )
+
+
+def _friedlander(
+    diff: float,
+    length: float,
+    flow: float,
+    tube_diameter: float,
+    u: float,
+    re: float,
+    mu: float,
+    rho_g: float,
+) -> float:
+    """Friedlander (1977) turbulent penetration from the diffusion coefficient ``diff`` [m^2/s].
+
+    ``u`` mean air speed [m/s], ``re`` the tube's Reynolds number [-], ``mu`` [Pa s] and
+    ``rho_g`` [kg/m^3] of the air; the other arguments as in
+    :func:`tube_diffusion_penetration_friedlander1977`. [-]
+    """
+    sc = mu / (rho_g * diff)
     v_d = 0.04 * u * re**-0.25 * sc ** (-2.0 / 3.0)
     return math.exp(-math.pi * tube_diameter * length * v_d / flow)
+
+
+def tube_diffusion_curve(
+    diffusion_coefficients: Sequence[float],
+    length: float,
+    flow: float,
+    tube_diameter: float,
+    T: float = T_DEFAULT,
+    P: float = P_DEFAULT,
+    regime: str = "auto",
+) -> list[float]:
+    """:func:`tube_diffusion_penetration_any` at many sizes, from their diffusion coefficients.
+
+    Parameters
+    ----------
+    diffusion_coefficients : sequence of float
+        Particle diffusion coefficients, one per size. [m^2/s]
+    length : float
+        Tube length. [m]
+    flow : float
+        Volumetric flow rate at T and P. [m^3/s]
+    tube_diameter : float
+        Inner tube diameter. [m]
+    T : float
+        Temperature. [K]
+    P : float
+        Pressure. [Pa]
+    regime : str
+        ``auto``, ``laminar`` or ``turbulent`` (see :func:`tube_diffusion_penetration_any`).
+
+    Returns
+    -------
+    list of float
+        Penetration at each size [-]: Gormley & Kennedy (1949) in laminar flow, Friedlander
+        (1977) in turbulent flow, interpolated between, the flow's quantities taken once.
+
+    """
+    w = regime_weight(regime, flow, tube_diameter, T, P)
+    u = tube_velocity(flow, tube_diameter)
+    re = tube_reynolds_number(flow, tube_diameter, T, P)
+    mu, rho_g = gas.air_viscosity(T), gas.air_density(T, P)
+    out = []
+    for diff in diffusion_coefficients:
+        lam = 1.0
+        if w < 1.0:
+            lam = min(1.0, max(0.0, penetration_gormley_kennedy1949(diff * length / flow)))
+        turb = _friedlander(diff, length, flow, tube_diameter, u, re, mu, rho_g) if w > 0.0 else 1.0
+        out.append(interpolate_regimes(lam, turb, w))
+    return out
 
 
 def tube_diffusion_penetration_any(
