@@ -5,4 +5,6 @@
 // of the engine runs here.
 import "../pyodide/pyodide.asm.mjs";
 
-postMessage("warm");
+// The browser stores the compiled code in a task after the module has run; app.js ends this
+// worker on the message, so it waits a moment first (nothing waits on it: the page is ready).
+setTimeout(() => postMessage("warm"), 500);

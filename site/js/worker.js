@@ -51,6 +51,9 @@ const initialised = new Promise((resolve) => {
 const served = fetch(new URL("build-info.json", base))
   .then((r) => r.json())
   .catch(() => ({}));
+// the engine's script (1.25 MB), asked for at once rather than once loadPyodide runs: both
+// starts need it, and loadPyodide's own import of the same URL (indexURL) then finds it loaded
+import("../pyodide/pyodide.asm.mjs").catch(() => {}); // a failure shows again in loadPyodide
 
 /** The page's own wheel, checked to be on the server. */
 async function ownWheel(path) {
