@@ -11,7 +11,8 @@ import { overlaps, spans } from "../periods.js";
 import { periodTable } from "../periodtable.js";
 import { importBlock } from "../shiftimport.js";
 import { benchmarkInput, quantityPicker } from "../shiftchoices.js";
-import { doseView, shiftSummary, showIn, taskTable } from "./shiftresults.js";
+import { doseView, shiftSummary, taskTable } from "./shiftresults.js";
+import { renew } from "../dom.js";
 
 export const id = "shift";
 export const kind = "shift";
@@ -234,10 +235,22 @@ export function mount(root, { engine, description, forms }) {
     applyDeclared();
     applyRules();
   };
+  // The handles of one import block share one list of listeners, so one change of a file
+  // reaches this callback once per handle: the panel is scheduled once, after the changes of
+  // this turn (a second request right behind the first would compute it all again).
+  let scheduled = false;
+  const scheduleOnce = () => {
+    if (scheduled) return;
+    scheduled = true;
+    queueMicrotask(() => {
+      scheduled = false;
+      panel.schedule();
+    });
+  };
   for (const [name, handle] of panel.fields.handles) {
     if (OWN.has(name) && handle.listen) handle.listen(() => {
       if (name === "periods") drawBands();
-      panel.schedule();
+      scheduleOnce();
     });
   }
 
@@ -362,8 +375,8 @@ export function mount(root, { engine, description, forms }) {
     drawSeries(reply);
     table.check();
     drawBands();
-    showIn(summaryBox, shiftSummary(r));
-    showIn(tasksBox, [taskTable(r.tasks, r.shift)]);
+    renew(summaryBox, ...shiftSummary(r));
+    renew(tasksBox, taskTable(r.tasks, r.shift));
     dose.show(r.dose);
   }
 

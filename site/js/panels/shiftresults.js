@@ -2,6 +2,7 @@
 // the dose per region stacked by task (chart and table). Presentation only: the reply of
 // driftdose.api ("shift") carries every number, unit and label.
 import { el } from "../forms.js";
+import { renew } from "../dom.js";
 import { chartFigure, createChart, seriesColour, setDatasets } from "../charts.js";
 import { formatNumber } from "../format.js";
 import { resultsTable } from "../panel.js";
@@ -17,43 +18,6 @@ function shown(v, unit = "") {
   }
   if (typeof v === "number") return `${formatNumber(v)}${unit ? ` ${unit}` : ""}`;
   return String(v);
-}
-
-/** Whether two elements have the same tag and attributes. */
-function sameShell(a, b) {
-  if (a.nodeType !== b.nodeType || a.nodeName !== b.nodeName) return false;
-  if (a.nodeType !== 1) return true;
-  if (a.attributes.length !== b.attributes.length) return false;
-  for (const { name, value } of b.attributes) if (a.getAttribute(name) !== value) return false;
-  return true;
-}
-
-/**
- * Make `old` show what `fresh` shows, changing only the texts that differ where both have
- * the same elements (a moved period changes numbers, not the table's shape), else replacing
- * it. Less of the page is laid out and painted again than when the whole table is replaced.
- */
-export function patchNode(old, fresh) {
-  if (!sameShell(old, fresh) || old.childNodes.length !== fresh.childNodes.length) {
-    old.replaceWith(fresh);
-    return;
-  }
-  if (old.nodeType === 3) {
-    if (old.data !== fresh.data) old.data = fresh.data;
-    return;
-  }
-  const kids = [...fresh.childNodes];
-  [...old.childNodes].forEach((child, i) => patchNode(child, kids[i]));
-}
-
-/** Show `nodes` in `box`: patched in place where the box shows the same elements, else replaced. */
-export function showIn(box, nodes) {
-  const list = nodes.filter(Boolean);
-  if (box.childNodes.length !== list.length) {
-    box.replaceChildren(...list);
-    return;
-  }
-  [...box.childNodes].forEach((child, i) => patchNode(child, list[i]));
 }
 
 const SUMMARY_KEYS = ["twa8h", "twa8h_corrected", "twa_ratio", "shift_mean", "shift_peak15", "shift_max", "coverage", "twa_rule", "background_method"];
@@ -171,7 +135,7 @@ export function doseView() {
       body.append(tr);
     });
     table.append(head, body);
-    showIn(tableBox, [table]);
+    renew(tableBox, table);
     // LDSA of the air each task breathed
     const ldsa = el("table", { class: "results dose-ldsa" });
     ldsa.append(el("caption", {}, `Lung-deposited surface area of the inhaled air, per task (${unitText(dose.ldsa_unit || "um2/cm3")})`));
@@ -187,7 +151,7 @@ export function doseView() {
       lb.append(tr);
     }
     ldsa.append(lh, lb);
-    showIn(ldsaBox, [ldsa]);
+    renew(ldsaBox, ldsa);
     if (!chart) {
       chart = createChart(figure.canvas, {
         x: { title: "Region", type: "category" },
