@@ -15,9 +15,10 @@ are approximations of average human inhalation and penetration, not of any one p
 from __future__ import annotations
 
 import math
+from functools import lru_cache
 
 from . import particle
-from .distribution import Distribution, parts
+from .distribution import WEIGHTS, Distribution, LognormalMode, parts
 
 __all__ = [
     "CONVENTIONS",
@@ -306,34 +307,97 @@ def convention_shares(
     -----
     Each quadrature node's aerodynamic diameter (Hinds 1999, eq. 3.30 with slip) is solved
     once (:func:`driftdose.particle.aerodynamic_diameters`, a mode's nodes in order) and
-    reused for every weight and convention.
+    reused for every weight and convention. A lognormal mode's own shares do not depend on
+    its concentration: they are kept per median, GSD, density and shape factor (the last
+    :data:`SHARES_KEPT`), and a distribution's shares are the modes' weighted by their
+    totals, so a change of amount, or of one mode, solves no node of the others again.
     """
     modes = parts(distribution)
-    names = tuple(CONVENTIONS)
-    convs = tuple(CONVENTIONS.values())
-    # each node's convention values, by (diameter, density, shape factor)
-    cache: dict[tuple[float, float, float], tuple[float, ...]] = {}
+    kept = [_kept_mode_shares(m, T, P) if isinstance(m, LognormalMode) else None for m in modes]
+    spectra: dict[int, list[tuple[float, ...]]] = {}
     result: dict[str, dict[str, float]] = {}
     for weight in weights:
         total = distribution.total(weight)
-        out = dict.fromkeys(CONVENTIONS, 0.0)
         if total <= 0.0:
-            result[weight] = out
+            result[weight] = dict.fromkeys(CONVENTIONS, 0.0)
             continue
-        sums = [0.0] * len(names)
-        for m in modes:
-            rho, chi = m.density, m.shape_factor
-            ln_gsd = getattr(m, "ln_gsd", None)
-            step = min(ln_gsd / 2.0, CONVENTION_STEP) if ln_gsd else None
-            nodes = m.quadrature(weight, step) if step else m.quadrature(weight)
-            new = [d for d, _ in nodes if (d, rho, chi) not in cache]
-            solved = particle.aerodynamic_diameters(new, rho, chi, T, P)
-            for d, d_ae in zip(new, solved, strict=True):
-                cache[(d, rho, chi)] = tuple(conv(d_ae) for conv in convs)
-            for d, w in nodes:
-                values = cache[(d, rho, chi)]
-                for i in range(len(sums)):
-                    sums[i] += w * values[i]
-        out = dict(zip(names, sums, strict=True))
-        result[weight] = {k: v / total for k, v in out.items()}
+        sums = [0.0] * len(CONVENTIONS)
+        for i, m in enumerate(modes):
+            own = kept[i]
+            if isinstance(m, LognormalMode):
+                if own is None:  # no particles: nothing to add
+                    continue
+                amount = m.total(weight)
+                for j, share in enumerate(own[weight]):
+                    sums[j] += amount * share
+                continue
+            nodes = m.quadrature(weight)
+            if i not in spectra:
+                solved = particle.aerodynamic_diameters(
+                    [d for d, _ in nodes], m.density, m.shape_factor, T, P
+                )
+                spectra[i] = [_convention_values(d_ae) for d_ae in solved]
+            for (_, w), values in zip(nodes, spectra[i], strict=True):
+                for j in range(len(sums)):
+                    sums[j] += w * values[j]
+        result[weight] = {k: v / total for k, v in zip(CONVENTIONS, sums, strict=True)}
     return result
+
+
+SHARES_KEPT = 32
+"""Lognormal modes whose convention shares :func:`convention_shares` keeps."""
+
+
+def _kept_mode_shares(
+    mode: LognormalMode, T: float, P: float
+) -> dict[str, tuple[float, ...]] | None:
+    """The shares of one mode by weight (see :func:`_mode_shares`), or None if it has none."""
+    if not mode.number_concentration > 0.0:
+        return None
+    step = min(mode.ln_gsd / 2.0, CONVENTION_STEP)
+    return _mode_shares(mode.cmd, mode.gsd, mode.density, mode.shape_factor, step, T, P)
+
+
+@lru_cache(maxsize=SHARES_KEPT)
+def _mode_shares(
+    cmd: float, gsd: float, density: float, shape_factor: float, step: float, T: float, P: float
+) -> dict[str, tuple[float, ...]]:
+    """Shares of a lognormal mode's number, surface and mass in each ISO 7708 fraction.
+
+    ``cmd`` [m], ``gsd`` [-], ``density`` [kg/m^3], ``shape_factor`` [-], ``step`` the ln-d
+    step of the trapezoidal rule [-], ``T`` [K], ``P`` [Pa]. The values of the conventions
+    at each node are computed once for all weights (a unit concentration: the shares do not
+    depend on it).
+    """
+    mode = LognormalMode(cmd, gsd, 1.0, density, shape_factor)
+    grid = mode.grid(step)
+    solved = particle.aerodynamic_diameters(grid, density, shape_factor, T, P)
+    values = [_convention_values(d_ae) for d_ae in solved]
+    out = {}
+    for weight in WEIGHTS:
+        total = mode.total(weight)
+        sums = [0.0] * len(CONVENTIONS)
+        for (_, w), v in zip(mode.quadrature(weight, step), values, strict=True):
+            for j in range(len(sums)):
+                sums[j] += w * v[j]
+        out[weight] = tuple(x / total for x in sums)
+    return out
+
+
+_LN_SIGMA = math.log(SIGMA)
+_GAMMAS = (GAMMA_THORACIC, GAMMA_RESPIRABLE, GAMMA_HIGH_RISK)
+
+
+def _convention_values(d_ae: float) -> tuple[float, float, float, float]:
+    """The four conventions of :data:`CONVENTIONS`, in its order, at ``d_ae`` [m].
+
+    The same equations as :func:`inhalable` and :func:`_penetration` (ISO 7708:1995,
+    clauses 5 to 7.1), with the inhalable fraction computed once for all four.
+    """
+    e_i = inhalable(d_ae)
+    if d_ae <= 0.0:
+        return (e_i, e_i, e_i, e_i)
+    thoracic_, respirable_, high_risk = (
+        e_i * (1.0 - _phi(math.log(d_ae / g) / _LN_SIGMA)) for g in _GAMMAS
+    )
+    return (e_i, thoracic_, respirable_, high_risk)

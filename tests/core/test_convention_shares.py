@@ -75,3 +75,35 @@ def test_convention_shares_default_step_match_a_fine_grid(monkeypatch, cmd, gsd,
                 assert coarse[weight][name] == pytest.approx(value, rel=0, abs=1e-8), name
                 compared += 1
     assert compared >= 4
+
+
+def test_convention_shares_of_a_mode_do_not_depend_on_its_amount():
+    # the shares a mode keeps are those of a unit concentration; a distribution's are the
+    # modes' weighted by their totals
+    one = LognormalMode.from_number(60e-9, 1.9, 1e9, 2500.0, 1.3)
+    other = LognormalMode.from_number(60e-9, 1.9, 7e11, 2500.0, 1.3)
+    a = conventions.convention_shares(one, ("mass", "number"))
+    b = conventions.convention_shares(other, ("mass", "number"))
+    for weight in ("mass", "number"):
+        for name in conventions.CONVENTIONS:
+            assert b[weight][name] == pytest.approx(a[weight][name], rel=1e-14)
+    coarse = LognormalMode.from_number(3e-6, 2.0, 1e6, 2500.0, 1.3)
+    both = conventions.convention_shares(Multimodal((one, coarse)), ("mass",))["mass"]
+    alone = conventions.convention_shares(coarse, ("mass",))["mass"]
+    m1, m2 = one.total("mass"), coarse.total("mass")
+    for name, value in both.items():
+        expected = (m1 * a["mass"][name] + m2 * alone[name]) / (m1 + m2)
+        assert value == pytest.approx(expected, rel=1e-14)
+
+
+def test_convention_shares_follow_the_step_in_force(monkeypatch):
+    # what is kept is keyed by the quadrature step: another step is computed anew
+    mode = LognormalMode.from_number(1e-6, 3.0, 1e6, 1000.0, 1.0)
+    conventions.convention_shares(mode, ("mass",))
+    before = conventions._mode_shares.cache_info()
+    conventions.convention_shares(mode, ("mass",))
+    again = conventions._mode_shares.cache_info()
+    assert (again.hits, again.misses) == (before.hits + 1, before.misses)
+    monkeypatch.setattr(conventions, "CONVENTION_STEP", 0.01)
+    conventions.convention_shares(mode, ("mass",))
+    assert conventions._mode_shares.cache_info().misses == before.misses + 1

@@ -15,6 +15,7 @@ translates its result into the reply. Invented demos: :mod:`.demos`.
 
 from __future__ import annotations
 
+import gc
 from typing import Any
 
 from ..compose.deposition import Deposition, compose_deposition
@@ -68,7 +69,23 @@ def compute(v: dict[str, Any]) -> tuple[Deposition, dict[str, Any] | None]:
 
 
 def run(v: dict[str, Any]) -> dict[str, Any]:
-    """Compute the deposition reply from validated SI inputs."""
+    """Compute the deposition reply from validated SI inputs.
+
+    The collector of cyclic garbage is paused meanwhile (as for the shift): the request
+    makes many small lists and tuples, none of them cyclic garbage, and each pass of the
+    collector would walk them and, in the page's engine, part of the older objects again.
+    Cycles left behind are collected after the request.
+    """
+    paused = gc.isenabled()
+    gc.disable()
+    try:
+        return _run(v)
+    finally:
+        if paused:
+            gc.enable()
+
+
+def _run(v: dict[str, Any]) -> dict[str, Any]:
     result, report = compute(v)
     warnings = list(result.warnings) + import_warnings(report)
     sources = [
