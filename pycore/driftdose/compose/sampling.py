@@ -60,6 +60,8 @@ CURVE_POINTS = 241
 """Sizes on the penetration curves, evenly spaced in ln d. [-]"""
 CURVE_RANGE = (1e-9, 100e-6)
 """Smallest and largest size of the penetration curves. [m]"""
+_SIZES = tuple(logspace(*CURVE_RANGE, CURVE_POINTS))
+"""The sizes of the curves, computed once. [m]"""
 REFERENCE_SIZES = (("10nm", 10e-9), ("100nm", 100e-9), ("1um", 1e-6), ("10um", 10e-6))
 """Sizes at which every stage's and the chain's penetration is reported (key, [m])."""
 
@@ -284,7 +286,7 @@ def compose_sampling(
         raise ValueError("a sampling chain needs at least one stage")
     user_names = list(names) if names is not None else [s.name for s in stages]
     chain = Chain(tuple(stages))
-    xs = logspace(*CURVE_RANGE, CURVE_POINTS)
+    xs = list(_SIZES)
     evaluated = chain.evaluate(xs, density, T, P)
     warnings: list[str] = []
     sources: list[str] = list(_BASE_SOURCES)

@@ -24,7 +24,7 @@ from collections.abc import Sequence
 
 from .. import particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from .flow import blend_regimes, interpolate_regimes, regime_weight, tube_velocity
+from .flow import blend_curves, blend_regimes, regime_weight, tube_velocity
 
 __all__ = [
     "PUI1987_RE_RANGE",
@@ -258,12 +258,10 @@ def bend_curve(
         Penetration at each size [-], Stk = 2 tau U / d_t, Pui et al. (1987) fits.
 
     """
-    w = regime_weight(regime, flow, tube_diameter, T, P)
     u = tube_velocity(flow, tube_diameter)
-    out = []
-    for tau in relaxation_times:
-        stk = 2.0 * tau * u / tube_diameter
-        lam = penetration_pui1987_laminar(stk, bend_angle) if w < 1.0 else 1.0
-        turb = penetration_pui1987_turbulent(stk, bend_angle) if w > 0.0 else 1.0
-        out.append(interpolate_regimes(lam, turb, w))
-    return out
+    stks = [2.0 * tau * u / tube_diameter for tau in relaxation_times]
+    return blend_curves(
+        lambda: [penetration_pui1987_laminar(stk, bend_angle) for stk in stks],
+        lambda: [penetration_pui1987_turbulent(stk, bend_angle) for stk in stks],
+        regime_weight(regime, flow, tube_diameter, T, P),
+    )

@@ -22,6 +22,7 @@ __all__ = [
     "RE_LAMINAR_MAX",
     "RE_SWITCH",
     "RE_TURBULENT_MIN",
+    "blend_curves",
     "blend_regimes",
     "flow_regime",
     "interpolate_regimes",
@@ -214,6 +215,25 @@ def blend_regimes(
     return interpolate_regimes(
         laminar() if weight < 1.0 else 1.0, turbulent() if weight > 0.0 else 1.0, weight
     )
+
+
+def blend_curves(
+    laminar: Callable[[], list[float]], turbulent: Callable[[], list[float]], weight: float
+) -> list[float]:
+    """:func:`interpolate_regimes` of two curves, each computed only if it carries weight. [-]
+
+    Parameters
+    ----------
+    laminar, turbulent : callable
+        The penetration curves in laminar and in turbulent flow, computed on call [-].
+    weight : float
+        Weight of the turbulent form, 0 to 1 (:func:`regime_weight`) [-].
+    """
+    if weight <= 0.0:
+        return laminar()
+    if weight >= 1.0:
+        return turbulent()
+    return [interpolate_regimes(a, b, weight) for a, b in zip(laminar(), turbulent(), strict=True)]
 
 
 def speed_of_sound(T: float = T_DEFAULT) -> float:

@@ -18,7 +18,7 @@ from collections.abc import Sequence
 
 from .. import particle
 from ..constants import P_DEFAULT, T_DEFAULT
-from .flow import blend_regimes, interpolate_regimes, regime_weight, tube_velocity
+from .flow import blend_curves, blend_regimes, regime_weight, tube_velocity
 
 __all__ = [
     "penetration_heyder_gebhart1977",
@@ -282,15 +282,16 @@ def tube_settling_curve(
         et al. (1975) in turbulent flow, interpolated between; the flow's quantities once.
 
     """
-    w = regime_weight(regime, flow, tube_diameter, T, P)
     u = tube_velocity(flow, tube_diameter)
     cos_theta = abs(math.cos(inclination))
-    out = []
-    for v_ts in settling_velocities:
-        lam = 1.0
-        if w < 1.0:
-            z = length * v_ts / (tube_diameter * u)
-            lam = penetration_heyder_gebhart1977(0.75 * z * cos_theta)
-        turb = math.exp(-tube_diameter * length * v_ts * cos_theta / flow) if w > 0.0 else 1.0
-        out.append(interpolate_regimes(lam, turb, w))
-    return out
+    return blend_curves(
+        lambda: [
+            penetration_heyder_gebhart1977(0.75 * (length * v_ts / (tube_diameter * u)) * cos_theta)
+            for v_ts in settling_velocities
+        ],
+        lambda: [
+            math.exp(-tube_diameter * length * v_ts * cos_theta / flow)
+            for v_ts in settling_velocities
+        ],
+        regime_weight(regime, flow, tube_diameter, T, P),
+    )

@@ -21,8 +21,8 @@ from collections.abc import Sequence
 from .. import gas, particle
 from ..constants import P_DEFAULT, T_DEFAULT
 from .flow import (
+    blend_curves,
     blend_regimes,
-    interpolate_regimes,
     regime_weight,
     tube_reynolds_number,
     tube_velocity,
@@ -315,18 +315,20 @@ def tube_diffusion_curve(
         (1977) in turbulent flow, interpolated between, the flow's quantities taken once.
 
     """
-    w = regime_weight(regime, flow, tube_diameter, T, P)
     u = tube_velocity(flow, tube_diameter)
     re = tube_reynolds_number(flow, tube_diameter, T, P)
     mu, rho_g = gas.air_viscosity(T), gas.air_density(T, P)
-    out = []
-    for diff in diffusion_coefficients:
-        lam = 1.0
-        if w < 1.0:
-            lam = min(1.0, max(0.0, penetration_gormley_kennedy1949(diff * length / flow)))
-        turb = _friedlander(diff, length, flow, tube_diameter, u, re, mu, rho_g) if w > 0.0 else 1.0
-        out.append(interpolate_regimes(lam, turb, w))
-    return out
+    return blend_curves(
+        lambda: [
+            min(1.0, max(0.0, penetration_gormley_kennedy1949(diff * length / flow)))
+            for diff in diffusion_coefficients
+        ],
+        lambda: [
+            _friedlander(diff, length, flow, tube_diameter, u, re, mu, rho_g)
+            for diff in diffusion_coefficients
+        ],
+        regime_weight(regime, flow, tube_diameter, T, P),
+    )
 
 
 def tube_diffusion_penetration_any(
