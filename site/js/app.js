@@ -133,7 +133,9 @@ function panelFingerprint(pid, panels, surveyValues) {
 function writeLink() {
   const survey_ = survey ? survey.get() : {};
   const panels = Object.keys(survey_).length ? { ...allInputs(), survey: survey_ } : allInputs();
-  history.replaceState(null, "", `#${encodeState(active, panels)}`);
+  const fragment = `#${encodeState(active, panels)}`;
+  // replacing the address costs about a millisecond per kilobyte of link: not when it is the same
+  if (location.hash !== fragment) history.replaceState(null, "", fragment);
   const dropped = encodeState.dropped || [];
   document.getElementById("link-size-note").hidden = dropped.length === 0;
 }

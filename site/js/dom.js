@@ -102,9 +102,12 @@ export function fieldShell(container, name, prefix, label = "", helpText = "") {
   const help = el("p", { class: "help", id: `${id}-help` }, helpText || "");
   const error = el("p", { class: "error", id: `${id}-error`, hidden: "" });
   container.append(wrap);
+  let shown = ""; // only a change of message touches the page
   return {
     id, wrap, help, error,
     showError(message) {
+      if ((message || "") === shown) return;
+      shown = message || "";
       error.textContent = message || "";
       error.hidden = !message;
       wrap.classList.toggle("invalid", Boolean(message));

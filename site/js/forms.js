@@ -74,6 +74,7 @@ export function renderField(container, field, prefix) {
   container.append(wrap);
 
   const defaultUnit = unitSelect ? unitSelect.value : (field.units && field.units[0] ? field.units[0].unit : undefined);
+  let shownError = ""; // every reply shows its errors: only a change of message touches the page
   return {
     field, input, unitSelect, wrap,
     get() {
@@ -92,6 +93,9 @@ export function renderField(container, field, prefix) {
       }
     },
     showError(message) {
+      message = message || "";
+      if (message === shownError) return;
+      shownError = message;
       if (message) {
         error.textContent = message;
         error.hidden = false;
