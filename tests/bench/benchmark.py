@@ -16,7 +16,9 @@ Measures in one run, on one server, in the same Chromium:
   service workers blocked (HTTP cache only); and (part ``repeat_throttled``) the same for the
   default build served over a shared 50 Mbit/s link with 20 ms per response, where a first visit
   pays its download;
-- input change to updated chart, per panel: median and 95th percentile over many edits;
+- input change to updated chart, per panel: median and 95th percentile over many edits (input
+  event -> data-updates bumped -> next animation frame), with two of its phases: input -> the
+  request posted (median) and the panel's apply() showing the reply (median, p95);
 - the app's own assets (everything but Pyodide's core), gzip-compressed size;
 - the heaviest core calculations in CPython, and the same requests in the page, with ratios;
 - the retained burden over 40 working years, and a 1000-sample propagation of the dose of a
@@ -413,21 +415,52 @@ def _throttled_visits(pw, build, root: Path, runs: int) -> dict:
     return {"link": f"{LINK_MBIT:g} Mbit/s down, {LINK_LATENCY_MS:g} ms per response", **out}
 
 
-def _recalc_times(page, panel: str, label: str, values: list[str], edits: int) -> list[float]:
+# phases of an edit, marked by wrapping the engine's latestOn and each panel's apply:
+# input -> request posted, and the time apply() takes to show the reply
+_PHASE_MARKS = """async () => {
+  const m = await import('./js/app.js');
+  if (m.engine.__marked) return;
+  m.engine.__marked = true;
+  window.__phases = {};
+  const latestOn = m.engine.latestOn.bind(m.engine);
+  m.engine.latestOn = (...a) => {
+    window.__phases.posted = performance.now();
+    return latestOn(...a);
+  };
+  for (const c of m.controllers.values()) {
+    const apply = c.apply.bind(c);
+    c.apply = (...a) => {
+      const t = performance.now();
+      try { return apply(...a); } finally { window.__phases.apply = performance.now() - t; }
+    };
+  }
+}"""
+
+
+def _recalc_times(
+    page, panel: str, label: str, values: list[str], edits: int, phases: list | None = None
+) -> list[float]:
+    """Input event -> data-updates bumped -> next animation frame, in ms, per edit; with
+    ``phases`` (after _PHASE_MARKS) also {post, apply} in ms per edit appended there."""
     field = page.locator(f"#panel-{panel}").get_by_label(label, exact=True)
     handle = field.element_handle()
     out = []
     for i in range(edits):
         value = values[i % len(values)]
-        ms = page.evaluate(
+        got = page.evaluate(
             """([input, panel, value]) => new Promise((resolve) => {
                  const section = document.getElementById('panel-' + panel);
                  const before = Number(section.dataset.updates || 0);
                  const t0 = performance.now();
+                 const marks = window.__phases || {};
                  const obs = new MutationObserver(() => {
                    if (Number(section.dataset.updates || 0) > before) {
                      obs.disconnect();
-                     requestAnimationFrame(() => resolve(performance.now() - t0));
+                     requestAnimationFrame(() => resolve({
+                       total: performance.now() - t0,
+                       post: marks.posted >= t0 ? marks.posted - t0 : null,
+                       apply: marks.apply ?? null,
+                     }));
                    }
                  });
                  obs.observe(section, {attributes: true, attributeFilter: ['data-updates']});
@@ -436,7 +469,9 @@ def _recalc_times(page, panel: str, label: str, values: list[str], edits: int) -
                })""",
             [handle, panel, value],
         )
-        out.append(ms)
+        out.append(got["total"])
+        if phases is not None:
+            phases.append({"post": got["post"], "apply": got["apply"]})
     return out
 
 
@@ -707,6 +742,9 @@ def _edit_figures(browser, sites: dict[str, str], edits: int, blocks: int = 4) -
         for name, (_, page) in pages.items()
     }
     times: dict[str, dict[str, list[float]]] = {name: {} for name in sites}
+    phases: dict[str, dict[str, list[dict]]] = {name: {} for name in sites}
+    for _, page in pages.values():
+        page.evaluate(_PHASE_MARKS)
     per_block = max(1, edits // blocks)
     for _ in range(blocks):
         for name, (_, page) in pages.items():
@@ -715,7 +753,8 @@ def _edit_figures(browser, sites: dict[str, str], edits: int, blocks: int = 4) -
                     continue
                 page.evaluate(f"() => document.getElementById('tab-{panel}').click()")
                 page.evaluate(_SET_INPUTS, [panel, setup or defaults[name][panel]])
-                got = _recalc_times(page, panel, label, values, per_block)
+                marks = phases[name].setdefault(key, [])
+                got = _recalc_times(page, panel, label, values, per_block, marks)
                 times[name].setdefault(key, []).extend(got)
     for ctx, _ in pages.values():
         ctx.close()
@@ -726,6 +765,14 @@ def _edit_figures(browser, sites: dict[str, str], edits: int, blocks: int = 4) -
             if key in times[name]:
                 row[f"median_ms_{name}"] = round(statistics.median(times[name][key]), 1)
                 row[f"p95_ms_{name}"] = round(_pct(times[name][key], 0.95), 1)
+                # where it goes: input -> request posted; apply() showing the reply
+                post = [m["post"] for m in phases[name][key] if m["post"] is not None]
+                apply = [m["apply"] for m in phases[name][key] if m["apply"] is not None]
+                if post:
+                    row[f"posted_ms_median_{name}"] = round(statistics.median(post), 2)
+                if apply:
+                    row[f"apply_ms_median_{name}"] = round(statistics.median(apply), 1)
+                    row[f"apply_ms_p95_{name}"] = round(_pct(apply, 0.95), 1)
         if "p95_ms_before" in row and "p95_ms_after" in row:
             row["p95_after_over_before"] = round(row["p95_ms_after"] / row["p95_ms_before"], 3)
         out[key] = row
