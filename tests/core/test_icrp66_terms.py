@@ -120,6 +120,7 @@ SUBJECTS = {
     "worker_mouth_breather": reference_worker("mouth_breather"),
     "heavy_exercise_mouth": Subject.single(activity("heavy_exercise", "mouth")),
     "custom_half_nose": Subject.single(BreathingPattern("custom", 1.0e-3, 0.3, 0.5)),
+    "worker_in_wind": Subject("in wind", reference_worker("mixed").periods, wind_speed=3.0),
 }
 
 

@@ -209,6 +209,19 @@ def test_aerodynamic_diameters_of_a_grid_vs_brentq_and_one_at_a_time(rho, chi, T
     assert particle.aerodynamic_diameters([], rho, chi, T, P) == []
 
 
+@pytest.mark.parametrize(("rho", "chi"), [(100.0, 1.0), (3000.0, 1.5), (22000.0, 4.0)])
+def test_grid_solve_is_the_single_solve_written_out(rho, chi):
+    # the grid's loop repeats the single solve's Newton iteration in place; with no neighbour
+    # to start from it starts where the single solve does, so the two agree to the last bit
+    for i in range(0, 241, 5):
+        d = 1e-9 * 10 ** (i / 48)
+        for T, P in ((293.15, 101325.0), (310.15, 101325.0), (250.0, 50e3)):
+            single = particle.aerodynamic_diameter(d, rho, chi, T, P)
+            assert particle.aerodynamic_diameters([d], rho, chi, T, P) == [single]
+            back = particle.volume_equivalent_diameter(single, rho, chi, T, P)
+            assert particle.volume_equivalent_diameters([single], rho, chi, T, P) == [back]
+
+
 # ---------------------------------------------------------------------------------------------
 # Aerodynamic <-> volume-equivalent diameter vs brentq on the same relation
 # ---------------------------------------------------------------------------------------------

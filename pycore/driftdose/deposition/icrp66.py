@@ -398,6 +398,7 @@ def icrp66_curves(
     nose = any(c.fn > 0.0 for c in consts)
     mouth = any(c.fn < 1.0 for c in consts)
     wind = subject.wind_speed
+    wind_term = 1e-5 * wind**2.75 if wind > 0.0 else 0.0
     if diameter_type == "aerodynamic":
         d_aes = list(diameters)
         ds = [particle.volume_equivalent_diameter(x, density, shape_factor, T, P) for x in d_aes]
@@ -412,8 +413,11 @@ def icrp66_curves(
     regions: tuple[list[float], ...] = ([], [], [], [], [])
     total: list[float] = []
     for d_ae, th in zip(d_aes, thermo, strict=True):
-        inh = inhalability(d_ae, wind)
         da = d_ae * 1e6
+        inh = 1.0 - 0.5 * (1.0 - 1.0 / (1.0 + 7.6e-4 * da**2.8))  # as inhalability()
+        if wind > 0.0:
+            inh += wind_term * exp(0.055 * da)
+        inh = inh if inh < 1.0 else 1.0
         d2 = da * da
         # the powers of the size that every pattern shares (see _Consts)
         p_bb = d2**1.152

@@ -142,22 +142,64 @@ def volume_equivalent_diameters(
 
 
 def _equal_settling_grid(ds: Sequence[float], r: float, T: float, P: float) -> list[float]:
-    """d_x [m] with d_x^2 Cc(d_x) = ``r`` d^2 Cc(d) at every ``ds`` [m], from neighbours."""
+    """d_x [m] with d_x^2 Cc(d_x) = ``r`` d^2 Cc(d) at every ``ds`` [m], from neighbours.
+
+    The iteration of :func:`_solve_d2cc` (Newton steps in ln d_x inside
+    :func:`_ratio_bracket`, :func:`driftdose._numerics.newton_bracketed` with its default
+    step tolerance 1e-7) and the slip of :func:`_slip_and_log_slope`, written out in this
+    loop with the same arithmetic in the same order: the same results to the last bit, without
+    a function call per step (in the page's engine the calls cost more than the arithmetic).
+    """
     two_lambda = 2.0 * gas.mean_free_path(T, P, reference="kim2005")
+    alpha, beta, gamma = SLIP_MODELS["kim2005"]
     half_log_r = 0.5 * math.log(r)
+    lo_factor = min(r, math.sqrt(r), 1.0)
+    hi_factor = max(r, math.sqrt(r), 1.0)
+    tol = 1e-7  # newton_bracketed's default step tolerance
+    exp, log = math.exp, math.log
     out = []
     last = before = None  # (ln d, ln d_ae - ln d) of the two sizes solved last
     for d in ds:
-        ln_d = math.log(d)
+        ln_d = log(d)
         offset = half_log_r  # the continuum limit
         if last is not None:
             offset = last[1]
             if before is not None and last[0] != before[0]:
                 offset += (last[1] - before[1]) * (ln_d - last[0]) / (last[0] - before[0])
-        cc_d, _ = _slip_and_log_slope(d, two_lambda)
-        lo, hi = _ratio_bracket(d, r)
-        d_ae = _solve_d2cc(math.log(r * d * d * cc_d), lo, hi, ln_d + offset, two_lambda)
-        before, last = last, (ln_d, math.log(d_ae) - ln_d)
+        kn = two_lambda / d
+        cc_d = 1.0 + kn * (alpha + beta * exp(-gamma / kn))
+        target = log(r * d * d * cc_d)
+        a, b = log(d * lo_factor * 0.5), log(d * hi_factor * 2.0)
+        x0 = ln_d + offset
+        x = x0 if a < x0 < b else 0.5 * (a + b)
+        for _ in range(100):
+            size = exp(x)
+            kn = two_lambda / size
+            e = beta * exp(-gamma / kn)
+            cc = 1.0 + kn * (alpha + e)
+            fx = log(size * size * cc) - target
+            if fx == 0.0:
+                break
+            if fx < 0.0:
+                a = x
+            else:
+                b = x
+            dfx = 2.0 + (-kn * (alpha + e) - gamma * e) / cc
+            new = x - fx / dfx if dfx > 0.0 else a - 1.0
+            if a < new < b:
+                if abs(new - x) < tol:
+                    x = new
+                    break
+            else:
+                new = 0.5 * (a + b)
+                if b - a <= tol * tol:
+                    x = new
+                    break
+            x = new
+        else:
+            raise RuntimeError("newton_bracketed did not converge")
+        d_ae = exp(x)
+        before, last = last, (ln_d, log(d_ae) - ln_d)
         out.append(d_ae)
     return out
 
