@@ -160,12 +160,23 @@ def data_profile(rows: list[list[str]]) -> list[bool]:
         The file's rows split into cells.
     """
     tail = rows[-200:]
+    seen: dict[str, bool] = {}  # each cell is asked about up to eight times below
+
+    def value(cell: str) -> bool:
+        known = seen.get(cell)
+        if known is None:
+            known = seen[cell] = _cells.is_value(cell)
+        return known
+
+    def alike(a: list[str], b: list[str]) -> bool:  # compatible(), with the answers kept
+        return all(not x or not y or value(x) == value(y) for x, y in zip(a, b, strict=False))
+
     best: list[list[str]] = []
     for skip in range(min(4, len(tail))):
         end = len(tail) - 1 - skip
         run = [tail[end]]
         for i in range(end - 1, -1, -1):
-            if not compatible(tail[i], tail[end]) or not compatible(tail[i], tail[i + 1]):
+            if not alike(tail[i], tail[end]) or not alike(tail[i], tail[i + 1]):
                 break
             run.append(tail[i])
         if (value_columns(run), len(run)) > (value_columns(best), len(best)):

@@ -7,6 +7,7 @@ import csv
 import io
 import re
 from dataclasses import dataclass, field
+from itertools import repeat
 
 from .. import textfile
 from . import cells as _cells
@@ -189,6 +190,18 @@ def _plain_records(
         lines = _LINE_BREAK.split(text)
     if lines and not lines[-1]:
         lines = lines[:-1]  # the line break ending the last line starts no line
+    if delim != text[:1] and "\n" + delim not in text and "\r" + delim not in text:
+        # no line starts with a separator, so only empty lines are blank (the common file):
+        # they are found at the list's own speed, and every other line is a record
+        records = list(enumerate(map(str.split, lines, repeat(delim)), 1))
+        blank: list[int] = []
+        at = -1
+        for _ in range(lines.count("")):
+            at = lines.index("", at + 1)
+            blank.append(at + 1)
+        for n in reversed(blank):
+            del records[n - 1]
+        return records, blank
     out = [(n, line.split(delim)) for n, line in enumerate(lines, 1) if line.strip(delim)]
     blank = [n for n, line in enumerate(lines, 1) if not line.strip(delim)]
     return out, blank

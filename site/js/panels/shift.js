@@ -248,10 +248,16 @@ export function mount(root, { engine, description, forms }) {
     });
   };
   for (const [name, handle] of panel.fields.handles) {
-    if (OWN.has(name) && handle.listen) handle.listen(() => {
-      if (name === "periods") drawBands();
-      scheduleOnce();
-    });
+    if (!OWN.has(name) || !handle.listen) continue;
+    if (name === "periods") {
+      // a moved period: the request is posted first, the bands drawn while the engine works
+      handle.listen(() => {
+        panel.schedule();
+        drawBands();
+      });
+    } else {
+      handle.listen(scheduleOnce);
+    }
   }
 
   // errors: "periods.2.end" in its row; "quantity_columns.0.column" by the column list
