@@ -44,6 +44,7 @@ ENGINE_ASSUMPTIONS = {
         "static makeMemorySnapshot(",
         "Snapshot build id mismatch",  # the engine refuses a snapshot of another build
         f"$r={SNAPSHOT_MAGIC},Ze=48",  # magic number and header size
+        'if(Module["instantiateWasm"])',  # js/warm.js: the factory waits on this hook
     ),
     "pyodide.d.ts": (
         "_makeSnapshot?: boolean;",

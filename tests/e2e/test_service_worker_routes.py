@@ -1,7 +1,8 @@
 """The service worker's static routes: after one visit, the build's files come straight from this
 build's cache (the browser's static routing, without the worker's fetch handler), while the page
 itself and the always-fresh descriptions stay with the fetch handler; a file asked for with a
-query string is still answered from the cache offline (the handler's look-up without it).
+query string is still answered from the cache offline (the handler's look-up without it). The
+warm-up worker of the first visit (js/warm.js) ends without an error or warning.
 
 What the browser did is read from the DevTools protocol (``serviceWorkerRouterInfo`` of each
 response), the same record its network panel shows.
@@ -50,9 +51,18 @@ def test_build_files_come_from_the_cache_by_static_route(browser, base_url):
         page = context.new_page()
         errors: list[str] = []
         page.on("console", lambda m: errors.append(m.text) if m.type == "error" else None)
+        page.on(
+            "worker",
+            lambda w: w.on(
+                "console",
+                lambda m: errors.append(m.text) if m.type in ("error", "warning") else None,
+            ),
+        )
         page.goto(base_url)
         wait_ready(page)
         page.evaluate(ACTIVATED)
+        # the warm-up worker (js/warm.js: the engine's script and its factory, no engine) ends
+        page.wait_for_selector("html[data-engine-code='warm']", state="attached", timeout=60_000)
         seen = _responses_after_reload(context, page)
         for path in ("js/boot.js", "js/app.js", "forms.json", "css/style.css"):
             response = _by_path(seen, base_url, path)
