@@ -16,7 +16,7 @@ import pytest
 
 from driftdose import particle
 from driftdose._numerics import logspace
-from driftdose.transport import Bend, Chain, Cyclone, Impactor, ScreenStack, Tube
+from driftdose.transport import Bend, Chain, Cyclone, Impactor, ScreenStack, Tube, correct_spectrum
 
 SIZES = logspace(1e-9, 100e-6, 241)
 LPM = 1e-3 / 60.0
@@ -65,3 +65,14 @@ def test_chain_evaluate_matches_its_own_penetration() -> None:
     faster = Chain((Tube(10.0, 4e-3, 3 * LPM),))
     again = faster.evaluate(SIZES, 1800.0)
     assert again.overall == [faster.penetration(d, 1800.0) for d in SIZES]
+
+
+def test_spectrum_correction_uses_the_chains_penetration_at_each_bin() -> None:
+    chain = Chain((Tube(10.0, 4e-3, 1.5 * LPM), Bend(4e-3, 1.5 * LPM)))
+    bins = [20e-9 * 1.3**i for i in range(30)]
+    counts = [1e6 * (i + 1) for i in range(30)]
+    corrected = correct_spectrum(chain, bins, counts, 1500.0)
+    assert corrected.penetration == [chain.penetration(d, 1500.0) for d in bins]
+    assert corrected.corrected == [
+        c / p if p > 1e-6 else None for c, p in zip(counts, corrected.penetration, strict=True)
+    ]

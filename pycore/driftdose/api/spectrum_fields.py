@@ -9,9 +9,11 @@ declarations bound to that field.
 
 from __future__ import annotations
 
+import copy
 import re
 from collections.abc import Mapping
 from dataclasses import replace
+from functools import lru_cache
 from typing import Any
 
 from .. import tables
@@ -172,6 +174,29 @@ def spectrum_fields(source: str, value: str = "csv") -> tuple[Field, ...]:
     return tuple(replace(f, applies=(source, (value,))) for f in _FIELDS)
 
 
+@lru_cache(maxsize=2)
+def _parse_kept(
+    text: str,
+    diameter_column: str,
+    concentration_column: str,
+    concentration_type: str,
+    d_scale: float,
+    c_scale: float,
+    header_line: int,
+) -> SpectrumImport:
+    """:func:`parse_spectrum_csv` of the last two files and mappings, kept: an edit of any
+    other input (a flow, a density) reads the same file again without parsing it."""
+    return parse_spectrum_csv(
+        text,
+        diameter_column,
+        concentration_column,
+        concentration_type,
+        d_scale,
+        c_scale,
+        header_line,
+    )
+
+
 def import_spectrum(
     v: dict[str, Any], inputs: Mapping[str, str] = CSV_INPUTS, shape_only: bool = False
 ) -> tuple[SpectrumImport, dict[str, Any]]:
@@ -222,7 +247,7 @@ def import_spectrum(
     c_unit = v.get(inputs.get("concentration_unit", "")) or "1/cm3"
     c_scale = to_si(1.0, "number_concentration", c_unit)
     try:
-        imported = parse_spectrum_csv(
+        imported = _parse_kept(
             text,
             v.get(inputs["diameter_column"]) or "1",
             v.get(inputs["concentration_column"]) or "2",
@@ -231,6 +256,7 @@ def import_spectrum(
             c_scale,
             v.get(inputs.get("header_line", "")) or 0,
         )
+        imported = replace(imported, report=copy.deepcopy(imported.report))
     except SpectrumError as exc:
         blamed = inputs.get(exc.part, file) if exc.part in _BLAMED else file
         raise FieldError(blamed, str(exc)) from None

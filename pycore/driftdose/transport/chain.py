@@ -79,6 +79,21 @@ class Chain:
             p *= stage.penetration(d, density, T, P)
         return p
 
+    def penetrations(
+        self,
+        diameters: list[float],
+        density: float = 1000.0,
+        T: float = T_DEFAULT,
+        P: float = P_DEFAULT,
+    ) -> list[float]:
+        """Overall penetration at each of ``diameters`` [m] (sorted or not): :meth:`penetration`
+        size by size, from the particle's properties taken once (kept). [-]"""
+        grid = particle.particle_grid(diameters, density, T, P)
+        overall = [1.0] * len(diameters)
+        for stage in self.stages:
+            overall = [p * q for p, q in zip(overall, stage.penetrations(grid), strict=True)]
+        return overall
+
     def evaluate(
         self,
         diameters: list[float],
@@ -196,7 +211,7 @@ def correct_spectrum(
     """
     if len(diameters) != len(concentrations):
         raise ValueError("diameters and concentrations must have the same length")
-    pen = [chain.penetration(d, density, T, P) for d in diameters]
+    pen = chain.penetrations(list(diameters), density, T, P)
     corrected: list[float | None] = [
         c / p if p > 1e-6 else None for c, p in zip(concentrations, pen, strict=True)
     ]
