@@ -36,13 +36,20 @@ function renewNode(old, fresh) {
     return;
   }
   const wanted = fresh.attributes;
+  const had = old.attributes;
+  // as many attributes, none written: the same set, nothing to remove
+  let differs = wanted.length !== had.length;
   for (let i = 0; i < wanted.length; i++) {
     const { name, value } = wanted[i];
-    if (old.getAttribute(name) !== value) old.setAttribute(name, value);
+    if (old.getAttribute(name) !== value) {
+      old.setAttribute(name, value);
+      differs = true;
+    }
   }
-  const had = old.attributes;
-  for (let i = had.length - 1; i >= 0; i--) {
-    if (!fresh.hasAttribute(had[i].name)) old.removeAttribute(had[i].name);
+  if (differs) {
+    for (let i = had.length - 1; i >= 0; i--) {
+      if (!fresh.hasAttribute(had[i].name)) old.removeAttribute(had[i].name);
+    }
   }
   renewChildren(old, [...fresh.childNodes]);
 }

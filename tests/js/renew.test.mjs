@@ -131,3 +131,10 @@ test("a different element, no nodes and other node kinds are shown as given", ()
   renew(box, h("p"), h("p", {}, "two"));
   assert.equal(show(box), "<DIV><P></P><P>two</P></DIV>");
 });
+
+test("an attribute renamed (as many attributes, one written) is removed", () => {
+  const box = h("div");
+  renew(box, h("td", { class: "value", "data-key": "a" }, "1"));
+  renew(box, h("td", { class: "value", "data-size": "0" }, "1"));
+  assert.equal(show(box), '<DIV><TD class="value" data-size="0">1</TD></DIV>');
+});
