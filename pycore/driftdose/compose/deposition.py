@@ -46,6 +46,15 @@ OVERLAY_POINTS = 241
 shape; it costs no model evaluation)."""
 CURVE_RANGE = (1e-9, 100e-6)
 """Size range of the deposition curves, the stated range of both models [m]."""
+_CURVE_SIZES = tuple(logspace(*CURVE_RANGE, CURVE_POINTS))
+_OVERLAY_SIZES = tuple(logspace(*CURVE_RANGE, OVERLAY_POINTS))
+
+
+def _within_0_1(ys: Sequence[float]) -> tuple[float, ...]:
+    """Deposition fractions ``ys`` [-] limited to 0 to 1 (a model's rounding can leave them)."""
+    return tuple((y if y < 1.0 else 1.0) if y > 0.0 else 0.0 for y in ys)
+
+
 DENSEST_MATERIAL = 22.6e3
 """Density of osmium, the densest element (common practice); an effective density and shape
 factor implying a denser material cannot describe one particle. [kg/m^3]"""
@@ -233,12 +242,12 @@ def compose_deposition(
         benchmark_mass=benchmark_mass,
         thermodynamic=thermodynamic,
     )
-    xs = logspace(*CURVE_RANGE, CURVE_POINTS)
+    xs = _CURVE_SIZES
     dep = deposition_curves(
         model, xs, desc.model_density, desc.model_shape_factor, subject, res.thermodynamic
     )
-    fractions = {r: tuple(min(1.0, max(0.0, y)) for y in dep[r]) for r in res.regions}
-    overlay_xs = logspace(*CURVE_RANGE, OVERLAY_POINTS)
+    fractions = {r: _within_0_1(dep[r]) for r in res.regions}
+    overlay_xs = _OVERLAY_SIZES
     overlay = {}
     for w in ("number", "mass"):
         ys = dist.density_curve(overlay_xs, w)
