@@ -151,3 +151,17 @@ def test_a_refused_file_is_not_kept():
     binary = json.loads(kept.decode_kept_json(b"\x00\x01" * 3000, 100_000, "x.bin"))
     assert binary["ok"] is False and "kept" not in binary
     assert not kept._texts
+
+
+@pytest.mark.parametrize(
+    "raw",
+    [
+        "Zeit;Größe\n08:00;1,5\n".encode(),  # UTF-8 as it stands: the file's own SHA-256
+        "Zeit;Größe\n08:00;1,5\n".encode("latin-1"),  # read as Latin-1
+        "Zeit;Größe\n08:00;1,5\n".encode("utf-16"),  # with its byte-order mark
+    ],
+)
+def test_the_key_of_a_decoded_file_is_always_that_of_its_text(raw):
+    reply = json.loads(kept.decode_kept_json(raw, textfile.MAX_BYTES, "f.csv"))
+    assert reply["kept"] == hashlib.sha256(reply["text"].encode("utf-8")).hexdigest()
+    assert kept._texts[reply["kept"]] == reply["text"]

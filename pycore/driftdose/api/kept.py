@@ -41,8 +41,8 @@ def _key(text: str) -> str:
     return hashlib.sha256(text.encode("utf-8", "surrogatepass")).hexdigest()
 
 
-def _keep(text: str) -> str:
-    key = _key(text)
+def _keep(text: str, key: str | None = None) -> str:
+    key = key or _key(text)
     _texts[key] = text
     _texts.move_to_end(key)
     while len(_texts) > KEPT_TEXTS:
@@ -70,7 +70,10 @@ def decode_kept_json(
     reply = decode_text_reply(data, limit, name, size)
     text = reply.get("text")
     if reply.get("ok") and isinstance(text, str) and text and len(text) <= MAX_BYTES:
-        reply["kept"] = _keep(text)
+        # UTF-8 read as it stands (no byte-order mark, nothing replaced): the text's UTF-8
+        # bytes are the file's bytes, whose SHA-256 the decoder has just computed
+        same = reply["encoding"] == "utf-8" and not reply["bom"] and not reply["replaced"]
+        reply["kept"] = _keep(text, reply["sha256"] if same else None)
     return json.dumps(reply, ensure_ascii=False)
 
 
