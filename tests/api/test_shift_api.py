@@ -638,8 +638,8 @@ def test_a_series_the_page_keeps_is_held_out_of_the_reply_and_nothing_else_chang
         assert curve["held"] is True and "t_s" not in curve
         assert curve["key"] == full["curves"][name]["key"]
         for one, whole in zip(curve["series"], full["curves"][name]["series"], strict=True):
-            if one["key"] == "background":  # moves with the periods: always sent
-                assert one == whole
+            if one["key"] == "background":  # moves with the periods: a key of its own
+                assert one["held"] is False and one == whole
             else:
                 assert "y" not in one and one == {k: whole[k] for k in ("key", "label", "unit")}
     # a key of another series (another file, another column) holds nothing back
@@ -662,3 +662,21 @@ def test_a_series_the_page_keeps_is_held_out_of_the_reply_and_nothing_else_chang
     assert ldsa["ok"], ldsa
     assert ldsa["curves"]["series"]["held"] is False
     assert ldsa["curves"]["series"]["key"] != near["key"]
+
+
+def test_the_background_used_is_held_by_its_own_key_and_sent_again_when_it_moves():
+    first = api.handle(request())
+    near = first["curves"]["series"]
+    used = next(x for x in near["series"] if x["key"] == "background")
+    keys = f"{near['key']} {used['values_key']}"
+    again = api.handle(request(series_drawn=keys))
+    held = next(x for x in again["curves"]["series"]["series"] if x["key"] == "background")
+    assert held["held"] is True and "y" not in held
+    assert held["values_key"] == used["values_key"] and again["results"] == first["results"]
+    # the pre-task background period moved: other background values, sent again
+    moved = copy.deepcopy(PERIODS)
+    moved[0]["end"] = "06:20"
+    other = api.handle(request(periods=moved, series_drawn=keys))
+    sent = next(x for x in other["curves"]["series"]["series"] if x["key"] == "background")
+    assert sent["held"] is False and sent["values_key"] != used["values_key"]
+    assert sent["y"] != used["y"]

@@ -43,8 +43,9 @@ Reply (besides ``ok``, ``warnings``, ``sources``):
   values); the background used per reading is the series ``background``;
   ``curves.background`` the far-field file's columns likewise. ``key`` is a digest of the
   thinned times, values, labels and units; when the request's ``series_drawn`` names it (the
-  page keeps that series), ``held`` is true and ``t_s`` and the columns' ``y`` are left out
-  (the ``background`` series, which moves with the periods, is always sent).
+  page keeps that series), ``held`` is true and ``t_s`` and the columns' ``y`` are left out.
+  The ``background`` series, which moves with the periods, has a key of its own for its
+  values (``values_key``, with ``held`` likewise).
 
 Errors name the path of the field at fault: ``series_text`` ("Line 1234: ..."),
 ``quantity_columns.0.column``, ``periods.2.end``.

@@ -125,9 +125,10 @@ FIELDS: tuple[Field, ...] = (
         "text",
         "",
         required=False,
-        help="The page's own bookkeeping: the keys (``curves.series.key``) of the thinned "
-        "series it keeps, separated by blanks. A reply whose series has one of these keys "
-        "leaves that series' times and values out (``held``). Blank: every series is sent.",
+        help="The page's own bookkeeping: the keys (``curves.series.key``, a background's "
+        "``values_key``) of the thinned series it keeps, separated by blanks. A reply whose "
+        "series has one of these keys leaves that series' times and values out (``held``). "
+        "Blank: every series is sent.",
         extra={"max_length": 200},
     ),
     *_file_fields("background_", "Far-field (background) time series file", True),

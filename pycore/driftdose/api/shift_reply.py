@@ -405,15 +405,19 @@ def shape(
     drawn = set((v.get("series_drawn") or "").split())
     curve, ts = _curve(series, cols, drawn)
     if r.background.values is not None:
-        # per reading, and moved with the periods: always sent
-        curve["series"].append(
-            {
-                "key": "background",
-                "label": "Background used",
-                "unit": unit,
-                "y": _at_points(series, r.background.values, ts, f),
-            }
-        )
+        # per reading, and moved with the periods: its values have a key of their own
+        used = _at_points(series, r.background.values, ts, f)
+        used_key = hashlib.sha256(json.dumps(used).encode()).hexdigest()[:32]
+        entry: dict[str, Any] = {
+            "key": "background",
+            "label": "Background used",
+            "unit": unit,
+            "values_key": used_key,
+            "held": used_key in drawn,
+        }
+        if not entry["held"]:
+            entry["y"] = used
+        curve["series"].append(entry)
     curve["periods"] = [
         {"index": i, "label": p.label, "kind": p.kind, "start_s": p.start, "end_s": p.end}
         for i, (p, _) in enumerate(r.periods)

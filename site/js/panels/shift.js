@@ -133,8 +133,10 @@ export function mount(root, { engine, description, forms }) {
   // its times and values out ("held"); they are put back here before anything reads the reply,
   // so the reply kept as the panel's last good one (CSV export, record) is whole.
   let keptSeries = new Map(); // key -> {t_s, y: Map(series key -> values)}
+  let keptUsed = new Map(); // the background used: its values_key -> values
   function restoreHeld(curves) {
     const next = new Map();
+    const used = new Map();
     for (const curve of [curves?.series, curves?.background]) {
       if (!curve || typeof curve.key !== "string") continue;
       const mine = keptSeries.get(curve.key);
@@ -142,16 +144,26 @@ export function mount(root, { engine, description, forms }) {
         curve.t_s = mine.t_s;
         for (const one of curve.series || []) if (!Array.isArray(one.y) && mine.y.has(one.key)) one.y = mine.y.get(one.key);
       }
+      for (const one of curve.series || []) {
+        if (typeof one.values_key !== "string") continue;
+        if (one.held === true && keptUsed.has(one.values_key)) one.y = keptUsed.get(one.values_key);
+        if (Array.isArray(one.y)) {
+          one.held = false;
+          used.set(one.values_key, one.y);
+        }
+      }
       if (!Array.isArray(curve.t_s)) continue;
       curve.held = false;
       next.set(curve.key, { t_s: curve.t_s, y: new Map((curve.series || []).filter((x) => x.key !== "background" && Array.isArray(x.y)).map((x) => [x.key, x.y])) });
     }
     keptSeries = next;
+    keptUsed = used;
   }
   const baseInputs = panel.inputs.bind(panel);
   panel.inputs = () => {
     const values = baseInputs();
-    if (keptSeries.size) values.series_drawn = [...keptSeries.keys()].join(" ");
+    const keys = [...keptSeries.keys(), ...keptUsed.keys()];
+    if (keys.length) values.series_drawn = keys.join(" ");
     return values;
   };
   const baseApply = panel.apply.bind(panel);
@@ -188,7 +200,7 @@ export function mount(root, { engine, description, forms }) {
     chartEmpty.hidden = true;
     // a moved period leaves the drawn series as they were (same keys, same background values):
     // the chart is not drawn again
-    const used = shown.series.find((x) => x.key === "background")?.y ?? null;
+    const used = shown.series.find((x) => x.key === "background")?.y ?? null; // the same array when held
     const drawn = [series.key, used, extra && extra.series.length ? farSeries.key : "", logToggle.checked, chosen?.key, series.start];
     if (timeChart && lastDrawn && drawn.every((x, i) => (i === 1 ? sameValues(x, lastDrawn[1]) : x === lastDrawn[i]))) return;
     lastDrawn = drawn;
