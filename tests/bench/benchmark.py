@@ -36,7 +36,8 @@ Measures in one run, on one server, in the same Chromium:
   current ones; the heaviest deposition request in CPython (alternating processes, wall and CPU
   time, and the largest difference between the two versions' numbers), input change to chart
   on every panel and on the heaviest deposition case (alternating blocks of edits), and repeat
-  visits in an on-disk profile. ``--parts`` runs a subset.
+  visits in an on-disk profile (the variants alternating within each run). ``--parts`` runs a
+  subset.
 Targets are recorded in the README; this script only reports.
 """
 
@@ -336,54 +337,64 @@ def _gzip_bytes(root: Path, sent: dict[str, int]) -> int:
     return total
 
 
-def _profile_visits(
-    pw, base: str, variant: str, runs: int, block_sw: bool, warms: bool = False
-) -> dict:
-    """First and second visit, each in a freshly started browser on the same on-disk profile.
+def _profile_visit_pair(pw, url: str, block_sw: bool, warms: bool) -> tuple[float, ...]:
+    """One first and one second visit, each in a freshly started browser on one new on-disk
+    profile: (first s, second s, first in-page ms, second in-page ms).
 
     With the service worker, the first visit ends once it has cached the build and, where the
     page does so (``warms``: its ``js/warm.js``), loaded the engine's script once through it.
     """
-    first, second = [], []
-    in_page: dict[int, list[float]] = {id(first): [], id(second): []}
-    for _ in range(runs):
-        with tempfile.TemporaryDirectory() as profile:
-            for visit in (first, second):
-                ctx = pw.chromium.launch_persistent_context(
-                    profile,
-                    executable_path=find_chromium(),
-                    args=CHROMIUM_ARGS,
-                    service_workers="block" if block_sw else "allow",
+    out: list[float] = []
+    with tempfile.TemporaryDirectory() as profile:
+        for first in (True, False):
+            ctx = pw.chromium.launch_persistent_context(
+                profile,
+                executable_path=find_chromium(),
+                args=CHROMIUM_ARGS,
+                service_workers="block" if block_sw else "allow",
+            )
+            stay = first and not block_sw
+            elapsed, ready_ms = _time_to_ready(ctx, url, in_page=True, keep_open=stay)
+            out += [elapsed, ready_ms]
+            if stay:  # the same page stays while the service worker caches the build
+                page = ctx.pages[-1]
+                page.evaluate(
+                    "async () => { const r = await navigator.serviceWorker.ready;"
+                    " return r.active && r.active.state; }"
                 )
-                stay = visit is first and not block_sw
-                elapsed, ready_ms = _time_to_ready(
-                    ctx, base + variant + "/", in_page=True, keep_open=stay
-                )
-                visit.append(elapsed)
-                in_page[id(visit)].append(ready_ms)
-                if stay:  # the same page stays while the service worker caches the build
-                    page = ctx.pages[-1]
-                    page.evaluate(
-                        "async () => { const r = await navigator.serviceWorker.ready;"
-                        " return r.active && r.active.state; }"
+                if warms:  # and the engine's script compiled once through it (app.js)
+                    page.wait_for_selector(
+                        "html[data-engine-code='warm']", state="attached", timeout=180_000
                     )
-                    if warms:  # and the engine's script compiled once through it (app.js)
-                        page.wait_for_selector(
-                            "html[data-engine-code='warm']", state="attached", timeout=180_000
-                        )
-                    page.close()
-                ctx.close()
-    page_first = statistics.median(in_page[id(first)])
-    page_second = statistics.median(in_page[id(second)])
-    return {
-        "first_s": round(statistics.median(first), 3),
-        "second_s": round(statistics.median(second), 3),
-        "second_over_first": round(statistics.median(second) / statistics.median(first), 3),
-        # from the page's navigation to the engine's ready mark (browser start-up left out)
-        "in_page_first_ms": round(page_first),
-        "in_page_second_ms": round(page_second),
-        "in_page_second_over_first": round(page_second / page_first, 3),
-    }
+                page.close()
+            ctx.close()
+    return out[0], out[2], out[1], out[3]
+
+
+def _profile_visits(pw, base: str, variants: dict[str, tuple[str, bool, bool]], runs: int) -> dict:
+    """First and second visits per variant (name -> (folder, block service workers, warms)),
+    the variants alternating within each run so that they share the machine's load."""
+    got: dict[str, list[tuple[float, ...]]] = {name: [] for name in variants}
+    for _ in range(runs):
+        for name, (folder, block_sw, warms) in variants.items():
+            got[name].append(_profile_visit_pair(pw, base + folder + "/", block_sw, warms))
+    out = {}
+    for name, pairs in got.items():
+        first, second, page_first, page_second = (
+            statistics.median(p[i] for p in pairs) for i in range(4)
+        )
+        out[name] = {
+            "first_s": round(first, 3),
+            "second_s": round(second, 3),
+            "second_over_first": round(second / first, 3),
+            # from the page's navigation to the engine's ready mark (browser start-up left out)
+            "in_page_first_ms": round(page_first),
+            "in_page_second_ms": round(page_second),
+            "in_page_second_over_first": round(page_second / page_first, 3),
+            # the ratio in each run, first and second visit side by side in time
+            "in_page_second_over_first_per_run": [round(p[3] / p[2], 3) for p in pairs],
+        }
+    return out
 
 
 # the link of the throttled first visit: a good 4G connection or a modest office line (a chosen
@@ -402,14 +413,10 @@ def _throttled_visits(pw, build, root: Path, runs: int) -> dict:
     server = _serve_counting(build, root, _Counter(), link)
     host, port = server.server_address[:2]
     try:
+        warms = (root / "snapshot" / "js" / "warm.js").exists()
         out = _profile_visits(
-            pw,
-            f"http://{host}:{port}/",
-            "snapshot",
-            runs,
-            False,
-            (root / "snapshot" / "js" / "warm.js").exists(),
-        )
+            pw, f"http://{host}:{port}/", {"snapshot": ("snapshot", False, warms)}, runs
+        )["snapshot"]
     finally:
         server.shutdown()
     return {"link": f"{LINK_MBIT:g} Mbit/s down, {LINK_LATENCY_MS:g} ms per response", **out}
@@ -874,18 +881,20 @@ def main() -> int:
                 figures["bare_first_visit_MB"] = round(sum(sent["bare"].values()) / 1e6, 2)
             if "repeat" in parts:
                 names = ["snapshot", "before"] + (["bytecode"] if "editions" in parts else [])
-                figures["repeat_visit_on_disk_profile"] = {
-                    f"{name}{'' if sw == 'allow' else '_no_service_worker'}": _profile_visits(
-                        pw,
-                        base,
-                        name,
-                        args.profile_runs,
-                        sw == "block",
-                        (root / name / "js" / "warm.js").exists(),
-                    )
-                    for name in names
-                    for sw in ("allow", "block")
-                }
+                figures["repeat_visit_on_disk_profile"] = _profile_visits(
+                    pw,
+                    base,
+                    {
+                        f"{name}{'' if sw == 'allow' else '_no_service_worker'}": (
+                            name,
+                            sw == "block",
+                            (root / name / "js" / "warm.js").exists(),
+                        )
+                        for name in names
+                        for sw in ("allow", "block")
+                    },
+                    args.profile_runs,
+                )
             if "repeat_throttled" in parts:
                 figures["repeat_visit_throttled_link"] = _throttled_visits(
                     pw, build, root, args.profile_runs
