@@ -305,7 +305,9 @@ class LognormalMode:
         """dW/dln d of the chosen weight at diameter ``d``. [unit of :meth:`total`]"""
         return self.total(weight) * lognormal_pdf_ln(d, self.median(weight), self.gsd)
 
-    def density_curve(self, ds: Sequence[float], weight: str = "number") -> list[float]:
+    def density_curve(
+        self, ds: Sequence[float], weight: str = "number", ln_ds: Sequence[float] | None = None
+    ) -> list[float]:
         """:meth:`density_per_ln_d` at every diameter of ``ds`` [m] (constants computed once).
 
         Parameters
@@ -314,6 +316,8 @@ class LognormalMode:
             Diameters. [m]
         weight : str
             ``number``, ``surface`` or ``mass``.
+        ln_ds : sequence of float, optional
+            ln of each diameter in metres, if known (saves computing them). [-]
 
         Returns
         -------
@@ -324,10 +328,10 @@ class LognormalMode:
         s = self.ln_gsd
         c = self.total(weight) / (math.sqrt(2.0 * math.pi) * s)
         lm = math.log(self.median(weight))
-        exp, log = math.exp, math.log
+        exp = math.exp
         out = []
-        for d in ds:
-            z = (log(d) - lm) / s
+        for ln_d in ln_ds if ln_ds is not None else [math.log(d) for d in ds]:
+            z = (ln_d - lm) / s
             out.append(c * exp(-0.5 * z * z))
         return out
 
@@ -367,7 +371,9 @@ class Multimodal:
         """dW/dln d summed over the modes."""
         return sum(m.density_per_ln_d(d, weight) for m in self.modes)
 
-    def density_curve(self, ds: Sequence[float], weight: str = "number") -> list[float]:
+    def density_curve(
+        self, ds: Sequence[float], weight: str = "number", ln_ds: Sequence[float] | None = None
+    ) -> list[float]:
         """dW/dln d summed over the modes at every diameter of ``ds``.
 
         Parameters
@@ -376,13 +382,17 @@ class Multimodal:
             Diameters. [m]
         weight : str
             ``number``, ``surface`` or ``mass``.
+        ln_ds : sequence of float, optional
+            ln of each diameter in metres, if known. [-]
 
         Returns
         -------
         list of float
             The sum of the modes' :meth:`LognormalMode.density_curve`. [unit of :meth:`total`]
         """
-        curves = [m.density_curve(ds, weight) for m in self.modes]
+        if ln_ds is None:
+            ln_ds = [math.log(d) for d in ds]
+        curves = [m.density_curve(ds, weight, ln_ds) for m in self.modes]
         return [sum(v) for v in zip(*curves, strict=True)]
 
 
@@ -463,7 +473,9 @@ class BinnedSpectrum:
             return 0.0
         return self._bin_total(i, q) / math.log(e[i + 1] / e[i])
 
-    def density_curve(self, ds: Sequence[float], weight: str = "number") -> list[float]:
+    def density_curve(
+        self, ds: Sequence[float], weight: str = "number", ln_ds: Sequence[float] | None = None
+    ) -> list[float]:
         """:meth:`density_per_ln_d` at every diameter of ``ds``.
 
         Parameters
@@ -472,6 +484,8 @@ class BinnedSpectrum:
             Diameters. [m]
         weight : str
             ``number``, ``surface`` or ``mass``.
+        ln_ds : sequence of float, optional
+            Not needed here (the bins are found from the diameters). [-]
 
         Returns
         -------

@@ -158,3 +158,11 @@ def test_density_curve_equals_density_per_ln_d(weight):
         curve = dist.density_curve(sizes, weight)
         for d, y in zip(sizes, curve, strict=True):
             assert y == pytest.approx(dist.density_per_ln_d(d, weight), rel=1e-13, abs=0.0)
+
+
+def test_density_curve_takes_the_logs_of_the_diameters():
+    sizes = [1e-9 * 1.3**k for k in range(60)]
+    logs = [math.log(d) for d in sizes]
+    modes = (LognormalMode(40e-9, 1.8, 1e11, 3000.0), LognormalMode(2e-6, 2.2, 1e6, 1500.0))
+    for dist in (*modes, Multimodal(modes)):
+        assert dist.density_curve(sizes, "mass", logs) == dist.density_curve(sizes, "mass")

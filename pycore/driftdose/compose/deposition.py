@@ -9,6 +9,7 @@ frozen :class:`Deposition` out; the api only translates.
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -48,6 +49,7 @@ CURVE_RANGE = (1e-9, 100e-6)
 """Size range of the deposition curves, the stated range of both models [m]."""
 _CURVE_SIZES = tuple(logspace(*CURVE_RANGE, CURVE_POINTS))
 _OVERLAY_SIZES = tuple(logspace(*CURVE_RANGE, OVERLAY_POINTS))
+_OVERLAY_LN = tuple(math.log(d) for d in _OVERLAY_SIZES)
 
 
 def _within_0_1(ys: Sequence[float]) -> tuple[float, ...]:
@@ -250,7 +252,7 @@ def compose_deposition(
     overlay_xs = _OVERLAY_SIZES
     overlay = {}
     for w in ("number", "mass"):
-        ys = dist.density_curve(overlay_xs, w)
+        ys = dist.density_curve(overlay_xs, w, _OVERLAY_LN)
         top = max(ys) if ys else 0.0
         overlay[w] = tuple(y / top if top > 0 else 0.0 for y in ys)
     warnings = validity_warnings(

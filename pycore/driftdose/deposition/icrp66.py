@@ -245,7 +245,7 @@ def inhalability(d_ae: float, wind_speed: float = 0.0) -> float:
     return min(1.0, val)
 
 
-THERMO_KEPT = 8192
+THERMO_KEPT = 4096
 """Sizes whose diffusion terms :func:`icrp66_curves` keeps between calls (all breathing
 patterns and conditions together; all are dropped when there are more)."""
 
