@@ -42,7 +42,8 @@ SPY = """() => {
     worker.postMessage = (m) => {
       if (m && m.kind === "shift") {
         window.__posted.push({carries: typeof m.inputs?.series_text === "string",
-                              kept: m.kept || null, keep: m.keep || false});
+                              kept: m.kept || null, keep: m.keep || false,
+                              drawn: m.inputs?.series_drawn || ""});
       }
       if (m && m.op === "decode") window.__decodes.push({keep: m.keep || false});
       post(m);
@@ -123,6 +124,20 @@ def test_the_file_goes_once_and_again_when_the_engine_asks(watched, base_url):
     assert not posted[0]["carries"] and posted[0]["kept"] == {"series_text": sha}, posted[0]
     assert not posted[-1]["carries"], posted[-1]  # a moved period: the key, not the text
     assert posted[-1]["kept"] == {"series_text": sha}
+    # the page names the thinned series it keeps; the reply leaves it out and the page puts
+    # it back, so the reply it keeps (for the chart, the CSV export, the record) is whole
+    shown = page.evaluate(
+        """async () => {
+             const c = (await import('./js/app.js')).controllers.get('shift');
+             const s = c.lastReplyOf().curves.series;
+             return {key: s.key, held: s.held, times: s.t_s.length,
+                     values: s.series.map((x) => (Array.isArray(x.y) ? x.y.length : -1)),
+                     same: c.lastReplyOf() === c.lastGood};
+           }"""
+    )
+    assert posted[-1]["drawn"].split()[0] == shown["key"], (posted[-1], shown)
+    assert shown["held"] is False and shown["same"] and shown["times"] > 100
+    assert shown["values"] == [shown["times"]] * len(shown["values"]), shown
 
     # back where it was: the same answer as when the text was sent
     assert _move(page, 20) == first
