@@ -136,6 +136,49 @@ def test_chart_has_curves_crossover_and_exports_png(page, base_url):
         assert fh.read(8) == b"\x89PNG\r\n\x1a\n"
 
 
+def test_edit_posts_its_request_before_the_link_is_written(page, base_url):
+    """An edit's request reaches the engine before the address bar is touched; a burst of input
+    writes the link once, and the link names the new value by the time its result is shown."""
+    page.goto(base_url)
+    wait_ready(page)
+    _wait_updates(page, "motion", 1)
+    _settled(page)
+    page.evaluate(
+        """async () => {
+             const m = await import('./js/app.js');
+             window.__order = [];
+             const latestOn = m.engine.latestOn.bind(m.engine);
+             m.engine.latestOn = (...a) => { window.__order.push('post'); return latestOn(...a); };
+             const replace = history.replaceState.bind(history);
+             history.replaceState = (...a) => {
+               window.__order.push('link');
+               return replace(...a);
+             };
+             const panel = m.controllers.get('motion');
+             panel.onShown(() => window.__order.push('shown:' + location.hash.includes('2.75')));
+           }"""
+    )
+    before = int(page.locator("#panel-motion").get_attribute("data-updates"))
+    page.evaluate(
+        """() => {
+             const box = document.getElementById('panel-motion');
+             const input = box.querySelector('[data-field="particle_density"] input');
+             for (const v of ['2', '2.7', '2.75']) {
+               input.value = v;
+               input.dispatchEvent(new Event('input', {bubbles: true}));
+             }
+           }"""
+    )
+    _wait_updates(page, "motion", before + 1)
+    _settled(page)
+    order = page.evaluate("() => window.__order")
+    assert order[0] == "post", order  # the request first
+    assert order.count("link") == 1, order  # one write for the burst (same task)
+    assert order.index("link") < order.index("shown:true"), order
+    assert "shown:false" not in order, order  # never a result shown before its link
+    assert "particle_density=2.75" in page.url
+
+
 def test_link_reproduces_inputs(page, base_url, browser):
     page.goto(base_url)
     wait_ready(page)
