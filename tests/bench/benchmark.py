@@ -444,16 +444,30 @@ _PHASE_MARKS = """async () => {
 }"""
 
 
+def _fresh_value(values: list[str], n: int) -> str:
+    """The n-th edit's value: the listed values in turn, each pass scaled by 1 + 0.001 k, so
+    no value repeats within a run (a kept result must not answer an edit it has seen)."""
+    base = float(values[n % len(values)])
+    return f"{base * (1 + 0.001 * (n // len(values) + 1)):.6g}"
+
+
 def _recalc_times(
-    page, panel: str, label: str, values: list[str], edits: int, phases: list | None = None
+    page,
+    panel: str,
+    label: str,
+    values: list[str],
+    edits: int,
+    phases: list | None = None,
+    first: int = 0,
 ) -> list[float]:
     """Input event -> data-updates bumped -> next animation frame, in ms, per edit; with
-    ``phases`` (after _PHASE_MARKS) also {post, apply} in ms per edit appended there."""
+    ``phases`` (after _PHASE_MARKS) also {post, apply} in ms per edit appended there. Edit i
+    types ``_fresh_value(values, first + i)``."""
     field = page.locator(f"#panel-{panel}").get_by_label(label, exact=True)
     handle = field.element_handle()
     out = []
     for i in range(edits):
-        value = values[i % len(values)]
+        value = _fresh_value(values, first + i)
         got = page.evaluate(
             """([input, panel, value]) => new Promise((resolve) => {
                  const section = document.getElementById('panel-' + panel);
@@ -753,7 +767,7 @@ def _edit_figures(browser, sites: dict[str, str], edits: int, blocks: int = 4) -
     for _, page in pages.values():
         page.evaluate(_PHASE_MARKS)
     per_block = max(1, edits // blocks)
-    for _ in range(blocks):
+    for block in range(blocks):
         for name, (_, page) in pages.items():
             for key, panel, label, values, setup in EDITS:
                 if not page.locator(f"#panel-{panel}").count():
@@ -761,7 +775,9 @@ def _edit_figures(browser, sites: dict[str, str], edits: int, blocks: int = 4) -
                 page.evaluate(f"() => document.getElementById('tab-{panel}').click()")
                 page.evaluate(_SET_INPUTS, [panel, setup or defaults[name][panel]])
                 marks = phases[name].setdefault(key, [])
-                got = _recalc_times(page, panel, label, values, per_block, marks)
+                got = _recalc_times(
+                    page, panel, label, values, per_block, marks, first=block * per_block
+                )
                 times[name].setdefault(key, []).extend(got)
     for ctx, _ in pages.values():
         ctx.close()
