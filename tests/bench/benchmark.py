@@ -12,10 +12,10 @@ Measures in one run, on one server, in the same Chromium:
   reports (engine started, Python bootstrapped, package imported; ms after navigation) and the
   first chart drawn, and the bytes a first visit downloads before ready (as sent, and gzip);
 - repeat visits in an on-disk browser profile (closed and reopened between visits): the second
-  visit's time to ready divided by the first's, with the service worker answering and with
-  service workers blocked (HTTP cache only); and (part ``repeat_throttled``) the same for the
-  default build served over a shared 50 Mbit/s link with 20 ms per response, where a first visit
-  pays its download;
+  visit's time to ready (and the browser's CPU time) divided by the first's, with the service
+  worker answering and with service workers blocked (HTTP cache only); and (part
+  ``repeat_throttled``) the same for the default build served over a shared 50 Mbit/s link with
+  20 ms per response, where a first visit pays its download;
 - input change to updated chart, per panel: median and 95th percentile over many edits (input
   event -> data-updates bumped -> next animation frame), with two of its phases: input -> the
   request posted (median) and the panel's apply() showing the reply (median, p95);
@@ -337,9 +337,26 @@ def _gzip_bytes(root: Path, sent: dict[str, int]) -> int:
     return total
 
 
+def _browser_cpu_s(profile: str) -> float:
+    """CPU time (user + system) of the running browser processes started on ``profile``."""
+    total = 0
+    for pid in os.listdir("/proc"):
+        if not pid.isdigit():
+            continue
+        try:
+            if profile.encode() not in Path(f"/proc/{pid}/cmdline").read_bytes():
+                continue
+            fields = Path(f"/proc/{pid}/stat").read_text().rsplit(")", 1)[1].split()
+        except OSError:
+            continue
+        total += int(fields[11]) + int(fields[12])
+    return total / os.sysconf("SC_CLK_TCK")
+
+
 def _profile_visit_pair(pw, url: str, block_sw: bool, warms: bool) -> tuple[float, ...]:
     """One first and one second visit, each in a freshly started browser on one new on-disk
-    profile: (first s, second s, first in-page ms, second in-page ms).
+    profile: (first s, second s, first in-page ms, second in-page ms, first CPU s, second CPU
+    s), CPU being that of all the browser's processes from opening the page to ready (/proc).
 
     With the service worker, the first visit ends once it has cached the build and, where the
     page does so (``warms``: its ``js/warm.js``), loaded the engine's script once through it.
@@ -354,8 +371,9 @@ def _profile_visit_pair(pw, url: str, block_sw: bool, warms: bool) -> tuple[floa
                 service_workers="block" if block_sw else "allow",
             )
             stay = first and not block_sw
+            cpu0 = _browser_cpu_s(profile)
             elapsed, ready_ms = _time_to_ready(ctx, url, in_page=True, keep_open=stay)
-            out += [elapsed, ready_ms]
+            out += [elapsed, ready_ms, _browser_cpu_s(profile) - cpu0]
             if stay:  # the same page stays while the service worker caches the build
                 page = ctx.pages[-1]
                 page.evaluate(
@@ -368,7 +386,7 @@ def _profile_visit_pair(pw, url: str, block_sw: bool, warms: bool) -> tuple[floa
                     )
                 page.close()
             ctx.close()
-    return out[0], out[2], out[1], out[3]
+    return out[0], out[3], out[1], out[4], out[2], out[5]
 
 
 def _profile_visits(pw, base: str, variants: dict[str, tuple[str, bool, bool]], runs: int) -> dict:
@@ -380,8 +398,8 @@ def _profile_visits(pw, base: str, variants: dict[str, tuple[str, bool, bool]], 
             got[name].append(_profile_visit_pair(pw, base + folder + "/", block_sw, warms))
     out = {}
     for name, pairs in got.items():
-        first, second, page_first, page_second = (
-            statistics.median(p[i] for p in pairs) for i in range(4)
+        first, second, page_first, page_second, cpu_first, cpu_second = (
+            statistics.median(p[i] for p in pairs) for i in range(6)
         )
         out[name] = {
             "first_s": round(first, 3),
@@ -393,6 +411,10 @@ def _profile_visits(pw, base: str, variants: dict[str, tuple[str, bool, bool]], 
             "in_page_second_over_first": round(page_second / page_first, 3),
             # the ratio in each run, first and second visit side by side in time
             "in_page_second_over_first_per_run": [round(p[3] / p[2], 3) for p in pairs],
+            # CPU time of the browser's processes, page opened to ready: less at the load's mercy
+            "cpu_first_s": round(cpu_first, 2),
+            "cpu_second_s": round(cpu_second, 2),
+            "cpu_second_over_first": round(cpu_second / cpu_first, 3),
         }
     return out
 
