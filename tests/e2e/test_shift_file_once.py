@@ -163,8 +163,14 @@ def test_the_file_goes_once_and_again_when_the_engine_asks(watched, base_url):
     # the link carries no file; the saved inputs file carries the text and its SHA-256
     link = page.evaluate("() => decodeURIComponent(location.hash)")
     assert "shift.series_text" not in link
+    # the keys of the series the page keeps are its own bookkeeping, added to each request:
+    # no field of the form shows them, and neither the link nor the saved inputs carry them
+    assert page.locator("#panel-shift [data-field=series_drawn]").count() == 0
+    assert page.get_by_text("Series the page keeps").count() == 0
+    assert "series_drawn" not in link
     with page.expect_download() as info:
         page.get_by_role("button", name="Save inputs (JSON)").click()
     saved = json.loads(Path(info.value.path()).read_text(encoding="utf-8"))
     assert saved["panels"]["shift"]["series_text"] == text
     assert saved["panels"]["shift"]["series_file"]["sha256"] == sha
+    assert "series_drawn" not in saved["panels"]["shift"]

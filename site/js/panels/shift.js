@@ -30,7 +30,9 @@ const FAR = {
   date: "background_date_column", column: "background_column",
 };
 const FAR_EXTRA = ["background_time_format", "background_start_time", "background_unit"];
-const OWN = new Set([...Object.values(NEAR), ...NEAR_EXTRA, ...Object.values(FAR), ...FAR_EXTRA, "periods", "quantity", "benchmark", "modes"]);
+// series_drawn is the panel's own bookkeeping (added to each request by inputs() below): never a
+// field of the form, the link or the saved inputs
+const OWN = new Set([...Object.values(NEAR), ...NEAR_EXTRA, ...Object.values(FAR), ...FAR_EXTRA, "periods", "quantity", "benchmark", "modes", "series_drawn"]);
 // which dose inputs apply to which size source (presentation only; the engine checks)
 const DOSE_RULES = {
   channel_type: ["channels"],
