@@ -1,4 +1,4 @@
-"""ICRP 66 batch curves: the shared-term form against a direct transcription of Annex D.
+"""ICRP 66 batch curves: the shared-term form against Annex D's equations written out directly.
 
 :func:`driftdose.deposition.icrp66_curves` computes each term a (x y)^p as (a y^p) x^p, so
 that powers of the size are shared by the breathing patterns, and it keeps the diffusion
@@ -127,7 +127,7 @@ SUBJECTS = {
 @pytest.mark.parametrize("subject", SUBJECTS.values(), ids=SUBJECTS.keys())
 @pytest.mark.parametrize(("rho", "chi"), [(1000.0, 1.0), (3000.0, 1.5), (11000.0, 1.2)])
 @pytest.mark.parametrize("thermodynamic", ["icrp66", "mobility"])
-def test_batch_curves_equal_direct_transcription(subject, rho, chi, thermodynamic):
+def test_batch_curves_equal_equations_written_out(subject, rho, chi, thermodynamic):
     # same equations, written out filter by filter: agreement to rounding (1e-13 absolute;
     # the grid's aerodynamic solves differ from one-at-a-time solves by about 1e-14)
     sizes = logspace(1e-9, 100e-6, 61)
