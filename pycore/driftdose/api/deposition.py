@@ -15,7 +15,6 @@ translates its result into the reply. Invented demos: :mod:`.demos`.
 
 from __future__ import annotations
 
-import gc
 from typing import Any
 
 from ..compose.deposition import Deposition, compose_deposition
@@ -69,24 +68,7 @@ def compute(v: dict[str, Any]) -> tuple[Deposition, dict[str, Any] | None]:
 
 
 def run(v: dict[str, Any]) -> dict[str, Any]:
-    """Compute the deposition reply from validated SI inputs.
-
-    The collector of cyclic garbage is paused meanwhile (as for the shift), so that none of
-    its passes falls inside a request: what a request keeps (curves, diffusion terms, shares)
-    adds objects the collector would walk with the older ones. Passes are rare here
-    (``gc.get_stats()`` counted none in 60 density edits of the benchmark's heaviest case in
-    the page's engine, run under Node); cycles left behind are collected after the request.
-    """
-    paused = gc.isenabled()
-    gc.disable()
-    try:
-        return _run(v)
-    finally:
-        if paused:
-            gc.enable()
-
-
-def _run(v: dict[str, Any]) -> dict[str, Any]:
+    """Compute the deposition reply from validated SI inputs."""
     result, report = compute(v)
     warnings = list(result.warnings) + import_warnings(report)
     sources = [
