@@ -140,12 +140,16 @@ function writeLink() {
   document.getElementById("link-size-note").hidden = dropped.length === 0;
 }
 
-// The link in the address bar follows the inputs off the input path: an edit asks for it
-// (linkWriter.schedule) after its request has been posted, and it is written once per burst of
-// changes a task later, while the engine computes. Whatever reads the link (copy, record,
-// leaving the page) or shows results writes it first if it is due (flush), so a shown result
-// always has its inputs in the address bar.
-const linkWriter = coalesced(writeLink);
+// The link in the address bar follows the inputs off the input path. Replacing the address
+// costs the page about a millisecond per kilobyte of link and the browser's own process 15-30
+// ms more, which on a two-core machine slows the engine computing the edit, so the link is
+// written once the edits and their results have paused for LINK_QUIET_MS (each edit and each
+// shown result asks for it: linkWriter.schedule), and at once (flush) whenever something may
+// read it: the page losing focus (the address bar, another window or tab), being hidden or
+// left, the copy, save and print tools. A result can be on screen for that quiet spell before
+// its link, never when the link is read.
+const LINK_QUIET_MS = 400;
+const linkWriter = coalesced(writeLink, { delay: LINK_QUIET_MS, restart: true });
 const writeState = linkWriter.now;
 
 /** The notice at the top of the page about the last link or file read ("" hides it). */
@@ -264,6 +268,10 @@ function setupTools() {
   });
   window.addEventListener("beforeprint", prepareReport);
   window.addEventListener("pagehide", linkWriter.flush);
+  window.addEventListener("blur", linkWriter.flush);
+  document.addEventListener("visibilitychange", () => {
+    if (document.visibilityState === "hidden") linkWriter.flush();
+  });
 }
 
 let pageStyle = null;
@@ -364,7 +372,7 @@ async function start() {
     panels.append(section);
     const controller = p.mount(section, { engine, description: forms.calculations[p.kind || p.id], forms });
     controller.onChange(linkWriter.schedule);
-    controller.onShown(linkWriter.flush);
+    controller.onShown(linkWriter.schedule);
     controllers.set(p.id, controller);
   }
   survey = mountSurvey(document.getElementById("survey"));
@@ -377,7 +385,7 @@ async function start() {
       { engine, forms, deposition: controllers.get("deposition") });
     for (const controller of sections) {
       controller.onChange(linkWriter.schedule);
-      controller.onShown(linkWriter.flush);
+      controller.onShown(linkWriter.schedule);
       controllers.set(controller.opts.id, controller);
     }
   }

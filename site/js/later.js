@@ -1,13 +1,16 @@
-// Work taken off the input path: run once, a task after any number of requests for it, or at
-// once where its result is needed (flush). The page's link state is written this way, so that
-// an edit's request reaches the engine before the address bar is touched.
+// Work taken off the input path: run once, after a quiet spell, or at once where its result is
+// needed (flush). The page's link state is written this way: replacing the address of a page
+// with a link of a few kilobytes keeps the browser's own process busy for 15-30 ms, which on a
+// two-core machine slows the engine computing the edit's result, so the link is written once
+// the edits pause, and at once whenever something is about to read it.
 
 /**
- * Coalesce calls of `work`: `schedule()` asks for one run a task later (`delay` ms; further
+ * Coalesce calls of `work`: `schedule()` asks for one run `delay` ms later (with `restart`,
+ * `delay` ms after the last call: a burst of calls waits until it has ended; without, further
  * calls before then add nothing), `flush()` runs it now when one is due, `now()` runs it now
  * in any case (and drops the one due), `pending` says whether one is due.
  */
-export function coalesced(work, { delay = 0, timers = globalThis } = {}) {
+export function coalesced(work, { delay = 0, restart = false, timers = globalThis } = {}) {
   let timer = null;
   const cancel = () => {
     if (timer !== null) timers.clearTimeout(timer);
@@ -19,6 +22,7 @@ export function coalesced(work, { delay = 0, timers = globalThis } = {}) {
   };
   return {
     schedule() {
+      if (timer !== null && restart) cancel();
       if (timer === null) timer = timers.setTimeout(now, delay);
     },
     flush() {

@@ -138,6 +138,13 @@ def page(watched):
     return watched[0]
 
 
+def page_link(page) -> str:
+    """The page's address as a person copying it gets it. The page writes its link once edits
+    pause, and at once when it loses focus (clicking into the address bar does that): a blur
+    event is sent first, as the browser would."""
+    return page.evaluate("() => { window.dispatchEvent(new Event('blur')); return location.href; }")
+
+
 def wait_ready(page, timeout: float = 90_000) -> None:
     """Wait for the engine's readiness marker and the first results."""
     page.wait_for_selector("html[data-engine='ready']", timeout=timeout)

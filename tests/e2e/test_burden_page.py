@@ -8,7 +8,7 @@ import pytest
 from driftdose import api
 from driftdose.api.burden import DEMOS
 
-from .conftest import ARTIFACTS, wait_ready
+from .conftest import ARTIFACTS, page_link, wait_ready
 from .helpers import parse_shown, round_sig
 
 pytestmark = pytest.mark.e2e
@@ -145,7 +145,7 @@ def test_time_axis_switch_and_link_round_trip(page, base_url, browser):
     assert lin["title"] == "Time from the first exposure (days)"
     page.locator("#burden-time-axis").select_option("logarithmic")
     assert page.evaluate(axis)["same"]
-    link = page.evaluate("() => location.href")
+    link = page_link(page)
     other = browser.new_page()
     try:
         other.goto(link)

@@ -6,7 +6,7 @@ import pytest
 
 from driftdose import api
 
-from .conftest import ARTIFACTS, new_watched_page, screenshot, wait_ready
+from .conftest import ARTIFACTS, new_watched_page, page_link, screenshot, wait_ready
 from .helpers import parse_shown, png_text, round_sig
 from .test_layout import BROKEN_WORDS_JS
 
@@ -310,7 +310,7 @@ def test_typed_sizes_give_the_api_values_and_a_bad_entry_is_refused(browser, bas
         # density, so the size typed is the aerodynamic diameter
         respirable = panel.locator("td[data-key='iso7708_respirable'][data-size='2']")
         assert parse_shown(respirable.inner_text()[:-2]) == pytest.approx(50.0, abs=0.05)
-        assert "deposition.sizes=" in page.url
+        assert "deposition.sizes=" in page_link(page)
         panel.locator(".sizes-box").screenshot(
             path=str(ARTIFACTS / "deposition-sizes-table-1280.png")
         )

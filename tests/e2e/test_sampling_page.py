@@ -20,7 +20,7 @@ from driftdose import api, export
 from driftdose.api.sampling import DEMOS
 from driftdose.api.units import unit_label
 
-from .conftest import ARTIFACTS, new_watched_page, screenshot, wait_ready
+from .conftest import ARTIFACTS, new_watched_page, page_link, screenshot, wait_ready
 from .helpers import export_parts, parse_shown, round_sig
 from .test_layout import BROKEN_WORDS_JS
 
@@ -219,7 +219,7 @@ def test_chain_built_by_labels_matches_core(page, base_url):
     assert _assert_matches(page, reply) == 16
     names = page.locator(f"{PANEL} table.stage-table tbody th").all_inner_texts()
     assert names[2].startswith("3. Short inlet")
-    fragment = urllib.parse.unquote_plus(page.url)
+    fragment = urllib.parse.unquote_plus(page_link(page))
     assert "sampling.stages=j:" in fragment and "Short inlet" in fragment
     screenshot(page, "sampling-chain")
 
@@ -306,7 +306,7 @@ def test_demo_loads_with_one_click_and_is_marked_invented(page, base_url):
     note = page.locator(f"{PANEL} .demo-note")
     assert note.is_visible() and "invented" in note.inner_text().lower()
     assert _legends(page) == ["Stage 1: Straight tube", "Stage 2: Wire screens"]
-    assert "sampling.demo=screen_stack" in page.url
+    assert "sampling.demo=screen_stack" in page_link(page)
     _assert_matches(page, api.handle({"kind": "sampling", "inputs": demo["inputs"]}))
     page.evaluate("() => window.dispatchEvent(new Event('beforeprint'))")
     report = page.locator("#report").inner_text()
@@ -315,7 +315,7 @@ def test_demo_loads_with_one_click_and_is_marked_invented(page, base_url):
     # an edit of the chain leaves the demo: the note goes
     _stage(page, 2, "Wire screens").get_by_label("Number of screens", exact=True).fill("5")
     assert not note.is_visible()
-    assert "sampling.demo" not in page.url
+    assert "sampling.demo" not in page_link(page)
 
 
 def test_link_and_inputs_file_reproduce_the_chain(page, base_url, browser, tmp_path):
@@ -334,7 +334,7 @@ def test_link_and_inputs_file_reproduce_the_chain(page, base_url, browser, tmp_p
     panel.get_by_label("Target curve").select_option("thoracic")
     _after(page, before)
     assert panel.get_attribute("data-state") == "ok"
-    cells, legends, url = _cells(page), _legends(page), page.url
+    cells, legends, url = _cells(page), _legends(page), page_link(page)
     assert len(legends) == 3
     # the link, in a fresh browser context
     other = browser.new_context()
@@ -483,7 +483,8 @@ def test_csv_spectrum_corrected_with_unreliable_bins_flagged(page, base_url, tmp
         f"{flagged} of {len(expected)} bins pass the chain with less than 50 %"
     )
     assert page.locator(f"{PANEL} #sampling-spectrum-canvas").is_visible()
-    assert "sampling.csv_text=j:" in urllib.parse.unquote_plus(page.url)  # it travels with the link
+    # it travels with the link
+    assert "sampling.csv_text=j:" in urllib.parse.unquote_plus(page_link(page))
     chart = (
         "() => { const c = Chart.getChart(document.querySelector('#sampling-spectrum-canvas'));"
         " window.__seen = window.__seen || c; return {same: window.__seen === c,"
@@ -657,7 +658,8 @@ def test_typed_sizes_give_the_api_values_and_bad_entries_are_refused(browser, ba
         # ISO 7708:1995: the respirable convention passes 50 % at 4 µm aerodynamic (tabulated
         # value, from memory; the formula gives 49.97 %)
         assert _shown_percent(shown[(2, "target")]) == pytest.approx(50.0, abs=0.05)
-        assert "sampling.sizes=" in urllib.parse.unquote_plus(page.url)  # travels with the link
+        # travels with the link
+        assert "sampling.sizes=" in urllib.parse.unquote_plus(page_link(page))
         panel.locator(".sizes-box").screenshot(
             path=str(ARTIFACTS / "sampling-sizes-table-1280.png")
         )
@@ -668,7 +670,7 @@ def test_typed_sizes_give_the_api_values_and_bad_entries_are_refused(browser, ba
         panel.locator("table.sizes-table").scroll_into_view_if_needed()
         panel.locator(".sizes-box").screenshot(path=str(ARTIFACTS / "sampling-sizes-table-375.png"))
         page.set_viewport_size({"width": 1280, "height": 900})
-        link = page.url  # the link brings the sizes back, and the same values
+        link = page_link(page)  # the link brings the sizes back, and the same values
         page.goto("about:blank")
         page.goto(link)
         wait_ready(page)

@@ -14,11 +14,12 @@ from __future__ import annotations
 
 import hashlib
 import json
+import urllib.parse
 from pathlib import Path
 
 import pytest
 
-from .conftest import wait_ready
+from .conftest import page_link, wait_ready
 
 pytestmark = pytest.mark.e2e
 
@@ -161,7 +162,7 @@ def test_the_file_goes_once_and_again_when_the_engine_asks(watched, base_url):
     assert posted and posted[0]["carries"], posted
 
     # the link carries no file; the saved inputs file carries the text and its SHA-256
-    link = page.evaluate("() => decodeURIComponent(location.hash)")
+    link = urllib.parse.unquote(urllib.parse.urlsplit(page_link(page)).fragment)
     assert "shift.series_text" not in link
     # the keys of the series the page keeps are its own bookkeeping, added to each request:
     # no field of the form shows them, and neither the link nor the saved inputs carry them

@@ -26,7 +26,7 @@ import pytest
 from driftdose import api
 from driftdose.unit_labels import unit_text
 
-from .conftest import ARTIFACTS, new_watched_page, screenshot, wait_ready
+from .conftest import ARTIFACTS, new_watched_page, page_link, screenshot, wait_ready
 from .helpers import parse_shown, round_sig
 from .test_layout import BROKEN_WORDS_JS
 
@@ -226,7 +226,7 @@ def test_logged_file_periods_typed_and_dragged_match_the_core(watched, base_url,
     assert page.locator("#panel-shift table.dose-table thead").inner_text().count("Cutting") == 1
 
     # the link carries the periods and choices, not the 1 MB file; the inputs file carries it
-    link = page.evaluate("() => decodeURIComponent(location.hash)")
+    link = urllib.parse.unquote(urllib.parse.urlsplit(page_link(page)).fragment)
     assert "shift.periods=j:" in link and "Packing" in link
     assert "shift.series_text" not in link
     assert page.locator("#link-size-note").is_visible()
