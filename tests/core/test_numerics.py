@@ -8,6 +8,7 @@ requested accuracies.
 from __future__ import annotations
 
 import math
+from decimal import Decimal, localcontext
 
 import numpy as np
 import pytest
@@ -210,16 +211,96 @@ def test_aerodynamic_diameters_of_a_grid_vs_brentq_and_one_at_a_time(rho, chi, T
 
 
 @pytest.mark.parametrize(("rho", "chi"), [(100.0, 1.0), (3000.0, 1.5), (22000.0, 4.0)])
-def test_grid_solve_is_the_single_solve_written_out(rho, chi):
-    # the grid's loop repeats the single solve's Newton iteration in place; with no neighbour
-    # to start from it starts where the single solve does, so the two agree to the last bit
+def test_grid_solve_of_one_size_agrees_with_the_single_solve(rho, chi):
+    # one size, no neighbour to start from: the grid's loop (d^2 Cc(d) kept per grid, the
+    # residual as 2 ln d_x + ln Cc - ln q, the closed form above about 5.5 um) and the single
+    # solve (newton_bracketed on ln(d_x^2 Cc) - ln q) agree within the precision both
+    # Newton iterations stop at (a step below 1e-7 leaves an error of order 1e-14)
     for i in range(0, 241, 5):
         d = 1e-9 * 10 ** (i / 48)
         for T, P in ((293.15, 101325.0), (310.15, 101325.0), (250.0, 50e3)):
             single = particle.aerodynamic_diameter(d, rho, chi, T, P)
-            assert particle.aerodynamic_diameters([d], rho, chi, T, P) == [single]
+            assert particle.aerodynamic_diameters([d], rho, chi, T, P) == [
+                pytest.approx(single, rel=1e-13)
+            ]
             back = particle.volume_equivalent_diameter(single, rho, chi, T, P)
-            assert particle.volume_equivalent_diameters([single], rho, chi, T, P) == [back]
+            assert particle.volume_equivalent_diameters([single], rho, chi, T, P) == [
+                pytest.approx(back, rel=1e-13)
+            ]
+
+
+def _d2cc_50_digits(x: Decimal, two_lambda: Decimal) -> Decimal:
+    """d^2 Cc(d) of the Kim et al. (2005) slip set in 50-digit decimal arithmetic."""
+    alpha, beta, gamma = (Decimal(repr(v)) for v in particle.SLIP_MODELS["kim2005"])
+    kn = two_lambda / x
+    return x * x * (1 + kn * (alpha + beta * (-gamma / kn).exp()))
+
+
+@pytest.mark.parametrize(
+    ("rho", "chi", "T", "P"),
+    [
+        (1500.0, 1.0, 310.15, 101325.0),
+        (3000.0, 1.5, 310.15, 101325.0),
+        (22000.0, 4.0, 293.15, 101325.0),
+        (100.0, 1.0, 250.0, 50e3),
+    ],
+)
+def test_large_aerodynamic_diameters_vs_50_digit_arithmetic(rho, chi, T, P):
+    # Above about 5.5 um (1 atm) the exponential of the slip correction is below double
+    # precision and the grid solves d^2 + 2 lambda alpha d = q in closed form. Reference: the
+    # full relation (exponential kept) solved by Newton's method in 50-digit decimal
+    # arithmetic; the closed form is within a few units in the last place (rel 1e-15).
+    # Smaller sizes of the same grid go through Newton's method (rel 1e-13, its precision).
+    with localcontext() as context:
+        context.prec = 50
+        two_lambda = 2.0 * gas.mean_free_path(T, P, reference="kim2005")
+        tl = Decimal(repr(two_lambda))
+        r = Decimal(repr(rho / (1000.0 * chi)))
+        sizes = [1e-6 * 10 ** (i / 24) for i in range(49)]
+        got = particle.aerodynamic_diameters(sizes, rho, chi, T, P)
+        closed_form = 0
+        for d, ours in zip(sizes, got, strict=True):
+            q = r * _d2cc_50_digits(Decimal(repr(d)), tl)
+            x = q.sqrt()
+            for _ in range(100):
+                h = x * Decimal("1e-25")
+                slope = (_d2cc_50_digits(x + h, tl) - _d2cc_50_digits(x - h, tl)) / (2 * h)
+                step = (_d2cc_50_digits(x, tl) - q) / slope
+                x -= step
+                if abs(step) < x * Decimal("1e-40"):
+                    break
+            big = ours > 40.0 * two_lambda / 0.997
+            closed_form += big
+            assert ours == pytest.approx(float(x), rel=1e-15 if big else 1e-13)
+    assert closed_form >= 10  # the closed form was checked
+
+
+def test_kept_grid_terms_are_never_stale():
+    # d^2 Cc(d) is kept per (grid, T, P); every change of density, shape factor, air or grid
+    # must give exactly what a solve with nothing kept gives
+    from driftdose.particle import equivalent
+
+    grid = [1e-9 * 10 ** (i / 24) for i in range(121)]
+    cases = [
+        (grid, 1500.0, 1.0, 310.15, 101325.0),
+        (grid, 3000.0, 1.5, 310.15, 101325.0),
+        (grid, 3000.0, 1.5, 293.15, 101325.0),  # only T changed
+        (grid, 3000.0, 1.5, 293.15, 80e3),  # only P changed
+        (tuple(grid), 2000.0, 1.0, 293.15, 80e3),  # the same sizes as a tuple
+        (grid[:60], 2000.0, 1.0, 293.15, 80e3),  # part of the grid
+        ([d * 1.01 for d in grid], 2000.0, 1.0, 293.15, 80e3),  # sizes moved
+        (grid, 1500.0, 1.0, 310.15, 101325.0),  # back to the first
+    ]
+    for sizes, rho, chi, T, P in cases:
+        kept = particle.aerodynamic_diameters(sizes, rho, chi, T, P)
+        inverse = particle.volume_equivalent_diameters(sizes, rho, chi, T, P)
+        equivalent._grid_terms_kept.clear()
+        assert kept == particle.aerodynamic_diameters(sizes, rho, chi, T, P)
+        equivalent._grid_terms_kept.clear()
+        assert inverse == particle.volume_equivalent_diameters(sizes, rho, chi, T, P)
+    for i in range(equivalent.GRID_TERMS_KEPT + 3):  # more grids than are kept
+        particle.aerodynamic_diameters([1e-7 * (1 + i / 100)], 2000.0)
+    assert len(equivalent._grid_terms_kept) == equivalent.GRID_TERMS_KEPT
 
 
 # ---------------------------------------------------------------------------------------------

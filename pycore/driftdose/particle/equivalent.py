@@ -9,6 +9,7 @@ and free-molecular limits.
 from __future__ import annotations
 
 import math
+from collections import OrderedDict
 from collections.abc import Sequence
 
 from .. import gas
@@ -94,8 +95,11 @@ def aerodynamic_diameters(
     :func:`aerodynamic_diameter` (Hinds 1999, eq. 3.30 with slip), each solve started from
     the solutions at the two sizes before it (ln d_ae - ln d extrapolated linearly in ln d)
     instead of the continuum limit: on a grid of neighbouring sizes it needs two slip
-    evaluations instead of three to five. The results differ from one solve at a time by
-    about 1e-14 relative (the iteration's own precision).
+    evaluations instead of three to five. The sizes' own side, d^2 Cc(d), is kept per grid
+    and air (an edit of the density finds it), and above about 5.5 um, where the exponential
+    of the slip correction is below double precision, the relation is a quadratic solved in
+    closed form. The results differ from one solve at a time by about 1e-14 relative (the
+    iteration's own precision).
     """
     if density == WATER_DENSITY and shape_factor == 1.0:
         return list(ds)
@@ -141,43 +145,98 @@ def volume_equivalent_diameters(
     return _equal_settling_grid(d_aes, WATER_DENSITY * shape_factor / density, T, P)
 
 
+GRID_TERMS_KEPT = 16
+"""Size grids whose slip terms :func:`_equal_settling_grid` keeps (least recently used dropped)."""
+
+_grid_terms_kept: OrderedDict[tuple, tuple[tuple[float, ...], ...]] = OrderedDict()
+
+
+def _grid_terms(
+    ds: Sequence[float], two_lambda: float, T: float, P: float
+) -> tuple[tuple[float, ...], ...]:
+    """The logarithm ln d [-], d^2 Cc(d) [m^2] and its logarithm at every size of ``ds`` [m].
+
+    These sides of the equal-settling relation depend on the sizes and the air (``T`` [K],
+    ``P`` [Pa]; ``two_lambda`` [m] twice the mean free path of the Kim et al. 2005 set) only,
+    not on the density: an edit of the density or shape factor finds them kept.
+    """
+    key = (tuple(ds), T, P)
+    kept = _grid_terms_kept.get(key)
+    if kept is not None:
+        _grid_terms_kept.move_to_end(key)
+        return kept
+    alpha, beta, gamma = SLIP_MODELS["kim2005"]
+    exp, log = math.exp, math.log
+    lns, d2ccs, ln_d2ccs = [], [], []
+    for d in key[0]:
+        kn = two_lambda / d
+        d2cc = d * d * (1.0 + kn * (alpha + beta * exp(-gamma / kn)))
+        lns.append(log(d))
+        d2ccs.append(d2cc)
+        ln_d2ccs.append(log(d2cc))
+    kept = _grid_terms_kept[key] = (tuple(lns), tuple(d2ccs), tuple(ln_d2ccs))
+    while len(_grid_terms_kept) > GRID_TERMS_KEPT:
+        _grid_terms_kept.popitem(last=False)
+    return kept
+
+
+SLIP_EXPONENT_NEGLIGIBLE = 40.0
+"""gamma / Kn above which the exponential of the slip correction, exp(-gamma / Kn) < 4.3e-18,
+changes d^2 Cc by less than the rounding of a double: there d^2 Cc = d^2 + 2 lambda alpha d
+exactly to double precision, and the equal-settling relation is a quadratic in d."""
+
+
 def _equal_settling_grid(ds: Sequence[float], r: float, T: float, P: float) -> list[float]:
     """d_x [m] with d_x^2 Cc(d_x) = ``r`` d^2 Cc(d) at every ``ds`` [m], from neighbours.
 
-    The iteration of :func:`_solve_d2cc` (Newton steps in ln d_x inside
-    :func:`_ratio_bracket`, :func:`driftdose._numerics.newton_bracketed` with its default
-    step tolerance 1e-7) and the slip of :func:`_slip_and_log_slope`, written out in this
-    loop with the same arithmetic in the same order: the same results to the last bit, without
-    a function call per step (in the page's engine the calls cost more than the arithmetic).
+    The right-hand sides d^2 Cc(d) come from :func:`_grid_terms` (kept per grid). Where
+    the solution is so large that the exponential of the slip correction (Kim et al. 2005,
+    eq. 9) is below double precision (gamma / Kn > :data:`SLIP_EXPONENT_NEGLIGIBLE`, above
+    about 5.5 um at 1 atm), the relation d_x^2 + 2 lambda alpha d_x = q is solved in closed
+    form, d_x = 2 q / (2 lambda alpha + sqrt((2 lambda alpha)^2 + 4 q)). Elsewhere Newton
+    steps in u = ln d_x on ln(d_x^2 Cc(d_x)) - ln q (slope 2 + d ln Cc / d ln d, between 1
+    and 2) kept inside the bracket of :func:`_ratio_bracket`, as in
+    :func:`driftdose._numerics.newton_bracketed` (step tolerance 1e-7, ending with the
+    first shorter step), each started from the solutions at the two sizes before it
+    (ln d_x - ln d extrapolated linearly in ln d; after a closed-form size, from the continuum
+    limit), written out in this loop: in the page's
+    engine a function call per step costs more than the arithmetic. Within 1e-13 relative
+    of :func:`_solve_equal_settling` (the iteration's own precision).
     """
     two_lambda = 2.0 * gas.mean_free_path(T, P, reference="kim2005")
     alpha, beta, gamma = SLIP_MODELS["kim2005"]
-    half_log_r = 0.5 * math.log(r)
-    lo_factor = min(r, math.sqrt(r), 1.0)
-    hi_factor = max(r, math.sqrt(r), 1.0)
+    lns, d2ccs, ln_d2ccs = _grid_terms(ds, two_lambda, T, P)
+    log_r = math.log(r)
+    half_log_r = 0.5 * log_r
+    lo_shift = math.log(min(r, math.sqrt(r), 1.0) * 0.5)
+    hi_shift = math.log(max(r, math.sqrt(r), 1.0) * 2.0)
+    b_lin = two_lambda * alpha  # d^2 Cc = d^2 + b_lin d where the exponential is negligible
+    d_big = SLIP_EXPONENT_NEGLIGIBLE * two_lambda / gamma
+    q_big = d_big * (d_big + b_lin)  # the quadratic at d_big: larger q, larger solution
     tol = 1e-7  # newton_bracketed's default step tolerance
-    exp, log = math.exp, math.log
+    exp, log, sqrt = math.exp, math.log, math.sqrt
     out = []
-    last = before = None  # (ln d, ln d_ae - ln d) of the two sizes solved last
-    for d in ds:
-        ln_d = log(d)
+    last = before = None  # (ln d, ln d_x - ln d) of the two sizes solved last by Newton
+    for ln_d, d2cc, ln_d2cc in zip(lns, d2ccs, ln_d2ccs, strict=True):
+        q = r * d2cc
+        if q > q_big:
+            out.append(2.0 * q / (b_lin + sqrt(b_lin * b_lin + 4.0 * q)))
+            last = before = None  # the next Newton solve starts from the continuum limit
+            continue
+        target = log_r + ln_d2cc
         offset = half_log_r  # the continuum limit
         if last is not None:
             offset = last[1]
             if before is not None and last[0] != before[0]:
                 offset += (last[1] - before[1]) * (ln_d - last[0]) / (last[0] - before[0])
-        kn = two_lambda / d
-        cc_d = 1.0 + kn * (alpha + beta * exp(-gamma / kn))
-        target = log(r * d * d * cc_d)
-        a, b = log(d * lo_factor * 0.5), log(d * hi_factor * 2.0)
+        a, b = ln_d + lo_shift, ln_d + hi_shift
         x0 = ln_d + offset
         x = x0 if a < x0 < b else 0.5 * (a + b)
         for _ in range(100):
-            size = exp(x)
-            kn = two_lambda / size
+            kn = two_lambda / exp(x)
             e = beta * exp(-gamma / kn)
             cc = 1.0 + kn * (alpha + e)
-            fx = log(size * size * cc) - target
+            fx = 2.0 * x + log(cc) - target
             if fx == 0.0:
                 break
             if fx < 0.0:
@@ -198,9 +257,8 @@ def _equal_settling_grid(ds: Sequence[float], r: float, T: float, P: float) -> l
             x = new
         else:
             raise RuntimeError("newton_bracketed did not converge")
-        d_ae = exp(x)
-        before, last = last, (ln_d, log(d_ae) - ln_d)
-        out.append(d_ae)
+        before, last = last, (ln_d, x - ln_d)
+        out.append(exp(x))
     return out
 
 
