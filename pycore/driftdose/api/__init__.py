@@ -18,6 +18,7 @@ from typing import Any
 
 from .. import __version__
 from . import kept
+from .encoding import encode_reply
 from .exports import EXPORT_KIND, export_csv
 from .fields import FieldError, parse_fields
 from .registry import CALCULATIONS
@@ -138,7 +139,8 @@ def handle_json(text: str) -> str:
         return json.dumps(_error("", "Request is not valid JSON."))
     try:
         # json.dumps refuses NaN and infinity itself: no separate walk over the reply first
-        return json.dumps(_guarded(request, check=False), allow_nan=False, ensure_ascii=False)
+        # arrays kept from earlier replies (api.encoding) are written from their kept text
+        return encode_reply(_guarded(request, check=False))
     except (ValueError, TypeError, RecursionError):
         pass  # answer again as handle() does, whose check names where the number is
     try:

@@ -21,6 +21,7 @@ from ..compose.deposition import Deposition, compose_deposition
 from ..sources import cite
 from .demos import DEMOS, demo_scenarios
 from .dose_rows import dose_bars, region_rows
+from .encoding import kept_array
 from .exposure_fields import EXPOSURE_FIELDS, MEDIAN_WORDS, MODE_FIELDS, aerosol_of, subject_of
 from .fields import Field, FieldError
 from .labels import COORDINATE_WORDS, DIAMETER_TYPE_WORDS, REGION_LABELS
@@ -203,17 +204,18 @@ def _size_rows(result: Deposition) -> dict[str, Any]:
 def _curves(result: Deposition) -> dict[str, Any]:
     res = result.dose
     curves: dict[str, Any] = {}
-    x_um = shared_axis(curves, "diameter", [x * 1e6 for x in result.sizes])
+    # the axes, and an overlay that an edit left as it was, are written as JSON once
+    x_um = shared_axis(curves, "diameter", kept_array(result.sizes, 1e6))
     series = {
         r: {"label": REGION_LABELS[r], "x": x_um, "y": list(result.fractions[r])}
         for r in res.regions
     }
-    x_overlay = shared_axis(curves, "overlay_diameter", [x * 1e6 for x in result.overlay_sizes])
+    x_overlay = shared_axis(curves, "overlay_diameter", kept_array(result.overlay_sizes, 1e6))
     overlay = {
         w: {
             "label": f"Your distribution by {w} (dW/dln d, scaled to peak 1)",
             "x": x_overlay,
-            "y": list(result.overlay[w]),
+            "y": kept_array(result.overlay[w]),
         }
         for w in ("number", "mass")
     }

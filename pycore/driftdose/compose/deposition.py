@@ -12,12 +12,14 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
+from functools import lru_cache
 
 from .._numerics import logspace
 from ..conventions import convention_shares
 from ..deposition import BreathingPattern, Subject, activity, reference_worker
 from ..deposition.icrp66 import warnings_for as icrp66_warnings
 from ..deposition.simplified import validity_warnings as simplified_warnings
+from ..distribution import Distribution, LognormalMode
 from ..dose import DoseResult, deposited_dose, deposition_curves
 from ..ldsa import lung_deposited_surface_area
 from .aerosol import Aerosol, ModeSpec, is_converted
@@ -250,11 +252,7 @@ def compose_deposition(
     )
     fractions = {r: _within_0_1(dep[r]) for r in res.regions}
     overlay_xs = _OVERLAY_SIZES
-    overlay = {}
-    for w in ("number", "mass"):
-        ys = dist.density_curve(overlay_xs, w, _OVERLAY_LN)
-        top = max(ys) if ys else 0.0
-        overlay[w] = tuple(y / top if top > 0 else 0.0 for y in ys)
+    overlay = {w: _overlay(dist, w) for w in ("number", "mass")}
     warnings = validity_warnings(
         aerosol, subject, model, thermodynamic, res.benchmark, custom_breathing
     )
@@ -274,6 +272,49 @@ def compose_deposition(
             deposition_at_sizes(model, sizes, desc, subject, res.thermodynamic) if sizes else None
         ),
     )
+
+
+def _overlay(dist: Distribution, weight: str) -> tuple[float, ...]:
+    """dW/dln d of ``dist`` by ``weight`` at :data:`OVERLAY_POINTS` sizes, peak 1 [-].
+
+    Lognormal modes (Hinds 1999, eq. 4.33 per unit ln d) are summed with their amounts
+    relative to the largest: the shape of a single mode then depends on its median and GSD
+    only, not on its amount or density, and is computed once for them (the last
+    :data:`OVERLAY_KEPT` shapes are kept). A spectrum is computed each time.
+    """
+    modes = getattr(dist, "modes", (dist,) if isinstance(dist, LognormalMode) else None)
+    if modes is None:
+        ys = dist.density_curve(_OVERLAY_SIZES, weight, _OVERLAY_LN)
+        top = max(ys) if ys else 0.0
+        return tuple(y / top if top > 0 else 0.0 for y in ys)
+    amounts = [m.total(weight) / m.ln_gsd for m in modes]
+    largest = max(amounts)
+    if not largest > 0.0:
+        return (0.0,) * len(_OVERLAY_LN)
+    return _mode_overlay(
+        tuple(
+            (a / largest, math.log(m.median(weight)), m.ln_gsd)
+            for a, m in zip(amounts, modes, strict=True)
+        )
+    )
+
+
+OVERLAY_KEPT = 16
+"""Overlay shapes :func:`_overlay` keeps."""
+
+
+@lru_cache(maxsize=OVERLAY_KEPT)
+def _mode_overlay(modes: tuple[tuple[float, float, float], ...]) -> tuple[float, ...]:
+    """Sum of c exp(-(ln d - ln median)^2 / (2 s^2)) over ``modes`` = ((c, ln median, s)...),
+    at the overlay's sizes, scaled to peak 1 (c [-] and s [-]; median [m])."""
+    exp = math.exp
+    ys = [0.0] * len(_OVERLAY_LN)
+    for c, lm, s in modes:
+        for i, x in enumerate(_OVERLAY_LN):
+            z = (x - lm) / s
+            ys[i] += c * exp(-0.5 * z * z)
+    top = max(ys)
+    return tuple(y / top if top > 0 else 0.0 for y in ys)
 
 
 def _mode_numbers(aerosol: Aerosol) -> tuple[ModeNumbers, ...]:
