@@ -23,7 +23,7 @@
 // bytecode compiled at build time, so the normal start compiles nothing either.
 import "./worker-shim.js"; // first: before Pyodide's module code runs
 import { loadPyodide } from "../pyodide/pyodide.mjs";
-import { expandSparse } from "./sparse.js";
+import { streamSparse } from "./sparse.js";
 
 const base = new URL("../", import.meta.url);
 const indexURL = new URL("pyodide/", base).href;
@@ -72,22 +72,33 @@ async function ownWheel(path) {
 }
 
 async function fromSnapshot(info) {
-  const snapshot = fetch(new URL(info.snapshot.file, base))
-    .then((r) => {
-      if (!r.ok) throw new Error(`snapshot: HTTP ${r.status}`);
-      return r.arrayBuffer();
-    })
-    .then((buffer) => {
-      marks.snapshotFetched = stamp();
-      return expandSparse(buffer);
-    });
-  snapshot.catch(() => {}); // handled where loadPyodide awaits it; not an unhandled rejection
-  const pyodide = await loadPyodide({
-    indexURL,
-    packages: [],
-    _loadSnapshot: snapshot,
-    fsInit: async () => { marks.engineStarted = stamp(); },
+  // The memory is expanded chunk by chunk as it arrives (sparse.js). The engine is handed it as
+  // soon as the file's head gives its length, so the WebAssembly compiles and instantiates while
+  // the rest arrives; the engine awaits fsInit before it restores anything, and fsInit waits for
+  // the last chunk. A file that fails part-way leaves fsInit waiting (nothing is restored from
+  // an incomplete memory), and the race below falls back to the normal start.
+  const opened = fetch(new URL(info.snapshot.file, base)).then((r) => {
+    if (!r.ok) throw new Error(`snapshot: HTTP ${r.status}`);
+    return streamSparse(r);
   });
+  const complete = opened.then((s) => s.complete).then((memory) => {
+    marks.snapshotFetched = stamp();
+    return memory;
+  });
+  complete.catch(() => {}); // handled by the race below; not an unhandled rejection
+  const never = new Promise(() => {});
+  const pyodide = await Promise.race([
+    loadPyodide({
+      indexURL,
+      packages: [],
+      _loadSnapshot: opened.then((s) => s.memory),
+      fsInit: async () => {
+        marks.engineStarted = stamp();
+        await complete.catch(() => never);
+      },
+    }),
+    complete.then(() => never),
+  ]);
   marks.bootstrapped = stamp();
   const found = pyodide.globals.get("DRIFTDOSE_SNAPSHOT");
   if (found !== info.snapshot.stamp) {
