@@ -36,6 +36,10 @@ ENGINE_ASSUMPTIONS = {
         "_loadSnapshot",  # option: restore this memory instead of starting Python
         "INITIAL_MEMORY=i.length",  # ...sized from the snapshot
         "restoreSnapshot(t)",
+        # js/worker.js hands over the snapshot before it has all arrived: fsInit is awaited as a
+        # run dependency, so the module resolves, and its memory is restored, only after it
+        'addRunDependency("fsInitHook");try{await e(',
+        "r=await Re(i,n);Fe(r,t);let a=Ae(r,s,t)",
         'BUILD_ID:"',  # the engine's build id, which a snapshot must carry
         "thisProgram:e._sysExecutable",  # the build-time runner sets it as a browser does
     ),
