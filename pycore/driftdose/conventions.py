@@ -336,10 +336,8 @@ def convention_shares(
                 solved = particle.aerodynamic_diameters(
                     [d for d, _ in nodes], m.density, m.shape_factor, T, P
                 )
-                spectra[i] = [_convention_values(d_ae) for d_ae in solved]
-            for (_, w), values in zip(nodes, spectra[i], strict=True):
-                for j in range(len(sums)):
-                    sums[j] += w * values[j]
+                spectra[i] = _convention_table(solved)
+            _add_weighted(sums, [w for _, w in nodes], spectra[i])
         result[weight] = {k: v / total for k, v in zip(CONVENTIONS, sums, strict=True)}
     return result
 
@@ -372,15 +370,52 @@ def _mode_shares(
     mode = LognormalMode(cmd, gsd, 1.0, density, shape_factor)
     grid = mode.grid(step)
     solved = particle.aerodynamic_diameters(grid, density, shape_factor, T, P)
-    values = [_convention_values(d_ae) for d_ae in solved]
+    values = _convention_table(solved)
     out = {}
     for weight in WEIGHTS:
         total = mode.total(weight)
         sums = [0.0] * len(CONVENTIONS)
-        for (_, w), v in zip(mode.quadrature(weight, step), values, strict=True):
-            for j in range(len(sums)):
-                sums[j] += w * v[j]
+        _add_weighted(sums, [w for _, w in mode.quadrature(weight, step)], values)
         out[weight] = tuple(x / total for x in sums)
+    return out
+
+
+def _add_weighted(
+    sums: list[float], weights: list[float], values: list[tuple[float, float, float, float]]
+) -> None:
+    """Add sum_i weights[i] values[i][j] to ``sums[j]`` for the four conventions, in order."""
+    s0, s1, s2, s3 = sums
+    for w, (v0, v1, v2, v3) in zip(weights, values, strict=True):
+        s0 += w * v0
+        s1 += w * v1
+        s2 += w * v2
+        s3 += w * v3
+    sums[:] = [s0, s1, s2, s3]
+
+
+def _convention_table(d_aes: list[float]) -> list[tuple[float, float, float, float]]:
+    """:func:`_convention_values` at every aerodynamic diameter of ``d_aes`` [m], written out.
+
+    The same arithmetic in the same order as :func:`_convention_values` (so the same numbers
+    to the last bit), without three function calls per size.
+    """
+    exp, log, erfc = math.exp, math.log, math.erfc
+    ln_sigma, root2 = _LN_SIGMA, math.sqrt(2.0)
+    g_t, g_r, g_h = _GAMMAS
+    out = []
+    for d_ae in d_aes:
+        e_i = 0.5 * (1.0 + exp(-0.06 * d_ae * 1e6))
+        if d_ae <= 0.0:
+            out.append((e_i, e_i, e_i, e_i))
+            continue
+        out.append(
+            (
+                e_i,
+                e_i * (1.0 - 0.5 * erfc(-(log(d_ae / g_t) / ln_sigma) / root2)),
+                e_i * (1.0 - 0.5 * erfc(-(log(d_ae / g_r) / ln_sigma) / root2)),
+                e_i * (1.0 - 0.5 * erfc(-(log(d_ae / g_h) / ln_sigma) / root2)),
+            )
+        )
     return out
 
 

@@ -28,6 +28,7 @@ import itertools
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
+from functools import lru_cache
 
 from ._numerics import gauss_hermite
 
@@ -278,7 +279,7 @@ class LognormalMode:
         0.0025 (measured: below 2e-10; ``tests/core/test_dose.py``).
         """
         h, ks = self._lattice(step)
-        return [math.exp(k * h) for k in ks]
+        return list(_lattice_sizes(h, ks.start, ks.stop))
 
     def quadrature(
         self, weight: str = "number", step: float | None = None
@@ -294,12 +295,8 @@ class LognormalMode:
         s = self.ln_gsd
         h, ks = self._lattice(step)
         c = total * h / (math.sqrt(2.0 * math.pi) * s)
-        exp = math.exp
-        out = []
-        for k in ks:
-            z = (k * h - lm) / s
-            out.append((exp(k * h), c * exp(-0.5 * z * z)))
-        return out
+        sizes = _lattice_sizes(h, ks.start, ks.stop)
+        return [(d, c * g) for d, g in zip(sizes, _lattice_gauss(lm, s, h, ks), strict=True)]
 
     def density_per_ln_d(self, d: float, weight: str = "number") -> float:
         """dW/dln d of the chosen weight at diameter ``d``. [unit of :meth:`total`]"""
@@ -334,6 +331,32 @@ class LognormalMode:
             z = (ln_d - lm) / s
             out.append(c * exp(-0.5 * z * z))
         return out
+
+
+LATTICE_KEPT = 64
+"""Lattices whose nodes and Gaussian factors :class:`LognormalMode` keeps (each function)."""
+
+
+@lru_cache(maxsize=LATTICE_KEPT)
+def _lattice_sizes(h: float, start: int, stop: int) -> tuple[float, ...]:
+    """Diameters exp(k h) [m] of the lattice nodes k = start .. stop - 1 (step ``h`` [-])."""
+    return tuple(math.exp(k * h) for k in range(start, stop))
+
+
+@lru_cache(maxsize=LATTICE_KEPT)
+def _lattice_gauss(lm: float, s: float, h: float, ks: range) -> tuple[float, ...]:
+    """exp(-z^2 / 2), z = (k h - ``lm``) / ``s``, at the nodes ``ks`` of step ``h`` [-].
+
+    The lognormal factor of a mode's quadrature weights (``lm`` the log of the weight's
+    median in metres, ``s`` = ln GSD): it depends on the median and GSD only, so a mode whose
+    amount or density changed (its mass weight) finds it kept.
+    """
+    exp = math.exp
+    out = []
+    for k in ks:
+        z = (k * h - lm) / s
+        out.append(exp(-0.5 * z * z))
+    return tuple(out)
 
 
 @dataclass(frozen=True)

@@ -134,3 +134,23 @@ def test_deposition_curves_drawn_on_fewer_sizes_look_the_same(density, chi, rout
     for region, drawn in out.fractions.items():
         shown = np.interp(np.log(fine), np.log(out.sizes), drawn)
         assert np.max(np.abs(shown - np.clip(model[region], 0.0, 1.0))) < 1e-3, region
+
+
+def test_fractions_limited_to_0_1_as_the_element_wise_rule():
+    from driftdose.compose.deposition import _within_0_1
+
+    def rule(ys):
+        return tuple((y if y < 1.0 else 1.0) if y > 0.0 else 0.0 for y in ys)
+
+    for ys in (
+        [0.3, 0.5, 0.999],
+        [0.0, 0.5],
+        [-0.0, 0.5],
+        [1e-300, 1.0],
+        [0.2, 1.0000000000000002],
+        [-1e-17, 0.4],
+        [],
+    ):
+        got = _within_0_1(ys)
+        assert got == rule(ys)
+        assert [math.copysign(1.0, y) for y in got] == [math.copysign(1.0, y) for y in rule(ys)]

@@ -107,3 +107,21 @@ def test_convention_shares_follow_the_step_in_force(monkeypatch):
     monkeypatch.setattr(conventions, "CONVENTION_STEP", 0.01)
     conventions.convention_shares(mode, ("mass",))
     assert conventions._mode_shares.cache_info().misses == before.misses + 1
+
+
+def test_convention_table_is_the_one_size_conventions_written_out():
+    # the shares' loop over sizes repeats the one-size values (themselves checked against
+    # the ISO 7708 definitions in test_conventions.py) to the last bit
+    sizes = [0.0, -1e-6] + [1e-9 * 10 ** (i / 24) for i in range(121)] + [150e-6]
+    table = conventions._convention_table(sizes)
+    assert table == [conventions._convention_values(d) for d in sizes]
+    single = [
+        (
+            conventions.inhalable(d),
+            conventions.thoracic(d),
+            conventions.respirable(d),
+            conventions.high_risk_respirable(d),
+        )
+        for d in sizes[2:]
+    ]
+    assert table[2:] == single

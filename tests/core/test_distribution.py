@@ -14,6 +14,7 @@ from scipy import integrate as sint
 
 from driftdose.deposition import icrp66
 from driftdose.distribution import (
+    WEIGHTS,
     BinnedSpectrum,
     LognormalMode,
     Multimodal,
@@ -166,3 +167,28 @@ def test_density_curve_takes_the_logs_of_the_diameters():
     modes = (LognormalMode(40e-9, 1.8, 1e11, 3000.0), LognormalMode(2e-6, 2.2, 1e6, 1500.0))
     for dist in (*modes, Multimodal(modes)):
         assert dist.density_curve(sizes, "mass", logs) == dist.density_curve(sizes, "mass")
+
+
+def test_kept_lattice_factors_are_never_stale():
+    # a mode's nodes and Gaussian factors are kept per lattice and median; every change of
+    # amount, density, median, GSD or step gives what a computation with nothing kept gives
+    from driftdose import distribution
+
+    modes = [
+        LognormalMode(50e-9, 1.8, 1e10, 1000.0),
+        LognormalMode(50e-9, 1.8, 1e10, 2500.0),  # only the density: the mass weight scales
+        LognormalMode(50e-9, 1.8, 3e9, 2500.0),
+        LognormalMode(51e-9, 1.8, 3e9, 2500.0),
+        LognormalMode(51e-9, 2.4, 3e9, 2500.0, 1.5),
+        LognormalMode(50e-9, 1.8, 1e10, 1000.0),
+    ]
+    for mode in modes:
+        for step in (None, 0.05):
+            kept = [mode.grid(step)] + [mode.quadrature(w, step) for w in WEIGHTS]
+            distribution._lattice_sizes.cache_clear()
+            distribution._lattice_gauss.cache_clear()
+            fresh = [mode.grid(step)] + [mode.quadrature(w, step) for w in WEIGHTS]
+            assert kept == fresh
+            grid = mode.grid(step)
+            grid.append(1.0)  # a caller's change of its list changes nothing kept
+            assert mode.grid(step) == fresh[0]

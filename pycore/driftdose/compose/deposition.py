@@ -56,6 +56,8 @@ _OVERLAY_LN = tuple(math.log(d) for d in _OVERLAY_SIZES)
 
 def _within_0_1(ys: Sequence[float]) -> tuple[float, ...]:
     """Deposition fractions ``ys`` [-] limited to 0 to 1 (a model's rounding can leave them)."""
+    if ys and min(ys) > 0.0 and max(ys) < 1.0:  # nothing to limit (min and max run in C)
+        return tuple(ys)
     return tuple((y if y < 1.0 else 1.0) if y > 0.0 else 0.0 for y in ys)
 
 

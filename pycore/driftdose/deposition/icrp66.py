@@ -410,7 +410,11 @@ def icrp66_curves(
     thermo = _thermo_terms(ds, consts, chi_th, T, P, keep=diameter_type != "aerodynamic")
     exp, sqrt, fsum = math.exp, math.sqrt, math.fsum
     inhalable: list[float] = []
-    regions: tuple[list[float], ...] = ([], [], [], [], [])
+    et1s: list[float] = []
+    et2s: list[float] = []
+    bbbs: list[float] = []
+    bbss: list[float] = []
+    ais: list[float] = []
     total: list[float] = []
     for d_ae, th in zip(d_aes, thermo, strict=True):
         da = d_ae * 1e6
@@ -437,16 +441,20 @@ def icrp66_curves(
             x = exp(-k_bb * p_bb)
             ae = 1.0 - x
             e_in = sqrt(ae * ae + t_bb2)
-            e_in = e_in if e_in < 1.0 else 1.0
+            if e_in > 1.0:
+                e_in = 1.0
             ae = 1.0 - sqrt(x)
             e_out = sqrt(ae * ae + t_bb2)
-            e_out = e_out if e_out < 1.0 else 1.0
+            if e_out > 1.0:
+                e_out = 1.0
             ae = 1.0 - exp(-k_b * da**e_b)
             e_s = sqrt(ae * ae + t_b2)
-            e_s = e_s if e_s < 1.0 else 1.0
+            if e_s > 1.0:
+                e_s = 1.0
             ae = 1.0 - exp(-k_ai * p_ai)
             e_a = sqrt(ae * ae + t_ai2)
-            e_a = e_a if e_a < 1.0 else 1.0
+            if e_a > 1.0:
+                e_a = 1.0
             # deposits per particle entering the trachea: BB, bb, AI on inhalation, then
             # bb, BB on exhalation (volumetric fraction of the inhalation twin)
             f_bb = pb * e_in
@@ -464,10 +472,12 @@ def icrp66_curves(
             if fn > 0.0:
                 ae = 0.5 * (1.0 - 1.0 / (1.0 + k_n1 * d2))
                 e1 = sqrt(ae * ae + t_n12)
-                e1 = e1 if e1 < 1.0 else 1.0
+                if e1 > 1.0:
+                    e1 = 1.0
                 ae = 1.0 - 1.0 / (1.0 + k_n2 * p_n2)
                 e2 = sqrt(ae * ae + t_n22)
-                e2 = e2 if e2 < 1.0 else 1.0
+                if e2 > 1.0:
+                    e2 = 1.0
                 through = (1.0 - e1) * (1.0 - e2)
                 out2 = through * back * e2
                 et1 += w * fn * (e1 + (through * back - out2) * e1)
@@ -476,7 +486,8 @@ def icrp66_curves(
             if fn < 1.0:
                 ae = 1.0 - 1.0 / (1.0 + k_m * p_m)
                 e2 = sqrt(ae * ae + t_m2)
-                e2 = e2 if e2 < 1.0 else 1.0
+                if e2 > 1.0:
+                    e2 = 1.0
                 through = 1.0 - e2
                 et2 += w * (1.0 - fn) * (e2 + through * back * e2)
                 enter += (1.0 - fn) * through
@@ -485,10 +496,14 @@ def icrp66_curves(
             bbs += enter * f_b
             ai += enter * f_ai
         vals = (inh * et1, inh * et2, inh * bbb, inh * bbs, inh * ai)
-        for column, v in zip(regions, vals, strict=True):
-            column.append(v)
+        et1s.append(vals[0])
+        et2s.append(vals[1])
+        bbbs.append(vals[2])
+        bbss.append(vals[3])
+        ais.append(vals[4])
         total.append(fsum(vals))
         inhalable.append(inh)
+    regions = (et1s, et2s, bbbs, bbss, ais)
     return {
         "inhalable": inhalable,
         **dict(zip(REGIONS, regions, strict=True)),
