@@ -5,6 +5,7 @@ import { formatNumber } from "./format.js";
 import { el } from "./forms.js";
 import { download, stamp } from "./files.js";
 import { imageText, pngWithText, readout as nameValue, wrapText } from "./chartparts.js";
+import { DrawQueue } from "./drawqueue.js";
 
 const TINY_SPAN = 1e-250;
 const SERIES_VARS = ["--series-1", "--series-2", "--series-3", "--series-4", "--series-5", "--series-6", "--series-7"];
@@ -23,6 +24,36 @@ export function cssVar(name) {
 export function seriesColour(index) {
   return cssVar(SERIES_VARS[index % SERIES_VARS.length]) || "#444";
 }
+
+// Charts far from the view are redrawn when the page is idle, when they come within NEAR_VIEW of
+// the view, or when their pixels are asked for (drawqueue.js): an edit's time goes to what is
+// seen. A chart whose place is not known yet is drawn at once.
+const NEAR_VIEW = "300px 0px";
+const queue = new DrawQueue({
+  draw: (chart) => {
+    if (chart.canvas) chart.update("none"); // a destroyed chart has no canvas
+  },
+  idle: typeof requestIdleCallback === "function" ? (callback) => requestIdleCallback(callback, { timeout: 1000 }) : null,
+});
+let watcher = null;
+
+function watch(chart) {
+  if (typeof IntersectionObserver !== "function") return;
+  watcher ||= new IntersectionObserver((entries) => {
+    for (const entry of entries) {
+      const drawn = window.Chart.getChart(entry.target);
+      if (drawn) queue.seen(drawn, entry.isIntersecting);
+    }
+  }, { rootMargin: NEAR_VIEW });
+  watcher.observe(chart.canvas);
+}
+
+/** Draw `chart` now if a redraw of it waits (before reading its pixels). */
+export function drawNow(chart) {
+  if (chart) queue.flush(chart);
+}
+
+globalThis.addEventListener?.("beforeprint", () => queue.flushAll());
 
 function isDecade(value) {
   const exp = Math.log10(value);
@@ -65,10 +96,10 @@ function scaleOptions(axis) {
 /**
  * Create a chart on `canvas`. `axes` = {x: {title, type, tick, readout}, y: {...}}; datasets are
  * given later through setDatasets(), axes changed later through setAxes(): a chart is created
- * once per canvas and updated in place; `plugins` are drawn with this chart only. Returns the
- * Chart.js instance.
+ * once per canvas and updated in place; `plugins` are drawn with this chart only. Unless `eager`,
+ * a chart far from the view is redrawn later (see NEAR_VIEW). Returns the Chart.js instance.
  */
-export function createChart(canvas, axes, { legendLabel, readout, type = "line", plugins = [] } = {}) {
+export function createChart(canvas, axes, { legendLabel, readout, type = "line", plugins = [], eager = false } = {}) {
   const Chart = window.Chart;
   Chart.defaults.font.family = cssVar("--font-body") || "system-ui, sans-serif";
   const scales = {};
@@ -100,6 +131,7 @@ export function createChart(canvas, axes, { legendLabel, readout, type = "line",
     },
   });
   chart.$driftdoseAxes = { ...axes };
+  if (!eager) watch(chart);
   return chart;
 }
 
@@ -113,8 +145,9 @@ export function setAxes(chart, axes) {
 }
 
 /**
- * Replace a chart's datasets and redraw without animation. With as many datasets as before,
- * the existing dataset objects are updated in place, so Chart.js keeps their controllers.
+ * Replace a chart's datasets and redraw without animation (later for a chart far from the
+ * view). With as many datasets as before, the existing dataset objects are updated in place, so
+ * Chart.js keeps their controllers.
  */
 export function setDatasets(chart, datasets) {
   const current = chart.data.datasets;
@@ -127,7 +160,7 @@ export function setDatasets(chart, datasets) {
   } else {
     chart.data.datasets = datasets;
   }
-  chart.update("none");
+  queue.request(chart);
 }
 
 let toolVersion = "";
@@ -149,6 +182,7 @@ function pngBytes(dataUrl) {
  * date) drawn around it, and the same texts as PNG text chunks (Title, Description, Software).
  */
 export function chartImage(chart, { title, scenario } = {}) {
+  drawNow(chart);
   const src = chart.canvas;
   const ratio = src.width / (chart.width || src.width) || 1;
   const text = imageText({ title, scenario, version: toolVersion, date: stamp() });

@@ -5,6 +5,7 @@
 // a QR code when it is short enough) and the inputs fingerprint. Everything is inserted as text.
 import { el } from "./forms.js";
 import { SURVEY_FIELDS } from "./survey.js";
+import { drawNow } from "./charts.js";
 
 export const CAUTIONS = [
   "These are screening estimates from published models, each valid only within the stated ranges.",
@@ -264,9 +265,10 @@ function qrImage(text) {
  * yet; it is drawn once more, off screen, at a fixed size from the same data and options.
  */
 function chartImage(canvas) {
-  if (canvas.width && canvas.height) return canvas.toDataURL("image/png");
   const Chart = window.Chart;
   const chart = Chart && Chart.getChart(canvas);
+  drawNow(chart); // a chart out of view may wait for its redraw
+  if (canvas.width && canvas.height) return canvas.toDataURL("image/png");
   if (!chart) return "";
   const spare = document.createElement("canvas");
   spare.width = 960;

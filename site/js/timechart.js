@@ -106,6 +106,7 @@ export function createTimeChart(canvas, { onDrag, onCommit } = {}) {
   }, {
     readout: (ctx) => `${ctx.dataset.label}: ${formatNumber(ctx.parsed.y, 3)}${state.unit ? ` ${state.unit}` : ""}`,
     plugins: [bandPlugin],
+    eager: true, // its bands are drawn over the series with chart.draw(): never a stale series
   });
   chart.options.scales.x.afterBuildTicks = (scale) => {
     // about one label per 70 px, so clock times never collide on a phone
