@@ -332,3 +332,61 @@ def test_typed_sizes_give_the_api_values_and_a_bad_entry_is_refused(browser, bas
     finally:
         context.close()
     assert not watch.errors and not watch.outside
+
+
+# Pixel height of each bar as drawn, against the height its current value has on the drawn
+# axis: all equal once the chart shows its data.
+_DOSE_BARS_SHOW_DATA = """() => {
+    const c = Chart.getChart(document.querySelector('#deposition-dose-canvas'));
+    const bars = c.getDatasetMeta(0).data;
+    const values = c.data.datasets[0].data;
+    return bars.length === values.length
+        && bars.every((b, i) => Math.abs(b.y - c.scales.y.getPixelForValue(values[i])) < 0.5);
+}"""
+
+
+def test_chart_out_of_view_is_drawn_when_idle_or_before_printing(page, base_url):
+    """The dose chart, below the first screen, is not redrawn within an edit's update; it is
+    redrawn when the page is next idle, and at once when the record is printed."""
+    _open(page, base_url)
+    _settled(page)
+    assert page.evaluate(
+        "() => document.querySelector('#deposition-dose-canvas').getBoundingClientRect().top"
+        " > innerHeight + 300"
+    )
+    assert page.evaluate(_DOSE_BARS_SHOW_DATA)
+    page.evaluate(f"() => {{ window.doseBarsShowData = {_DOSE_BARS_SHOW_DATA}; }}")
+    density = page.locator(PANEL).get_by_label("Particle density", exact=True)
+    # within the update (before any idle time): the bars still show the earlier values; the
+    # printed record asks for the chart's pixels, which draws it first
+    got = page.evaluate(
+        """(input) => new Promise((resolve) => {
+        const shows = window.doseBarsShowData;
+        const section = document.getElementById('panel-deposition');
+        const before = Number(section.dataset.updates);
+        const seen = new MutationObserver(() => {
+            if (Number(section.dataset.updates) <= before) return;
+            seen.disconnect();
+            const during = shows();
+            window.dispatchEvent(new Event('beforeprint'));
+            resolve({during, printed: shows(), state: section.dataset.state,
+                     images: document.querySelectorAll('#report img.report-chart').length});
+        });
+        seen.observe(section, {attributes: true, attributeFilter: ['data-updates']});
+        input.value = '7.5';
+        input.dispatchEvent(new Event('input', {bubbles: true}));
+    })""",
+        density.element_handle(),
+    )
+    assert got == {"during": False, "printed": True, "state": "ok", "images": 2}
+    # an edit without printing: drawn once the page is idle (a hang check, not a timing)
+    before = page.evaluate(
+        "() => Number(document.getElementById('panel-deposition').dataset.updates)"
+    )
+    density.fill("2.5")
+    page.wait_for_function(
+        f"() => Number(document.getElementById('panel-deposition').dataset.updates) > {before}"
+    )
+    page.wait_for_function(_DOSE_BARS_SHOW_DATA, timeout=10_000)
+    page.locator("#deposition-dose-canvas").scroll_into_view_if_needed()
+    screenshot(page, "deposition-dose-after-edits-1280")
