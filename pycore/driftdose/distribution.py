@@ -33,6 +33,7 @@ from functools import lru_cache
 from ._numerics import gauss_hermite
 
 __all__ = [
+    "GRID_LATTICE_STEP",
     "GRID_SPAN",
     "GRID_STEP_MAX",
     "GSD_MAX",
@@ -63,6 +64,11 @@ GRID_STEP_MAX = 0.2
 The deposition fractions vary on a scale of their own in ln d, whatever the width of the
 mode: the trapezoidal rule with steps up to 0.2 keeps deposited fractions above 1e-4 within
 2e-10 of a grid of step 0.0025 over GSDs 1.05 to 5 (0.25 gave 7e-9, 0.3 gave 1e-7)."""
+
+GRID_LATTICE_STEP = math.log(10.0) / 24.0
+"""Step in ln d of the deposition curves' sizes (24 per decade). A mode's integration step is
+this times a power of 2, so that its nodes and the curves' sizes lie on one lattice and the
+models are evaluated once at the sizes both need. [-]"""
 
 GRID_SPAN = 7.0
 """Standard deviations of the integration grid below the count median and above the mass
@@ -257,8 +263,18 @@ class LognormalMode:
         return self.total("mass")
 
     def step(self) -> float:
-        """Default ln-d step of the integration grid: min(ln GSD / 3, :data:`GRID_STEP_MAX`). [-]"""
-        return min(self.ln_gsd / 3.0, GRID_STEP_MAX)
+        """Default ln-d step of the integration grid [-].
+
+        The largest :data:`GRID_LATTICE_STEP` times a power of 2 (0.192, 0.096, 0.048, ...)
+        not above min(ln GSD / 3, :data:`GRID_STEP_MAX`): never coarser than that rule, whose
+        accuracy ``tests/core/test_dose.py`` checks, and on the lattice of the deposition
+        curves' sizes.
+        """
+        limit = min(self.ln_gsd / 3.0, GRID_STEP_MAX)
+        h = 2.0 * GRID_LATTICE_STEP
+        while h > limit:
+            h *= 0.5
+        return h
 
     def _lattice(self, step: float | None) -> tuple[float, range]:
         """The grid's step h [-] and the integers k of its nodes ln d = k h (see :meth:`grid`)."""

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import math
 import operator
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 
 from .deposition import DEPOSITION_MODELS, Subject, deposition_curves, deposition_model
@@ -111,6 +112,7 @@ def deposited_dose(
     benchmark_mass: float | None = None,
     step: float | None = None,
     thermodynamic: str = "icrp66",
+    curves: Callable[[Sequence[float], float, float], dict[str, list[float]]] | None = None,
 ) -> DoseResult:
     """Deposited number, surface area and mass per region over an exposure.
 
@@ -135,6 +137,12 @@ def deposited_dose(
         :meth:`~driftdose.distribution.LognormalMode.grid`).
     thermodynamic : str
         How the shape factor enters diffusion: ``icrp66`` (default) or ``mobility``.
+    curves : callable, optional
+        ``curves(sizes, density, shape_factor)``: the model's deposition fractions by region
+        at a mode's grid (sizes [m], density [kg/m^3], shape factor [-]), if the caller
+        has them already (the deposition composer evaluates the model once at the sizes of
+        its curves and of the grids together); default :func:`deposition_curves` of
+        ``model``, ``subject`` and ``thermodynamic``.
 
     Returns
     -------
@@ -159,15 +167,18 @@ def deposited_dose(
     sums = {r: dict.fromkeys(WEIGHTS, 0.0) for r in regions}
     for mode in parts(distribution):
         sizes = mode.grid(step)
-        curves = deposition_curves(
-            model, sizes, mode.density, mode.shape_factor, subject, thermodynamic
-        )
+        if curves is None:
+            at = deposition_curves(
+                model, sizes, mode.density, mode.shape_factor, subject, thermodynamic
+            )
+        else:
+            at = curves(sizes, mode.density, mode.shape_factor)
         for w in WEIGHTS:
             qs = [q for _, q in mode.quadrature(w, step)]
             if len(qs) != len(sizes):
                 raise ValueError("quadrature and grid differ in length")
             for r in regions:
-                sums[r][w] += math.fsum(map(operator.mul, qs, curves[r]))
+                sums[r][w] += math.fsum(map(operator.mul, qs, at[r]))
     ambient = {w: distribution.total(w) for w in WEIGHTS}
     fractions = {
         r: {w: (sums[r][w] / ambient[w] if ambient[w] > 0 else 0.0) for w in WEIGHTS}

@@ -17,7 +17,13 @@ from driftdose.deposition import (
     reference_worker,
 )
 from driftdose.deposition.models import deposition_curves
-from driftdose.distribution import BinnedSpectrum, LognormalMode, Multimodal, integrate
+from driftdose.distribution import (
+    GRID_LATTICE_STEP,
+    BinnedSpectrum,
+    LognormalMode,
+    Multimodal,
+    integrate,
+)
 from driftdose.dose import deposited_dose
 
 
@@ -181,7 +187,7 @@ def test_grid_nodes_lie_on_one_lattice_whatever_the_median():
     a = LognormalMode(1.0e-6, 2.5, 1e9)
     b = LognormalMode(1.3e-6, 2.5, 1e9)
     h = a.step()
-    assert h == pytest.approx(0.2)
+    assert h == 2.0 * GRID_LATTICE_STEP  # ln GSD / 3 = 0.31, limited to 0.2: 0.192
     for d in a.grid():
         k = math.log(d) / h
         assert k == pytest.approx(round(k), abs=1e-9)
@@ -197,3 +203,24 @@ def test_grid_covers_seven_standard_deviations():
     assert math.log(grid[0]) <= math.log(50e-9) - 7.0 * s
     assert math.log(grid[-1]) >= math.log(mode.median("mass")) + 7.0 * s
     assert math.log(grid[0]) > math.log(50e-9) - 7.0 * s - mode.step()
+
+
+@pytest.mark.parametrize("gsd", [1.05, 1.2, 1.33, 1.5, 1.8, 2.5, 5.0])
+def test_default_step_is_a_power_of_two_of_the_lattice_and_never_coarser(gsd):
+    # the step is the curves' lattice step times a power of 2, never above the rule
+    # min(ln GSD / 3, 0.2) whose accuracy the fine-grid test above checks
+    mode = LognormalMode(200e-9, gsd, 1e9)
+    h = mode.step()
+    assert h <= min(math.log(gsd) / 3.0, 0.2)
+    assert h > 0.5 * min(math.log(gsd) / 3.0, 0.2)
+    ratio = h / GRID_LATTICE_STEP
+    assert math.log2(ratio) == round(math.log2(ratio))
+    # nodes on the lattice are the same floats as the deposition curves' sizes
+    from driftdose.compose.deposition import _CURVE_SIZES
+
+    shared = set(mode.grid()) & set(_CURVE_SIZES)
+    inside = [d for d in mode.grid() if 1.000001e-9 < d < 0.999999e-4]  # ends: exact 1e-9, 1e-4
+    if ratio >= 1.0:
+        assert shared == set(inside)
+    else:
+        assert len(shared) >= len(inside) * ratio - 2

@@ -10,7 +10,7 @@ frozen :class:`Deposition` out; the api only translates.
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -19,8 +19,8 @@ from ..conventions import convention_shares
 from ..deposition import BreathingPattern, Subject, activity, reference_worker
 from ..deposition.icrp66 import warnings_for as icrp66_warnings
 from ..deposition.simplified import validity_warnings as simplified_warnings
-from ..distribution import Distribution, LognormalMode
-from ..dose import DoseResult, deposited_dose, deposition_curves
+from ..distribution import GRID_LATTICE_STEP, Distribution, LognormalMode, parts
+from ..dose import DoseResult, deposited_dose, deposition_curves, model_regions
 from ..ldsa import lung_deposited_surface_area
 from .aerosol import Aerosol, ModeSpec, is_converted
 from .at_sizes import SizeAnswers, deposition_at_sizes
@@ -49,7 +49,13 @@ OVERLAY_POINTS = 241
 shape; it costs no model evaluation)."""
 CURVE_RANGE = (1e-9, 100e-6)
 """Size range of the deposition curves, the stated range of both models [m]."""
-_CURVE_SIZES = tuple(logspace(*CURVE_RANGE, CURVE_POINTS))
+# ln d = k h with h = GRID_LATTICE_STEP (24 per decade), the lattice of the lognormal modes'
+# integration grids (their nodes are the same floats), the ends exactly the range's
+_CURVE_SIZES = (
+    CURVE_RANGE[0],
+    *(math.exp(k * GRID_LATTICE_STEP) for k in range(-215, -96)),
+    CURVE_RANGE[1],
+)
 _OVERLAY_SIZES = tuple(logspace(*CURVE_RANGE, OVERLAY_POINTS))
 _OVERLAY_LN = tuple(math.log(d) for d in _OVERLAY_SIZES)
 
@@ -239,6 +245,8 @@ def compose_deposition(
         When the dose cannot be computed for these inputs.
     """
     dist, desc = aerosol.distribution, aerosol.description
+    density, chi = desc.model_density, desc.model_shape_factor
+    shared = _shared_curves(model, dist, density, chi, subject, thermodynamic)
     res = deposited_dose(
         dist,
         subject,
@@ -247,11 +255,13 @@ def compose_deposition(
         benchmark_number=benchmark_number,
         benchmark_mass=benchmark_mass,
         thermodynamic=thermodynamic,
+        curves=shared,
     )
     xs = _CURVE_SIZES
-    dep = deposition_curves(
-        model, xs, desc.model_density, desc.model_shape_factor, subject, res.thermodynamic
-    )
+    if shared is not None:
+        dep = shared(xs, density, chi)
+    else:
+        dep = deposition_curves(model, xs, density, chi, subject, res.thermodynamic)
     fractions = {r: _within_0_1(dep[r]) for r in res.regions}
     overlay_xs = _OVERLAY_SIZES
     overlay = {w: _overlay(dist, w) for w in ("number", "mass")}
@@ -274,6 +284,48 @@ def compose_deposition(
             deposition_at_sizes(model, sizes, desc, subject, res.thermodynamic) if sizes else None
         ),
     )
+
+
+def _shared_curves(
+    model: str,
+    dist: Distribution,
+    density: float,
+    shape_factor: float,
+    subject: Subject,
+    thermodynamic: str,
+) -> Callable[[Sequence[float], float, float], dict[str, list[float]]] | None:
+    """The model evaluated once at the curves' sizes and every mode's grid together.
+
+    The grids of lognormal modes lie on the lattice of the curves' sizes
+    (:data:`driftdose.distribution.GRID_LATTICE_STEP`), so most of their nodes are sizes of
+    the curves: the model (``model``, ``subject``, ``thermodynamic``; ``density``
+    [kg/m^3], ``shape_factor`` [-]) runs once over the union of the sizes, and the returned
+    function, ``(sizes [m], density, shape_factor) -> {region: fractions [-]}``, picks a
+    grid's fractions from it. None for a spectrum or modes of another particle (each
+    evaluated on its own).
+    """
+    sizes = set(_CURVE_SIZES)
+    for mode in parts(dist):
+        if not isinstance(mode, LognormalMode):
+            return None
+        if mode.density != density or mode.shape_factor != shape_factor:
+            return None
+        sizes.update(mode.grid())
+    union = sorted(sizes)
+    regions = model_regions(model)
+    curves = deposition_curves(model, union, density, shape_factor, subject, thermodynamic)
+    where = {d: i for i, d in enumerate(union)}
+
+    def at(ds: Sequence[float], rho: float, chi: float) -> dict[str, list[float]]:
+        try:
+            if rho != density or chi != shape_factor:
+                raise KeyError(rho)
+            index = [where[d] for d in ds]
+        except KeyError:  # not among the sizes evaluated: on its own
+            return deposition_curves(model, ds, rho, chi, subject, thermodynamic)
+        return {r: [curves[r][i] for i in index] for r in regions}
+
+    return at
 
 
 def _overlay(dist: Distribution, weight: str) -> tuple[float, ...]:
