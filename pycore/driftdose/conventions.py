@@ -375,7 +375,7 @@ def _mode_shares(
     for weight in WEIGHTS:
         total = mode.total(weight)
         sums = [0.0] * len(CONVENTIONS)
-        _add_weighted(sums, [w for _, w in mode.quadrature(weight, step)], values)
+        _add_weighted(sums, mode.quadrature_weights(weight, step), values)
         out[weight] = tuple(x / total for x in sums)
     return out
 

@@ -314,6 +314,15 @@ class LognormalMode:
         sizes = _lattice_sizes(h, ks.start, ks.stop)
         return [(d, c * g) for d, g in zip(sizes, _lattice_gauss(lm, s, h, ks), strict=True)]
 
+    def quadrature_weights(self, weight: str = "number", step: float | None = None) -> list[float]:
+        """The weights of :meth:`quadrature` alone (the same numbers), in the grid's order. [-]"""
+        total = self.total(weight)
+        lm = math.log(self.median(weight))
+        s = self.ln_gsd
+        h, ks = self._lattice(step)
+        c = total * h / (math.sqrt(2.0 * math.pi) * s)
+        return [c * g for g in _lattice_gauss(lm, s, h, ks)]
+
     def density_per_ln_d(self, d: float, weight: str = "number") -> float:
         """dW/dln d of the chosen weight at diameter ``d``. [unit of :meth:`total`]"""
         return self.total(weight) * lognormal_pdf_ln(d, self.median(weight), self.gsd)

@@ -26,7 +26,7 @@ from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 
 from .deposition import DEPOSITION_MODELS, Subject, deposition_curves, deposition_model
-from .distribution import WEIGHTS, Distribution, parts
+from .distribution import WEIGHTS, Distribution, LognormalMode, parts
 
 __all__ = [
     "DURATION_MAX",
@@ -174,7 +174,10 @@ def deposited_dose(
         else:
             at = curves(sizes, mode.density, mode.shape_factor)
         for w in WEIGHTS:
-            qs = [q for _, q in mode.quadrature(w, step)]
+            if isinstance(mode, LognormalMode):
+                qs = mode.quadrature_weights(w, step)
+            else:
+                qs = [q for _, q in mode.quadrature(w, step)]
             if len(qs) != len(sizes):
                 raise ValueError("quadrature and grid differ in length")
             for r in regions:

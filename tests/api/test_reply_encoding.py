@@ -200,5 +200,6 @@ def test_overlays_kept_by_shape_equal_a_fresh_computation():
             assert list(out.overlay[w]) == pytest.approx([y / max(own) for y in own], rel=1e-13)
         kept = dict(out.overlay)
         compose_deposition._mode_overlay.cache_clear()
+        compose_deposition._overlay_factors.cache_clear()
         fresh = compose_deposition.compose_deposition(aerosol, REFERENCE_WORKER, 8 * 3600.0)
         assert fresh.overlay == kept

@@ -189,6 +189,8 @@ def test_kept_lattice_factors_are_never_stale():
             distribution._lattice_gauss.cache_clear()
             fresh = [mode.grid(step)] + [mode.quadrature(w, step) for w in WEIGHTS]
             assert kept == fresh
+            for w in WEIGHTS:  # the weights alone are the quadrature's, bit for bit
+                assert mode.quadrature_weights(w, step) == [q for _, q in mode.quadrature(w, step)]
             grid = mode.grid(step)
             grid.append(1.0)  # a caller's change of its list changes nothing kept
             assert mode.grid(step) == fresh[0]

@@ -361,14 +361,25 @@ OVERLAY_KEPT = 16
 def _mode_overlay(modes: tuple[tuple[float, float, float], ...]) -> tuple[float, ...]:
     """Sum of c exp(-(ln d - ln median)^2 / (2 s^2)) over ``modes`` = ((c, ln median, s)...),
     at the overlay's sizes, scaled to peak 1 (c [-] and s [-]; median [m])."""
-    exp = math.exp
     ys = [0.0] * len(_OVERLAY_LN)
     for c, lm, s in modes:
-        for i, x in enumerate(_OVERLAY_LN):
-            z = (x - lm) / s
-            ys[i] += c * exp(-0.5 * z * z)
+        for i, g in enumerate(_overlay_factors(lm, s)):
+            ys[i] += c * g
     top = max(ys)
     return tuple(y / top if top > 0 else 0.0 for y in ys)
+
+
+@lru_cache(maxsize=OVERLAY_KEPT)
+def _overlay_factors(lm: float, s: float) -> tuple[float, ...]:
+    """exp(-z^2 / 2), z = (ln d - ``lm``) / ``s``, at the overlay's sizes d [m] (``lm`` the
+    log of a median in metres, ``s`` = ln GSD): one mode's shape, kept per median and GSD
+    (a mode whose amounts moved relative to another's finds its own kept)."""
+    exp = math.exp
+    out = []
+    for x in _OVERLAY_LN:
+        z = (x - lm) / s
+        out.append(exp(-0.5 * z * z))
+    return tuple(out)
 
 
 def _mode_numbers(aerosol: Aerosol) -> tuple[ModeNumbers, ...]:

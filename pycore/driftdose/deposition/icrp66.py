@@ -495,13 +495,17 @@ def icrp66_curves(
             bbb += enter * f_bb
             bbs += enter * f_b
             ai += enter * f_ai
-        vals = (inh * et1, inh * et2, inh * bbb, inh * bbs, inh * ai)
-        et1s.append(vals[0])
-        et2s.append(vals[1])
-        bbbs.append(vals[2])
-        bbss.append(vals[3])
-        ais.append(vals[4])
-        total.append(fsum(vals))
+        et1 *= inh
+        et2 *= inh
+        bbb *= inh
+        bbs *= inh
+        ai *= inh
+        et1s.append(et1)
+        et2s.append(et2)
+        bbbs.append(bbb)
+        bbss.append(bbs)
+        ais.append(ai)
+        total.append(fsum((et1, et2, bbb, bbs, ai)))
         inhalable.append(inh)
     regions = (et1s, et2s, bbbs, bbss, ais)
     return {
