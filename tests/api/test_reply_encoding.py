@@ -203,3 +203,21 @@ def test_overlays_kept_by_shape_equal_a_fresh_computation():
         compose_deposition._overlay_factors.cache_clear()
         fresh = compose_deposition.compose_deposition(aerosol, REFERENCE_WORKER, 8 * 3600.0)
         assert fresh.overlay == kept
+
+
+@pytest.mark.parametrize(
+    ("kind", "field", "values", "unit"),
+    [
+        ("motion", "particle_diameter", ["100", "150", "220", "100"], "nm"),
+        ("motion", "particle_density", ["1", "2.5"], "g/cm3"),
+        ("sampling", "particle_density", ["1", "2.5", "1"], "g/cm3"),
+    ],
+)
+def test_motion_and_sampling_replies_are_the_bytes_json_dumps_writes(kind, field, values, unit):
+    for value in values:
+        request = {"kind": kind, "inputs": {field: {"value": value, "unit": unit}}}
+        text = api.handle_json(json.dumps(request))
+        assert text == _plain(request)
+        reply = json.loads(text)
+        assert reply["ok"] is True, reply
+        assert len(reply["curves"]["axes"]["diameter"]) > 100

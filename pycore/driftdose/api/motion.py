@@ -16,6 +16,7 @@ from typing import Any
 from ..compose.motion import CURVE_POINTS, CURVE_RANGE, MotionResult, compose_motion
 from ..sources import cite
 from .declare import bounded, positive
+from .encoding import kept_array
 from .fields import Field, FieldError
 from .particle_air_fields import PARTICLE_DENSITY, PRESSURE, SHAPE_FACTOR, TEMPERATURE
 from .reply import quantity, shared_axis, text_result
@@ -173,7 +174,9 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
 def _curves(r: MotionResult, v: dict[str, Any], aerodynamic: bool) -> dict[str, Any]:
     """The displacement curves, sizes in um (unit code ``um``), distances in m."""
     axes: dict[str, Any] = {}
-    x_all = [x * 1e6 for x in r.curve_diameters]
+    # the curves, kept per particle and air by the core, are written as JSON once: an edit of
+    # the diameter, the distance or the speed leaves them as they were (api.encoding)
+    x_all = kept_array(r.curve_diameters, 1e6)
     x_um = shared_axis(axes, "diameter", x_all)
     shown = r.aerodynamic_diameter if aerodynamic else r.diameter
     curves: dict[str, Any] = {
@@ -185,9 +188,9 @@ def _curves(r: MotionResult, v: dict[str, Any], aerodynamic: bool) -> dict[str, 
         "brownian": {
             "label": "Brownian rms displacement √(2Dt), one direction",
             "x": x_um,
-            "y": r.brownian,
+            "y": kept_array(r.brownian),
         },
-        "settling": {"label": "Settling distance vₜₛ·t", "x": x_um, "y": r.settling},
+        "settling": {"label": "Settling distance vₜₛ·t", "x": x_um, "y": kept_array(r.settling)},
         "reference": {
             "label": "Reference distance",
             "x": [x_all[0], x_all[-1]],

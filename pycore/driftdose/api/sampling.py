@@ -53,6 +53,7 @@ from ..compose.targets import (
 from ..diameters import ParticleDescription
 from ..sources import cite
 from ..transport import STAGE_KINDS
+from .encoding import kept_array
 from .fields import Field, FieldError
 from .labels import REGION_LABELS
 from .particle_air_fields import (
@@ -316,7 +317,8 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
         sizes=v.get("sizes") or (),
     )
     curves: dict[str, Any] = {}
-    x_um = shared_axis(curves, "diameter", [x * 1e6 for x in result.diameters])
+    # axes written as JSON once (api.encoding): an edit of a stage leaves them as they were
+    x_um = shared_axis(curves, "diameter", kept_array(result.diameters, 1e6))
     curves |= {
         "x_label": f"Particle diameter ({result.coordinate})",
         "x_unit": "um",
@@ -328,7 +330,7 @@ def run(v: dict[str, Any]) -> dict[str, Any]:
     curves["x_aerodynamic"] = (
         x_um
         if result.aerodynamic_diameters == result.diameters
-        else shared_axis(curves, "aerodynamic", [x * 1e6 for x in result.aerodynamic_diameters])
+        else shared_axis(curves, "aerodynamic", kept_array(result.aerodynamic_diameters, 1e6))
     )
     stage_rows = []
     for s in result.stages:

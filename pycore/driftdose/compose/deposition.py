@@ -13,6 +13,7 @@ import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
+from operator import itemgetter
 
 from .._numerics import logspace
 from ..conventions import convention_shares
@@ -320,10 +321,12 @@ def _shared_curves(
         try:
             if rho != density or chi != shape_factor:
                 raise KeyError(rho)
-            index = [where[d] for d in ds]
+            pick = itemgetter(*map(where.__getitem__, ds)) if len(ds) > 1 else None
         except KeyError:  # not among the sizes evaluated: on its own
             return deposition_curves(model, ds, rho, chi, subject, thermodynamic)
-        return {r: [curves[r][i] for i in index] for r in regions}
+        if pick is None:
+            return deposition_curves(model, ds, rho, chi, subject, thermodynamic)
+        return {r: list(pick(curves[r])) for r in regions}
 
     return at
 
@@ -361,10 +364,13 @@ OVERLAY_KEPT = 16
 def _mode_overlay(modes: tuple[tuple[float, float, float], ...]) -> tuple[float, ...]:
     """Sum of c exp(-(ln d - ln median)^2 / (2 s^2)) over ``modes`` = ((c, ln median, s)...),
     at the overlay's sizes, scaled to peak 1 (c [-] and s [-]; median [m])."""
-    ys = [0.0] * len(_OVERLAY_LN)
-    for c, lm, s in modes:
-        for i, g in enumerate(_overlay_factors(lm, s)):
-            ys[i] += c * g
+    ys: list[float] = []
+    for c, lm, s in modes:  # the modes added in order, size by size
+        factors = _overlay_factors(lm, s)
+        if ys:
+            ys = [y + c * g for y, g in zip(ys, factors, strict=True)]
+        else:
+            ys = [c * g for g in factors]
     top = max(ys)
     return tuple(y / top if top > 0 else 0.0 for y in ys)
 
