@@ -6,6 +6,7 @@ import { el } from "./forms.js";
 import { download, stamp } from "./files.js";
 import { imageText, pngWithText, readout as nameValue, wrapText } from "./chartparts.js";
 import { DrawQueue } from "./drawqueue.js";
+import { coalesced } from "./later.js";
 
 const TINY_SPAN = 1e-250;
 const SERIES_VARS = ["--series-1", "--series-2", "--series-3", "--series-4", "--series-5", "--series-6", "--series-7"];
@@ -25,15 +26,19 @@ export function seriesColour(index) {
   return cssVar(SERIES_VARS[index % SERIES_VARS.length]) || "#444";
 }
 
-// Charts far from the view are redrawn when the page is idle, when they come within NEAR_VIEW of
-// the view, or when their pixels are asked for (drawqueue.js): an edit's time goes to what is
-// seen. A chart whose place is not known yet is drawn at once.
+// Charts far from the view are redrawn once edits pause for QUIET_MS (in the page's next idle
+// time), when they come within NEAR_VIEW of the view, or when their pixels are asked for
+// (drawqueue.js): an edit's time goes to what is seen. A chart whose place is not known yet is
+// drawn at once.
 const NEAR_VIEW = "300px 0px";
+const QUIET_MS = 250;
 const queue = new DrawQueue({
   draw: (chart) => {
     if (chart.canvas) chart.update("none"); // a destroyed chart has no canvas
   },
-  idle: typeof requestIdleCallback === "function" ? (callback) => requestIdleCallback(callback, { timeout: 1000 }) : null,
+  later: typeof requestIdleCallback === "function"
+    ? coalesced(() => requestIdleCallback(() => queue.flushAll(), { timeout: 1000 }), { delay: QUIET_MS, restart: true })
+    : null,
 });
 let watcher = null;
 

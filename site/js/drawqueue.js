@@ -1,20 +1,20 @@
 // When a chart out of view is redrawn. A chart near the view is redrawn at once; one that is far
-// from it (below the first screen, in a hidden panel) is redrawn when the page is next idle, when
-// it comes near the view, or when its pixels are asked for (image export, the printed record),
-// whichever comes first; several updates while it waits cost one redraw. No DOM here: the caller
-// supplies the idle scheduler and tells where each chart is (tested under Node).
+// from it (below the first screen, in a hidden panel) is redrawn once the edits pause (the
+// caller's `later`), when it comes near the view, or when its pixels are asked for (image
+// export, the printed record), whichever comes first: a burst of edits costs it one redraw, and
+// no redraw competes with the next edit's work. No DOM here: the caller supplies the scheduler
+// and tells where each chart is (tested under Node).
 
 export class DrawQueue {
   /**
-   * @param {object} opts {draw(key): redraw now, idle(callback): schedule a callback for when
-   *   the page is idle and return nothing (absent: every redraw is at once)}
+   * @param {object} opts {draw(key): redraw now, later: {schedule()} that calls flushAll() once
+   *   the requests pause, each schedule() putting it off again (absent: every redraw is at once)}
    */
-  constructor({ draw, idle = null }) {
+  constructor({ draw, later = null }) {
     this.draw = draw;
-    this.idle = idle;
+    this.later = later;
     this.near = new Map(); // key → whether it is near the view (unknown: treated as near)
     this.waiting = new Set();
-    this.scheduled = false;
   }
 
   /** Where `key` is: `near` true when it is in or near the view. Coming near draws a waiting one. */
@@ -23,21 +23,15 @@ export class DrawQueue {
     if (near) this.flush(key);
   }
 
-  /** `key` changed: redraw it now when near the view (or unknown), else when idle. */
+  /** `key` changed: redraw it now when near the view (or unknown), else once changes pause. */
   request(key) {
-    if (!this.idle || this.near.get(key) !== false) {
+    if (!this.later || this.near.get(key) !== false) {
       this.waiting.delete(key);
       this.draw(key);
       return;
     }
     this.waiting.add(key);
-    if (!this.scheduled) {
-      this.scheduled = true;
-      this.idle(() => {
-        this.scheduled = false;
-        this.flushAll();
-      });
-    }
+    this.later.schedule();
   }
 
   /** Whether `key` has a redraw waiting. */
