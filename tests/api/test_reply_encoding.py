@@ -16,6 +16,7 @@ from driftdose import api
 from driftdose.api import encoding
 from driftdose.api.encoding import KeptArray, encode_reply, kept_array
 from driftdose.compose import deposition as compose_deposition
+from driftdose.compose import overlay
 
 DEFAULT = {
     "modes": [
@@ -199,8 +200,8 @@ def test_overlays_kept_by_shape_equal_a_fresh_computation():
             own = [dist.density_per_ln_d(x, w) for x in out.overlay_sizes]
             assert list(out.overlay[w]) == pytest.approx([y / max(own) for y in own], rel=1e-13)
         kept = dict(out.overlay)
-        compose_deposition._mode_overlay.cache_clear()
-        compose_deposition._overlay_factors.cache_clear()
+        overlay._mode_overlay.cache_clear()
+        overlay._overlay_factors.cache_clear()
         fresh = compose_deposition.compose_deposition(aerosol, REFERENCE_WORKER, 8 * 3600.0)
         assert fresh.overlay == kept
 

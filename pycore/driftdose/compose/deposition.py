@@ -12,10 +12,8 @@ from __future__ import annotations
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 from operator import itemgetter
 
-from .._numerics import logspace
 from ..conventions import convention_shares
 from ..deposition import BreathingPattern, Subject, activity, reference_worker
 from ..deposition.icrp66 import warnings_for as icrp66_warnings
@@ -25,6 +23,7 @@ from ..dose import DoseResult, deposited_dose, deposition_curves, model_regions
 from ..ldsa import lung_deposited_surface_area
 from .aerosol import Aerosol, ModeSpec, is_converted
 from .at_sizes import SizeAnswers, deposition_at_sizes
+from .overlay import OVERLAY_POINTS, OVERLAY_SIZES, distribution_overlay
 
 __all__ = [
     "CURVE_POINTS",
@@ -45,9 +44,6 @@ model by at most 9.2e-4 in a deposition fraction (against 2001 sizes, ICRP 66 mo
 0.3 to 11 g/cm³; 2.3e-4 with 241 sizes): under a third of a pixel on a 0–1 axis 300 pixels
 high, so the eye cannot tell them apart, and the model runs at half as many sizes for the
 chart (``tests/core/test_compose_deposition.py``)."""
-OVERLAY_POINTS = 241
-"""Sizes of the distribution drawn over the curves (48 per decade: a narrow mode keeps its
-shape; it costs no model evaluation)."""
 CURVE_RANGE = (1e-9, 100e-6)
 """Size range of the deposition curves, the stated range of both models [m]."""
 # ln d = k h with h = GRID_LATTICE_STEP (24 per decade), the lattice of the lognormal modes'
@@ -57,8 +53,6 @@ _CURVE_SIZES = (
     *(math.exp(k * GRID_LATTICE_STEP) for k in range(-215, -96)),
     CURVE_RANGE[1],
 )
-_OVERLAY_SIZES = tuple(logspace(*CURVE_RANGE, OVERLAY_POINTS))
-_OVERLAY_LN = tuple(math.log(d) for d in _OVERLAY_SIZES)
 
 
 def _within_0_1(ys: Sequence[float]) -> tuple[float, ...]:
@@ -264,8 +258,8 @@ def compose_deposition(
     else:
         dep = deposition_curves(model, xs, density, chi, subject, res.thermodynamic)
     fractions = {r: _within_0_1(dep[r]) for r in res.regions}
-    overlay_xs = _OVERLAY_SIZES
-    overlay = {w: _overlay(dist, w) for w in ("number", "mass")}
+    overlay_xs = OVERLAY_SIZES
+    overlay = {w: distribution_overlay(dist, w) for w in ("number", "mass")}
     warnings = validity_warnings(
         aerosol, subject, model, thermodynamic, res.benchmark, custom_breathing
     )
@@ -329,63 +323,6 @@ def _shared_curves(
         return {r: list(pick(curves[r])) for r in regions}
 
     return at
-
-
-def _overlay(dist: Distribution, weight: str) -> tuple[float, ...]:
-    """dW/dln d of ``dist`` by ``weight`` at :data:`OVERLAY_POINTS` sizes, peak 1 [-].
-
-    Lognormal modes (Hinds 1999, eq. 4.33 per unit ln d) are summed with their amounts
-    relative to the largest: the shape of a single mode then depends on its median and GSD
-    only, not on its amount or density, and is computed once for them (the last
-    :data:`OVERLAY_KEPT` shapes are kept). A spectrum is computed each time.
-    """
-    modes = getattr(dist, "modes", (dist,) if isinstance(dist, LognormalMode) else None)
-    if modes is None:
-        ys = dist.density_curve(_OVERLAY_SIZES, weight, _OVERLAY_LN)
-        top = max(ys) if ys else 0.0
-        return tuple(y / top if top > 0 else 0.0 for y in ys)
-    amounts = [m.total(weight) / m.ln_gsd for m in modes]
-    largest = max(amounts)
-    if not largest > 0.0:
-        return (0.0,) * len(_OVERLAY_LN)
-    return _mode_overlay(
-        tuple(
-            (a / largest, math.log(m.median(weight)), m.ln_gsd)
-            for a, m in zip(amounts, modes, strict=True)
-        )
-    )
-
-
-OVERLAY_KEPT = 16
-"""Overlay shapes :func:`_overlay` keeps."""
-
-
-@lru_cache(maxsize=OVERLAY_KEPT)
-def _mode_overlay(modes: tuple[tuple[float, float, float], ...]) -> tuple[float, ...]:
-    """Sum of c exp(-(ln d - ln median)^2 / (2 s^2)) over ``modes`` = ((c, ln median, s)...),
-    at the overlay's sizes, scaled to peak 1 (c [-] and s [-]; median [m])."""
-    ys: list[float] = []
-    for c, lm, s in modes:  # the modes added in order, size by size
-        factors = _overlay_factors(lm, s)
-        if ys:
-            ys = [y + c * g for y, g in zip(ys, factors, strict=True)]
-        else:
-            ys = [c * g for g in factors]
-    top = max(ys)
-    return tuple(y / top if top > 0 else 0.0 for y in ys)
-
-
-@lru_cache(maxsize=OVERLAY_KEPT)
-def _overlay_factors(lm: float, s: float) -> tuple[float, ...]:
-    """exp(-z^2 / 2), z = (ln d - ``lm``) / ``s``, at the overlay's sizes d [m] (``lm`` the
-    log of a median in metres, ``s`` = ln GSD): one mode's shape, kept per median and GSD
-    (a mode whose amounts moved relative to another's finds its own kept)."""
-    exp = math.exp
-    out = []
-    for x in _OVERLAY_LN:
-        z = (x - lm) / s
-        out.append(exp(-0.5 * z * z))
-    return tuple(out)
 
 
 def _mode_numbers(aerosol: Aerosol) -> tuple[ModeNumbers, ...]:
