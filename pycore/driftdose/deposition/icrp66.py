@@ -392,6 +392,10 @@ def icrp66_curves(
             c.k_n1_ae,
             c.k_n2_ae,
             c.k_m_ae,
+            # the path weights as the loop multiplies them: (w fn) and (w (1 - fn))
+            v / vtot * c.fn,
+            v / vtot * (1.0 - c.fn),
+            1.0 - c.fn,
         )
         for c, v in periods
     ]
@@ -429,7 +433,7 @@ def icrp66_curves(
         p_n2 = d2**1.17 if nose else 0.0
         p_m = d2**1.4 if mouth else 0.0
         et1 = et2 = bbb = bbs = ai = 0.0
-        for (w, fn, pb, pbs, pa, k_bb, k_b, e_b, k_ai, k_n1, k_n2, k_m), (
+        for (w, fn, pb, pbs, pa, k_bb, k_b, e_b, k_ai, k_n1, k_n2, k_m, w_n, w_m, fm), (
             t_bb2,
             t_b2,
             t_ai2,
@@ -480,8 +484,8 @@ def icrp66_curves(
                     e2 = 1.0
                 through = (1.0 - e1) * (1.0 - e2)
                 out2 = through * back * e2
-                et1 += w * fn * (e1 + (through * back - out2) * e1)
-                et2 += w * fn * ((1.0 - e1) * e2 + out2)
+                et1 += w_n * (e1 + (through * back - out2) * e1)
+                et2 += w_n * ((1.0 - e1) * e2 + out2)
                 enter += fn * through
             if fn < 1.0:
                 ae = 1.0 - 1.0 / (1.0 + k_m * p_m)
@@ -489,8 +493,8 @@ def icrp66_curves(
                 if e2 > 1.0:
                     e2 = 1.0
                 through = 1.0 - e2
-                et2 += w * (1.0 - fn) * (e2 + through * back * e2)
-                enter += (1.0 - fn) * through
+                et2 += w_m * (e2 + through * back * e2)
+                enter += fm * through
             enter *= w
             bbb += enter * f_bb
             bbs += enter * f_b
