@@ -102,16 +102,19 @@ function scaleOptions(axis) {
  * Create a chart on `canvas`. `axes` = {x: {title, type, tick, readout}, y: {...}}; datasets are
  * given later through setDatasets(), axes changed later through setAxes(): a chart is created
  * once per canvas and updated in place; `plugins` are drawn with this chart only. Unless `eager`,
- * a chart far from the view is redrawn later (see NEAR_VIEW). Returns the Chart.js instance.
+ * a chart far from the view is redrawn later (see NEAR_VIEW). With `steadyLayout` (a function
+ * returning, as text, whatever else its tick labels depend on), a chart whose axes all have fixed
+ * bounds keeps its layout while nothing that shapes it changes (layoutKey). Returns the Chart.js
+ * instance.
  */
-export function createChart(canvas, axes, { legendLabel, readout, type = "line", plugins = [], eager = false } = {}) {
+export function createChart(canvas, axes, { legendLabel, readout, type = "line", plugins = [], eager = false, steadyLayout = null } = {}) {
   const Chart = window.Chart;
   Chart.defaults.font.family = cssVar("--font-body") || "system-ui, sans-serif";
   const scales = {};
   for (const [key, axis] of Object.entries(axes)) scales[key] = scaleOptions(axis);
   const chart = new Chart(canvas, {
     type,
-    plugins: [backgroundPlugin, ...plugins],
+    plugins: [backgroundPlugin, steadyLayoutPlugin, ...plugins],
     data: { datasets: [] },
     options: {
       animation: false,
@@ -136,6 +139,7 @@ export function createChart(canvas, axes, { legendLabel, readout, type = "line",
     },
   });
   chart.$driftdoseAxes = { ...axes };
+  chart.$driftdoseSteady = steadyLayout;
   if (!eager) watch(chart);
   return chart;
 }
@@ -242,6 +246,38 @@ export function chartImage(chart, { title, scenario } = {}) {
 export function exportChart(chart, filename, describe = {}) {
   download(filename, new Blob([chartImage(chart, describe)], { type: "image/png" }));
 }
+
+/**
+ * What shapes a chart's layout when every axis has fixed bounds: its size, its axes (type,
+ * bounds, place, title), its legend entries (label, shown, line width) and what its
+ * `steadyLayout` function names. Null for a chart without one, or when an axis has bounds from
+ * the data: its ticks, and so the layout, may change with any update.
+ */
+export function layoutKey(chart) {
+  if (typeof chart.$driftdoseSteady !== "function") return null;
+  const parts = [String(chart.$driftdoseSteady()), chart.width, chart.height, chart.options.plugins?.legend?.display];
+  for (const [id, axis] of Object.entries(chart.options.scales || {})) {
+    if (!Number.isFinite(axis?.min) || !Number.isFinite(axis?.max)) return null;
+    parts.push(id, axis.type, axis.min, axis.max, axis.position, axis.display, axis.title?.display, axis.title?.text);
+  }
+  chart.data.datasets.forEach((set, i) => parts.push(set.label, set.borderWidth, chart.isDatasetVisible(i)));
+  return JSON.stringify(parts);
+}
+
+/**
+ * Chart.js plugin: keep the last layout while its key (layoutKey) is the same. Chart.js fits
+ * every axis and the legend again on every update (a third of a fixed-axis chart's update);
+ * returning false from beforeLayout keeps the layout it has (Chart.js plugin interface).
+ */
+export const steadyLayoutPlugin = {
+  id: "driftdoseSteadyLayout",
+  beforeLayout(chart) {
+    const key = layoutKey(chart);
+    if (key !== null && key === chart.$driftdoseLayout) return false;
+    chart.$driftdoseLayout = key;
+    return undefined;
+  },
+};
 
 /** Chart.js plugin: paint the canvas background so exported images are not transparent. */
 export const backgroundPlugin = {

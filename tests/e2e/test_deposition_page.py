@@ -390,3 +390,47 @@ def test_chart_out_of_view_is_drawn_when_idle_or_before_printing(page, base_url)
     page.wait_for_function(_DOSE_BARS_SHOW_DATA, timeout=10_000)
     page.locator("#deposition-dose-canvas").scroll_into_view_if_needed()
     screenshot(page, "deposition-dose-after-edits-1280")
+
+
+def test_fraction_chart_keeps_its_layout_and_draws_what_a_new_layout_draws(page, base_url):
+    """The fraction chart's axes have fixed bounds: an edit that changes only the curves keeps
+    the chart's layout (no axis or legend fitted again), and the pixels are those a fresh
+    layout gives; a change of the legend's entries lays it out again."""
+    _open(page, base_url)
+    _settled(page)
+    page.locator("#deposition-fraction-canvas").scroll_into_view_if_needed()
+    page.evaluate(
+        """() => { const update = Chart.layouts.update; window.fractionLayouts = 0;
+        Chart.layouts.update = function (chart, ...rest) {
+            if (chart.canvas.id === 'deposition-fraction-canvas') window.fractionLayouts++;
+            return update.call(this, chart, ...rest);
+        }; }"""
+    )
+    density = page.locator(PANEL).get_by_label("Particle density", exact=True)
+    for value in ("2.5", "4"):
+        before = page.evaluate(
+            "() => Number(document.getElementById('panel-deposition').dataset.updates)"
+        )
+        density.fill(value)
+        page.wait_for_function(
+            f"() => Number(document.getElementById('panel-deposition').dataset.updates) > {before}"
+        )
+        got = page.evaluate(
+            """() => {
+            const c = Chart.getChart(document.querySelector('#deposition-fraction-canvas'));
+            const kept = {layouts: window.fractionLayouts, image: c.canvas.toDataURL()};
+            c.$driftdoseLayout = null;  // forget the key: the next update lays out anew
+            c.update('none');
+            return {kept, layouts: window.fractionLayouts, image: c.canvas.toDataURL()};
+        }"""
+        )
+        assert got["kept"]["layouts"] == 0, value
+        assert got["layouts"] == 1, value
+        assert got["kept"]["image"] == got["image"], value
+        page.evaluate("() => { window.fractionLayouts = 0; }")
+    # a legend entry hidden (as a click on it does): laid out again
+    page.evaluate(
+        """() => { const c = Chart.getChart(document.querySelector('#deposition-fraction-canvas'));
+        c.setDatasetVisibility(0, false); c.update('none'); }"""
+    )
+    assert page.evaluate("() => window.fractionLayouts") == 1

@@ -148,7 +148,10 @@ export function mount(root, { engine, description }) {
         x: { title: axisTitle(curves.x_label, unitText(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => lengthTick(metres(x)), min: fromSI(1e-9, curves.x_unit), max: fromSI(100e-6, curves.x_unit) },
         y: { title: curves.y_label, type: "linear", min: 0, max: 1 },
         y2: { title: "Your distribution (scaled)", type: "linear", min: 0, max: 1, position: "right", secondary: true },
-      }, { readout: (ctx) => readout(ctx.dataset.label, formatNumber(ctx.parsed.y, 3)) });
+      }, {
+        readout: (ctx) => readout(ctx.dataset.label, formatNumber(ctx.parsed.y, 3)),
+        steadyLayout: () => xUnit, // fixed bounds; the size ticks are written in this unit
+      });
     }
     fractionChart.options.scales.x.title.text = axisTitle(curves.x_label, unitText(curves.x_unit), true);
     const sets = [];

@@ -148,7 +148,10 @@ export function mount(root, { engine, description }) {
         // the size ticks carry their units ("10 nm", "1 µm"): the title names the quantity only
         x: { title: axisTitle(curves.x_label, unitText(curves.x_unit), true), tick: decadeTicks((v) => lengthTick(metres(v))), readout: (x) => lengthTick(metres(x)), min: fromSI(1e-9, curves.x_unit), max: fromSI(100e-6, curves.x_unit) },
         y: { title: "Penetration (fraction passing)", type: "linear", min: 0, max: 1 },
-      }, { readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y * 100, 3)} %`) });
+      }, {
+        readout: (ctx) => readout(ctx.dataset.label, `${formatNumber(ctx.parsed.y * 100, 3)} %`),
+        steadyLayout: () => curves.x_unit, // fixed bounds; the size ticks are written in this unit
+      });
       // the whole chain is drawn under the stages (dataset order), but listed after them
       penetrationChart.options.plugins.legend.labels.sort = (a, b) => a.datasetIndex - b.datasetIndex;
     }
