@@ -51,20 +51,31 @@ function renewNode(old, fresh) {
       if (!fresh.hasAttribute(had[i].name)) old.removeAttribute(had[i].name);
     }
   }
-  renewChildren(old, [...fresh.childNodes]);
+  // a lone text child (a table cell's number): compared as text, no walk of child lists
+  const only = fresh.firstChild;
+  if (only && only === fresh.lastChild && only.nodeType === TEXT) {
+    const mine = old.firstChild;
+    if (mine && mine === old.lastChild && mine.nodeType === TEXT) {
+      if (mine.nodeValue !== only.nodeValue) mine.nodeValue = only.nodeValue;
+      return;
+    }
+  }
+  renewChildren(old, fresh.childNodes);
 }
 
+/** `nodes`: an array or a NodeList of nodes not in the page (a NodeList of `fresh`). */
 function renewChildren(box, nodes) {
   const old = box.childNodes;
-  let same = old.length === nodes.length;
-  for (let i = 0; same && i < nodes.length; i++) {
+  const count = nodes.length;
+  let same = old.length === count;
+  for (let i = 0; same && i < count; i++) {
     same = old[i].nodeType === nodes[i].nodeType && old[i].nodeName === nodes[i].nodeName;
   }
   if (!same) {
-    box.replaceChildren(...nodes);
+    box.replaceChildren(...nodes); // a NodeList is copied by the spread before any node moves
     return;
   }
-  for (let i = 0; i < nodes.length; i++) renewNode(old[i], nodes[i]);
+  for (let i = 0; i < count; i++) renewNode(old[i], nodes[i]);
 }
 
 /**

@@ -16,6 +16,8 @@ class Node {
     this.parent = null;
     this._value = null;
   }
+  get firstChild() { return this.childNodes[0] ?? null; }
+  get lastChild() { return this.childNodes[this.childNodes.length - 1] ?? null; }
   get nodeValue() { return this._value; }
   set nodeValue(v) { writes++; this._value = v; }
   getAttribute(name) { const a = this.attributes.find((x) => x.name === name); return a ? a.value : null; }
@@ -137,4 +139,25 @@ test("an attribute renamed (as many attributes, one written) is removed", () => 
   renew(box, h("td", { class: "value", "data-key": "a" }, "1"));
   renew(box, h("td", { class: "value", "data-size": "0" }, "1"));
   assert.equal(show(box), '<DIV><TD class="value" data-size="0">1</TD></DIV>');
+});
+
+test("a cell holding only text keeps its text node; text and elements swapped are replaced", () => {
+  const box = h("div", {}, h("td", { class: "value" }, "1.5"), h("td", {}, "same"), h("td", {}, "a"), h("td", {}, h("b", {}, "bold")));
+  const [number, same, plain, rich] = box.childNodes;
+  const numberText = number.childNodes[0];
+  writes = 0;
+  renew(box, h("td", { class: "value" }, "2.5"), h("td", {}, "same"), h("td", {}, h("b", {}, "now bold")), h("td", {}, "now plain"));
+  assert.equal(writes, 3); // the changed number, and the two cells whose child changed kind
+  assert.equal(box.childNodes[0], number);
+  assert.equal(number.childNodes[0], numberText);
+  assert.equal(numberText.nodeValue, "2.5");
+  assert.equal(same.childNodes[0].nodeValue, "same");
+  assert.equal(plain.childNodes[0].nodeName, "B");
+  assert.equal(plain.childNodes[0].childNodes[0].nodeValue, "now bold");
+  assert.equal(rich.childNodes.length, 1);
+  assert.equal(rich.childNodes[0].nodeType, 3);
+  assert.equal(rich.childNodes[0].nodeValue, "now plain");
+  // a cell that gains a second text node is renewed child by child, as before
+  renew(number, text("3.5"), text(" µm"));
+  assert.deepEqual(number.childNodes.map((n) => n.nodeValue), ["3.5", " µm"]);
 });
