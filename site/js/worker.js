@@ -86,12 +86,16 @@ async function fromSnapshot(info) {
     return memory;
   });
   complete.catch(() => {}); // handled by the race below; not an unhandled rejection
+  // the engine awaits the memory only once its own script has loaded: a refusal arriving
+  // before then (HTTP 404) must not count as unhandled meanwhile
+  const memory = opened.then((s) => s.memory);
+  memory.catch(() => {});
   const never = new Promise(() => {});
   const pyodide = await Promise.race([
     loadPyodide({
       indexURL,
       packages: [],
-      _loadSnapshot: opened.then((s) => s.memory),
+      _loadSnapshot: memory,
       fsInit: async () => {
         marks.engineStarted = stamp();
         await complete.catch(() => never);
