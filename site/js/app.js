@@ -67,6 +67,9 @@ engine.onStatus((status) => {
     bar.value = 100;
     bar.hidden = true;
     document.getElementById("pyodide-version").textContent = status.pyodide;
+  } else if (status.type === "warm") {
+    // the engine's warm-up ran (worker.js); nothing to show, a mark for the speed figures
+    root.dataset.engineWarm = status.ok ? `${status.steps} requests, ${Math.round(status.ms)} ms` : "stopped";
   } else if (status.type === "failed") {
     root.dataset.engine = "failed";
     text.textContent = `The calculation engine could not start: ${status.message}`;

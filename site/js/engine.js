@@ -116,6 +116,8 @@ export class Engine {
       this._resolveReady(msg);
     } else if (msg.type === "failed") {
       this._failStart(msg.message);
+    } else if (msg.type === "warm") {
+      this._emit({ type: "warm", ok: msg.ok === true, steps: Number(msg.steps) || 0, ms: Number(msg.ms) || 0 });
     } else if (msg.type === "reply") {
       const entry = this.pending.get(msg.id);
       if (!entry) return;

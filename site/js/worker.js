@@ -32,6 +32,7 @@ let textfile = null;
 let keptTexts = null; // driftdose.api.kept: a picked file decoded and kept in one step
 let fileDescriber = null;
 let shiftDemo = null;
+let warmer = null; // driftdose.api.warm
 // phase marks, in ms since the page's time origin's epoch (performance.timeOrigin + now())
 const marks = { workerStart: stamp() };
 
@@ -163,12 +164,51 @@ async function start() {
   keptTexts = pyodide.pyimport("driftdose.api.kept");
   fileDescriber = pyodide.pyimport("driftdose.api.files");
   shiftDemo = pyodide.pyimport("driftdose.shift.demo");
+  warmer = pyodide.pyimport("driftdose.api.warm");
   const version = pyodide.runPython("import driftdose\ndriftdose.__version__");
   marks.packageImported = stamp();
   postMessage({
     type: "ready", version, pyodide: pyodide.version, ms: performance.now() - t0, runtimeMs: tRuntime,
     start: how, refused, marks,
   });
+  warmLater();
+}
+
+// Warm-up (driftdose.api.warm): the browser optimises the engine's code only as it keeps
+// running, so the first requests after start would take two to four times longer. While the
+// page sends nothing for WARM_QUIET_MS, the worker runs the warm-up's requests one at a time
+// (each a few ms, at most ~30 ms cold); a request of the page's waits for at most the one
+// running and puts the rest off again. Done (or failed): {type: "warm", steps, ms, ok}.
+const WARM_QUIET_MS = 250;
+let warmTimer = null;
+let warmNext = 0;
+let warmSpent = 0;
+
+function warmLater() {
+  if (!warmer || warmNext >= warmer.WARM_STEPS) return;
+  clearTimeout(warmTimer);
+  warmTimer = setTimeout(warmOne, WARM_QUIET_MS);
+}
+
+function warmOne() {
+  warmTimer = null;
+  if (!warmer || warmNext >= warmer.WARM_STEPS) return;
+  const t = performance.now();
+  let ok = false;
+  try {
+    ok = warmer.warm_step(warmNext) === true;
+  } catch {
+    ok = false; // a failed step ends the warm-up; the engine itself is unaffected
+  }
+  warmSpent += performance.now() - t;
+  warmNext += 1;
+  const steps = warmer.WARM_STEPS;
+  if (ok && warmNext < steps) {
+    warmTimer = setTimeout(warmOne, 0); // a page's message waiting is handled first
+    return;
+  }
+  postMessage({ type: "warm", ok, steps: warmNext, ms: Math.round(warmSpent) });
+  warmNext = steps;
 }
 
 const started = start().catch((err) => {
@@ -211,4 +251,5 @@ self.addEventListener("message", async (event) => {
     reply = { ok: false, errors: [{ field: "", message }], message };
   }
   postMessage({ type: "reply", id, reply });
+  warmLater(); // the rest of the warm-up once the page is quiet again
 });

@@ -18,7 +18,9 @@ Measures in one run, on one server, in the same Chromium:
   20 ms per response, where a first visit pays its download;
 - input change to updated chart, per panel: median and 95th percentile over many edits (input
   event -> data-updates bumped -> next animation frame), with two of its phases: input -> the
-  request posted (median) and the panel's apply() showing the reply (median, p95);
+  request posted (median) and the panel's apply() showing the reply (median, p95); timed once
+  the page has settled (the engine's warm-up reported done, or 5 s after ready for a build
+  without one);
 - the app's own assets (everything but Pyodide's core), gzip-compressed size;
 - the heaviest core calculations in CPython, and the same requests in the page, with ratios;
 - the retained burden over 40 working years, and a 1000-sample propagation of the dose of a
@@ -759,6 +761,12 @@ def _open_ready(browser, url: str):
     page.goto(url)
     page.wait_for_selector("html[data-engine='ready']", timeout=180_000)
     page.wait_for_function("() => document.querySelector('table.results')")
+    # settled: the engine's warm-up done (driftdose.api.warm), or 5 s for a build without one
+    page.wait_for_function(
+        "(t) => document.documentElement.dataset.engineWarm || performance.now() > t",
+        arg=page.evaluate("() => performance.now() + 5000"),
+        timeout=60_000,
+    )
     return ctx, page
 
 

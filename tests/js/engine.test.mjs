@@ -188,3 +188,18 @@ test("a long picked file is kept as it is decoded: the first request names it, n
   await pending;
   assert.equal(worker.posted.at(-1).keep, undefined);
 });
+
+// The worker's warm-up report (worker.js, driftdose.api.warm) reaches the status listeners as
+// plain numbers and a boolean, whatever the message carried; the engine's state is unchanged.
+test("the warm-up report reaches the listeners with its fields made plain", async () => {
+  const { engine, worker } = await readyEngine();
+  const seen = [];
+  engine.onStatus((status) => seen.push(status));
+  worker.dispatchEvent(message({ type: "warm", ok: true, steps: 24, ms: 512.6 }));
+  worker.dispatchEvent(message({ type: "warm", ok: "yes", steps: "many", ms: { a: 1 }, extra: "<b>" }));
+  assert.deepEqual(seen, [
+    { type: "warm", ok: true, steps: 24, ms: 512.6 },
+    { type: "warm", ok: false, steps: 0, ms: 0 },
+  ]);
+  assert.equal(engine.state, "ready");
+});
