@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Speed and size figures of Drift & Dose, printed as one JSON object (a script, not a test).
 
-    .venv/bin/python tests/bench/benchmark.py [--runs 5] [--edits 40]
+    .venv/bin/python tests/bench/benchmark.py [--runs 5] [--edits 80]
 
 Measures in one run, on one server, in the same Chromium:
 - time to ready of three editions of the page, each divided by a bare Pyodide page's load time
@@ -835,7 +835,7 @@ def _edit_figures(browser, sites: dict[str, str], edits: int, blocks: int = 4) -
 def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     parser.add_argument("--runs", type=int, default=5)
-    parser.add_argument("--edits", type=int, default=40)
+    parser.add_argument("--edits", type=int, default=80)
     parser.add_argument("--profile-runs", type=int, default=3)
     parser.add_argument(
         "--cpython-only", action="store_true", help="only the CPython figures (no build)"
