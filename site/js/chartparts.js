@@ -76,6 +76,35 @@ export function wrapText(text, maxWidth, measure, maxLines = Infinity) {
   return kept;
 }
 
+/**
+ * Every how many decades a logarithmic axis labels: 1 when labels `labelPx` wide (gap included)
+ * fit between neighbouring decades `span / (decades - 1)` pixels apart, else 2, 3, … (a narrow
+ * chart labels 1 nm, 100 nm, 10 µm instead of running six labels together).
+ */
+export function decadeStride(span, decades, labelPx) {
+  if (!(span > 0) || !(decades > 1) || !(labelPx > 0)) return 1;
+  return Math.max(1, Math.ceil(labelPx / (span / (decades - 1))));
+}
+
+/**
+ * A legend entry's text that fits `maxWidth` as measured by `measure(text)`: the whole text;
+ * else the text without its closing parenthetical ("Your distribution by number (dW/dln d, …)"
+ * → "Your distribution by number"); else cut at a space and ended with "…". The series keeps
+ * its full name in hover readouts and exports.
+ */
+export function fitLegendText(text, maxWidth, measure) {
+  const whole = String(text ?? "");
+  if (!(maxWidth > 0) || measure(whole) <= maxWidth) return whole;
+  const short = whole.replace(/\s*\([^()]*\)\s*$/, "");
+  if (short && short !== whole && measure(short) <= maxWidth) return short;
+  const words = (short || whole).split(/\s+/).filter(Boolean);
+  for (let kept = words.length - 1; kept > 1; kept--) {
+    const cut = `${words.slice(0, kept).join(" ")} …`;
+    if (measure(cut) <= maxWidth) return cut;
+  }
+  return `${words[0] ?? ""} …`;
+}
+
 /** The three lines an exported chart image carries: title, scenario and the footer. */
 export function imageText({ title, scenario, version, date }) {
   return {

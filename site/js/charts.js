@@ -4,7 +4,7 @@
 import { formatNumber } from "./format.js";
 import { el } from "./forms.js";
 import { download, stamp } from "./files.js";
-import { imageText, pngWithText, readout as nameValue, wrapText } from "./chartparts.js";
+import { decadeStride, fitLegendText, imageText, pngWithText, readout as nameValue, wrapText } from "./chartparts.js";
 import { DrawQueue } from "./drawqueue.js";
 import { coalesced } from "./later.js";
 
@@ -72,10 +72,43 @@ function isDecade(value) {
  * unlabelled, so that the axis is laid out as with all of them.
  */
 export function decadeTicks(label) {
-  return (value, index, ticks) => {
-    if (isDecade(value)) return label(value);
-    return index === 0 || index === ticks.length - 1 ? "" : null;
+  const strides = new WeakMap(); // per tick list: Chart.js calls this once per tick of a list
+  return function tick(value, index, ticks) {
+    if (!isDecade(value)) return index === 0 || index === ticks.length - 1 ? "" : null;
+    // the axis's maximum, when a decade, comes twice (as a decade and as the bound): one label
+    if (index > 0 && Math.abs(ticks[index - 1].value - value) <= 1e-9 * value) return null;
+    if (!strides.has(ticks)) strides.set(ticks, labelStride(this, ticks, label));
+    const { stride, first } = strides.get(ticks);
+    // on a narrow horizontal axis every stride-th decade is labelled; the rest keep their grid line
+    return Math.round(Math.log10(value) - first) % stride === 0 ? label(value) : "";
   };
+}
+
+/** Which decades of a horizontal logarithmic `scale` carry labels: {stride, first exponent}. */
+function labelStride(scale, ticks, label) {
+  const decades = ticks.filter((t) => isDecade(t.value));
+  const first = decades.length ? Math.log10(decades[0].value) : 0;
+  if (!scale || typeof scale.isHorizontal !== "function" || !scale.isHorizontal()) return { stride: 1, first };
+  const size = scale.options?.ticks?.font?.size ?? window.Chart?.defaults?.font?.size ?? 12;
+  const longest = Math.max(0, ...decades.map((t) => String(label(t.value)).length));
+  // about 0.62 em per character of these labels ("100 nm", "10 µm"), and a gap of 12 px
+  return { stride: decadeStride(scale.width, decades.length, longest * 0.62 * size + 12), first };
+}
+
+/** Chart.js's legend entries, each text shortened to fit the chart's width (fitLegendText). */
+function fittedLegendLabels(chart) {
+  const Chart = window.Chart;
+  const items = Chart.defaults.plugins.legend.labels.generateLabels(chart);
+  const font = Chart.helpers.toFont(chart.options.plugins.legend.labels.font || Chart.defaults.font);
+  const ctx = chart.ctx;
+  const room = chart.width - font.size * 2 - 20; // the point marker, its gap and the padding
+  ctx.save();
+  ctx.font = font.string;
+  try {
+    return items.map((item) => ({ ...item, text: fitLegendText(item.text, room, (t) => ctx.measureText(t).width) }));
+  } finally {
+    ctx.restore();
+  }
 }
 
 /** Chart.js options of one axis: {title, type, tick, readout, min, max, position, secondary}. */
@@ -125,7 +158,7 @@ export function createChart(canvas, axes, { legendLabel, readout, type = "line",
       interaction: { mode: type === "bar" ? "index" : "nearest", axis: "x", intersect: false },
       scales,
       plugins: {
-        legend: { labels: { color: cssVar("--ink"), usePointStyle: true, filter: legendLabel } },
+        legend: { labels: { color: cssVar("--ink"), usePointStyle: true, filter: legendLabel, generateLabels: fittedLegendLabels } },
         tooltip: {
           callbacks: {
             label: readout || ((ctx) => nameValue(ctx.dataset.label, formatNumber(ctx.parsed.y, 3))),

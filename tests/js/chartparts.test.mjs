@@ -4,7 +4,8 @@ import { test } from "node:test";
 import assert from "node:assert/strict";
 import { inflateSync, deflateSync } from "node:zlib";
 import {
-  MAX_COMPARED, axisTitle, crc32, curvePoints, curveX, imageText, particleLetter, pngText, pngWithText, readout, scenarioLine, wrapText,
+  MAX_COMPARED, axisTitle, crc32, curvePoints, curveX, decadeStride, fitLegendText, imageText, particleLetter, pngText, pngWithText,
+  readout, scenarioLine, wrapText,
 } from "../../site/js/chartparts.js";
 
 test("an axis whose ticks carry units has no unit in its title; otherwise the unit is named", () => {
@@ -166,4 +167,27 @@ test("an unknown, inherited or malformed axis name gives no points (never a prot
     assert.deepEqual(curveX(curves, curve), []);
     assert.deepEqual(curvePoints(curves, curve), []);
   }
+});
+
+// A narrow chart's logarithmic axis labels every other decade (or fewer) instead of running
+// "10 nm100 nm" together; a legend entry too long for the chart loses its parenthetical first.
+test("decade labels thin out when the axis is too narrow for all of them", () => {
+  // 1 nm … 100 µm: six decades; labels ~45 px wide with their gap
+  assert.equal(decadeStride(900, 6, 45), 1);
+  assert.equal(decadeStride(225, 6, 45), 1); // exactly 45 px apart
+  assert.equal(decadeStride(224, 6, 45), 2);
+  assert.equal(decadeStride(100, 6, 45), 3);
+  for (const bad of [0, -5, NaN, undefined]) assert.equal(decadeStride(bad, 6, 45), 1);
+  assert.equal(decadeStride(300, 1, 45), 1);
+});
+
+test("a legend text too wide loses its closing parenthetical, then words, never silently all", () => {
+  const measure = (t) => t.length * 7; // 7 px per character
+  const text = "Your distribution by number (dW/dln d, scaled to peak 1)";
+  assert.equal(fitLegendText(text, 1000, measure), text);
+  assert.equal(fitLegendText(text, 200, measure), "Your distribution by number");
+  assert.equal(fitLegendText(text, 140, measure), "Your distribution …");
+  assert.equal(fitLegendText(text, 120, measure), "Your …");
+  assert.equal(fitLegendText("ET1 (front of the nose)", 0, measure), "ET1 (front of the nose)");
+  assert.equal(fitLegendText("Total", 20, measure), "Total …"); // the first word stays whole
 });
