@@ -33,6 +33,7 @@ let keptTexts = null; // driftdose.api.kept: a picked file decoded and kept in o
 let fileDescriber = null;
 let shiftDemo = null;
 let warmer = null; // driftdose.api.warm
+let warmSteps = 0; // its WARM_STEPS, read once
 // phase marks, in ms since the page's time origin's epoch (performance.timeOrigin + now())
 const marks = { workerStart: stamp() };
 
@@ -165,6 +166,7 @@ async function start() {
   fileDescriber = pyodide.pyimport("driftdose.api.files");
   shiftDemo = pyodide.pyimport("driftdose.shift.demo");
   warmer = pyodide.pyimport("driftdose.api.warm");
+  warmSteps = Number(warmer.WARM_STEPS) || 0;
   const version = pyodide.runPython("import driftdose\ndriftdose.__version__");
   marks.packageImported = stamp();
   postMessage({
@@ -185,14 +187,14 @@ let warmNext = 0;
 let warmSpent = 0;
 
 function warmLater() {
-  if (!warmer || warmNext >= warmer.WARM_STEPS) return;
+  if (!warmer || warmNext >= warmSteps) return;
   clearTimeout(warmTimer);
   warmTimer = setTimeout(warmOne, WARM_QUIET_MS);
 }
 
 function warmOne() {
   warmTimer = null;
-  if (!warmer || warmNext >= warmer.WARM_STEPS) return;
+  if (!warmer || warmNext >= warmSteps) return;
   const t = performance.now();
   let ok = false;
   try {
@@ -202,13 +204,12 @@ function warmOne() {
   }
   warmSpent += performance.now() - t;
   warmNext += 1;
-  const steps = warmer.WARM_STEPS;
-  if (ok && warmNext < steps) {
-    warmTimer = setTimeout(warmOne, 0); // a page's message waiting is handled first
+  if (ok && warmNext < warmSteps) {
+    warmTimer = setTimeout(warmOne, 0); // its own task: a page's message can come in between
     return;
   }
   postMessage({ type: "warm", ok, steps: warmNext, ms: Math.round(warmSpent) });
-  warmNext = steps;
+  warmNext = warmSteps;
 }
 
 const started = start().catch((err) => {

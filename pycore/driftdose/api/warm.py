@@ -25,7 +25,7 @@ from typing import Any
 __all__ = ["WARM_STEPS", "warm_request", "warm_step"]
 
 WARM_STEPS = 24
-"""Requests in one warm-up (about 0.3-0.4 s of engine time in a page just started)."""
+"""Requests in one warm-up (about 0.5-0.6 s of engine time in a page just started)."""
 
 
 def _density(step: int) -> dict[str, str]:
