@@ -62,7 +62,7 @@ sys.path.insert(0, str(ROOT / "pycore"))
 sys.path.insert(0, str(ROOT / "tests"))
 
 from bench.shift_bench import day_file, shift_figures  # noqa: E402
-from e2e.conftest import CHROMIUM_ARGS, find_chromium  # noqa: E402
+from e2e.conftest import chromium_args, find_chromium  # noqa: E402
 
 from driftdose import api  # noqa: E402
 
@@ -369,7 +369,7 @@ def _profile_visit_pair(pw, url: str, block_sw: bool, warms: bool) -> tuple[floa
             ctx = pw.chromium.launch_persistent_context(
                 profile,
                 executable_path=find_chromium(),
-                args=CHROMIUM_ARGS,
+                args=chromium_args(pw),
                 service_workers="block" if block_sw else "allow",
             )
             stay = first and not block_sw
@@ -892,7 +892,7 @@ def main() -> int:
         host, port = server.server_address[:2]
         base = f"http://{host}:{port}/"
         with sync_playwright() as pw:
-            browser = pw.chromium.launch(executable_path=find_chromium(), args=CHROMIUM_ARGS)
+            browser = pw.chromium.launch(executable_path=find_chromium(), args=chromium_args(pw))
             if "editions" in parts:
                 ready: dict[str, list] = {k: [] for k in ("bare", *VARIANTS)}
                 marks: dict[str, list] = {k: [] for k in VARIANTS}

@@ -32,7 +32,7 @@ ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT / "pycore"))
 sys.path.insert(0, str(ROOT / "tests"))
 
-from e2e.conftest import CHROMIUM_ARGS, find_chromium  # noqa: E402
+from e2e.conftest import chromium_args, find_chromium  # noqa: E402
 
 from driftdose import api  # noqa: E402
 
@@ -185,7 +185,7 @@ def _page_figures(build: Any, dist: Path, text: str, moves: int) -> dict:
     host, port = server.server_address[:2]
     try:
         with sync_playwright() as pw:
-            browser = pw.chromium.launch(executable_path=find_chromium(), args=CHROMIUM_ARGS)
+            browser = pw.chromium.launch(executable_path=find_chromium(), args=chromium_args(pw))
             ctx = browser.new_context(viewport={"width": 1280, "height": 900})
             page = ctx.new_page()
             page.goto(f"http://{host}:{port}/#v=1&panel=shift")
