@@ -202,16 +202,21 @@ function applyState(decoded) {
   }
 }
 
-/** Read and apply the link in the address bar, with a notice when anything was refused. */
-function applyLink() {
-  const decoded = decodeFragment(location.hash, schema);
-  if (!decoded) return;
+/**
+ * Read and apply a link (the address bar's, or the fragment a navigation within the page went
+ * to), with a notice when anything was refused. A fragment that is not a link (an anchor) is
+ * left alone. Returns whether the fragment was a link (applied or refused).
+ */
+function applyLink(hash = location.hash) {
+  const decoded = decodeFragment(hash, schema);
+  if (!decoded) return false;
   if (!decoded.ok) {
     notice(refusedNotice(decoded, "This link"));
-    return;
+    return true;
   }
   const failure = applyState(decoded);
   notice(failure ? refusedNotice({ error: failure }, "This link") : acceptedNotice(decoded, "This link"));
+  return true;
 }
 
 function setupTools() {
@@ -395,6 +400,15 @@ async function start() {
   schema = schemaFrom(forms, [...PANELS, ...SECTIONS], { survey: SURVEY_FIELDS.map(([name]) => name) });
   setupTools();
   applyLink();
+  // A link pasted into the address bar of the open page differs only after the "#", so the
+  // browser stays on the page: it is read as a link opened anew (refused whole, with the
+  // notice, or applied whole). Its own fragment is taken from the event, not the address bar,
+  // which a pending write of the page's link could replace first. Afterwards the address bar
+  // is given the link of what the page shows (a refused link must not stay there to be copied).
+  // The page's own writes (history.replaceState) do not raise this event.
+  window.addEventListener("hashchange", (event) => {
+    if (applyLink(new URL(event.newURL).hash)) linkWriter.schedule();
+  });
   showPanel(active);
   try {
     await engine.ready;

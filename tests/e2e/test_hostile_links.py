@@ -337,6 +337,98 @@ def test_installed_lock_is_not_served(dist_dir: Path):
     assert not [u for u in urls if "installed-lock" in u or u.startswith("tests/")]
 
 
+# --- a link pasted into the open page -------------------------------------------------------
+# Only the part after "#" differs, so the browser stays on the page (a "hashchange"): the link
+# must be read like one opened anew, never ignored while the address bar shows it.
+
+
+def _paste(page, fragment: str) -> None:
+    page.evaluate("f => { location.hash = f; }", fragment)
+
+
+def _shown_tab(page) -> str:
+    return page.evaluate(
+        "() => document.querySelector('[role=tab][aria-selected=true]').id.replace('tab-', '')"
+    )
+
+
+def test_link_pasted_into_open_page_is_applied(page, base_url):
+    _open(page, base_url)
+    assert _shown_tab(page) == "motion"
+    before = _updates(page, "sampling")
+    _paste(page, "#v=1&panel=sampling&motion.time=7~s&sampling.flow=3.5~L/min")
+    _computed(page, "sampling", before)
+    assert _shown_tab(page) == "sampling"
+    states = _all_states(page)
+    assert states["motion"]["time"] == {"value": "7", "unit": "s"}
+    assert states["sampling"]["flow"] == {"value": "3.5", "unit": "L/min"}
+    assert _notice(page) == ""
+    _still_computes(page)
+
+
+def test_anchor_in_open_page_changes_nothing(page, base_url):
+    _open(page, f"{base_url}#v=1&motion.nofield=1&motion.time=2~s")
+    notice = _notice(page)
+    before = _all_states(page)
+    _paste(page, "#main")
+    page.wait_for_timeout(600)  # longer than the page's quiet spell before it writes its link
+    assert _all_states(page) == before
+    assert _notice(page) == notice
+
+
+@pytest.mark.parametrize(
+    "fragment, says",
+    [
+        ("#v=1&panel=deposition&deposition.modes=" + quote("j:" + _deep(5000)), "nested more than"),
+        (
+            "#v=1&panel=sampling&sampling.stages=" + quote("j:[" + "0," * 100_001 + "0]"),
+            "more than 100,000 values",
+        ),
+    ],
+    ids=["deep", "many-values"],
+)
+def test_refused_link_pasted_into_open_page_changes_nothing(page, base_url, fragment, says):
+    _open(page, base_url)
+    page.locator("#panel-motion").get_by_label("Particle diameter", exact=True).fill("321")
+    _computed(page, "motion")
+    before = _all_states(page)
+    shown = table_values(page, "motion")
+    _paste(page, fragment)
+    page.wait_for_function("() => !document.getElementById('link-notice').hidden")
+    notice = _notice(page)
+    assert notice.startswith("This link was refused: "), notice
+    assert says in notice and "Nothing was changed" in notice, notice
+    assert _all_states(page) == before
+    assert _shown_tab(page) == "motion"
+    assert table_values(page, "motion") == shown
+    # the address bar is given back the link of what the page shows
+    page.wait_for_function(
+        "() => location.hash.includes('motion.particle_diameter=321')", timeout=10_000
+    )
+    assert len(page.evaluate("() => location.hash")) < 20_000
+    _still_computes(page)
+
+
+def test_prototype_keys_pasted_into_open_page_are_refused(page, base_url):
+    clean = page.context.new_page()
+    clean.goto(base_url)
+    wait_ready(clean)
+    fresh = clean.evaluate(PROTOTYPE_CHECK)
+    clean.close()
+    _open(page, base_url)
+    before = _updates(page, "motion")
+    _paste(
+        page, f"#v=1&panel=motion&__proto__.text={FORGED}&constructor.prototype.x=1&motion.time=3~s"
+    )
+    _computed(page, "motion", before)
+    assert page.evaluate(PROTOTYPE_CHECK) == fresh
+    assert _all_states(page)["motion"]["time"] == {"value": "3", "unit": "s"}
+    notice = _notice(page)
+    assert "__proto__.text" in notice and "constructor.prototype.x" in notice, notice
+    assert FORGED not in page.evaluate("() => document.body.innerText").replace(notice, "")
+    _still_computes(page)
+
+
 # --- the last file chosen wins --------------------------------------------------------------
 
 
