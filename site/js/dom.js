@@ -102,6 +102,26 @@ export function choose(select, value) {
   select.value = value;
 }
 
+/**
+ * Call `callback` when the value of `control` (an input or select) changes: on every "input"
+ * event, and on a "change" event only when the value differs from the one last announced.
+ * Leaving a text field raises "change" with the value its "input" events already announced,
+ * and a select raises both events for one choice: either would otherwise ask the engine for
+ * the same results twice. A value set by the page and then announced by "change" alone is news.
+ */
+export function onValue(control, callback) {
+  let announced = control.value;
+  control.addEventListener("input", (event) => {
+    announced = control.value;
+    callback(event);
+  });
+  control.addEventListener("change", (event) => {
+    if (control.value === announced) return;
+    announced = control.value;
+    callback(event);
+  });
+}
+
 /** A value from a link or file as the text of a field: structured values are shown as JSON. */
 export function asText(value) {
   if (value === undefined || value === null) return "";

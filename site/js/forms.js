@@ -1,7 +1,7 @@
 // Build form fields from the field descriptions that driftdose.api publishes (forms.json), read
 // raw inputs back, and show per-field messages. No physical rule lives here: Python validates.
 // File fields and column pickers are in filefields.js, lists of records in listfield.js.
-import { asText, choose, el, fieldId } from "./dom.js";
+import { asText, choose, el, fieldId, onValue } from "./dom.js";
 import { renderFile, renderPicker } from "./filefields.js";
 import { optionText } from "./format.js";
 import { renderList } from "./listfield.js";
@@ -222,9 +222,8 @@ export class FieldSet {
         handle.listen(callback);
         continue;
       }
-      handle.input.addEventListener("input", callback);
-      handle.input.addEventListener("change", callback);
-      if (handle.unitSelect) handle.unitSelect.addEventListener("change", callback);
+      onValue(handle.input, callback);
+      if (handle.unitSelect) onValue(handle.unitSelect, callback);
     }
   }
 }

@@ -1,6 +1,6 @@
 // A `records` field: a list of groups of sub-fields (such as lognormal modes), each sub-field
 // rendered as a plain field by the form's own renderer.
-import { el, fieldShell } from "./dom.js";
+import { el, fieldShell, onValue } from "./dom.js";
 import { unitLabel } from "./units.js";
 
 /**
@@ -38,9 +38,8 @@ export function renderList(container, field, prefix, renderField) {
       else if (f.units) sub.units = f.units.map((u) => (typeof u === "string" ? { unit: u, label: unitLabel(u) } : u));
       if (sub.kind !== "choice" && !(sub.default && typeof sub.default === "object")) sub.kind = "plain";
       const h = renderField(box, sub, `${prefix}-${field.name}`);
-      h.input.addEventListener("input", notify);
-      h.input.addEventListener("change", notify);
-      if (h.unitSelect) h.unitSelect.addEventListener("change", notify);
+      onValue(h.input, notify);
+      if (h.unitSelect) onValue(h.unitSelect, notify);
       handles.set(f.name, h);
     }
     const error = el("p", { class: "error", hidden: "" }); // about the record as a whole

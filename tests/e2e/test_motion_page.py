@@ -194,6 +194,36 @@ def test_edit_posts_its_request_before_the_link_is_written(page, base_url):
     _settled(page)
 
 
+def test_one_request_per_new_value(page, base_url):
+    """Typing asks the engine once per new value; leaving the field (its "change") and a select's
+    "change" after its "input" ask nothing more; a unit chosen is a new request."""
+    page.goto(base_url)
+    wait_ready(page)
+    _wait_updates(page, "motion", 1)
+    _settled(page)
+    page.evaluate(
+        """async () => {
+             const m = await import('./js/app.js');
+             window.__posts = 0;
+             const latestOn = m.engine.latestOn.bind(m.engine);
+             m.engine.latestOn = (...a) => { window.__posts += 1; return latestOn(...a); };
+           }"""
+    )
+    field = page.locator("#panel-motion").get_by_label("Particle density", exact=True)
+    field.fill("2.5")
+    _settled(page)
+    assert page.evaluate("() => window.__posts") == 1
+    field.press("Tab")  # leaving the field raises "change" with the same value
+    page.wait_for_timeout(300)
+    _settled(page)
+    assert page.evaluate("() => window.__posts") == 1
+    unit = page.locator('#panel-motion [data-field="particle_density"] select')
+    unit.select_option(index=1)  # the browser raises "input" and "change" for the one choice
+    _settled(page)
+    page.wait_for_timeout(300)
+    assert page.evaluate("() => window.__posts") == 2
+
+
 def test_link_reproduces_inputs(page, base_url, browser):
     page.goto(base_url)
     wait_ready(page)
