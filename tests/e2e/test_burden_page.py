@@ -121,6 +121,42 @@ def test_progress_shows_and_an_input_change_cancels_the_propagation(page, base_u
     )
 
 
+def test_section_tells_its_listeners_once_per_change(page, base_url):
+    """A change to a section on screen reaches its change listeners (the link writer) once, as
+    a change to one waiting off screen does; each computes once."""
+    page.goto(base_url + "#v=1&panel=deposition")
+    wait_ready(page)
+    page.locator("#section-burden").scroll_into_view_if_needed()
+    _done(page, "section-burden")
+    page.evaluate(
+        """async () => {
+             const m = await import('./js/app.js');
+             window.__told = {burden: 0, ranges: 0};
+             for (const id of ['burden', 'ranges']) {
+               m.controllers.get(id).onChange(() => { window.__told[id] += 1; });
+             }
+           }"""
+    )
+    before = int(page.locator("#section-burden").get_attribute("data-updates"))
+    page.locator("#section-burden").get_by_label("Working years", exact=True).fill("30")
+    _done(page, "section-burden", before + 1)
+    page.wait_for_timeout(300)
+    assert page.evaluate("() => window.__told.burden") == 1
+    assert int(page.locator("#section-burden").get_attribute("data-updates")) == before + 1
+    # the ranges section waits off screen: told at once, computed once shown
+    assert page.locator("#section-ranges").get_attribute("data-updates") is None
+    told = page.evaluate("() => window.__told.ranges")  # it follows the burden's inputs too
+    page.evaluate(  # typed without scrolling to it (a fill would bring it on screen)
+        """() => {
+             const input = document.querySelector('#section-ranges [data-field="seed"] input');
+             input.value = '11';
+             input.dispatchEvent(new Event('input', {bubbles: true}));
+           }"""
+    )
+    assert page.evaluate("() => window.__told.ranges") == told + 1
+    assert page.locator("#section-ranges").get_attribute("data-updates") is None
+
+
 def test_time_axis_switch_and_link_round_trip(page, base_url, browser):
     _load_demo(page, base_url)
     axis = (

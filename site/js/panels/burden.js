@@ -364,14 +364,16 @@ export function mountSections(root, { engine, forms, deposition }) {
   // the burden series a few hundred milliseconds in the page): a change made elsewhere waits
   // until they are scrolled to, and the propagation waits for a pause in typing, so neither
   // delays the deposition panel's own answers.
+  // The gated schedule tells the change listeners itself, once per call (the link follows the
+  // inputs even while a section waits), so its run starts the computation without them.
   const gate = (panel, root, quietMs) => {
-    const base = panel.schedule.bind(panel);
     let visible = false;
     let pending = true;
     let timer = 0;
     const run = () => {
       pending = false;
-      base();
+      if (panel.busy) panel.queued = true;
+      else panel.recalc();
     };
     panel.schedule = function schedule() {
       for (const listener of this.listeners) listener(this);
