@@ -136,10 +136,9 @@ def test_chart_has_curves_crossover_and_exports_png(page, base_url):
         assert fh.read(8) == b"\x89PNG\r\n\x1a\n"
 
 
-def test_edit_posts_its_request_before_the_link_is_written(page, base_url):
-    """An edit's request reaches the engine before the address bar is touched; a burst of input
-    and its result write the link once, after they pause; the page losing focus (as when the
-    address bar is clicked) writes a due link at once."""
+def _open_recording(page, base_url: str) -> None:
+    """Open the page and, once the motion panel has settled, record in window.__order each
+    request posted to the engine ('post'), link written ('link') and result shown ('shown')."""
     page.goto(base_url)
     wait_ready(page)
     _wait_updates(page, "motion", 1)
@@ -158,6 +157,17 @@ def test_edit_posts_its_request_before_the_link_is_written(page, base_url):
              m.controllers.get('motion').onShown(() => window.__order.push('shown'));
            }"""
     )
+
+
+def _posts(page) -> int:
+    return page.evaluate("() => window.__order.filter((e) => e === 'post').length")
+
+
+def test_edit_posts_its_request_before_the_link_is_written(page, base_url):
+    """An edit's request reaches the engine before the address bar is touched; a burst of input
+    and its result write the link once, after they pause; the page losing focus (as when the
+    address bar is clicked) writes a due link at once."""
+    _open_recording(page, base_url)
     before = int(page.locator("#panel-motion").get_attribute("data-updates"))
     page.evaluate(
         """() => {
@@ -197,31 +207,20 @@ def test_edit_posts_its_request_before_the_link_is_written(page, base_url):
 def test_one_request_per_new_value(page, base_url):
     """Typing asks the engine once per new value; leaving the field (its "change") and a select's
     "change" after its "input" ask nothing more; a unit chosen is a new request."""
-    page.goto(base_url)
-    wait_ready(page)
-    _wait_updates(page, "motion", 1)
-    _settled(page)
-    page.evaluate(
-        """async () => {
-             const m = await import('./js/app.js');
-             window.__posts = 0;
-             const latestOn = m.engine.latestOn.bind(m.engine);
-             m.engine.latestOn = (...a) => { window.__posts += 1; return latestOn(...a); };
-           }"""
-    )
+    _open_recording(page, base_url)
     field = page.locator("#panel-motion").get_by_label("Particle density", exact=True)
     field.fill("2.5")
     _settled(page)
-    assert page.evaluate("() => window.__posts") == 1
+    assert _posts(page) == 1
     field.press("Tab")  # leaving the field raises "change" with the same value
     page.wait_for_timeout(300)
     _settled(page)
-    assert page.evaluate("() => window.__posts") == 1
+    assert _posts(page) == 1
     unit = page.locator('#panel-motion [data-field="particle_density"] select')
     unit.select_option(index=1)  # the browser raises "input" and "change" for the one choice
     _settled(page)
     page.wait_for_timeout(300)
-    assert page.evaluate("() => window.__posts") == 2
+    assert _posts(page) == 2
 
 
 def test_link_reproduces_inputs(page, base_url, browser):
