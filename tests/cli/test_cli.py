@@ -625,9 +625,28 @@ def test_main_every_calculation_has_subcommand_with_title(capsys):
         code, sub_help, _ = run_main(capsys, kind, "--help")
         assert code == 0
         for f in calc.FIELDS:
-            assert "--" + f.name.replace("_", "-") in sub_help
+            flag = "--" + f.name.replace("_", "-")
+            if f.extra.get("bookkeeping"):  # the page's own: accepted, not listed
+                assert flag not in sub_help
+                continue
+            assert flag in sub_help
             for value, _label in f.choices:
                 assert value in sub_help
+
+
+def test_page_bookkeeping_field_is_accepted_but_not_listed(capsys, tmp_path):
+    """The shift panel's series_drawn (keys of the series the page keeps drawn) is no input:
+    not in --help, yet a request carrying it (as saved from the page) still runs."""
+    code, sub_help, _ = run_main(capsys, "shift", "--help")
+    assert code == 0 and "--series-drawn" not in sub_help and "series_drawn" not in sub_help
+    log = tmp_path / "log.csv"
+    log.write_text(INVENTED_LOG, encoding="utf-8")
+    args = ["shift", "--series-text", str(log), "--format", "json"]
+    code, plain, _ = run_main(capsys, *args)
+    assert code == 0
+    code, held, _ = run_main(capsys, *args, "--series-drawn", "0" * 32)
+    assert code == 0
+    assert json.loads(held)["results"] == json.loads(plain)["results"]
 
 
 # A calculation on a logged file has no default file: the file is the user's measurement.

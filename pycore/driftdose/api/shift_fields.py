@@ -129,7 +129,7 @@ FIELDS: tuple[Field, ...] = (
         "``values_key``) of the thinned series it keeps, separated by blanks. A reply whose "
         "series has one of these keys leaves that series' times and values out (``held``). "
         "Blank: every series is sent.",
-        extra={"max_length": 200},
+        extra={"max_length": 200, "bookkeeping": True},
     ),
     *_file_fields("background_", "Far-field (background) time series file", True),
     text(

@@ -145,7 +145,9 @@ def add_field_flags(parser: argparse.ArgumentParser, fields: list[dict[str, Any]
             kwargs["nargs"] = "+"
         else:
             kwargs["metavar"] = "TEXT|@FILE"
-        group.add_argument(*flags, help=_field_help(fd), **kwargs)
+        # a page's own bookkeeping (``bookkeeping`` in the description) is accepted, unlisted
+        shown = argparse.SUPPRESS if fd.get("bookkeeping") else _field_help(fd)
+        group.add_argument(*flags, help=shown, **kwargs)
         taken.update(flags)
         fmap.values[dest] = fd
         fmap.options.update(dict.fromkeys(flags, name))
