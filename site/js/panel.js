@@ -206,9 +206,14 @@ export class CalcPanel {
    * tell the change listeners (the request is on its way by then).
    */
   schedule() {
+    this.compute();
+    for (const listener of this.listeners) listener(this);
+  }
+
+  /** Recalculate now, or right after the request in flight; the change listeners are not told. */
+  compute() {
     if (this.busy) this.queued = true;
     else this.recalc();
-    for (const listener of this.listeners) listener(this);
   }
 
   /**

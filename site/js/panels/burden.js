@@ -372,8 +372,7 @@ export function mountSections(root, { engine, forms, deposition }) {
     let timer = 0;
     const run = () => {
       pending = false;
-      if (panel.busy) panel.queued = true;
-      else panel.recalc();
+      panel.compute();
     };
     panel.schedule = function schedule() {
       for (const listener of this.listeners) listener(this);
@@ -382,7 +381,7 @@ export function mountSections(root, { engine, forms, deposition }) {
         return;
       }
       if (this.busy) {
-        this.queued = true;
+        this.compute(); // queued after the run in flight, without waiting for a pause
         return;
       }
       clearTimeout(timer);
